@@ -1,0 +1,74 @@
+/** A polygonal area: polygons → rings → [x, y] positions (GeoJSON MultiPolygon order, rings closed). */
+export interface PolygonGeometry {
+  kind: 'polygon';
+  polygons: number[][][][];
+}
+
+export interface PointGeometry {
+  kind: 'point';
+  point: [number, number];
+}
+
+export type AreaGeometry = PolygonGeometry | PointGeometry;
+
+export interface Area {
+  /** 1-based feature number in the source file, used in messages. */
+  feature: number;
+  geometry: AreaGeometry | null;
+  properties: Record<string, unknown>;
+}
+
+export type CoordinateKind = 'geographic' | 'projected';
+
+/** Everything read from one boundary file. */
+export interface AreaLayer {
+  sourceName: string;
+  areas: Area[];
+  /** Attribute names found on the features, in file order. */
+  propertyNames: string[];
+  coordinates: CoordinateKind;
+  /** Why we believe the coordinates are geographic or projected (from .prj, CRS member, or ranges). */
+  coordinateEvidence: string;
+  /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
+  warnings: string[];
+}
+
+/** A data table read from CSV or an .xlsx sheet. Cells keep their raw value; parsing to numbers happens at use. */
+export interface DataTable {
+  sourceName: string;
+  sheet?: string;
+  columns: string[];
+  rows: (string | number | boolean | null)[][];
+  /** Row number (as the user sees it) of the first data row; header is the row before. */
+  firstRow: number;
+}
+
+export interface JoinReport {
+  /** Rows of the table whose ID has no feature (user-visible row numbers). */
+  unmatchedRows: { row: number; id: string }[];
+  /** Features whose ID has no table row. */
+  unmatchedFeatures: { feature: number; id: string }[];
+  duplicateRows: { id: string; rows: number[] }[];
+  duplicateFeatures: { id: string; features: number[] }[];
+  blankRows: number[];
+  blankFeatures: number[];
+  /** Matched areas whose feature has no geometry. */
+  withoutGeometry: { id: string; row: number; feature: number }[];
+  /** IDs that would match if leading zeros were ignored (e.g. 01001 vs 1001): reported, never guessed. */
+  zeroPaddingSuspects: { tableId: string; featureId: string }[];
+}
+
+/** The analysis set: one entry per table row, in the table's row order. */
+export interface JoinedAreas {
+  ids: string[];
+  geometries: AreaGeometry[];
+  /** user-visible table row for each area (or feature number when no table was given) */
+  rows: number[];
+  /** Column accessor over the joined rows: raw cell values in row order. */
+  column(name: string): (string | number | boolean | null)[];
+  columnNames: string[];
+  coordinates: CoordinateKind;
+  coordinateEvidence: string;
+  report: JoinReport;
+  warnings: string[];
+}

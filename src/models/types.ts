@@ -1,0 +1,134 @@
+/** Regressors: column vectors, the intercept first and named "constant". */
+export interface Design {
+  names: string[];
+  columns: Float64Array[];
+}
+
+export interface Coefficient {
+  name: string;
+  estimate: number;
+  se: number;
+  /** t for OLS, z for ML models */
+  stat: number;
+  p: number;
+}
+
+export interface TestResult {
+  stat: number;
+  df: number;
+  p: number;
+}
+
+export interface OlsFit {
+  n: number;
+  k: number;
+  coefficients: Coefficient[];
+  /** heteroskedasticity-robust (White, HC0) coefficients when asked for */
+  robustCoefficients?: Coefficient[];
+  residuals: Float64Array;
+  fitted: Float64Array;
+  r2: number;
+  adjR2: number;
+  f: TestResult & { df2: number };
+  /** e'e / (n − k) */
+  sigma2: number;
+  /** e'e / n, the ML estimate */
+  sigma2ML: number;
+  logLik: number;
+  aic: number;
+  schwarz: number;
+  conditionNumber: number;
+  jarqueBera: TestResult;
+  breuschPagan: TestResult;
+  koenkerBassett: TestResult;
+  warnings: string[];
+}
+
+export interface MoranTest {
+  I: number;
+  expected: number;
+  variance: number;
+  z: number;
+  /** two-sided normal p */
+  p: number;
+}
+
+export interface LmTests {
+  error: TestResult;
+  lag: TestResult;
+  robustError: TestResult;
+  robustLag: TestResult;
+  joint: TestResult;
+}
+
+export interface Recommendation {
+  /** 'lag' | 'error' | 'ols' | 'either' (both robust tests significant) */
+  choice: 'lag' | 'error' | 'ols' | 'either';
+  /** One line of guidance naming the rule applied and why. */
+  text: string;
+  /** The published decision rule applied. */
+  rule: string;
+  alpha: number;
+}
+
+/** How a 1-D maximisation went; reported, never silent. */
+export interface Convergence {
+  converged: boolean;
+  iterations: number;
+  /** final bracket width on the parameter */
+  tolerance: number;
+  /** set when the maximum lies on (or within tolerance of) a bound of the admissible range */
+  atBound?: 'lower' | 'upper';
+  message: string;
+}
+
+export interface SpatialFit {
+  model: 'lag' | 'error';
+  /** ρ for lag, λ for error */
+  parameter: number;
+  parameterSe: number;
+  parameterZ: number;
+  parameterP: number;
+  coefficients: Coefficient[];
+  sigma2: number;
+  logLik: number;
+  aic: number;
+  schwarz: number;
+  /** LR test against OLS, df 1 */
+  lr: TestResult;
+  /** squared correlation of observed and fitted */
+  pseudoR2: number;
+  residuals: Float64Array;
+  fitted: Float64Array;
+  /** lag model: LM test for remaining spatial error autocorrelation; error model: absent */
+  lmRemainingError?: TestResult;
+  /** lag model: LM test for remaining lag dependence; error model */
+  lmRemainingLag?: TestResult;
+  breuschPagan: TestResult;
+  /** full asymptotic variance of (β, parameter, σ²) in that order */
+  covariance: Float64Array;
+  range: { lower: number; upper: number };
+  logDeterminantMethod: string;
+  convergence: Convergence;
+  warnings: string[];
+}
+
+export interface Impact {
+  name: string;
+  direct: number;
+  indirect: number;
+  total: number;
+  directSe: number;
+  indirectSe: number;
+  totalSe: number;
+  directP: number;
+  indirectP: number;
+  totalP: number;
+}
+
+export interface ImpactsResult {
+  impacts: Impact[];
+  draws: number;
+  seed: number;
+  method: string;
+}

@@ -1,0 +1,46 @@
+import type { CsrMatrix } from '../linalg/csr.js';
+
+export type WeightsSpec =
+  | { method: 'queen'; tolerance?: number; order?: number; includeLowerOrders?: boolean }
+  | { method: 'rook'; tolerance?: number; order?: number; includeLowerOrders?: boolean }
+  | { method: 'knn'; k: number }
+  | { method: 'band'; distance: number }
+  | { method: 'idw'; power: number; cutoff?: number };
+
+export type WeightsTransform = 'row' | 'binary';
+
+/**
+ * Spatial weights on n areas in CSR form. Row i lists the neighbours of area i.
+ * No self-links. Islands are rows with no entries.
+ */
+export interface SpatialWeights extends CsrMatrix {
+  ids: string[];
+  /** Plain description of how neighbours were defined, e.g. "queen contiguity (shared point)". */
+  description: string;
+  spec: WeightsSpec | { method: 'edge-list'; source: string };
+  transform: WeightsTransform | 'as given';
+  /** Distances were great-circle on lon/lat (true) or planar (false); undefined for contiguity. */
+  greatCircle?: boolean;
+  /**
+   * The weights before the transform when they are symmetric (contiguity, band, symmetric idw);
+   * used to form the symmetric matrix similar to a row-standardised W. Null when not symmetric.
+   */
+  symmetricBase: CsrMatrix | null;
+}
+
+export interface WeightsSummary {
+  n: number;
+  /** directed nonzero entries */
+  links: number;
+  /** links / n² */
+  density: number;
+  minNeighbours: number;
+  meanNeighbours: number;
+  medianNeighbours: number;
+  maxNeighbours: number;
+  /** [neighbour count, number of areas] ascending */
+  histogram: [number, number][];
+  islands: string[];
+  components: number;
+  symmetric: boolean;
+}
