@@ -1,0 +1,92 @@
+import type { NamedBytesLike } from './named-bytes.js';
+import type { WeightsSpec, WeightsTransform, WeightsSummary } from '../weights/types.js';
+import type {
+  Coefficient, Convergence, ImpactsResult, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit, TestResult,
+} from '../models/types.js';
+import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
+
+export type ModelName = 'ols' | 'lag' | 'error';
+
+/** One analysis as the user asked for it. Files come as bytes so the same request runs in Node and the browser. */
+export interface AnalysisRequest {
+  boundary: NamedBytesLike[];
+  /** Data table (CSV or .xlsx); when absent the boundary file's own attributes are used. */
+  data?: NamedBytesLike;
+  sheet?: string;
+  id: string;
+  y: string;
+  x: string[];
+  weights: WeightsSpec;
+  /** An edge list that replaces `weights` when given (origin, neighbour, weight). */
+  edgeList?: NamedBytesLike;
+  transform: WeightsTransform;
+  linkIslands?: boolean;
+  models: ModelName[];
+  /** Drop rows with missing values (and re-build the weights on the remaining areas) instead of refusing. */
+  dropMissing?: boolean;
+  robust?: boolean;
+  seed?: number;
+  impactDraws?: number;
+  permutations?: number;
+  /** 'auto' chooses dense for small n, sparse above. */
+  algebra?: 'auto' | 'dense' | 'sparse';
+  /** Called with a fraction in [0, 1] and a stage label; lets a sidebar show progress. */
+  onProgress?: (fraction: number, stage: string) => void;
+}
+
+export interface InputRecord {
+  role: 'boundary' | 'data' | 'edge list';
+  name: string;
+  bytes: number;
+  sha256: string;
+}
+
+/** Everything one run produced; the report model, the CLI and the add-in read this. */
+export interface AnalysisResult {
+  engineVersion: string;
+  createdAt: string;
+  request: {
+    id: string; y: string; x: string[]; sheet?: string;
+    weights: WeightsSpec | { method: 'edge-list'; source: string };
+    transform: WeightsTransform | 'as given';
+    models: ModelName[]; dropMissing: boolean; robust: boolean;
+    seed: number; impactDraws: number; permutations: number;
+  };
+  inputs: InputRecord[];
+  n: number;
+  ids: string[];
+  /** user-visible table rows of the areas, in table order */
+  rows: number[];
+  droppedRows: { row: number; id: string; columns: string[] }[];
+  /** geometry per area, in the same order (for maps) */
+  geometries: AreaGeometry[];
+  coordinates: CoordinateKind;
+  coordinateEvidence: string;
+  join: JoinReport;
+  y: Float64Array;
+  xNames: string[];
+  weights: {
+    method: string;
+    description: string;
+    transform: WeightsTransform | 'as given';
+    links: number;
+    islands: string[];
+    components: number;
+    summary: WeightsSummary;
+    /** directed edge list in row order: origin index, neighbour index, weight */
+    edges: { from: Int32Array; to: Int32Array; weight: Float64Array };
+  };
+  algebra: { logDeterminant: string; accuracy: string; traces: string; range: { lower: number; upper: number; method: string } };
+  ols: OlsFit & { moran: MoranTest; lm: LmTests; recommendation: Recommendation };
+  /** spatial lag of the OLS residuals, per area */
+  olsResidualLag: Float64Array;
+  lag?: SpatialFit & { residualLag: Float64Array };
+  error?: SpatialFit & { residualLag: Float64Array };
+  impacts?: ImpactsResult;
+  /** Moran's I of y itself (randomisation and permutation) for the scatter plot and overview. */
+  moranY: MoranTest & { permutationP?: number; permutations?: number };
+  warnings: string[];
+  timings: Record<string, number>;
+}
+
+export type { Coefficient, Convergence, TestResult };
