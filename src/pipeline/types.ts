@@ -10,6 +10,8 @@ export type ModelName = 'ols' | 'lag' | 'error';
 /** One analysis as the user asked for it. Files come as bytes so the same request runs in Node and the browser. */
 export interface AnalysisRequest {
   boundary: NamedBytesLike[];
+  /** Which object of a TopoJSON file (default: the first). */
+  layer?: string;
   /** Data table (CSV or .xlsx); when absent the boundary file's own attributes are used. */
   data?: NamedBytesLike;
   sheet?: string;

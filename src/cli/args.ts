@@ -1,0 +1,178 @@
+import { parseArgs } from 'node:util';
+import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
+import type { ModelName } from '../pipeline/types.js';
+import { InputError } from '../errors.js';
+
+export interface FitArgs {
+  boundary: string;
+  layer?: string;
+  data?: string;
+  sheet?: string;
+  id: string;
+  y: string;
+  x: string[];
+  weights: WeightsSpec;
+  edgeList?: string;
+  transform: WeightsTransform;
+  linkIslands: boolean;
+  models: ModelName[];
+  dropMissing: boolean;
+  robust: boolean;
+  seed?: number;
+  draws?: number;
+  permutations?: number;
+  algebra: 'auto' | 'dense' | 'sparse';
+  json: boolean;
+  perArea: boolean;
+  out?: string;
+}
+
+export const FIT_USAGE = `Usage:
+  spillway fit --boundary FILE --id COLUMN --y COLUMN --x COL1,COL2 [options]
+
+Files
+  --boundary FILE      GeoJSON, TopoJSON, a shapefile (.shp with its .dbf beside it) or a .zip of one
+  --layer NAME         which object of a TopoJSON file (default: the first)
+  --data FILE          CSV or .xlsx table joined to the areas by --id (default: the boundary's own attributes)
+  --sheet NAME         sheet of the .xlsx table (default: the first)
+  --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one)
+
+Model
+  --id COLUMN          column that identifies each area, in the table and the boundary file
+  --y COLUMN           the outcome to explain
+  --x COL1,COL2        explanatory columns, comma-separated
+  --models LIST        any of ols,lag,error (default: ols,lag,error)
+  --robust             also report heteroskedasticity-robust standard errors for the plain regression
+  --drop-missing       leave out rows with missing values (default: stop and list them)
+
+Neighbours
+  --weights RULE       queen | rook | knn:K | band:DISTANCE | idw:POWER[:CUTOFF]   (default: queen)
+                       distances are km on longitude/latitude, coordinate units otherwise
+  --order K            contiguity of order K (neighbours of neighbours...)
+  --include-lower      with --order, keep the lower orders too
+  --tolerance T        snapping tolerance for contiguity, in coordinate units
+  --link-islands       link each area without neighbours to its nearest area
+  --neighbours FILE    read neighbours from a CSV edge list (origin, neighbour, weight) instead
+  --transform T        row (default) or binary
+
+Output and reproducibility
+  --json               print one JSON document instead of the readable summary
+  --per-area           with --json, include fitted values and residuals per area
+  --seed N             seed for permutations and simulated impacts (default 20261201)
+  --draws N            simulation draws for impact standard errors (default 1000)
+  --permutations N     permutations for Moran's I of the outcome (default 999)
+  --algebra A          auto | dense | sparse log-determinant (default auto)
+`;
+
+export function parseFitArgs(argv: string[]): FitArgs {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: false,
+      options: {
+        boundary: { type: 'string' }, layer: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
+        id: { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
+        weights: { type: 'string' }, order: { type: 'string' }, 'include-lower': { type: 'boolean' },
+        tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' },
+        transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
+        robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
+        permutations: { type: 'string' }, algebra: { type: 'string' }, json: { type: 'boolean' },
+        'per-area': { type: 'boolean' }, out: { type: 'string' },
+      },
+    });
+  } catch (e) {
+    throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')}\n\n${FIT_USAGE}`);
+  }
+  const v = parsed.values;
+  const need = (name: 'boundary' | 'id' | 'y' | 'x') => {
+    const value = v[name];
+    if (!value || !value.trim()) throw new InputError(`--${name} is required.\n\n${FIT_USAGE}`);
+    return value.trim();
+  };
+  const transform = (v.transform ?? 'row') as WeightsTransform;
+  if (transform !== 'row' && transform !== 'binary') throw new InputError(`--transform must be row or binary, not "${v.transform}".`);
+  const models = (v.models ?? 'ols,lag,error').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
+  for (const m of models) if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`--models: unknown model "${m}"; choose from ols, lag, error.`);
+  const algebra = (v.algebra ?? 'auto') as FitArgs['algebra'];
+  if (!['auto', 'dense', 'sparse'].includes(algebra)) throw new InputError(`--algebra must be auto, dense or sparse, not "${v.algebra}".`);
+  if (v.out && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  return {
+    boundary: need('boundary'),
+    layer: v.layer,
+    data: v.data,
+    sheet: v.sheet,
+    id: need('id'),
+    y: need('y'),
+    x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
+    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v['include-lower'] ?? false, v.tolerance),
+    edgeList: v.neighbours,
+    transform,
+    linkIslands: v['link-islands'] ?? false,
+    models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
+    dropMissing: v['drop-missing'] ?? false,
+    robust: v.robust ?? false,
+    seed: optionalInteger('seed', v.seed, 0),
+    draws: optionalInteger('draws', v.draws, 1),
+    permutations: optionalInteger('permutations', v.permutations, 0),
+    algebra,
+    json: v.json ?? false,
+    perArea: v['per-area'] ?? false,
+    out: v.out,
+  };
+}
+
+/** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */
+export function parseWeightsRule(rule: string, order?: string, includeLower = false, tolerance?: string): WeightsSpec {
+  const [name, ...params] = rule.trim().toLowerCase().split(':');
+  const num = (s: string | undefined, what: string) => {
+    const n = Number(s);
+    if (s === undefined || s === '' || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number.`);
+    return n;
+  };
+  if (name === 'queen' || name === 'rook') {
+    const spec: WeightsSpec = { method: name };
+    if (order !== undefined) {
+      const k = num(order, '--order');
+      if (!Number.isInteger(k) || k < 1) throw new InputError(`--order must be a whole number of at least 1, not "${order}".`);
+      spec.order = k;
+      spec.includeLowerOrders = includeLower;
+    }
+    if (tolerance !== undefined) {
+      const t = num(tolerance, '--tolerance');
+      if (t < 0) throw new InputError('--tolerance cannot be negative.');
+      spec.tolerance = t;
+    }
+    return spec;
+  }
+  if (order !== undefined) throw new InputError('--order applies to queen or rook neighbours only.');
+  if (name === 'knn') {
+    const k = num(params[0], 'the number of neighbours K (knn:K)');
+    if (!Number.isInteger(k) || k < 1) throw new InputError(`--weights ${rule}: K must be a whole number of at least 1.`);
+    return { method: 'knn', k };
+  }
+  if (name === 'band') {
+    const d = num(params[0], 'the distance (band:DISTANCE)');
+    if (d <= 0) throw new InputError(`--weights ${rule}: the distance must be positive.`);
+    return { method: 'band', distance: d };
+  }
+  if (name === 'idw') {
+    const p = num(params[0], 'the power (idw:POWER)');
+    if (p <= 0) throw new InputError(`--weights ${rule}: the power must be positive.`);
+    const spec: WeightsSpec = { method: 'idw', power: p };
+    if (params[1] !== undefined) {
+      const c = num(params[1], 'the cut-off (idw:POWER:CUTOFF)');
+      if (c <= 0) throw new InputError(`--weights ${rule}: the cut-off must be positive.`);
+      spec.cutoff = c;
+    }
+    return spec;
+  }
+  throw new InputError(`--weights: unknown rule "${rule}"; use queen, rook, knn:K, band:DISTANCE or idw:POWER[:CUTOFF].`);
+}
+
+function optionalInteger(name: string, s: string | undefined, min: number): number | undefined {
+  if (s === undefined) return undefined;
+  const n = Number(s);
+  if (!Number.isInteger(n) || n < min) throw new InputError(`--${name} must be a whole number of at least ${min}, not "${s}".`);
+  return n;
+}

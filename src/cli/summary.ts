@@ -1,0 +1,86 @@
+import type { AnalysisResult } from '../pipeline/index.js';
+import type { Coefficient, SpatialFit } from '../models/types.js';
+
+/** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
+export function formatSummary(r: AnalysisResult): string {
+  const lines: string[] = [];
+  const w = r.weights;
+  lines.push(`Spillway ${r.engineVersion}: ${r.request.y} explained by ${r.request.x.join(', ')} in ${r.n} areas`);
+  lines.push(`Neighbours: ${w.description}, ${w.transform === 'row' ? 'each row scaled to sum to 1' : w.transform === 'binary' ? 'every link weighted 1' : 'weights as given'}.`);
+  lines.push(`  ${w.links} links, ${fmt(w.summary.meanNeighbours, 3)} neighbours per area on average (fewest ${w.summary.minNeighbours}, most ${w.summary.maxNeighbours}); ` +
+    `${w.islands.length ? `${w.islands.length} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
+  if (r.droppedRows.length) lines.push(`  Left out for missing values: ${r.droppedRows.length} row(s).`);
+  lines.push('');
+
+  const o = r.ols;
+  lines.push('Plain regression (least squares)');
+  lines.push(...coefficientTable(o.coefficients, 't'));
+  lines.push(`  R² ${fmt(o.r2, 4)}, adjusted ${fmt(o.adjR2, 4)}; F ${fmt(o.f.stat, 4)} (p ${p(o.f.p)}); log-likelihood ${fmt(o.logLik, 6)}; AIC ${fmt(o.aic, 6)}; Schwarz ${fmt(o.schwarz, 6)}`);
+  lines.push(`  Residual checks: normality (Jarque–Bera) p ${p(o.jarqueBera.p)}; constant variance (Breusch–Pagan) p ${p(o.breuschPagan.p)}, (Koenker–Bassett) p ${p(o.koenkerBassett.p)}; condition number ${fmt(o.conditionNumber, 4)}`);
+  lines.push('');
+  lines.push('Spatial pattern left in the residuals');
+  lines.push(`  Moran's I ${fmt(o.moran.I, 4)} (expected ${fmt(o.moran.expected, 4)} without pattern), z ${fmt(o.moran.z, 4)}, p ${p(o.moran.p)}`);
+  const lm = o.lm;
+  lines.push(...table(['Lagrange-multiplier test', 'statistic', 'df', 'p'], [
+    ['for a spatial error', fmt(lm.error.stat, 5), String(lm.error.df), p(lm.error.p)],
+    ['for a spatial lag', fmt(lm.lag.stat, 5), String(lm.lag.df), p(lm.lag.p)],
+    ['for error, robust to lag', fmt(lm.robustError.stat, 5), String(lm.robustError.df), p(lm.robustError.p)],
+    ['for lag, robust to error', fmt(lm.robustLag.stat, 5), String(lm.robustLag.df), p(lm.robustLag.p)],
+    ['for both together', fmt(lm.joint.stat, 5), String(lm.joint.df), p(lm.joint.p)],
+  ]));
+  lines.push(`  Guidance: ${o.recommendation.text}`);
+  lines.push('');
+  if (r.lag) lines.push(...spatialBlock('Spatial lag model (maximum likelihood): the outcome spills over', r.lag, 'rho'), '');
+  if (r.impacts) {
+    lines.push(`Spillover effects of the lag model (standard errors from ${r.impacts.draws} simulated draws, seed ${r.impacts.seed})`);
+    lines.push(...table(['term', 'in the area itself', 'SE', 'in the other areas', 'SE', 'total', 'SE'],
+      r.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
+    lines.push('');
+  }
+  if (r.error) lines.push(...spatialBlock('Spatial error model (maximum likelihood): spatially patterned omitted causes', r.error, 'lambda'), '');
+  lines.push(`Log-determinant: ${r.algebra.logDeterminant} (${r.algebra.accuracy}); admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
+  if (r.warnings.length) {
+    lines.push('', 'Warnings');
+    for (const wn of r.warnings) lines.push(`  - ${wn}`);
+  }
+  lines.push('', CAUTION);
+  return lines.join('\n');
+}
+
+export const CAUTION =
+  'Read with care: these are associations between areas, not proof of cause; what holds for areas need not hold for the ' +
+  'people in them; a different neighbour definition can change the answers; rates for areas with few people are unstable. ' +
+  'Check the results with people who know the places.';
+
+function spatialBlock(title: string, f: SpatialFit, symbol: 'rho' | 'lambda'): string[] {
+  const name = symbol === 'rho' ? 'ρ (spillover of the outcome)' : 'λ (spillover of the errors)';
+  const out = [title];
+  out.push(`  ${name} ${fmt(f.parameter, 6)}, SE ${fmt(f.parameterSe, 4)}, z ${fmt(f.parameterZ, 4)}, p ${p(f.parameterP)}`);
+  out.push(...coefficientTable(f.coefficients, 'z'));
+  out.push(`  log-likelihood ${fmt(f.logLik, 6)}; AIC ${fmt(f.aic, 6)}; Schwarz ${fmt(f.schwarz, 6)}; σ² ${fmt(f.sigma2, 5)}; squared correlation of observed and fitted ${fmt(f.pseudoR2, 4)}`);
+  out.push(`  Likelihood-ratio test against the plain regression: ${fmt(f.lr.stat, 5)} (df ${f.lr.df}), p ${p(f.lr.p)}`);
+  if (f.lmRemainingError) out.push(`  Spatial error pattern left after the lag: LM ${fmt(f.lmRemainingError.stat, 4)}, p ${p(f.lmRemainingError.p)}`);
+  out.push(`  Search: ${f.convergence.message}`);
+  return out;
+}
+
+function coefficientTable(cs: Coefficient[], stat: 't' | 'z'): string[] {
+  return table(['term', 'estimate', 'SE', stat, 'p'], cs.map((c) => [c.name, fmt(c.estimate, 6), fmt(c.se, 5), fmt(c.stat, 4), p(c.p)]));
+}
+
+function table(head: string[], rows: string[][]): string[] {
+  const widths = head.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
+  const line = (cells: string[]) => '  ' + cells.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ');
+  return [line(head), ...rows.map(line)];
+}
+
+function fmt(v: number, digits: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  if (v !== 0 && (Math.abs(v) >= 1e7 || Math.abs(v) < 1e-4)) return v.toExponential(digits - 1).replace('-', '−');
+  return Number(v.toPrecision(digits)).toString().replace('-', '−');
+}
+
+function p(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  return v < 0.0001 ? '< 0.0001' : v.toFixed(4);
+}

@@ -1,0 +1,187 @@
+import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints } from '../geo/index.js';
+import {
+  buildWeights, readEdgeList, summarizeWeights, symmetricForm, spatialLag,
+} from '../weights/index.js';
+import type { SpatialWeights } from '../weights/types.js';
+import { chooseAlgebra } from '../linalg/choose-algebra.js';
+import {
+  fitOls, fitSpatialLag, fitSpatialError, lagImpacts, recommendModel,
+} from '../models/index.js';
+import { moranResidualTest, lmTests, moranColumn } from '../stats/index.js';
+import type { Design } from '../models/types.js';
+import { InputError } from '../errors.js';
+import { ENGINE_VERSION } from '../version.js';
+import { sha256Hex } from './hash.js';
+import { readModelColumns } from './missing.js';
+import type { AnalysisRequest, AnalysisResult, InputRecord } from './types.js';
+
+const DEFAULT_SEED = 20261201;
+
+/**
+ * The whole job in one call: read the boundaries and the table, join them by ID, build the
+ * neighbours, fit the plain regression and its spatial diagnostics, then the spatial lag and error
+ * models and the lag model's impacts. Pure: bytes in, numbers out; the CLI and the add-in share it.
+ */
+export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisResult> {
+  const timings: Record<string, number> = {};
+  const clock = () => (globalThis.performance ? performance.now() : Date.now());
+  let t = clock();
+  const lap = (name: string) => { const now = clock(); timings[name] = (now - t) / 1000; t = now; };
+  const progress = request.onProgress ?? (() => {});
+  const seed = request.seed ?? DEFAULT_SEED;
+  const impactDraws = request.impactDraws ?? 1000;
+  const permutations = request.permutations ?? 999;
+  const models = request.models.length ? request.models : ['ols', 'lag', 'error'];
+  validateRequest(request);
+
+  progress(0.02, 'Reading the files');
+  const inputs: InputRecord[] = [];
+  for (const f of request.boundary) inputs.push(await record('boundary', f));
+  if (request.data) inputs.push(await record('data', request.data));
+  if (request.edgeList) inputs.push(await record('edge list', request.edgeList));
+
+  const layer = await readBoundary(request.boundary, { layer: request.layer });
+  const table = request.data ? await readTable(request.data, { sheet: request.sheet }) : tableFromLayer(layer);
+  lap('read');
+  progress(0.1, 'Joining the table to the areas');
+  const joinedAll = joinAreas(layer, table, request.id);
+  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x], request.dropMissing ?? false);
+  lap('join');
+
+  progress(0.2, 'Finding neighbours');
+  const needsPoints = request.weights.method === 'knn' || request.weights.method === 'band' || request.weights.method === 'idw';
+  const points = representativePoints(joined.geometries);
+  let w: SpatialWeights;
+  if (request.edgeList) {
+    w = readEdgeList(new TextDecoder().decode(request.edgeList.bytes), joined.ids, {
+      transform: request.transform, source: request.edgeList.name,
+    });
+  } else {
+    w = buildWeights(
+      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? points : undefined },
+      request.weights,
+      { transform: request.transform, linkIslands: request.linkIslands },
+    );
+  }
+  const summary = summarizeWeights(w);
+  lap('weights');
+
+  progress(0.3, 'Preparing the log-determinant');
+  const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed });
+  lap('algebra');
+
+  const y = values.get(request.y)!;
+  const design: Design = {
+    names: ['constant', ...request.x],
+    columns: [new Float64Array(y.length).fill(1), ...request.x.map((c) => values.get(c)!)],
+  };
+
+  progress(0.4, 'Fitting the plain regression');
+  const ols = fitOls(y, design, { robust: request.robust });
+  const moran = moranResidualTest(ols, design, algebra);
+  const lm = lmTests(ols, design, algebra);
+  const recommendation = recommendModel(lm);
+  const olsResidualLag = spatialLag(w, ols.residuals);
+  const moranY = moranColumn(y, w, { permutations, seed });
+  lap('ols');
+
+  let lag: AnalysisResult['lag'];
+  let error: AnalysisResult['error'];
+  let impacts: AnalysisResult['impacts'];
+  if (models.includes('lag')) {
+    progress(0.5, 'Fitting the spatial lag model');
+    const fit = fitSpatialLag(y, design, algebra, ols);
+    lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
+    lap('lag');
+    progress(0.7, 'Simulating the spillover effects');
+    impacts = lagImpacts(fit, design, algebra, { draws: impactDraws, seed });
+    lap('impacts');
+  }
+  if (models.includes('error')) {
+    progress(0.8, 'Fitting the spatial error model');
+    const fit = fitSpatialError(y, design, algebra, ols);
+    error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
+    lap('error');
+  }
+
+  const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
+  if (summary.islands.length > 0) {
+    warnings.push(`${summary.islands.length} area(s) have no neighbours (${summary.islands.slice(0, 10).join(', ')}${summary.islands.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
+  }
+  if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
+  if (dropped.length > 0) warnings.push(`${dropped.length} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
+
+  progress(1, 'Done');
+  return {
+    engineVersion: ENGINE_VERSION,
+    createdAt: new Date().toISOString(),
+    request: {
+      id: request.id, y: request.y, x: [...request.x], sheet: request.sheet,
+      weights: request.edgeList ? { method: 'edge-list', source: request.edgeList.name } : request.weights,
+      transform: w.transform, models: [...models] as AnalysisResult['request']['models'],
+      dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
+      seed, impactDraws, permutations,
+    },
+    inputs,
+    n: joined.ids.length,
+    ids: joined.ids,
+    rows: joined.rows,
+    droppedRows: dropped,
+    geometries: joined.geometries,
+    coordinates: joined.coordinates,
+    coordinateEvidence: joined.coordinateEvidence,
+    join: joined.report,
+    y,
+    xNames: [...request.x],
+    weights: {
+      method: w.spec.method,
+      description: w.description,
+      transform: w.transform,
+      links: w.colIdx.length,
+      islands: summary.islands,
+      components: summary.components,
+      summary,
+      edges: edgesOf(w),
+    },
+    algebra: {
+      logDeterminant: algebra.logdet.method,
+      accuracy: algebra.logdet.accuracy,
+      traces: algebra.traceMethod,
+      range: { lower: algebra.range.lower, upper: algebra.range.upper, method: algebra.range.method },
+    },
+    ols: { ...ols, moran, lm, recommendation },
+    olsResidualLag,
+    lag,
+    error,
+    impacts,
+    moranY,
+    warnings,
+    timings,
+  };
+}
+
+async function record(role: InputRecord['role'], f: { name: string; bytes: Uint8Array }): Promise<InputRecord> {
+  return { role, name: f.name, bytes: f.bytes.length, sha256: await sha256Hex(f.bytes) };
+}
+
+function edgesOf(w: SpatialWeights) {
+  const m = w.colIdx.length;
+  const from = new Int32Array(m);
+  for (let i = 0; i < w.n; i++) from.fill(i, w.rowPtr[i], w.rowPtr[i + 1]);
+  return { from, to: Int32Array.from(w.colIdx), weight: Float64Array.from(w.values) };
+}
+
+function validateRequest(r: AnalysisRequest): void {
+  if (!r.boundary || r.boundary.length === 0) throw new InputError('No boundary file was given: name a GeoJSON, TopoJSON or shapefile.');
+  if (!r.id?.trim()) throw new InputError('No ID column was given: name the column that identifies each area.');
+  if (!r.y?.trim()) throw new InputError('No outcome column was given: name the column to explain.');
+  if (!r.x || r.x.length === 0) throw new InputError('No explanatory columns were given: name at least one.');
+  const seen = new Set<string>();
+  for (const c of [r.y, ...r.x]) {
+    if (seen.has(c)) throw new InputError(`Column "${c}" is named twice among the outcome and explanatory columns.`, { column: c });
+    seen.add(c);
+  }
+  for (const m of r.models) {
+    if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`Unknown model "${m}": choose from ols, lag, error.`);
+  }
+}

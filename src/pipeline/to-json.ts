@@ -1,0 +1,115 @@
+import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
+import type { AnalysisResult } from './types.js';
+
+/**
+ * The documented JSON report of the command line (`spillway fit --json`): plain numbers only,
+ * no per-area arrays except where asked for, stable field names.
+ */
+export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}): Record<string, unknown> {
+  const ols = r.ols;
+  const out: Record<string, unknown> = {
+    engineVersion: r.engineVersion,
+    createdAt: r.createdAt,
+    n: r.n,
+    question: { y: r.request.y, x: r.request.x, id: r.request.id },
+    coordinates: { kind: r.coordinates, evidence: r.coordinateEvidence },
+    inputs: r.inputs,
+    droppedRows: r.droppedRows,
+    weights: {
+      method: r.weights.method,
+      description: r.weights.description,
+      transform: r.weights.transform,
+      links: r.weights.links,
+      islands: r.weights.islands,
+      components: r.weights.components,
+      minNeighbours: r.weights.summary.minNeighbours,
+      meanNeighbours: r.weights.summary.meanNeighbours,
+      medianNeighbours: r.weights.summary.medianNeighbours,
+      maxNeighbours: r.weights.summary.maxNeighbours,
+      density: r.weights.summary.density,
+      histogram: r.weights.summary.histogram,
+    },
+    logDeterminant: r.algebra,
+    ols: {
+      coefficients: ols.coefficients.map(coef),
+      ...(ols.robustCoefficients ? { robustCoefficients: ols.robustCoefficients.map(coef) } : {}),
+      r2: ols.r2,
+      adjR2: ols.adjR2,
+      f: { stat: ols.f.stat, df: ols.f.df, df2: ols.f.df2, p: ols.f.p },
+      sigma2: ols.sigma2,
+      logLik: ols.logLik,
+      aic: ols.aic,
+      schwarz: ols.schwarz,
+      conditionNumber: ols.conditionNumber,
+      jarqueBera: test(ols.jarqueBera),
+      breuschPagan: test(ols.breuschPagan),
+      koenkerBassett: test(ols.koenkerBassett),
+      moran: { I: ols.moran.I, expected: ols.moran.expected, variance: ols.moran.variance, z: ols.moran.z, p: ols.moran.p },
+      lm: {
+        error: test(ols.lm.error),
+        lag: test(ols.lm.lag),
+        robustError: test(ols.lm.robustError),
+        robustLag: test(ols.lm.robustLag),
+        joint: test(ols.lm.joint),
+      },
+      recommendation: ols.recommendation.text,
+      recommendationRule: ols.recommendation.rule,
+      recommendationChoice: ols.recommendation.choice,
+    },
+    moranOfY: {
+      I: r.moranY.I, expected: r.moranY.expected, variance: r.moranY.variance, z: r.moranY.z, p: r.moranY.p,
+      permutationP: r.moranY.permutationP, permutations: r.moranY.permutations,
+    },
+    warnings: r.warnings,
+    seed: r.request.seed,
+  };
+  if (r.lag) out.lag = spatial(r.lag, 'rho');
+  if (r.error) out.error = spatial(r.error, 'lambda');
+  if (r.impacts) {
+    out.impacts = r.impacts.impacts.map((i) => ({ ...i }));
+    out.impactsMethod = { draws: r.impacts.draws, seed: r.impacts.seed, method: r.impacts.method };
+  }
+  if (opts.perArea) {
+    out.areas = r.ids.map((id, i) => ({
+      id,
+      row: r.rows[i],
+      observed: r.y[i],
+      olsFitted: r.ols.fitted[i],
+      olsResidual: r.ols.residuals[i],
+      ...(r.lag ? { lagFitted: r.lag.fitted[i], lagResidual: r.lag.residuals[i] } : {}),
+      ...(r.error ? { errorFitted: r.error.fitted[i], errorResidual: r.error.residuals[i] } : {}),
+    }));
+  }
+  return out;
+}
+
+function coef(c: Coefficient) {
+  return { name: c.name, estimate: c.estimate, se: c.se, stat: c.stat, p: c.p };
+}
+
+function test(t: TestResult) {
+  return { stat: t.stat, df: t.df, p: t.p };
+}
+
+function spatial(f: SpatialFit, key: 'rho' | 'lambda') {
+  return {
+    [key]: f.parameter,
+    [`${key}Se`]: f.parameterSe,
+    [`${key}Z`]: f.parameterZ,
+    [`${key}P`]: f.parameterP,
+    coefficients: f.coefficients.map(coef),
+    sigma2: f.sigma2,
+    logLik: f.logLik,
+    aic: f.aic,
+    schwarz: f.schwarz,
+    lr: test(f.lr),
+    pseudoR2: f.pseudoR2,
+    ...(f.lmRemainingError ? { lmRemainingError: test(f.lmRemainingError) } : {}),
+    ...(f.lmRemainingLag ? { lmRemainingLag: test(f.lmRemainingLag) } : {}),
+    breuschPagan: test(f.breuschPagan),
+    range: f.range,
+    logDeterminant: f.logDeterminantMethod,
+    convergence: f.convergence,
+    warnings: f.warnings,
+  };
+}
