@@ -26,6 +26,13 @@ export interface SpatialWeights extends CsrMatrix {
    * used to form the symmetric matrix similar to a row-standardised W. Null when not symmetric.
    */
   symmetricBase: CsrMatrix | null;
+  /**
+   * Distance methods (band, inverse distance): the largest nearest-neighbour distance, i.e. the
+   * smallest band or cutoff that gives every area at least one neighbour (km on lon/lat).
+   */
+  allLinkedDistance?: number;
+  /** IDs of areas that had no neighbour and were linked to their nearest area on request. */
+  linkedIslands?: string[];
 }
 
 export interface WeightsSummary {

@@ -1,0 +1,206 @@
+import type { CsrMatrix } from '../linalg/csr.js';
+import { InputError, listSome } from '../errors.js';
+import type { SpatialWeights, WeightsSpec, WeightsTransform } from './types.js';
+import { contiguityNeighbours } from './contiguity.js';
+import { higherOrder } from './higher-order.js';
+import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet } from './nearest.js';
+import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
+import { applyTransform } from './transform.js';
+import { LinkList, csrFromLinks } from './pattern.js';
+import { boxCentres, checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
+
+export interface BuildOptions {
+  /** default 'row' */
+  transform?: WeightsTransform;
+  /** link every area without neighbours to its nearest area (both ways) */
+  linkIslands?: boolean;
+}
+
+interface Built {
+  /** weights before the transform */
+  base: CsrMatrix;
+  symmetric: boolean;
+  description: string;
+  greatCircle?: boolean;
+  allLinkedDistance?: number;
+  linkedIslands?: string[];
+}
+
+/** Spatial weights for the areas under one neighbour rule, then transformed (row-standardised by default). */
+export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: BuildOptions = {}): SpatialWeights {
+  checkIds(input.ids);
+  const transform = opts.transform ?? 'row';
+  if (transform !== 'row' && transform !== 'binary') {
+    throw new InputError(`Unknown weights transform "${String(transform)}"; use "row" or "binary".`);
+  }
+  let built: Built;
+  switch (spec.method) {
+    case 'queen':
+    case 'rook':
+      built = contiguity(input, spec, opts);
+      break;
+    case 'knn':
+      built = kNearest(input, spec.k);
+      break;
+    case 'band':
+      built = distanceBased(input, spec.distance, null, opts);
+      break;
+    case 'idw':
+      built = distanceBased(input, spec.cutoff, spec.power, opts);
+      break;
+    default:
+      throw new InputError(`Unknown neighbour rule "${String((spec as { method: unknown }).method)}".`);
+  }
+  const w = applyTransform(built.base, transform);
+  const result: SpatialWeights = {
+    ...w,
+    ids: input.ids,
+    description: `${built.description}; ${transform === 'row' ? 'rows standardised to sum to 1' : 'every link weighs 1'}`,
+    spec,
+    transform,
+    symmetricBase: built.symmetric ? built.base : null,
+  };
+  if (built.greatCircle !== undefined) result.greatCircle = built.greatCircle;
+  if (built.allLinkedDistance !== undefined) result.allLinkedDistance = built.allLinkedDistance;
+  if (built.linkedIslands) result.linkedIslands = built.linkedIslands;
+  return result;
+}
+
+function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'queen' | 'rook' }>, opts: BuildOptions): Built {
+  const n = input.ids.length;
+  if (input.geometries.length !== n) {
+    throw new InputError(`There are ${n} areas but ${input.geometries.length} geometries; every area needs its boundary.`);
+  }
+  const rule = spec.method;
+  let pattern = contiguityNeighbours(input.geometries, rule, spec.tolerance);
+  let description =
+    rule === 'queen'
+      ? 'queen contiguity (areas sharing at least one boundary point)'
+      : 'rook contiguity (areas sharing a stretch of boundary)';
+  if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
+  const pts = input.points ? checkedPoints(input, 'contiguity') : boxCentres(input);
+  if (pattern.rowPtr[n] === 0) {
+    const { distance } = nearestOther(pts);
+    const needed = Math.max(...distance);
+    throw new InputError(
+      `No area has a neighbour under ${rule} contiguity: no two boundaries ${rule === 'queen' ? 'touch' : 'share a stretch of border'}. ` +
+        `If the areas are points or do not touch, try a distance band of at least ${plain(needed)} ${distanceUnit(pts)} ` +
+        `(the distance at which every area has a neighbour) or k-nearest neighbours.`,
+    );
+  }
+  let linkedIslands: string[] | undefined;
+  if (opts.linkIslands) {
+    const linked = linkToNearest(pattern, pts, input.ids, () => 1);
+    if (linked.ids.length > 0) {
+      pattern = linked.pattern;
+      linkedIslands = linked.ids;
+      description += `; ${islandNote(linked.ids)}${input.points ? '' : ' (nearest by bounding-box centre)'}`;
+    }
+  }
+  const order = spec.order ?? 1;
+  if (order !== 1) {
+    pattern = higherOrder(pattern, order, spec.includeLowerOrders ?? false);
+    description = spec.includeLowerOrders
+      ? `neighbours up to ${order} steps away by ${description}`
+      : `neighbours exactly ${order} steps away by ${description}`;
+  }
+  return { base: pattern, symmetric: true, description, linkedIslands };
+}
+
+function kNearest(input: WeightsInput, k: number): Built {
+  const n = input.ids.length;
+  if (!Number.isInteger(k) || k < 1) throw new InputError(`The number of nearest neighbours must be a whole number, 1 or more; got ${k}.`);
+  if (k >= n) {
+    throw new InputError(`${k} nearest neighbours need more than ${k} areas; there are ${n}. Choose k of at most ${n - 1}.`);
+  }
+  const pts = checkedPoints(input, 'k-nearest neighbours');
+  const { pattern } = nearestNeighbours(pts, k);
+  return {
+    base: pattern,
+    symmetric: false,
+    greatCircle: pts.greatCircle,
+    description: `${k} nearest neighbour${k === 1 ? '' : 's'} by ${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points`,
+  };
+}
+
+/** Distance band (power null: every link 1) or inverse distance d^(−power) within an optional cutoff. */
+function distanceBased(input: WeightsInput, reach: number | undefined, power: number | null, opts: BuildOptions): Built {
+  const n = input.ids.length;
+  const what = power === null ? 'a distance band' : 'inverse distance';
+  const pts = checkedPoints(input, what);
+  const unit = distanceUnit(pts);
+  if (power !== null && !(Number.isFinite(power) && power > 0)) {
+    throw new InputError(`The inverse-distance power must be a number above 0 (1 and 2 are usual); got ${power}.`);
+  }
+  if (reach !== undefined && !(Number.isFinite(reach) && reach > 0)) {
+    throw new InputError(`The ${power === null ? 'band distance' : 'cutoff distance'} must be a number above 0 (in ${unit}); got ${reach}.`);
+  }
+  if (power === null && reach === undefined) throw new InputError('A distance band needs a distance.');
+  const index = pointIndex(pts);
+  const nearest = nearestOther(pts, index);
+  let smallest = Infinity, largest = 0;
+  for (let i = 0; i < n; i++) {
+    smallest = Math.min(smallest, nearest.distance[i]);
+    largest = Math.max(largest, nearest.distance[i]);
+  }
+  const weight = power === null ? () => 1 : (d: number, i: number, j: number) => inverseDistance(d, power, input.ids, i, j);
+
+  let base: CsrMatrix;
+  if (reach === undefined) {
+    if (n > FULL_INVERSE_DISTANCE_LIMIT) {
+      throw new InputError(
+        `Inverse-distance weights between all ${n} areas would link every pair (${n} × ${n - 1} links). ` +
+          `Give a cutoff distance; ${plain(largest)} ${unit} is the smallest that gives every area a neighbour.`,
+      );
+    }
+    base = allPairsInverseDistance(pts, power as number, input.ids);
+  } else {
+    base = pairsWithin(pts, index, reach, weight);
+    if (base.rowPtr[n] === 0) {
+      throw new InputError(
+        `No two areas are within ${plain(reach)} ${unit} of each other, so ${what} of that size links nothing. ` +
+          `The closest pair is ${plain(smallest)} ${unit} apart; at ${plain(largest)} ${unit} every area has at least one neighbour.`,
+      );
+    }
+  }
+  let description =
+    power === null
+      ? `distance band: areas within ${plain(reach as number)} ${unit}`
+      : `inverse distance, weight = distance^(−${plain(power)})${reach === undefined ? ' between all pairs' : `, up to ${plain(reach)} ${unit}`}`;
+  description += ` (${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points; every area has a neighbour from ${plain(largest)} ${unit})`;
+  let linkedIslands: string[] | undefined;
+  if (opts.linkIslands) {
+    const linked = linkToNearest(base, pts, input.ids, (i, j) => weight(pointDistance(pts, i, j), i, j), nearest.nearest);
+    if (linked.ids.length > 0) {
+      base = linked.pattern;
+      linkedIslands = linked.ids;
+      description += `; ${islandNote(linked.ids)}`;
+    }
+  }
+  return { base, symmetric: true, description, greatCircle: pts.greatCircle, allLinkedDistance: largest, linkedIslands };
+}
+
+/** Adds a link both ways between every area without neighbours and its nearest area. */
+function linkToNearest(
+  pattern: CsrMatrix,
+  pts: PointSet,
+  ids: string[],
+  weight: (i: number, j: number) => number,
+  nearest?: Int32Array,
+): { pattern: CsrMatrix; ids: string[] } {
+  const n = pattern.n;
+  const islands: number[] = [];
+  for (let i = 0; i < n; i++) if (pattern.rowPtr[i + 1] === pattern.rowPtr[i]) islands.push(i);
+  if (islands.length === 0) return { pattern, ids: [] };
+  const near = nearest ?? nearestOther(pts).nearest;
+  const links = new LinkList();
+  for (let i = 0; i < n; i++) {
+    for (let p = pattern.rowPtr[i]; p < pattern.rowPtr[i + 1]; p++) links.push(i, pattern.colIdx[p], pattern.values[p]);
+  }
+  for (const i of islands) links.pushBoth(i, near[i], weight(i, near[i]));
+  return { pattern: csrFromLinks(n, links), ids: islands.map((i) => ids[i]) };
+}
+
+function islandNote(ids: string[]): string {
+  return `${ids.length} area${ids.length === 1 ? '' : 's'} without neighbours linked to the nearest area: ${listSome(ids)}`;
+}

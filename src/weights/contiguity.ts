@@ -1,0 +1,185 @@
+import type { AreaGeometry } from '../geo/types.js';
+import type { CsrMatrix } from '../linalg/csr.js';
+import { InputError } from '../errors.js';
+import { BoxIndex } from './box-index.js';
+import { LinkList, csrFromLinks } from './pattern.js';
+
+/** Relative size of the "exact" tolerance: 1e-9 of the larger side of the layer's bounding box. */
+const EXACT_RELATIVE = 1e-9;
+
+/** Boundary vertices of all areas, one ring after another, without closing repeats. */
+interface Boundary {
+  x: Float64Array;
+  y: Float64Array;
+  owner: Int32Array;
+  /** next / previous vertex around the same ring; segment v runs from v to next[v] */
+  next: Int32Array;
+  prev: Int32Array;
+  count: number;
+  span: number;
+}
+
+/**
+ * Binary contiguity pattern (values 1, symmetric, rows sorted by column).
+ *
+ * queen: the two areas share at least one boundary point — a vertex of one lies on the boundary
+ *   (vertex or segment) of the other, within the tolerance.
+ * rook: the two areas share a piece of boundary of positive length — some segment of one runs
+ *   along a segment of the other over more than the tolerance.
+ *
+ * Both tests go vertex → nearby segments, so boundaries whose vertices differ along the shared
+ * stretch (T-junctions, one side more detailed) are found: every end of a shared stretch is a
+ * vertex of one of the two areas lying on a segment of the other.
+ *
+ * tolerance: in coordinate units, to bridge slivers and gaps; default 1e-9 × the layer's extent.
+ * Point geometries have no boundary: they come out as areas without neighbours.
+ */
+export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' | 'rook', tolerance?: number): CsrMatrix {
+  if (tolerance !== undefined && !(Number.isFinite(tolerance) && tolerance >= 0)) {
+    throw new InputError(`The contiguity tolerance must be a number of coordinate units, 0 or more; got ${tolerance}.`);
+  }
+  const n = geometries.length;
+  const b = flattenBoundaries(geometries);
+  const tol = Math.max(tolerance ?? 0, EXACT_RELATIVE * b.span);
+  const { x, y, owner, next, prev, count } = b;
+
+  const x0 = new Float64Array(count), y0 = new Float64Array(count);
+  const x1 = new Float64Array(count), y1 = new Float64Array(count);
+  for (let v = 0; v < count; v++) {
+    const w = next[v];
+    x0[v] = Math.min(x[v], x[w]) - tol;
+    y0[v] = Math.min(y[v], y[w]) - tol;
+    x1[v] = Math.max(x[v], x[w]) + tol;
+    y1[v] = Math.max(y[v], y[w]) + tol;
+  }
+  const index = new BoxIndex(x0, y0, x1, y1);
+
+  let keys = new Float64Array(1024);
+  let keyCount = 0;
+  let hits: Int32Array = new Int32Array(64);
+  for (let v = 0; v < count; v++) {
+    const a = owner[v];
+    const px = x[v], py = y[v];
+    const res = index.search(px, py, px, py, hits);
+    hits = res.items;
+    let lastPartner = -1;
+    for (let h = 0; h < res.found; h++) {
+      const s = hits[h];
+      const other = owner[s];
+      if (other === a || other === lastPartner) continue;
+      const sx = x[s], sy = y[s], ex = x[next[s]], ey = y[next[s]];
+      let touches: boolean;
+      if (rule === 'queen') {
+        touches = pointSegmentDistance(px, py, sx, sy, ex, ey) <= tol;
+      } else {
+        const nv = next[v], pv = prev[v];
+        touches = runsAlong(sx, sy, ex, ey, px, py, x[nv], y[nv], tol) || runsAlong(sx, sy, ex, ey, px, py, x[pv], y[pv], tol);
+      }
+      if (!touches) continue;
+      lastPartner = other;
+      if (keyCount === keys.length) {
+        const bigger = new Float64Array(keys.length * 2);
+        bigger.set(keys);
+        keys = bigger;
+      }
+      keys[keyCount++] = a < other ? a * n + other : other * n + a;
+    }
+  }
+
+  const pairs = keys.subarray(0, keyCount).sort();
+  const links = new LinkList();
+  let last = -1;
+  for (let k = 0; k < keyCount; k++) {
+    const key = pairs[k];
+    if (key === last) continue;
+    last = key;
+    const i = Math.floor(key / n);
+    links.pushBoth(i, key - i * n);
+  }
+  return csrFromLinks(n, links);
+}
+
+function flattenBoundaries(geometries: AreaGeometry[]): Boundary {
+  let total = 0;
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  geometries.forEach((g, a) => {
+    if (g.kind !== 'polygon') return;
+    for (const polygon of g.polygons) {
+      for (const ring of polygon) {
+        total += ring.length;
+        for (const pos of ring) {
+          const px = pos[0], py = pos[1];
+          if (!Number.isFinite(px) || !Number.isFinite(py)) {
+            throw new InputError(`Area ${a + 1} has a boundary point that is not a pair of finite numbers (${px}, ${py}). Repair the boundary file and load it again.`, { feature: a + 1 });
+          }
+          if (px < minX) minX = px;
+          if (px > maxX) maxX = px;
+          if (py < minY) minY = py;
+          if (py > maxY) maxY = py;
+        }
+      }
+    }
+  });
+  const span = total > 0 ? Math.max(maxX - minX, maxY - minY) || 1 : 1;
+  const same = EXACT_RELATIVE * span;
+  const x = new Float64Array(total), y = new Float64Array(total);
+  const owner = new Int32Array(total), next = new Int32Array(total), prev = new Int32Array(total);
+  let count = 0;
+  geometries.forEach((g, a) => {
+    if (g.kind !== 'polygon') return;
+    for (const polygon of g.polygons) {
+      for (const ring of polygon) {
+        const start = count;
+        for (const pos of ring) {
+          // drop repeated points (and the closing point) so that every segment has a length
+          if (count > start && Math.abs(pos[0] - x[count - 1]) <= same && Math.abs(pos[1] - y[count - 1]) <= same) continue;
+          x[count] = pos[0];
+          y[count] = pos[1];
+          owner[count] = a;
+          count++;
+        }
+        while (count - start > 1 && Math.abs(x[count - 1] - x[start]) <= same && Math.abs(y[count - 1] - y[start]) <= same) count--;
+        if (count - start < 2) {
+          count = start;
+          continue;
+        }
+        for (let v = start; v < count; v++) {
+          next[v] = v + 1 < count ? v + 1 : start;
+          prev[v] = v > start ? v - 1 : count - 1;
+        }
+      }
+    }
+  });
+  return { x, y, owner, next, prev, count, span };
+}
+
+function pointSegmentDistance(px: number, py: number, ax: number, ay: number, bx: number, by: number): number {
+  const dx = bx - ax, dy = by - ay;
+  const len2 = dx * dx + dy * dy;
+  let t = len2 > 0 ? ((px - ax) * dx + (py - ay) * dy) / len2 : 0;
+  if (t < 0) t = 0;
+  else if (t > 1) t = 1;
+  return Math.hypot(px - (ax + t * dx), py - (ay + t * dy));
+}
+
+/**
+ * True when segment p→q lies along segment a→b over a stretch longer than tol: the projections
+ * of p, q onto a→b overlap it by more than tol, and at both ends of that overlap p→q is within
+ * tol of the line through a and b (distance to the line varies linearly along p→q).
+ */
+function runsAlong(ax: number, ay: number, bx: number, by: number, px: number, py: number, qx: number, qy: number, tol: number): boolean {
+  const dx = bx - ax, dy = by - ay;
+  const len = Math.hypot(dx, dy);
+  if (len <= tol) return false;
+  const ux = dx / len, uy = dy / len;
+  const tp = (px - ax) * ux + (py - ay) * uy;
+  const tq = (qx - ax) * ux + (qy - ay) * uy;
+  const lo = Math.max(0, Math.min(tp, tq));
+  const hi = Math.min(len, Math.max(tp, tq));
+  if (hi - lo <= tol) return false;
+  const dp = ux * (py - ay) - uy * (px - ax);
+  const dq = ux * (qy - ay) - uy * (qx - ax);
+  const atLo = dp + ((dq - dp) * (lo - tp)) / (tq - tp);
+  const atHi = dp + ((dq - dp) * (hi - tp)) / (tq - tp);
+  return Math.abs(atLo) <= tol && Math.abs(atHi) <= tol;
+}

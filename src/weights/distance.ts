@@ -1,0 +1,63 @@
+import type KDBush from 'kdbush';
+import { around } from 'geokdbush';
+import type { CsrMatrix } from '../linalg/csr.js';
+import { InputError } from '../errors.js';
+import { LinkList, csrFromLinks } from './pattern.js';
+import { pointDistance, type PointSet } from './nearest.js';
+
+/** Largest number of areas for inverse-distance weights over all pairs (n² links) without a cutoff. */
+export const FULL_INVERSE_DISTANCE_LIMIT = 5000;
+
+/**
+ * Every pair within `reach` (inclusive), value = weight(distance). Each pair is measured once
+ * (from the lower index) and stored both ways, so the result is exactly symmetric.
+ */
+export function pairsWithin(pts: PointSet, index: KDBush, reach: number, weight: (d: number, i: number, j: number) => number): CsrMatrix {
+  const n = pts.x.length;
+  const links = new LinkList();
+  for (let i = 0; i < n; i++) {
+    const found = pts.greatCircle
+      ? around(index, pts.x[i], pts.y[i], Infinity, reach, (j) => j > i)
+      : index.within(pts.x[i], pts.y[i], reach);
+    for (const j of found) {
+      if (j <= i) continue;
+      const d = pointDistance(pts, i, j);
+      if (d > reach) continue;
+      links.pushBoth(i, j, weight(d, i, j));
+    }
+  }
+  return csrFromLinks(n, links);
+}
+
+/** Inverse-distance weights d^(−power) between all pairs: a full matrix without the diagonal. */
+export function allPairsInverseDistance(pts: PointSet, power: number, ids: string[]): CsrMatrix {
+  const n = pts.x.length;
+  const rowPtr = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) rowPtr[i + 1] = rowPtr[i] + n - 1;
+  const colIdx = new Int32Array(n * (n - 1));
+  const values = new Float64Array(n * (n - 1));
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const v = inverseDistance(pointDistance(pts, i, j), power, ids, i, j);
+      // row i skips column i; row j skips column j
+      const pij = rowPtr[i] + j - 1;
+      const pji = rowPtr[j] + i;
+      colIdx[pij] = j;
+      values[pij] = v;
+      colIdx[pji] = i;
+      values[pji] = v;
+    }
+  }
+  return { n, rowPtr, colIdx, values };
+}
+
+export function inverseDistance(d: number, power: number, ids: string[], i: number, j: number): number {
+  if (d === 0) {
+    throw new InputError(
+      `Areas ${ids[i]} and ${ids[j]} have the same location, so their inverse distance is infinite. ` +
+        `Merge or remove one of them, or use contiguity or k-nearest neighbours instead.`,
+      { feature: ids[j] },
+    );
+  }
+  return Math.pow(d, -power);
+}

@@ -1,0 +1,97 @@
+import Papa from 'papaparse';
+import type { CsrMatrix } from '../linalg/csr.js';
+import { InputError } from '../errors.js';
+import type { SpatialWeights, WeightsTransform } from './types.js';
+import { LinkList, csrFromLinks, isSymmetric } from './pattern.js';
+import { applyTransform } from './transform.js';
+
+export interface EdgeListOptions {
+  /** default 'row'; 'as given' keeps the weights from the file */
+  transform?: WeightsTransform | 'as given';
+  /** file name for messages */
+  source?: string;
+}
+
+const HEADER = ['origin', 'neighbour', 'weight'];
+
+/**
+ * Weights from a CSV edge list: one directed link per line, "origin,neighbour[,weight]" (weight 1
+ * when the column is missing). A first line whose weight cell is not a number, or whose origin is
+ * not a known ID, is a header. Lines are counted as the user sees them (first line = 1). Areas
+ * that never appear as an origin have no neighbours. A weight of 0 is not a link and is skipped.
+ */
+export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions = {}): SpatialWeights {
+  const source = opts.source ?? 'the edge list';
+  const transform = opts.transform ?? 'row';
+  const n = ids.length;
+  const position = new Map<string, number>();
+  ids.forEach((id, i) => position.set(id, i));
+  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { skipEmptyLines: false });
+  const fatal = parsed.errors.find((e) => e.type === 'Quotes');
+  if (fatal) {
+    throw new InputError(`${source}, line ${(fatal.row ?? 0) + 1}: ${fatal.message}. Check the quotes on that line.`, { file: source, row: (fatal.row ?? 0) + 1 });
+  }
+  const rows = parsed.data;
+  const links = new LinkList();
+  const seen = new Map<number, number>();
+  let first = true;
+  for (let r = 0; r < rows.length; r++) {
+    const line = r + 1;
+    const cells = rows[r].map((c) => c.trim());
+    if (cells.every((c) => c === '')) continue;
+    const where = { file: source, row: line };
+    if (first) {
+      first = false;
+      const weightCell = cells[2];
+      const isHeader = weightCell !== undefined && weightCell !== '' ? !isNumber(weightCell) : !position.has(cells[0]);
+      if (isHeader) continue;
+    }
+    if (cells.length < 2 || cells[1] === '') {
+      throw new InputError(`${source}, line ${line}: expected an origin ID and a neighbour ID separated by a comma.`, where);
+    }
+    const i = position.get(cells[0]);
+    if (i === undefined) throw new InputError(`${source}, line ${line}: the origin ID ${cells[0]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[0] });
+    const j = position.get(cells[1]);
+    if (j === undefined) throw new InputError(`${source}, line ${line}: the neighbour ID ${cells[1]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[1] });
+    if (i === j) throw new InputError(`${source}, line ${line}: area ${cells[0]} is listed as its own neighbour. Remove the line; an area is never its own neighbour.`, where);
+    let weight = 1;
+    if (cells.length > 2 && cells[2] !== '') {
+      weight = isNumber(cells[2]) ? Number(cells[2]) : NaN;
+      if (!Number.isFinite(weight) || weight < 0) {
+        throw new InputError(`${source}, line ${line}: the weight "${cells[2]}" is not a number of 0 or more.`, { ...where, column: 'weight' });
+      }
+    }
+    const key = i * n + j;
+    const before = seen.get(key);
+    if (before !== undefined) {
+      throw new InputError(`${source}, lines ${before} and ${line} both link ${cells[0]} to ${cells[1]}. Keep one of them.`, where);
+    }
+    seen.set(key, line);
+    if (weight > 0) links.push(i, j, weight);
+  }
+  if (links.length === 0) throw new InputError(`${source} has no links between the areas. Check that its IDs match the data.`, { file: source });
+  const base = csrFromLinks(n, links);
+  const w: CsrMatrix = transform === 'as given' ? base : applyTransform(base, transform);
+  const note = transform === 'as given' ? 'weights as given' : transform === 'row' ? 'rows standardised to sum to 1' : 'every link weighs 1';
+  return {
+    ...w,
+    ids,
+    description: `neighbours read from ${source}; ${note}`,
+    spec: { method: 'edge-list', source },
+    transform,
+    symmetricBase: isSymmetric(base) ? base : null,
+  };
+}
+
+/** CSV with the header origin,neighbour,weight and one directed link per line; IDs quoted when needed. */
+export function writeEdgeList(w: SpatialWeights): string {
+  const data: string[][] = [];
+  for (let i = 0; i < w.n; i++) {
+    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) data.push([w.ids[i], w.ids[w.colIdx[p]], String(w.values[p])]);
+  }
+  return Papa.unparse({ fields: HEADER, data }, { newline: '\n' }) + '\n';
+}
+
+function isNumber(cell: string): boolean {
+  return /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(cell);
+}

@@ -1,0 +1,91 @@
+import type { AreaGeometry, CoordinateKind } from '../geo/types.js';
+import { InputError } from '../errors.js';
+import type { PointSet } from './nearest.js';
+
+export interface WeightsInput {
+  ids: string[];
+  geometries: AreaGeometry[];
+  coordinates: CoordinateKind;
+  /** One representative point per area; required for k-nearest, distance band and inverse distance. */
+  points?: { x: Float64Array; y: Float64Array };
+}
+
+/** Checks the IDs: at least two areas, none blank, none repeated. */
+export function checkIds(ids: string[]): void {
+  if (ids.length < 2) {
+    throw new InputError(`Spatial weights need at least two areas; there ${ids.length === 1 ? 'is only one' : 'are none'}.`);
+  }
+  const seen = new Map<string, number>();
+  ids.forEach((id, i) => {
+    if (id === '' || id == null) throw new InputError(`Area ${i + 1} has a blank ID. Give every area an ID.`, { feature: i + 1 });
+    const before = seen.get(id);
+    if (before !== undefined) {
+      throw new InputError(`The ID ${id} is used by areas ${before + 1} and ${i + 1}. IDs must be unique.`, { feature: id });
+    }
+    seen.set(id, i);
+  });
+}
+
+/** The areas' points, checked: one per area, finite, and plausible longitudes/latitudes when geographic. */
+export function checkedPoints(input: WeightsInput, method: string): PointSet {
+  const n = input.ids.length;
+  const p = input.points;
+  if (!p) throw new InputError(`Neighbours by ${method} need a representative point for every area; none were given.`);
+  if (p.x.length !== n || p.y.length !== n) {
+    throw new InputError(`There are ${n} areas but ${p.x.length} representative points; every area needs exactly one.`);
+  }
+  const greatCircle = input.coordinates === 'geographic';
+  for (let i = 0; i < n; i++) {
+    const x = p.x[i], y = p.y[i];
+    if (!Number.isFinite(x) || !Number.isFinite(y)) {
+      throw new InputError(`Area ${input.ids[i]} has no usable location (${x}, ${y}). Check its geometry.`, { feature: input.ids[i] });
+    }
+    if (greatCircle && (Math.abs(y) > 90 || Math.abs(x) > 540)) {
+      throw new InputError(
+        `Area ${input.ids[i]} is at (${x}, ${y}), which is not a longitude/latitude. ` +
+          `If the boundary file is projected, say so and distances will be measured in its units.`,
+        { feature: input.ids[i] },
+      );
+    }
+  }
+  return { x: p.x, y: p.y, greatCircle };
+}
+
+/**
+ * Points for linking islands when the caller gave none: the centre of each area's bounding box
+ * (a stand-in; the pipeline normally passes proper representative points).
+ */
+export function boxCentres(input: WeightsInput): PointSet {
+  const n = input.ids.length;
+  const x = new Float64Array(n), y = new Float64Array(n);
+  input.geometries.forEach((g, i) => {
+    if (g.kind === 'point') {
+      x[i] = g.point[0];
+      y[i] = g.point[1];
+      return;
+    }
+    let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
+    for (const polygon of g.polygons) {
+      for (const ring of polygon) {
+        for (const [px, py] of ring) {
+          if (px < x0) x0 = px;
+          if (px > x1) x1 = px;
+          if (py < y0) y0 = py;
+          if (py > y1) y1 = py;
+        }
+      }
+    }
+    x[i] = (x0 + x1) / 2;
+    y[i] = (y0 + y1) / 2;
+  });
+  return { x, y, greatCircle: input.coordinates === 'geographic' };
+}
+
+/** Plain number for messages: six significant digits, no trailing zeros. */
+export function plain(x: number): string {
+  return String(Number(x.toPrecision(6)));
+}
+
+export function distanceUnit(pts: PointSet): string {
+  return pts.greatCircle ? 'km' : 'coordinate units';
+}
