@@ -41,6 +41,14 @@ export interface DataTable {
   rows: (string | number | boolean | null)[][];
   /** Row number (as the user sees it) of the first data row; header is the row before. */
   firstRow: number;
+  /** User-visible row number of each entry of `rows` when blank rows were skipped (else firstRow + i). */
+  rowNumbers?: number[];
+  /** True when the rows are the features of a boundary file (row numbers are feature numbers). */
+  rowsAreFeatures?: boolean;
+  /** True for semicolon-separated text, where "3,5" means 3.5. */
+  decimalComma?: boolean;
+  /** Non-fatal findings while reading (e.g. text encoding fallback). */
+  warnings?: string[];
 }
 
 export interface JoinReport {
@@ -71,4 +79,8 @@ export interface JoinedAreas {
   coordinateEvidence: string;
   report: JoinReport;
   warnings: string[];
+  /** 'feature' when `rows` holds feature numbers (no table, or the boundary file's own table). */
+  rowKind?: 'row' | 'feature';
+  /** Carried from the table: "3,5" reads as 3.5. */
+  decimalComma?: boolean;
 }

@@ -1,0 +1,118 @@
+/** Decides whether a layer's coordinates are longitude/latitude degrees or planar (projected) units. */
+import { InputError } from '../errors.js';
+import type { CoordinateKind } from './types.js';
+import type { Bounds } from './features-to-areas.js';
+
+/** What the file itself says about its coordinate system (.prj text or a GeoJSON `crs` member). */
+export interface CoordinateClaim {
+  kind: CoordinateKind;
+  /** e.g. ".prj names GEOGCS \"GCS_WGS_1984\"" */
+  says: string;
+}
+
+export interface CoordinateDecision {
+  coordinates: CoordinateKind;
+  coordinateEvidence: string;
+  warnings: string[];
+}
+
+/** Reads the kind from WKT in a .prj file (old GEOGCS/PROJCS keywords or their newer equivalents). */
+export function claimFromPrj(text: string, prjName: string): CoordinateClaim | null {
+  const t = text.trim().replace(/^\uFEFF/, '');
+  const m = /^([A-Z]+)\s*\[\s*"([^"]*)"/i.exec(t);
+  if (!m) return null;
+  const keyword = m[1].toUpperCase();
+  const name = m[2];
+  if (keyword === 'PROJCS' || keyword === 'PROJCRS' || keyword === 'PROJECTEDCRS') {
+    return { kind: 'projected', says: `${prjName} describes a projected system (${keyword} "${name}")` };
+  }
+  if (keyword === 'GEOGCS' || keyword === 'GEOGCRS' || keyword === 'GEODCRS' || keyword === 'GEOGRAPHICCRS') {
+    return { kind: 'geographic', says: `${prjName} describes a longitude/latitude system (${keyword} "${name}")` };
+  }
+  return null;
+}
+
+/** Common longitude/latitude EPSG codes (WGS 84, NAD83, NAD27, ETRS89, GDA94/2020, NZGD2000, JGD2000/2011,
+ *  SIRGAS 2000, CGCS2000, ED50). Recalled from memory; any other code is taken as projected. */
+const GEOGRAPHIC_EPSG = new Set([4326, 4269, 4267, 4258, 4283, 7844, 4167, 4612, 6668, 4674, 4490, 4230, 4979, 4617]);
+
+/** Reads the (pre-2016) GeoJSON `crs` member: {"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::4326"}}. */
+export function claimFromGeoJsonCrs(root: unknown, file: string): CoordinateClaim | null {
+  if (!root || typeof root !== 'object') return null;
+  const crs = (root as { crs?: { type?: unknown; properties?: { name?: unknown } } }).crs;
+  const name = crs?.properties?.name;
+  if (typeof name !== 'string') return null;
+  if (/CRS(84|83|27)$/i.test(name)) return { kind: 'geographic', says: `${file}'s crs member names ${name} (longitude/latitude)` };
+  const m = /EPSG:{1,2}(?:[\d.]*:)?(\d+)$/i.exec(name);
+  if (!m) return null;
+  const code = Number(m[1]);
+  return GEOGRAPHIC_EPSG.has(code)
+    ? { kind: 'geographic', says: `${file}'s crs member names EPSG:${code} (longitude/latitude)` }
+    : { kind: 'projected', says: `${file}'s crs member names EPSG:${code}, not one of the common longitude/latitude codes` };
+}
+
+const SLACK = 1e-9;
+
+function fmt(v: number): string {
+  return Number.isInteger(v) ? String(v) : v.toPrecision(6);
+}
+
+/**
+ * Combines the file's own claim (if any) with the coordinate ranges. An explicit `override` from the
+ * analyst wins but is still checked against the ranges for the impossible case (degrees beyond ±180/±90).
+ */
+export function decideCoordinates(
+  b: Bounds,
+  claim: CoordinateClaim | null,
+  file: string,
+  override?: CoordinateKind,
+): CoordinateDecision {
+  const span = `x runs ${fmt(b[0])} to ${fmt(b[2])}, y runs ${fmt(b[1])} to ${fmt(b[3])}`;
+  const xIsLon = b[0] >= -180 - SLACK && b[2] <= 180 + SLACK;
+  const xIsLon360 = b[0] >= -SLACK && b[2] <= 360 + SLACK;
+  const yIsLat = b[1] >= -90 - SLACK && b[3] <= 90 + SLACK;
+  const looksSwapped = b[0] >= -90 - SLACK && b[2] <= 90 + SLACK && !yIsLat && b[1] >= -180 - SLACK && b[3] <= 180 + SLACK;
+  const warnings: string[] = [];
+  const stated = override
+    ? { kind: override, says: `the analyst chose ${override} coordinates` }
+    : claim;
+
+  if (stated?.kind !== 'projected' && looksSwapped) {
+    throw new InputError(
+      `${file}: ${span}. Values beyond ±90 in y but within ±90 in x suggest latitude and longitude are swapped; ` +
+        'GeoJSON and shapefiles put longitude (x) first. Swap the coordinates, or say the coordinates are projected.',
+      { file },
+    );
+  }
+  if (stated?.kind === 'geographic') {
+    if (!(yIsLat && (xIsLon || xIsLon360))) {
+      throw new InputError(
+        `${file}: ${stated.says}, but ${span}, far beyond longitude/latitude degrees. ` +
+          'The coordinate description probably belongs to another file or was not updated after reprojection; ' +
+          'fix or remove it.',
+        { file },
+      );
+    }
+    return { coordinates: 'geographic', coordinateEvidence: `${stated.says}; ${span}.`, warnings };
+  }
+  if (stated?.kind === 'projected') {
+    if (xIsLon && yIsLat) {
+      warnings.push(`${file}: ${stated.says}, yet every coordinate lies within ±180/±90; check that this is right.`);
+    }
+    return { coordinates: 'projected', coordinateEvidence: `${stated.says}; ${span}.`, warnings };
+  }
+  if (xIsLon && yIsLat) {
+    return {
+      coordinates: 'geographic',
+      coordinateEvidence:
+        `No coordinate system is stated; ${span}, all within ±180/±90, so they are read as longitude/latitude degrees ` +
+        '(distances on the sphere). If they are planar units, choose projected coordinates.',
+      warnings,
+    };
+  }
+  return {
+    coordinates: 'projected',
+    coordinateEvidence: `No coordinate system is stated; ${span}, beyond longitude/latitude ranges, so they are read as planar units.`,
+    warnings,
+  };
+}

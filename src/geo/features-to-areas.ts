@@ -1,0 +1,222 @@
+/**
+ * Turns parsed GeoJSON (from a .geojson file, a TopoJSON object or a shapefile) into validated areas.
+ * Coordinates are used in place as JSON.parse produced them (no copying of positions), so a layer of
+ * 90,000 polygons costs one pass over its numbers.
+ */
+import { InputError, listSome } from '../errors.js';
+import type { Area, AreaGeometry } from './types.js';
+import { featureLabel } from './feature-label.js';
+import { CROSSING_CHECK_MAX_VERTICES, ringIsClosed, ringSelfCrosses, ringSignedArea } from './ring-checks.js';
+
+/** Coordinate bounds gathered while validating: [minX, minY, maxX, maxY]. */
+export type Bounds = [number, number, number, number];
+
+export interface ConvertResult {
+  areas: Area[];
+  propertyNames: string[];
+  bounds: Bounds;
+  warnings: string[];
+}
+
+const SUPPORTED = 'only polygons (Polygon, MultiPolygon) and points (Point, or a MultiPoint of one point) are supported';
+
+interface FeatureContext {
+  file: string;
+  feature: number;
+  label: string;
+  bounds: Bounds;
+  crossings: string[];
+  longRings: number;
+}
+
+/** Accepts a FeatureCollection, a single Feature or a bare geometry. */
+export function featuresToAreas(root: unknown, file: string): ConvertResult {
+  const features = featureList(root, file);
+  const bounds: Bounds = [Infinity, Infinity, -Infinity, -Infinity];
+  const areas: Area[] = new Array(features.length);
+  const names = new Set<string>();
+  const crossings: string[] = [];
+  let longRings = 0;
+  let firstKind: { kind: AreaGeometry['kind']; feature: number } | null = null;
+
+  for (let i = 0; i < features.length; i++) {
+    const number = i + 1;
+    const f = features[i] as Record<string, unknown> | null;
+    if (f === null || typeof f !== 'object' || Array.isArray(f)) {
+      throw new InputError(`${file}: feature ${number} is not a GeoJSON Feature object.`, { file, feature: number });
+    }
+    if (f.type !== 'Feature') {
+      throw new InputError(
+        `${file}: feature ${number} has type ${JSON.stringify(f.type)} where "Feature" was expected.`,
+        { file, feature: number },
+      );
+    }
+    let properties = (f.properties ?? {}) as Record<string, unknown>;
+    if (typeof properties !== 'object' || Array.isArray(properties)) {
+      throw new InputError(`${file}: feature ${number} has properties that are not an object.`, { file, feature: number });
+    }
+    // The GeoJSON `id` member becomes the property "id" (unless one exists) so it can serve as join key.
+    if (f.id !== undefined && f.id !== null && !('id' in properties)) properties = { id: f.id, ...properties };
+    for (const key in properties) names.add(key);
+    const ctx: FeatureContext = { file, feature: number, label: featureLabel(number, properties, f.id), bounds, crossings, longRings: 0 };
+    const geometry = convertGeometry(f.geometry, ctx);
+    longRings += ctx.longRings;
+    if (geometry) {
+      if (!firstKind) firstKind = { kind: geometry.kind, feature: number };
+      else if (firstKind.kind !== geometry.kind) {
+        throw new InputError(
+          `${file}: ${ctx.label} is a ${geometry.kind} but feature ${firstKind.feature} is a ${firstKind.kind}; ` +
+            'a boundary file must hold only polygons or only points.',
+          { file, feature: number },
+        );
+      }
+    }
+    areas[i] = { feature: number, geometry, properties };
+  }
+  if (!firstKind) {
+    throw new InputError(`${file}: none of its ${features.length} features has a geometry.`, { file });
+  }
+  const warnings: string[] = [];
+  if (crossings.length > 0) {
+    warnings.push(
+      `${file}: ${crossings.length} feature(s) have a ring that crosses or touches itself: ${listSome(crossings)}. ` +
+        'Neighbours and centroids may be off for these; repairing the geometry in a GIS is advised.',
+    );
+  }
+  if (longRings > 0) {
+    warnings.push(`${file}: ${longRings} ring(s) have more than ${CROSSING_CHECK_MAX_VERTICES} vertices and were not checked for self-crossings.`);
+  }
+  return { areas, propertyNames: [...names], bounds, warnings };
+}
+
+function featureList(root: unknown, file: string): unknown[] {
+  if (root === null || typeof root !== 'object' || Array.isArray(root)) {
+    throw new InputError(`${file} is not a GeoJSON object (expected a FeatureCollection).`, { file });
+  }
+  const type = (root as { type?: unknown }).type;
+  if (type === 'FeatureCollection') {
+    const features = (root as { features?: unknown }).features;
+    if (!Array.isArray(features)) throw new InputError(`${file}: the FeatureCollection has no "features" list.`, { file });
+    if (features.length === 0) throw new InputError(`${file}: the FeatureCollection is empty (0 features).`, { file });
+    return features;
+  }
+  if (type === 'Feature') return [root];
+  if (typeof type === 'string' && GEOMETRY_TYPES.has(type)) return [{ type: 'Feature', properties: {}, geometry: root }];
+  throw new InputError(
+    `${file}: type ${JSON.stringify(type)} is not GeoJSON; expected a FeatureCollection, a Feature or a geometry.`,
+    { file },
+  );
+}
+
+const GEOMETRY_TYPES = new Set(['Point', 'MultiPoint', 'LineString', 'MultiLineString', 'Polygon', 'MultiPolygon', 'GeometryCollection']);
+
+function convertGeometry(g: unknown, ctx: FeatureContext): AreaGeometry | null {
+  if (g === null || g === undefined) return null;
+  const { file, feature, label } = ctx;
+  const type = (g as { type?: unknown }).type;
+  const coords = (g as { coordinates?: unknown }).coordinates;
+  switch (type) {
+    case 'Point':
+      return { kind: 'point', point: pointOf(coords, ctx, 'its point') };
+    case 'MultiPoint': {
+      if (!Array.isArray(coords)) throw bad(ctx, 'has a MultiPoint without a coordinates list');
+      if (coords.length === 0) return null;
+      if (coords.length > 1) {
+        throw new InputError(`${file}: ${label} is a MultiPoint of ${coords.length} points; ${SUPPORTED}.`, { file, feature });
+      }
+      return { kind: 'point', point: pointOf(coords[0], ctx, 'its point') };
+    }
+    case 'Polygon':
+      if (!Array.isArray(coords)) throw bad(ctx, 'has a Polygon without a coordinates list');
+      if (coords.length === 0) return null;
+      checkPolygon(coords, 0, false, ctx);
+      return { kind: 'polygon', polygons: [coords as number[][][]] };
+    case 'MultiPolygon': {
+      if (!Array.isArray(coords)) throw bad(ctx, 'has a MultiPolygon without a coordinates list');
+      const polygons = coords as unknown[];
+      if (polygons.length === 0) return null;
+      for (let p = 0; p < polygons.length; p++) checkPolygon(polygons[p], p, true, ctx);
+      return { kind: 'polygon', polygons: coords as number[][][][] };
+    }
+    default:
+      throw new InputError(
+        `${file}: ${label} is ${typeof type === 'string' ? `a ${type}` : 'not a known geometry'}; ${SUPPORTED}.`,
+        { file, feature },
+      );
+  }
+}
+
+function bad(ctx: FeatureContext, what: string): InputError {
+  return new InputError(`${ctx.file}: ${ctx.label} ${what}.`, { file: ctx.file, feature: ctx.feature });
+}
+
+function pointOf(p: unknown, ctx: FeatureContext, where: string): [number, number] {
+  checkPosition(p, ctx, where);
+  const q = p as number[];
+  return [q[0], q[1]];
+}
+
+function at(where: string, k: number): string {
+  return k < 0 ? where : `${where}, position ${k + 1}`;
+}
+
+/** Validates one position and widens the bounds; allocates nothing. */
+function checkPosition(p: unknown, ctx: FeatureContext, where: string, k = -1): void {
+  if (!Array.isArray(p) || p.length < 2) throw bad(ctx, `has a position that is not [x, y] at ${at(where, k)}`);
+  const x = p[0];
+  const y = p[1];
+  if (typeof x !== 'number' || typeof y !== 'number' || !Number.isFinite(x) || !Number.isFinite(y)) {
+    throw bad(ctx, `has a non-numeric or non-finite coordinate (${String(x)}, ${String(y)}) at ${at(where, k)}`);
+  }
+  const b = ctx.bounds;
+  if (x < b[0]) b[0] = x;
+  if (y < b[1]) b[1] = y;
+  if (x > b[2]) b[2] = x;
+  if (y > b[3]) b[3] = y;
+}
+
+function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: FeatureContext): void {
+  const partName = multi ? `polygon ${index + 1}, ` : '';
+  if (!Array.isArray(polygon) || polygon.length === 0) throw bad(ctx, `has ${partName || 'a polygon '}without rings`);
+  for (let r = 0; r < polygon.length; r++) {
+    const ring = polygon[r] as unknown;
+    const where = `${partName}ring ${r + 1}`;
+    if (!Array.isArray(ring)) throw bad(ctx, `has ${where} that is not a list of positions`);
+    if (ring.length < 4) {
+      throw bad(ctx, `has ${where} with ${ring.length} position(s); a closed ring needs at least 4 (the last repeating the first)`);
+    }
+    for (let k = 0; k < ring.length; k++) checkPosition(ring[k], ctx, where, k);
+    const positions = ring as number[][];
+    if (!ringIsClosed(positions)) {
+      const a = positions[0];
+      const z = positions[positions.length - 1];
+      throw bad(
+        ctx,
+        `has ${where} that is not closed: it starts at (${a[0]}, ${a[1]}) but ends at (${z[0]}, ${z[1]}). ` +
+          'Close the ring (repeat the first position at the end) in the program that wrote the file',
+      );
+    }
+    const last = positions[positions.length - 1];
+    last[0] = positions[0][0]; // closed within noise: make it exact so shared vertices compare equal
+    last[1] = positions[0][1];
+    if (r === 0 && isDegenerate(positions)) {
+      throw bad(ctx, `has ${where} with zero area (all its positions lie on a line or a point); remove or repair it`);
+    }
+    if (positions.length - 1 > CROSSING_CHECK_MAX_VERTICES) ctx.longRings++;
+    else if ((ctx.crossings.length === 0 || ctx.crossings[ctx.crossings.length - 1] !== ctx.label) && ringSelfCrosses(positions)) {
+      ctx.crossings.push(ctx.label);
+    }
+  }
+}
+
+function isDegenerate(ring: number[][]): boolean {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  for (const p of ring) {
+    if (p[0] < minX) minX = p[0];
+    if (p[0] > maxX) maxX = p[0];
+    if (p[1] < minY) minY = p[1];
+    if (p[1] > maxY) maxY = p[1];
+  }
+  const box = (maxX - minX) * (maxY - minY);
+  return box === 0 || Math.abs(ringSignedArea(ring)) <= 1e-12 * box;
+}

@@ -1,0 +1,9 @@
+/** Boundaries and the data table: reading, validating and joining them by ID. */
+export type { NamedBytes } from './named-bytes.js';
+export { readBoundary, type ReadBoundaryOptions } from './read-boundary.js';
+export { readTable } from './read-table.js';
+export { joinAreas, JoinError } from './join.js';
+export { numericColumn } from './numeric-column.js';
+export { subsetAreas, tableFromLayer } from './subset.js';
+export { representativePoints, greatCircleKm, planarDistance, EARTH_RADIUS_KM } from './points.js';
+export type * from './types.js';

@@ -1,0 +1,118 @@
+/** Entry point for boundary files: picks the reader from the file names (or the first bytes). */
+import { InputError } from '../errors.js';
+import type { AreaLayer, CoordinateKind } from './types.js';
+import type { NamedBytes } from './named-bytes.js';
+import { formatBytes, isZip, unzipBoundary } from './unzip.js';
+import { isTopology, layerFromGeoJson, layerFromTopology, parseJsonBytes } from './read-json-boundary.js';
+import { layerFromShapefile, type ShapefileParts } from './read-shapefile.js';
+
+export type { NamedBytes };
+
+export interface ReadBoundaryOptions {
+  /** TopoJSON object name, or the base name of one shapefile when several are given. */
+  layer?: string;
+  /** Cap on input size and on zip expansion; default 1 GiB. */
+  maxBytes?: number;
+  /** The analyst's statement of the coordinate kind, overriding what the file says or the ranges suggest. */
+  coordinates?: CoordinateKind;
+}
+
+const DEFAULT_MAX_BYTES = 2 ** 30;
+
+function extension(name: string): string {
+  const m = /\.([^./\\]+)$/.exec(name);
+  return m ? m[1].toLowerCase() : '';
+}
+
+function stem(name: string): string {
+  const base = name.split(/[/\\]/).pop() ?? name;
+  return base.replace(/\.[^.]*$/, '');
+}
+
+export async function readBoundary(files: NamedBytes[], opts: ReadBoundaryOptions = {}): Promise<AreaLayer> {
+  const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
+  if (files.length === 0) throw new InputError('No boundary file was given.');
+  let total = 0;
+  for (const f of files) {
+    if (!f.bytes || f.bytes.length === 0) throw new InputError(`${f.name} is empty (0 bytes).`, { file: f.name });
+    total += f.bytes.length;
+    if (total > maxBytes) {
+      throw new InputError(`${f.name}: the boundary files exceed the ${formatBytes(maxBytes)} size limit.`, { file: f.name });
+    }
+  }
+  const expanded: NamedBytes[] = [];
+  for (const f of files) {
+    if (isZip(f)) expanded.push(...unzipBoundary(f, maxBytes));
+    else expanded.push(f);
+  }
+  const zipName = files.length === 1 && isZip(files[0]) ? files[0].name : null;
+
+  const byExt = (ext: string) => expanded.filter((f) => extension(f.name) === ext);
+  const shps = byExt('shp');
+  const dbfs = byExt('dbf');
+  if (shps.length > 0 || dbfs.length > 0) return readShapefileSet(expanded, shps, dbfs, zipName, opts);
+
+  const jsons = expanded.filter((f) => ['geojson', 'json', 'topojson'].includes(extension(f.name)) || looksLikeJson(f.bytes));
+  if (jsons.length === 0) {
+    const names = files.map((f) => f.name).join(', ');
+    throw new InputError(
+      `${names}: not a boundary file this tool reads. Give GeoJSON (.geojson/.json), TopoJSON, ` +
+        'a shapefile set (.shp with .dbf, optionally .prj and .cpg) or a .zip holding one.',
+      { file: files[0].name },
+    );
+  }
+  let chosen = jsons[0];
+  if (jsons.length > 1) {
+    const named = opts.layer ? jsons.find((f) => stem(f.name) === opts.layer) : undefined;
+    if (!named) throw new InputError(`Several boundary files were given (${jsons.map((f) => f.name).join(', ')}); choose one.`);
+    chosen = named;
+  }
+  const root = parseJsonBytes(chosen.bytes, chosen.name);
+  return isTopology(root)
+    ? layerFromTopology(root, chosen.name, opts.layer, opts.coordinates)
+    : layerFromGeoJson(root, chosen.name, opts.coordinates);
+}
+
+function looksLikeJson(bytes: Uint8Array): boolean {
+  for (let i = 0; i < Math.min(bytes.length, 64); i++) {
+    const c = bytes[i];
+    if (c === 0x20 || c === 0x09 || c === 0x0a || c === 0x0d || c === 0xef || c === 0xbb || c === 0xbf) continue;
+    return c === 0x7b; // '{'
+  }
+  return false;
+}
+
+function readShapefileSet(
+  all: NamedBytes[],
+  shps: NamedBytes[],
+  dbfs: NamedBytes[],
+  zipName: string | null,
+  opts: ReadBoundaryOptions,
+): Promise<AreaLayer> {
+  const where = zipName ? `${zipName} holds` : 'The files given hold';
+  if (shps.length === 0) {
+    throw new InputError(`${where} ${dbfs.map((f) => f.name).join(', ')} but no .shp file with the shapes; add the .shp.`, { file: zipName ?? dbfs[0].name });
+  }
+  let shp = shps[0];
+  if (shps.length > 1) {
+    const named = opts.layer ? shps.find((f) => stem(f.name) === opts.layer) : undefined;
+    if (!named) {
+      throw new InputError(
+        `${where} several shapefiles (${shps.map((f) => stem(f.name)).join(', ')}); choose one by name.`,
+        { file: zipName ?? shp.name },
+      );
+    }
+    shp = named;
+  }
+  const base = stem(shp.name).toLowerCase();
+  const partner = (ext: string) => all.find((f) => extension(f.name) === ext && stem(f.name).toLowerCase() === base);
+  const dbf = partner('dbf') ?? (shps.length === 1 && dbfs.length === 1 ? dbfs[0] : undefined);
+  if (!dbf) {
+    throw new InputError(
+      `${where} ${shp.name} but no matching .dbf file with the attributes; a shapefile needs both (.shx, .prj and .cpg are optional).`,
+      { file: zipName ?? shp.name },
+    );
+  }
+  const parts: ShapefileParts = { shp, dbf, prj: partner('prj'), cpg: partner('cpg') };
+  return layerFromShapefile(parts, opts.coordinates);
+}

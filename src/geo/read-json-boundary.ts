@@ -1,0 +1,103 @@
+/** GeoJSON and TopoJSON boundary files. TopoJSON is decoded with topojson-client's `feature`. */
+import { feature } from 'topojson-client';
+import type { Topology } from 'topojson-specification';
+import { InputError } from '../errors.js';
+import type { AreaLayer, CoordinateKind } from './types.js';
+import { featuresToAreas } from './features-to-areas.js';
+import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
+
+export function parseJsonBytes(bytes: Uint8Array, file: string): unknown {
+  // TextDecoder drops a leading UTF-8 byte-order mark.
+  const text = new TextDecoder('utf-8').decode(bytes);
+  if (text.trim() === '') throw new InputError(`${file} is empty.`, { file });
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    const message = e instanceof Error ? e.message : String(e);
+    throw new InputError(`${file} is not valid JSON${jsonErrorPlace(text, message)}: ${message}.`, { file });
+  }
+}
+
+/** " at line 3, column 17" from the character position in the engine's message, when it gives one. */
+function jsonErrorPlace(text: string, message: string): string {
+  const lineCol = /line (\d+) column (\d+)/.exec(message);
+  if (lineCol) return ` at line ${lineCol[1]}, column ${lineCol[2]}`;
+  const pos = /position (\d+)/.exec(message);
+  if (pos) {
+    const at = Number(pos[1]);
+    let line = 1;
+    let lineStart = 0;
+    for (let i = 0; i < at && i < text.length; i++) {
+      if (text.charCodeAt(i) === 10) {
+        line++;
+        lineStart = i + 1;
+      }
+    }
+    return ` at line ${line}, column ${at - lineStart + 1}`;
+  }
+  if (/end of JSON input/i.test(message)) return ' (it ends too early; the file may be truncated)';
+  return '';
+}
+
+export function isTopology(root: unknown): root is Topology {
+  return !!root && typeof root === 'object' && (root as { type?: unknown }).type === 'Topology';
+}
+
+export function layerFromGeoJson(root: unknown, file: string, override?: CoordinateKind): AreaLayer {
+  const converted = featuresToAreas(root, file);
+  const claim = claimFromGeoJsonCrs(root, file);
+  const decision = decideCoordinates(converted.bounds, claim, file, override);
+  return {
+    sourceName: file,
+    areas: converted.areas,
+    propertyNames: converted.propertyNames,
+    coordinates: decision.coordinates,
+    coordinateEvidence: decision.coordinateEvidence,
+    warnings: [...converted.warnings, ...decision.warnings],
+  };
+}
+
+/** Decodes one object of a topology (the named one, else the first) into areas. */
+export function layerFromTopology(topology: Topology, file: string, layer?: string, override?: CoordinateKind): AreaLayer {
+  const objects = topology.objects && typeof topology.objects === 'object' ? topology.objects : {};
+  const names = Object.keys(objects);
+  if (names.length === 0) throw new InputError(`${file}: the TopoJSON file has no objects.`, { file });
+  const name = layer ?? names[0];
+  if (!(name in objects)) {
+    throw new InputError(`${file}: the TopoJSON file has no object "${name}"; it has ${names.map((n) => `"${n}"`).join(', ')}.`, { file });
+  }
+  let decoded: unknown;
+  try {
+    decoded = feature(topology, objects[name]);
+  } catch (e) {
+    throw new InputError(
+      `${file}: object "${name}" could not be decoded as TopoJSON (${e instanceof Error ? e.message : String(e)}).`,
+      { file },
+    );
+  }
+  const source = `${file} (object "${name}")`;
+  const converted = featuresToAreas(decoded, source);
+  let claim: CoordinateClaim | null = null;
+  const bbox = topology.bbox;
+  if (!override && Array.isArray(bbox) && bbox.length >= 4 && bbox.every((v) => Number.isFinite(v))) {
+    // The bbox is stated by the writer; inside degree ranges it counts as a claim of longitude/latitude.
+    // Outside them the ranges decide (so swapped axes are still caught).
+    const inDegrees = bbox[0] >= -180 && bbox[2] <= 180 && bbox[1] >= -90 && bbox[3] <= 90;
+    if (inDegrees) {
+      claim = {
+        kind: 'geographic',
+        says: `the TopoJSON bbox [${bbox.slice(0, 4).join(', ')}] lies within ±180/±90` +
+          (topology.transform ? ' (quantized coordinates, decoded with its transform)' : ''),
+      };
+    }
+  }
+  const decision = decideCoordinates(converted.bounds, claim, source, override);
+  return {
+    sourceName: source,
+    areas: converted.areas,
+    propertyNames: converted.propertyNames,
+    coordinates: decision.coordinates,
+    coordinateEvidence: decision.coordinateEvidence,
+    warnings: [...converted.warnings, ...decision.warnings],
+  };
+}

@@ -1,0 +1,17 @@
+/** Entry point for data tables: CSV/TSV text or an .xlsx workbook. */
+import { InputError } from '../errors.js';
+import type { DataTable } from './types.js';
+import type { NamedBytes } from './named-bytes.js';
+import { readCsv } from './read-csv.js';
+import { readXlsx } from './read-xlsx.js';
+
+export async function readTable(file: NamedBytes, opts: { sheet?: string } = {}): Promise<DataTable> {
+  const b = file.bytes;
+  if (!b || b.length === 0) throw new InputError(`${file.name} is empty (0 bytes).`, { file: file.name });
+  const isZipBytes = b.length >= 4 && b[0] === 0x50 && b[1] === 0x4b && b[2] === 0x03 && b[3] === 0x04;
+  if (/\.xlsx$|\.xlsm$/i.test(file.name) || isZipBytes) return readXlsx(b, file.name, opts.sheet);
+  if (/\.xls$/i.test(file.name) || (b[0] === 0xd0 && b[1] === 0xcf)) {
+    throw new InputError(`${file.name} is an old-style .xls workbook; save it as .xlsx or CSV and try again.`, { file: file.name });
+  }
+  return readCsv(b, file.name);
+}
