@@ -1,0 +1,34 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { Block, Cell, TableColumn } from './types.js';
+import { MODEL_LABEL, num } from './format.js';
+
+/** One row per area, keyed by ID, in the table's row order. */
+export function areasBlocks(result: AnalysisResult): Block[] {
+  const y = result.request.y;
+  const fits: { label: string; fitted: Float64Array; residuals: Float64Array; lag: Float64Array }[] = [
+    { label: MODEL_LABEL.ols, fitted: result.ols.fitted, residuals: result.ols.residuals, lag: result.olsResidualLag },
+  ];
+  if (result.lag) fits.push({ label: MODEL_LABEL.lag, fitted: result.lag.fitted, residuals: result.lag.residuals, lag: result.lag.residualLag });
+  if (result.error) fits.push({ label: MODEL_LABEL.error, fitted: result.error.fitted, residuals: result.error.residuals, lag: result.error.residualLag });
+  const columns: TableColumn[] = [
+    { header: 'Area ID', format: 'text', width: 14 },
+    { header: 'Table row', format: 'integer', width: 9 },
+    { header: `Observed ${y}`, format: 'decimal4', width: 14 },
+  ];
+  for (const f of fits) {
+    columns.push(
+      { header: `${f.label}: fitted`, format: 'decimal4', width: 14 },
+      { header: `${f.label}: residual`, format: 'decimal4', width: 14 },
+      { header: `${f.label}: neighbours' average residual`, format: 'decimal4', width: 16 },
+    );
+  }
+  const rows: Cell[][] = result.ids.map((id, i) => {
+    const row: Cell[] = [id, result.rows[i], num(result.y[i])];
+    for (const f of fits) row.push(num(f.fitted[i]), num(f.residuals[i]), num(f.lag[i]));
+    return row;
+  });
+  return [{
+    kind: 'table', title: `Each area: observed ${y}, fitted values and residuals`, columns, rows,
+    note: "The neighbours' average residual is the spatial lag of the residual: the weighted sum of the neighbours' residuals under the weights used.",
+  }];
+}

@@ -1,0 +1,39 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import { say } from './format.js';
+
+/** Plain-language cautions that belong beside every result. */
+export function cautions(result: AnalysisResult): string[] {
+  const list = [
+    'These figures describe association, not cause: a coefficient says how the outcome and an explanatory column move together across areas, not what would happen if one were changed.',
+    'Results are about areas, not people. A pattern across areas need not hold for the individuals living in them (the ecological fallacy).',
+    `The spatial results depend on how neighbours were defined (here: ${result.weights.description}). Another reasonable definition can give different numbers; it is worth trying one.`,
+    'Rates for areas with few people or few events swing widely by chance; treat extreme values in small areas with care.',
+    'People who know these places may know reasons for a pattern that the data do not show. Their judgement should weigh alongside these numbers.',
+  ];
+  if (result.n < 30) list.push(`With only ${result.n} areas the tests have little power and the large-sample p-values are rough.`);
+  return list;
+}
+
+/** Warnings from every stage, plus our own readings of the numbers, without repeats. */
+export function collectWarnings(result: AnalysisResult): string[] {
+  const out: string[] = [...result.warnings, ...result.ols.warnings];
+  for (const fit of [result.lag, result.error]) {
+    if (!fit) continue;
+    out.push(...fit.warnings);
+    const label = fit.model === 'lag' ? 'spatial lag model' : 'spatial error model';
+    if (!fit.convergence.converged) out.push(`The ${label} did not converge: ${fit.convergence.message}. Its estimates are not reliable.`);
+    if (fit.convergence.atBound) {
+      out.push(`The ${label}'s spatial parameter ended at the ${fit.convergence.atBound} end of its admissible range (${say(fit.range.lower)} to ${say(fit.range.upper)}); the model may not suit these data or this neighbour definition.`);
+    }
+  }
+  // A condition number above 30 signals troublesome collinearity: common practice.
+  if (result.ols.conditionNumber > 30) {
+    out.push(`The explanatory columns are strongly related to each other (condition number ${say(result.ols.conditionNumber)}, above the usual threshold of 30): individual coefficients may be unstable.`);
+  }
+  if (result.weights.islands.length) {
+    out.push(`${result.weights.islands.length} area(s) have no neighbours under this definition: ${result.weights.islands.slice(0, 10).join(', ')}${result.weights.islands.length > 10 ? ' …' : ''}.`);
+  }
+  if (result.weights.components > 1) out.push(`The neighbour links split the areas into ${result.weights.components} separate groups.`);
+  if (result.droppedRows.length) out.push(`${result.droppedRows.length} row(s) with missing values were left out; the list is on the run record sheet.`);
+  return [...new Set(out)];
+}

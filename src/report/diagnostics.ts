@@ -1,0 +1,73 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { TestResult } from '../models/types.js';
+import type { Block, Cell, TableColumn } from './types.js';
+import { MODEL_LABEL, num } from './format.js';
+
+const TEST_COLUMNS: TableColumn[] = [
+  { header: 'Check', format: 'text', width: 44 },
+  { header: 'Statistic', format: 'decimal4', width: 12 },
+  { header: 'Degrees of freedom', format: 'integer', width: 10 },
+  { header: 'p-value', format: 'pvalue', width: 11 },
+  { header: 'What it asks', format: 'text', width: 90 },
+];
+
+function testRow(label: string, t: TestResult | undefined, meaning: string): Cell[] {
+  return [label, num(t?.stat), num(t?.df), num(t?.p), meaning];
+}
+
+/** The five Lagrange-multiplier tests on the plain regression's residuals, one plain sentence each. */
+export function lmTestRows(result: AnalysisResult): Cell[][] {
+  const lm = result.ols.lm;
+  return [
+    testRow('Lagrange multiplier: error dependence', lm.error, 'Are the unexplained parts of neighbouring areas alike (spatial error)?'),
+    testRow('Lagrange multiplier: lag dependence', lm.lag, "Does an area's outcome move with its neighbours' outcomes (spatial lag)?"),
+    testRow('Robust Lagrange multiplier: error dependence', lm.robustError, 'Is there error dependence once a possible lag dependence is allowed for?'),
+    testRow('Robust Lagrange multiplier: lag dependence', lm.robustLag, 'Is there lag dependence once a possible error dependence is allowed for?'),
+    testRow('Lagrange multiplier: lag and error together', lm.joint, 'Is there spatial dependence of either kind?'),
+  ];
+}
+
+export function lmTable(result: AnalysisResult, title: string): Block {
+  return { kind: 'table', title, columns: TEST_COLUMNS, rows: lmTestRows(result), note: 'Small p-values are evidence of the dependence the test asks about.' };
+}
+
+export function diagnosticsBlocks(result: AnalysisResult): Block[] {
+  const o = result.ols;
+  const m = o.moran;
+  const blocks: Block[] = [
+    { kind: 'title', text: 'Checks on the residuals of the plain regression' },
+    {
+      kind: 'table', title: 'Shape, spread and overlap', columns: TEST_COLUMNS,
+      rows: [
+        testRow('Jarque–Bera test of normality', o.jarqueBera, 'Do the residuals look normally distributed? A small p says no.'),
+        testRow('Breusch–Pagan test of constant variance', o.breuschPagan, 'Does the spread of the residuals change with the explanatory columns? A small p says yes.'),
+        testRow('Koenker–Bassett test of constant variance', o.koenkerBassett, 'The same question as Breusch–Pagan, robust to non-normal residuals.'),
+        ['Condition number of the explanatory columns', num(o.conditionNumber), null, null,
+          'How strongly the explanatory columns overlap; above 30 individual coefficients become unstable (common practice).'],
+      ],
+    },
+    {
+      kind: 'table', title: "Moran's I of the residuals",
+      columns: [
+        { header: "Moran's I", format: 'decimal4', width: 12 },
+        { header: 'Expected if no pattern', format: 'decimal4', width: 12 },
+        { header: 'Variance', format: 'scientific', width: 12 },
+        { header: 'z-value', format: 'decimal4', width: 10 },
+        { header: 'p-value', format: 'pvalue', width: 11 },
+      ],
+      rows: [[num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
+      note: 'Are residuals of neighbouring areas more alike (positive I) or less alike (negative I) than chance would give? The p-value is two-sided, from the normal approximation.',
+    },
+    lmTable(result, 'Lagrange-multiplier tests for spatial dependence'),
+  ];
+  for (const fit of [result.lag, result.error]) {
+    if (!fit) continue;
+    const rows: Cell[][] = [
+      testRow('Breusch–Pagan test of constant variance', fit.breuschPagan, 'Does the spread of the residuals change with the explanatory columns?'),
+    ];
+    if (fit.lmRemainingError) rows.push(testRow('Lagrange multiplier: remaining error dependence', fit.lmRemainingError, 'Is error dependence left over after the spatial lag is modelled?'));
+    if (fit.lmRemainingLag) rows.push(testRow('Lagrange multiplier: remaining lag dependence', fit.lmRemainingLag, 'Is lag dependence left over after the spatial error is modelled?'));
+    blocks.push({ kind: 'table', title: `Checks on the ${MODEL_LABEL[fit.model].toLowerCase()}`, columns: TEST_COLUMNS, rows });
+  }
+  return blocks;
+}

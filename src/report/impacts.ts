@@ -1,0 +1,37 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { Block, Cell } from './types.js';
+import { num, say, sayP } from './format.js';
+
+/** Direct, indirect and total impacts of the lag model, with one careful sentence per regressor. */
+export function impactsBlocks(result: AnalysisResult): Block[] {
+  const im = result.impacts;
+  if (!im || !result.lag) return [];
+  const y = result.request.y;
+  const col = (header: string, format: 'decimal4' | 'pvalue') => ({ header, format, width: 12 });
+  const blocks: Block[] = [
+    { kind: 'title', text: 'Spillover effects in the spatial lag model' },
+    {
+      kind: 'paragraph', style: 'note',
+      text: `In the lag model a change in one area reaches the other areas through the neighbour links. The figures split each column's association with ${y} into the part in the area itself (direct), the part spread over all other areas (indirect) and their sum (total), averaged over the areas.`,
+    },
+    {
+      kind: 'table', title: 'Direct, indirect and total effects',
+      columns: [
+        { header: 'Explanatory column', format: 'text', width: 30 },
+        col('Direct', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
+        col('Indirect', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
+        col('Total', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
+      ],
+      rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP),
+        num(m.total), num(m.totalSe), num(m.totalP)]),
+      note: `Standard errors and p-values come from ${im.draws} simulated draws (seed ${im.seed}); method: ${im.method}.`,
+    },
+  ];
+  for (const m of im.impacts) {
+    blocks.push({
+      kind: 'paragraph', style: 'interpretation',
+      text: `A one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}). This describes how the figures move together in the model, not what a change would cause.`,
+    });
+  }
+  return blocks;
+}

@@ -1,0 +1,38 @@
+/** The report model: one run's results as sheet-shaped blocks, for any host to lay out. */
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { BuildReportOptions, Report, ReportSheet } from './types.js';
+import { overviewBlocks } from './overview.js';
+import { olsBlocks, spatialBlocks } from './model-tables.js';
+import { diagnosticsBlocks } from './diagnostics.js';
+import { impactsBlocks } from './impacts.js';
+import { areasBlocks } from './areas.js';
+import { neighboursBlocks } from './neighbours.js';
+import { recordBlocks } from './record.js';
+import { layoutBlocks } from './layout.js';
+import { overviewPictures } from './pictures-for-report.js';
+import { MODEL_LABEL } from './format.js';
+
+export type {
+  Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
+} from './types.js';
+export { blockHeight, layoutBlocks, BLOCK_GAP, ROW_HEIGHT_PX } from './layout.js';
+export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';
+export { interpretation } from './interpretation.js';
+export * from './pictures/index.js';
+
+export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {
+  const overview = overviewBlocks(result, opts.title);
+  const sheets: ReportSheet[] = [
+    { name: 'Summary', role: 'overview', blocks: overview, images: overviewPictures(result, layoutBlocks(overview).lastRow + 2, opts.renderPng) },
+    { name: MODEL_LABEL.ols, role: 'model', blocks: olsBlocks(result) },
+  ];
+  if (result.lag) sheets.push({ name: MODEL_LABEL.lag, role: 'model', blocks: spatialBlocks(result, result.lag) });
+  if (result.error) sheets.push({ name: MODEL_LABEL.error, role: 'model', blocks: spatialBlocks(result, result.error) });
+  sheets.push({ name: 'Checks on residuals', role: 'diagnostics', blocks: diagnosticsBlocks(result) });
+  const impacts = impactsBlocks(result);
+  if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
+  sheets.push({ name: 'By area', role: 'areas', blocks: areasBlocks(result), freezeHeader: true });
+  sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
+  sheets.push({ name: 'How this was made', role: 'record', blocks: recordBlocks(result) });
+  return { sheets };
+}

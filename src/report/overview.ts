@@ -1,0 +1,78 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { Block, Cell } from './types.js';
+import { MODEL_LABEL, num, question } from './format.js';
+import { cautions, collectWarnings } from './cautions.js';
+import { interpretation } from './interpretation.js';
+import { lmTable } from './diagnostics.js';
+
+const CHOICE_LABEL = {
+  lag: MODEL_LABEL.lag,
+  error: MODEL_LABEL.error,
+  ols: `${MODEL_LABEL.ols} (no spatial model needed)`,
+  either: 'Either spatial model (the tests do not separate them)',
+} as const;
+
+function comparisonRows(result: AnalysisResult): Cell[][] {
+  const o = result.ols;
+  const rows: Cell[][] = [[MODEL_LABEL.ols, num(o.logLik), num(o.aic), num(o.schwarz), null, null, null, null, null, num(o.r2)]];
+  for (const fit of [result.lag, result.error]) {
+    if (!fit) continue;
+    rows.push([MODEL_LABEL[fit.model], num(fit.logLik), num(fit.aic), num(fit.schwarz), num(fit.lr.stat), num(fit.lr.p),
+      num(fit.parameter), num(fit.parameterSe), num(fit.parameterP), num(fit.pseudoR2)]);
+  }
+  return rows;
+}
+
+export function overviewBlocks(result: AnalysisResult, title?: string): Block[] {
+  const r = result.request;
+  const blocks: Block[] = [
+    { kind: 'title', text: title ?? `Spatial regression: ${question(r.y, r.x)}` },
+    {
+      kind: 'keyValues', title: 'The analysis',
+      rows: [
+        ['Question', question(r.y, r.x), 'text'],
+        ['Areas analysed', result.n, 'integer'],
+        ['Rows left out for missing values', result.droppedRows.length, 'integer'],
+        ['Neighbour definition', result.weights.description, 'text'],
+        ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],
+        ['Areas without neighbours', result.weights.islands.length, 'integer'],
+      ],
+    },
+    { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },
+    {
+      kind: 'table', title: 'How the models compare',
+      columns: [
+        { header: 'Model', format: 'text', width: 26 },
+        { header: 'Log-likelihood', format: 'decimal4', width: 14 },
+        { header: 'AIC', format: 'decimal4', width: 12 },
+        { header: 'Schwarz criterion', format: 'decimal4', width: 12 },
+        { header: 'Likelihood ratio against plain regression', format: 'decimal4', width: 14 },
+        { header: 'p-value of the ratio', format: 'pvalue', width: 11 },
+        { header: 'Spatial parameter', format: 'decimal4', width: 12 },
+        { header: 'Its standard error', format: 'decimal4', width: 12 },
+        { header: 'Its p-value', format: 'pvalue', width: 11 },
+        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 12 },
+      ],
+      rows: comparisonRows(result),
+      note: 'Higher log-likelihood and lower AIC or Schwarz values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+    },
+    lmTable(result, 'Evidence of spatial dependence in the plain regression'),
+    {
+      kind: 'keyValues', title: 'Suggested model',
+      rows: [
+        ['Suggestion', CHOICE_LABEL[result.ols.recommendation.choice], 'text'],
+        ['Why', result.ols.recommendation.text, 'text'],
+        ['Rule applied', result.ols.recommendation.rule, 'text'],
+        ['Significance level used', result.ols.recommendation.alpha, 'decimal2'],
+      ],
+    },
+    { kind: 'title', text: 'Before drawing conclusions' },
+    ...cautions(result).map((text): Block => ({ kind: 'paragraph', text, style: 'caution' })),
+  ];
+  const warnings = collectWarnings(result);
+  if (warnings.length) {
+    blocks.push({ kind: 'title', text: 'Warnings from this run' });
+    for (const text of warnings) blocks.push({ kind: 'paragraph', text, style: 'note' });
+  }
+  return blocks;
+}

@@ -1,0 +1,96 @@
+import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
+import { type Classes, NO_VALUE, colourOf, quantileClasses, symmetricClasses } from './classes.js';
+import { fitFrame, pathOf } from './projection.js';
+import { c1, label, svgDocument, text, wrapWords } from './svg.js';
+
+export interface ChoroplethInput {
+  title: string;
+  /** what the values are, for the legend heading */
+  valueName: string;
+  geometries: readonly AreaGeometry[];
+  values: ArrayLike<number>;
+  coordinates: CoordinateKind;
+  /** diverging: centred at 0 (residuals); sequential: quantile classes (levels) */
+  scale: 'diverging' | 'sequential';
+}
+
+export interface Picture {
+  svg: string;
+  widthPx: number;
+  heightPx: number;
+  /** the legend in words, for screen readers and the sheet's alt text */
+  alt: string;
+}
+
+const MAP_W = 520, MAP_H = 520, LEGEND_W = 230, TOP = 40;
+
+/** A "nice" length (1, 2 or 5 × a power of ten) not longer than `max`. */
+function niceLength(max: number): number {
+  const p = Math.pow(10, Math.floor(Math.log10(max)));
+  for (const m of [5, 2, 1]) if (m * p <= max) return m * p;
+  return p;
+}
+
+function legend(c: Classes, valueName: string, x: number, y: number, hasMissing: boolean): { body: string[]; bottom: number; lines: string[] } {
+  const body: string[] = [text(x, y, valueName, 'font-size="13" font-weight="bold"')];
+  const lines: string[] = [];
+  let yy = y + 12;
+  // highest class on top, as readers expect
+  for (let i = c.colours.length - 1; i >= 0; i--) {
+    const lo = c.breaks[i], hi = c.breaks[i + 1];
+    const s = `${label(lo)} to ${label(hi)}`;
+    lines.push(s);
+    body.push(`<rect x="${x}" y="${yy}" width="22" height="16" fill="${c.colours[i]}" stroke="#666666" stroke-width="0.5"/>`);
+    body.push(text(x + 30, yy + 12.5, s, 'font-size="12"'));
+    yy += 20;
+  }
+  if (hasMissing) {
+    body.push(`<rect x="${x}" y="${yy}" width="22" height="16" fill="${NO_VALUE}" stroke="#666666" stroke-width="0.5"/>`);
+    body.push(text(x + 30, yy + 12.5, 'no value', 'font-size="12"'));
+    yy += 20;
+  }
+  yy += 8;
+  for (const l of wrapWords(`Classes: ${c.method}.`, 32)) { body.push(text(x, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
+  return { body, bottom: yy, lines };
+}
+
+/** A filled map of one value per area, with legend; a scale bar only for projected coordinates. */
+export function choroplethSvg(input: ChoroplethInput): Picture {
+  const classes = input.scale === 'diverging' ? symmetricClasses(input.values) : quantileClasses(input.values);
+  const frame = fitFrame(input.geometries, input.coordinates, MAP_W, MAP_H);
+  const body: string[] = [text(10, 24, input.title, 'font-size="16" font-weight="bold"')];
+  body.push(`<g transform="translate(0 ${TOP})" stroke="#ffffff" stroke-width="0.6" stroke-linejoin="round" fill-rule="evenodd">`);
+  let missing = false;
+  for (let i = 0; i < input.geometries.length; i++) {
+    const g = input.geometries[i];
+    const v = input.values[i];
+    if (!Number.isFinite(v)) missing = true;
+    const fill = colourOf(classes, v);
+    if (g.kind === 'point') {
+      body.push(`<circle cx="${c1(frame.x(g.point[0], g.point[1]))}" cy="${c1(frame.y(g.point[0], g.point[1]))}" r="4" fill="${fill}" stroke="#555555"/>`);
+    } else {
+      body.push(`<path d="${pathOf(g, frame, c1)}" fill="${fill}"/>`);
+    }
+  }
+  body.push('</g>');
+  // outline the map area so pale classes stay visible on white
+  body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
+
+  let bottom = TOP + frame.height;
+  if (input.coordinates === 'projected') {
+    const units = niceLength((frame.width * 0.3) / frame.scale);
+    const px = units * frame.scale;
+    const y = bottom + 18, x = 12;
+    body.push(`<path d="M${x} ${y - 5}V${y}H${c1(x + px)}V${y - 5}" fill="none" stroke="#333333" stroke-width="1.5"/>`);
+    body.push(text(x + px + 8, y + 1, `${units.toLocaleString('en-US')} in map units`, 'font-size="11" fill="#333333"'));
+    bottom = y + 10;
+  }
+  const lx = Math.max(frame.width, 200) + 20;
+  const leg = legend(classes, input.valueName, lx, TOP + 8, missing);
+  body.push(...leg.body);
+  const width = lx + LEGEND_W;
+  const height = Math.ceil(Math.max(bottom, leg.bottom) + 12);
+  const alt = `${input.title}. ${input.valueName} in classes ${leg.lines.join('; ')} (${classes.method}).`;
+  return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt };
+}
+

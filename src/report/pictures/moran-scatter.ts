@@ -1,0 +1,86 @@
+import type { Picture } from './choropleth.js';
+import { c1, escapeXml, svgDocument, text } from './svg.js';
+
+export interface Edges {
+  from: Int32Array;
+  to: Int32Array;
+  weight: Float64Array;
+}
+
+export interface ScatterData {
+  /** standardised values (mean 0, population sd 1), areas without neighbours left out */
+  z: Float64Array;
+  /** neighbours' weighted average of z, with each area's weights rescaled to sum to 1 */
+  lag: Float64Array;
+  /** least-squares slope of lag on z through the origin: Moran's I under row-standardised weights */
+  slope: number;
+  leftOut: number;
+}
+
+/**
+ * Points of a Moran scatter plot. The slope z'Lz / z'z of the row-standardised lag on z equals
+ * Moran's I with row-standardised weights (Anselin 1996, "The Moran scatterplot as an ESDA tool").
+ */
+export function moranScatterData(values: ArrayLike<number>, edges: Edges): ScatterData {
+  const n = values.length;
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += values[i];
+  mean /= n;
+  let ss = 0;
+  for (let i = 0; i < n; i++) ss += (values[i] - mean) ** 2;
+  const sd = Math.sqrt(ss / n) || 1;
+  const z = Float64Array.from({ length: n }, (_, i) => (values[i] - mean) / sd);
+  const sum = new Float64Array(n), wsum = new Float64Array(n);
+  for (let e = 0; e < edges.from.length; e++) {
+    sum[edges.from[e]] += edges.weight[e] * z[edges.to[e]];
+    wsum[edges.from[e]] += edges.weight[e];
+  }
+  const keep: number[] = [];
+  for (let i = 0; i < n; i++) if (wsum[i] > 0) keep.push(i);
+  const zk = Float64Array.from(keep, (i) => z[i]);
+  const lk = Float64Array.from(keep, (i) => sum[i] / wsum[i]);
+  let num = 0, den = 0;
+  for (let i = 0; i < zk.length; i++) { num += zk[i] * lk[i]; den += zk[i] * zk[i]; }
+  return { z: zk, lag: lk, slope: den > 0 ? num / den : 0, leftOut: n - keep.length };
+}
+
+const SIZE = 460, M = { left: 62, right: 20, top: 44, bottom: 70 };
+
+export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel: string): Picture {
+  const W = M.left + SIZE + M.right, H = M.top + SIZE + M.bottom;
+  let ext = 1;
+  for (let i = 0; i < data.z.length; i++) ext = Math.max(ext, Math.abs(data.z[i]), Math.abs(data.lag[i]));
+  ext = Math.ceil(ext * 1.1 * 2) / 2;
+  const sx = (v: number) => M.left + ((v + ext) / (2 * ext)) * SIZE;
+  const sy = (v: number) => M.top + ((ext - v) / (2 * ext)) * SIZE;
+  const title = `Moran scatter plot of ${valueName}`;
+  const body: string[] = [text(10, 24, title, 'font-size="16" font-weight="bold"')];
+  body.push(`<rect x="${M.left}" y="${M.top}" width="${SIZE}" height="${SIZE}" fill="#fbfbfb" stroke="#999999"/>`);
+  // ticks every whole unit of standard deviation
+  for (let t = -Math.floor(ext); t <= Math.floor(ext); t++) {
+    body.push(`<path d="M${c1(sx(t))} ${M.top + SIZE}v5M${M.left} ${c1(sy(t))}h-5" stroke="#999999"/>`);
+    const tl = String(t).replace('-', '−');
+    body.push(text(sx(t), M.top + SIZE + 18, tl, 'font-size="11" text-anchor="middle" fill="#333333"'));
+    body.push(text(M.left - 8, sy(t) + 4, tl, 'font-size="11" text-anchor="end" fill="#333333"'));
+  }
+  body.push(`<path d="M${c1(sx(0))} ${M.top}V${M.top + SIZE}M${M.left} ${c1(sy(0))}H${M.left + SIZE}" stroke="#777777" stroke-dasharray="4 3"/>`);
+  const q = 'font-size="11" fill="#777777"';
+  body.push(text(M.left + SIZE - 6, M.top + 16, 'high beside high', `${q} text-anchor="end"`));
+  body.push(text(M.left + 6, M.top + SIZE - 8, 'low beside low', q));
+  body.push(text(M.left + 6, M.top + 16, 'low beside high', q));
+  body.push(text(M.left + SIZE - 6, M.top + SIZE - 8, 'high beside low', `${q} text-anchor="end"`));
+  for (let i = 0; i < data.z.length; i++) {
+    body.push(`<circle cx="${c1(sx(data.z[i]))}" cy="${c1(sy(data.lag[i]))}" r="3.5" fill="#2f6ea5" fill-opacity="0.55" stroke="#1b4470" stroke-width="0.6"/>`);
+  }
+  // the fitted line through the origin, clipped to the plot square
+  const b = data.slope;
+  const xe = Math.abs(b) > 1 ? ext / Math.abs(b) : ext;
+  body.push(`<path d="M${c1(sx(-xe))} ${c1(sy(-xe * b))}L${c1(sx(xe))} ${c1(sy(xe * b))}" stroke="#c0601a" stroke-width="2.2"/>`);
+  body.push(text(M.left + SIZE / 2, M.top + SIZE + 40, `${valueName}, standardised`, 'font-size="13" text-anchor="middle"'));
+  const yl = `neighbours' average of standardised ${valueName}`;
+  body.push(`<text x="18" y="${M.top + SIZE / 2}" font-family="sans-serif" font-size="13" text-anchor="middle" transform="rotate(-90 18 ${M.top + SIZE / 2})">${escapeXml(yl)}</text>`);
+  const foot = data.leftOut ? `${slopeLabel}. ${data.leftOut} area(s) without neighbours not shown.` : `${slopeLabel}.`;
+  body.push(text(10, H - 10, foot, 'font-size="12" fill="#c0601a"'));
+  const alt = `${title}: each area's standardised ${valueName} against its neighbours' average; ${foot}`;
+  return { svg: svgDocument(W, H, body, title), widthPx: W, heightPx: H, alt };
+}

@@ -1,0 +1,92 @@
+import type { AnalysisResult } from '../pipeline/types.js';
+import type { Block, Cell, NumberFormat } from './types.js';
+import { MODEL_LABEL } from './format.js';
+
+/** The weights request in plain words, e.g. "queen contiguity, order 2 (with lower orders)". */
+export function describeWeightsRequest(w: AnalysisResult['request']['weights']): string {
+  switch (w.method) {
+    case 'queen':
+    case 'rook': {
+      const parts = [`${w.method} contiguity`];
+      if (w.order && w.order > 1) parts.push(`order ${w.order}${w.includeLowerOrders ? ' (with lower orders)' : ''}`);
+      if (w.tolerance !== undefined) parts.push(`snapping tolerance ${w.tolerance}`);
+      return parts.join(', ');
+    }
+    case 'knn': return `${w.k} nearest neighbours`;
+    case 'band': return `all areas within distance ${w.distance}`;
+    case 'idw': return `inverse distance to the power ${w.power}${w.cutoff !== undefined ? `, up to distance ${w.cutoff}` : ''}`;
+    case 'edge-list': return `edge list from ${w.source}`;
+  }
+}
+
+/** What went in and how it was run, so the result can be reproduced and checked. */
+export function recordBlocks(result: AnalysisResult): Block[] {
+  const r = result.request;
+  const kv = (label: string, value: Cell, format: NumberFormat = 'text'): [string, Cell, NumberFormat] => [label, value, format];
+  const blocks: Block[] = [
+    { kind: 'title', text: 'How these results were made' },
+    {
+      kind: 'table', title: 'Input files',
+      columns: [
+        { header: 'Role', format: 'text', width: 12 },
+        { header: 'File', format: 'text', width: 30 },
+        { header: 'Size in bytes', format: 'integer', width: 14 },
+        { header: 'SHA-256 fingerprint', format: 'text', width: 68 },
+      ],
+      rows: result.inputs.map((f): Cell[] => [f.role, f.name, f.bytes, f.sha256]),
+      note: 'The fingerprint changes if a single byte of the file changes; compare it to check that a file is the one used here.',
+    },
+    {
+      kind: 'keyValues', title: 'Settings',
+      rows: [
+        kv('Sheet read', r.sheet ?? '(first sheet, or not a workbook)'),
+        kv('ID column', r.id),
+        kv('Outcome column', r.y),
+        kv('Explanatory columns', r.x.join(', ')),
+        kv('Neighbour definition asked for', describeWeightsRequest(r.weights)),
+        kv('Neighbour definition used', result.weights.description),
+        kv('Weights transform', r.transform),
+        kv('Models fitted', r.models.map((m) => MODEL_LABEL[m]).join(', ')),
+        kv('Robust standard errors asked for', r.robust),
+        kv('Rows with missing values left out', r.dropMissing),
+        kv('Random seed', r.seed, 'integer'),
+        kv('Simulated draws for spillover effects', r.impactDraws, 'integer'),
+        kv('Random permutations for Moran\'s I', r.permutations, 'integer'),
+        kv('Log-determinant method', result.algebra.logDeterminant),
+        kv('Log-determinant accuracy', result.algebra.accuracy),
+        kv('Trace computation', result.algebra.traces),
+        kv('Admissible parameter range', `${result.algebra.range.lower} to ${result.algebra.range.upper} (${result.algebra.range.method})`),
+        kv('Coordinates', `${result.coordinates}: ${result.coordinateEvidence}`),
+        kv('Engine version', result.engineVersion),
+        kv('Made at', result.createdAt),
+      ],
+    },
+    {
+      kind: 'keyValues', title: 'Matching the table to the boundaries',
+      rows: [
+        kv('Table rows without a matching area', result.join.unmatchedRows.length, 'integer'),
+        kv('Areas without a matching table row', result.join.unmatchedFeatures.length, 'integer'),
+        kv('IDs repeated in the table', result.join.duplicateRows.length, 'integer'),
+        kv('IDs repeated in the boundaries', result.join.duplicateFeatures.length, 'integer'),
+        kv('Matched areas without a shape', result.join.withoutGeometry.length, 'integer'),
+        kv('IDs that differ only by leading zeros', result.join.zeroPaddingSuspects.length, 'integer'),
+      ],
+    },
+  ];
+  if (result.droppedRows.length) {
+    blocks.push({
+      kind: 'table', title: 'Rows left out for missing values',
+      columns: [{ header: 'Table row', format: 'integer', width: 10 }, { header: 'Area ID', format: 'text', width: 14 }, { header: 'Missing in', format: 'text', width: 40 }],
+      rows: result.droppedRows.map((d): Cell[] => [d.row, d.id, d.columns.join(', ')]),
+    });
+  }
+  const timings = Object.entries(result.timings);
+  if (timings.length) {
+    blocks.push({
+      kind: 'table', title: 'Time taken',
+      columns: [{ header: 'Stage', format: 'text', width: 20 }, { header: 'Milliseconds', format: 'integer', width: 14 }],
+      rows: timings.map(([k, v]): Cell[] => [k, v]),
+    });
+  }
+  return blocks;
+}
