@@ -27,16 +27,33 @@ interface FeatureContext {
   bounds: Bounds;
   crossings: string[];
   longRings: number;
+  droppedParts: number;
+  keepFlat: boolean;
+  flat: boolean;
+  step: [number, number] | null;
+  closed: number;
 }
 
 /** Accepts a FeatureCollection, a single Feature or a bare geometry. */
-export function featuresToAreas(root: unknown, file: string): ConvertResult {
+export interface ConvertOptions {
+  /** Keep features whose whole polygon has zero area (with a warning) instead of refusing them.
+   *  Used for quantized TopoJSON, where a small area can collapse onto a line at the chosen grid. */
+  keepFlatFeatures?: boolean;
+  /** Grid step [dx, dy] of quantized TopoJSON: a ring whose ends are within one step is closed by
+   *  repeating its first position, with a warning (the arcs of such files can miss by one step). */
+  closeWithinStep?: [number, number];
+}
+
+export function featuresToAreas(root: unknown, file: string, opts: ConvertOptions = {}): ConvertResult {
   const features = featureList(root, file);
   const bounds: Bounds = [Infinity, Infinity, -Infinity, -Infinity];
   const areas: Area[] = new Array(features.length);
   const names = new Set<string>();
   const crossings: string[] = [];
   let longRings = 0;
+  const dropped: string[] = [];
+  const flat: string[] = [];
+  const closedRings: string[] = [];
   let firstKind: { kind: AreaGeometry['kind']; feature: number } | null = null;
 
   for (let i = 0; i < features.length; i++) {
@@ -58,9 +75,12 @@ export function featuresToAreas(root: unknown, file: string): ConvertResult {
     // The GeoJSON `id` member becomes the property "id" (unless one exists) so it can serve as join key.
     if (f.id !== undefined && f.id !== null && !('id' in properties)) properties = { id: f.id, ...properties };
     for (const key in properties) names.add(key);
-    const ctx: FeatureContext = { file, feature: number, label: featureLabel(number, properties, f.id), bounds, crossings, longRings: 0 };
+    const ctx: FeatureContext = { file, feature: number, label: featureLabel(number, properties, f.id), bounds, crossings, longRings: 0, droppedParts: 0, keepFlat: !!opts.keepFlatFeatures, flat: false, step: opts.closeWithinStep ?? null, closed: 0 };
     const geometry = convertGeometry(f.geometry, ctx);
     longRings += ctx.longRings;
+    if (ctx.droppedParts > 0) dropped.push(ctx.label);
+    if (ctx.flat) flat.push(ctx.label);
+    if (ctx.closed > 0) closedRings.push(ctx.label);
     if (geometry) {
       if (!firstKind) firstKind = { kind: geometry.kind, feature: number };
       else if (firstKind.kind !== geometry.kind) {
@@ -81,6 +101,23 @@ export function featuresToAreas(root: unknown, file: string): ConvertResult {
     warnings.push(
       `${file}: ${crossings.length} feature(s) have a ring that crosses or touches itself: ${listSome(crossings)}. ` +
         'Neighbours and centroids may be off for these; repairing the geometry in a GIS is advised.',
+    );
+  }
+  if (closedRings.length > 0) {
+    warnings.push(
+      `${file}: ${closedRings.length} feature(s) had a ring whose ends missed each other by one grid step of the ` +
+        `quantized file; each was closed by repeating its first position: ${listSome(closedRings)}.`,
+    );
+  }
+  if (flat.length > 0) {
+    warnings.push(
+      `${file}: ${flat.length} feature(s) have zero area at the file's coordinate precision and were kept as they are ` +
+        `(their centroid is the mean of their vertices): ${listSome(flat)}.`,
+    );
+  }
+  if (dropped.length > 0) {
+    warnings.push(
+      `${file}: ${dropped.length} feature(s) had zero-area polygon parts or holes, which were left out: ${listSome(dropped)}.`,
     );
   }
   if (longRings > 0) {
@@ -129,14 +166,31 @@ function convertGeometry(g: unknown, ctx: FeatureContext): AreaGeometry | null {
     case 'Polygon':
       if (!Array.isArray(coords)) throw bad(ctx, 'has a Polygon without a coordinates list');
       if (coords.length === 0) return null;
-      checkPolygon(coords, 0, false, ctx);
+      if (!checkPolygon(coords, 0, false, ctx)) {
+        if (!ctx.keepFlat) throw zeroArea(ctx, 'ring 1');
+        ctx.flat = true;
+      }
       return { kind: 'polygon', polygons: [coords as number[][][]] };
     case 'MultiPolygon': {
       if (!Array.isArray(coords)) throw bad(ctx, 'has a MultiPolygon without a coordinates list');
-      const polygons = coords as unknown[];
+      let polygons = coords as number[][][][];
       if (polygons.length === 0) return null;
-      for (let p = 0; p < polygons.length; p++) checkPolygon(polygons[p], p, true, ctx);
-      return { kind: 'polygon', polygons: coords as number[][][][] };
+      let kept: number[][][][] | null = null;
+      for (let p = 0; p < polygons.length; p++) {
+        const ok = checkPolygon(polygons[p], p, true, ctx);
+        if (!ok && !kept) kept = polygons.slice(0, p);
+        else if (ok && kept) kept.push(polygons[p]);
+      }
+      if (kept) {
+        // Zero-area parts beside real ones come from coarse quantization (TopoJSON) or slivers: they
+        // carry no area, so they are dropped and counted; a feature with nothing else left is an error.
+        if (kept.length > 0) {
+          ctx.droppedParts += polygons.length - kept.length;
+          polygons = kept;
+        } else if (!ctx.keepFlat) throw zeroArea(ctx, 'every polygon');
+        else ctx.flat = true;
+      }
+      return { kind: 'polygon', polygons };
     }
     default:
       throw new InputError(
@@ -144,6 +198,10 @@ function convertGeometry(g: unknown, ctx: FeatureContext): AreaGeometry | null {
         { file, feature },
       );
   }
+}
+
+function zeroArea(ctx: FeatureContext, where: string): InputError {
+  return bad(ctx, `has zero area in ${where} (its positions lie on a line or a point); remove or repair the feature`);
 }
 
 function bad(ctx: FeatureContext, what: string): InputError {
@@ -175,9 +233,11 @@ function checkPosition(p: unknown, ctx: FeatureContext, where: string, k = -1): 
   if (y > b[3]) b[3] = y;
 }
 
-function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: FeatureContext): void {
+/** Validates a polygon's rings; returns false when its outer ring has zero area. Zero-area holes are dropped. */
+function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: FeatureContext): boolean {
   const partName = multi ? `polygon ${index + 1}, ` : '';
   if (!Array.isArray(polygon) || polygon.length === 0) throw bad(ctx, `has ${partName || 'a polygon '}without rings`);
+  let flatHoles = 0;
   for (let r = 0; r < polygon.length; r++) {
     const ring = polygon[r] as unknown;
     const where = `${partName}ring ${r + 1}`;
@@ -187,6 +247,10 @@ function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: Feat
     }
     for (let k = 0; k < ring.length; k++) checkPosition(ring[k], ctx, where, k);
     const positions = ring as number[][];
+    if (!ringIsClosed(positions) && ctx.step && withinStep(positions, ctx.step)) {
+      positions.push([positions[0][0], positions[0][1]]);
+      ctx.closed++;
+    }
     if (!ringIsClosed(positions)) {
       const a = positions[0];
       const z = positions[positions.length - 1];
@@ -199,14 +263,30 @@ function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: Feat
     const last = positions[positions.length - 1];
     last[0] = positions[0][0]; // closed within noise: make it exact so shared vertices compare equal
     last[1] = positions[0][1];
-    if (r === 0 && isDegenerate(positions)) {
-      throw bad(ctx, `has ${where} with zero area (all its positions lie on a line or a point); remove or repair it`);
+    if (isDegenerate(positions)) {
+      if (r === 0) return false;
+      flatHoles++;
+      continue;
     }
     if (positions.length - 1 > CROSSING_CHECK_MAX_VERTICES) ctx.longRings++;
     else if ((ctx.crossings.length === 0 || ctx.crossings[ctx.crossings.length - 1] !== ctx.label) && ringSelfCrosses(positions)) {
       ctx.crossings.push(ctx.label);
     }
   }
+  if (flatHoles > 0) {
+    const rings = polygon as number[][][];
+    const kept = rings.filter((ring, r) => r === 0 || !isDegenerate(ring));
+    rings.length = 0;
+    rings.push(...kept);
+    ctx.droppedParts += flatHoles;
+  }
+  return true;
+}
+
+function withinStep(ring: number[][], step: [number, number]): boolean {
+  const a = ring[0];
+  const z = ring[ring.length - 1];
+  return Math.abs(a[0] - z[0]) <= step[0] * (1 + 1e-9) && Math.abs(a[1] - z[1]) <= step[1] * (1 + 1e-9);
 }
 
 function isDegenerate(ring: number[][]): boolean {

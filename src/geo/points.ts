@@ -56,11 +56,24 @@ function polygonCentroid(polygons: number[][][][]): [number, number] {
       sy += sign * cy;
     }
   }
-  if (area === 0) return [shift(polygons[0][0][0][0]), y0]; // cannot happen for validated layers
+  if (area === 0) return vertexMean(polygons); // zero-area features kept from quantized TopoJSON
   let cx = x0 + sx / (3 * area);
   const cy = y0 + sy / (3 * area);
   if (wraps && cx > 180) cx -= 360;
   return [cx, cy];
+}
+
+function vertexMean(polygons: number[][][][]): [number, number] {
+  let sx = 0, sy = 0, n = 0;
+  for (const p of polygons) {
+    const ring = p[0];
+    for (let k = 0; k < ring.length - 1; k++) {
+      sx += ring[k][0];
+      sy += ring[k][1];
+      n++;
+    }
+  }
+  return [sx / n, sy / n];
 }
 
 /** Mean Earth radius R1 = 6371.0088 km (IUGG; Moritz 2000, Geodetic Reference System 1980). */

@@ -4,6 +4,7 @@ import type { Topology } from 'topojson-specification';
 import { InputError } from '../errors.js';
 import type { AreaLayer, CoordinateKind } from './types.js';
 import { featuresToAreas } from './features-to-areas.js';
+import { jsonErrorOffset } from './json-error-position.js';
 import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
 
 export function parseJsonBytes(bytes: Uint8Array, file: string): unknown {
@@ -23,8 +24,8 @@ function jsonErrorPlace(text: string, message: string): string {
   const lineCol = /line (\d+) column (\d+)/.exec(message);
   if (lineCol) return ` at line ${lineCol[1]}, column ${lineCol[2]}`;
   const pos = /position (\d+)/.exec(message);
-  if (pos) {
-    const at = Number(pos[1]);
+  const at = pos ? Number(pos[1]) : jsonErrorOffset(text);
+  if (at >= 0) {
     let line = 1;
     let lineStart = 0;
     for (let i = 0; i < at && i < text.length; i++) {
@@ -76,7 +77,11 @@ export function layerFromTopology(topology: Topology, file: string, layer?: stri
     );
   }
   const source = `${file} (object "${name}")`;
-  const converted = featuresToAreas(decoded, source);
+  const scale = topology.transform?.scale;
+  const converted = featuresToAreas(decoded, source, {
+    keepFlatFeatures: !!topology.transform,
+    ...(scale ? { closeWithinStep: [Math.abs(scale[0]), Math.abs(scale[1])] as [number, number] } : {}),
+  });
   let claim: CoordinateClaim | null = null;
   const bbox = topology.bbox;
   if (!override && Array.isArray(bbox) && bbox.length >= 4 && bbox.every((v) => Number.isFinite(v))) {
