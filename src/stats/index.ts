@@ -1,0 +1,11 @@
+export { moranResidualTest } from './moran-residual.js';
+export { lmTests } from './lm-tests.js';
+export { moranColumn } from './moran-column.js';
+export { gearyC } from './geary.js';
+export { localMoran } from './local-moran.js';
+export { jarqueBera } from './jarque-bera.js';
+export { breuschPagan } from './breusch-pagan.js';
+export { koenkerBassett } from './koenker-bassett.js';
+export { conditionNumber } from './condition-number.js';
+export { seededRandom, normalSampler } from './random.js';
+export { studentTwoSided, normalTwoSided, chiSquareUpper, fUpper } from './distributions.js';
