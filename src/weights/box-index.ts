@@ -26,7 +26,8 @@ export class BoxIndex {
     const n = minX.length;
     this.count = n;
     const levelSizes = [n];
-    while (levelSizes[levelSizes.length - 1] > 1) levelSizes.push(Math.ceil(levelSizes[levelSizes.length - 1] / NODE_SIZE));
+    // at least one level above the leaves, so that the root is never a leaf
+    while (levelSizes.length === 1 || levelSizes[levelSizes.length - 1] > 1) levelSizes.push(Math.ceil(levelSizes[levelSizes.length - 1] / NODE_SIZE));
     this.levelStart = [0];
     for (const s of levelSizes) this.levelStart.push(this.levelStart[this.levelStart.length - 1] + s);
     const total = this.levelStart[this.levelStart.length - 1];
@@ -69,43 +70,57 @@ export class BoxIndex {
     }
   }
 
-  /**
-   * Items whose box meets [x0, x1] × [y0, y1], written to `out` (grown when needed).
-   * Returns the result buffer and the number of items found.
-   */
-  search(x0: number, y0: number, x1: number, y1: number, out: Int32Array): { items: Int32Array; found: number } {
-    let items = out;
+  /** Result buffer of the last search: its first `found` entries are item numbers. */
+  results = new Int32Array(64);
+
+  /** Items whose box meets [x0, x1] × [y0, y1]; they go to `results`, and the count is returned. */
+  search(x0: number, y0: number, x1: number, y1: number): number {
+    if (this.count === 0) return 0;
+    const { minX, minY, maxX, maxY, child, levelStart } = this;
+    let results = this.results;
+    let stackNode = this.stackNode;
+    let stackLevel = this.stackLevel;
     let found = 0;
-    if (this.count === 0) return { items, found };
-    const top = this.levelStart.length - 2;
+    const top = levelStart.length - 2;
+    const root = levelStart[top];
+    if (maxX[root] < x0 || maxY[root] < y0 || minX[root] > x1 || minY[root] > y1) return 0;
     let sp = 0;
-    this.stackNode[sp] = this.levelStart[top];
-    this.stackLevel[sp] = top;
+    stackNode[sp] = root;
+    stackLevel[sp] = top;
     sp++;
     while (sp > 0) {
       sp--;
-      const node = this.stackNode[sp];
-      const level = this.stackLevel[sp];
-      if (this.maxX[node] < x0 || this.maxY[node] < y0 || this.minX[node] > x1 || this.minY[node] > y1) continue;
-      if (level === 0) {
-        if (found === items.length) {
-          const bigger = new Int32Array(items.length * 2 + 16);
-          bigger.set(items);
-          items = bigger;
+      const node = stackNode[sp];
+      const level = stackLevel[sp];
+      const first = child[node];
+      const end = Math.min(first + NODE_SIZE, levelStart[level]);
+      if (level === 1) {
+        // children are leaves: report those that meet the query box
+        for (let c = first; c < end; c++) {
+          if (maxX[c] < x0 || maxY[c] < y0 || minX[c] > x1 || minY[c] > y1) continue;
+          if (found === results.length) {
+            const bigger = new Int32Array(results.length * 2);
+            bigger.set(results);
+            results = bigger;
+            this.results = bigger;
+          }
+          results[found++] = child[c];
         }
-        items[found++] = this.child[node];
         continue;
       }
-      const first = this.child[node];
-      const end = Math.min(first + NODE_SIZE, this.levelStart[level]);
-      if (sp + NODE_SIZE > this.stackNode.length) this.growStack();
+      if (sp + NODE_SIZE > stackNode.length) {
+        this.growStack();
+        stackNode = this.stackNode;
+        stackLevel = this.stackLevel;
+      }
       for (let c = first; c < end; c++) {
-        this.stackNode[sp] = c;
-        this.stackLevel[sp] = level - 1;
+        if (maxX[c] < x0 || maxY[c] < y0 || minX[c] > x1 || minY[c] > y1) continue;
+        stackNode[sp] = c;
+        stackLevel[sp] = level - 1;
         sp++;
       }
     }
-    return { items, found };
+    return found;
   }
 
   private growStack(): void {
@@ -119,7 +134,7 @@ export class BoxIndex {
   }
 }
 
-/** Item numbers sorted by the Hilbert index of their box centres (ties by item number). */
+/** Item numbers sorted by the Hilbert index of their box centres (ties by item number; radix sort). */
 function hilbertOrder(minX: Float64Array, minY: Float64Array, maxX: Float64Array, maxY: Float64Array): Int32Array {
   const n = minX.length;
   let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
@@ -132,17 +147,28 @@ function hilbertOrder(minX: Float64Array, minY: Float64Array, maxX: Float64Array
   const side = (1 << HILBERT_BITS) - 1;
   const sx = x1 > x0 ? side / (x1 - x0) : 0;
   const sy = y1 > y0 ? side / (y1 - y0) : 0;
-  // key = hilbert value · 2^27 + item: exact in a double for up to 2^27 items
-  const keys = new Float64Array(n);
+  const h = new Uint32Array(n);
   for (let i = 0; i < n; i++) {
     const hx = Math.floor(((minX[i] + maxX[i]) / 2 - x0) * sx);
     const hy = Math.floor(((minY[i] + maxY[i]) / 2 - y0) * sy);
-    keys[i] = hilbertIndex(hx, hy) * 134217728 + i;
+    h[i] = hilbertIndex(hx, hy);
   }
-  keys.sort();
+  // two stable counting-sort passes on 13-bit digits (Hilbert values have 26 bits)
   const order = new Int32Array(n);
-  for (let k = 0; k < n; k++) order[k] = keys[k] % 134217728;
-  return order;
+  const tmp = new Int32Array(n);
+  for (let i = 0; i < n; i++) tmp[i] = i;
+  const digits = 1 << HILBERT_BITS;
+  const count = new Int32Array(digits + 1);
+  for (let pass = 0; pass < 2; pass++) {
+    const from = pass === 0 ? tmp : order;
+    const to = pass === 0 ? order : tmp;
+    const shift = pass * HILBERT_BITS;
+    count.fill(0);
+    for (let k = 0; k < n; k++) count[((h[from[k]] >>> shift) & (digits - 1)) + 1]++;
+    for (let d = 0; d < digits; d++) count[d + 1] += count[d];
+    for (let k = 0; k < n; k++) to[count[(h[from[k]] >>> shift) & (digits - 1)]++] = from[k];
+  }
+  return tmp;
 }
 
 /** Position of cell (x, y) along the Hilbert curve filling a 2^HILBERT_BITS square grid. */

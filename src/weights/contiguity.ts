@@ -2,7 +2,7 @@ import type { AreaGeometry } from '../geo/types.js';
 import type { CsrMatrix } from '../linalg/csr.js';
 import { InputError } from '../errors.js';
 import { BoxIndex } from './box-index.js';
-import { LinkList, csrFromLinks } from './pattern.js';
+import { csrFromSortedPairs } from './pattern.js';
 
 /** Relative size of the "exact" tolerance: 1e-9 of the larger side of the layer's bounding box. */
 const EXACT_RELATIVE = 1e-9;
@@ -53,50 +53,117 @@ export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' |
     y1[v] = Math.max(y[v], y[w]) + tol;
   }
   const index = new BoxIndex(x0, y0, x1, y1);
+  const places = groupCoincident(x, y, count);
 
-  let keys = new Float64Array(1024);
-  let keyCount = 0;
-  let hits: Int32Array = new Int32Array(64);
-  for (let v = 0; v < count; v++) {
-    const a = owner[v];
-    const px = x[v], py = y[v];
-    const res = index.search(px, py, px, py, hits);
-    hits = res.items;
-    let lastPartner = -1;
-    for (let h = 0; h < res.found; h++) {
-      const s = hits[h];
-      const other = owner[s];
-      if (other === a || other === lastPartner) continue;
-      const sx = x[s], sy = y[s], ex = x[next[s]], ey = y[next[s]];
-      let touches: boolean;
-      if (rule === 'queen') {
-        touches = pointSegmentDistance(px, py, sx, sy, ex, ey) <= tol;
-      } else {
-        const nv = next[v], pv = prev[v];
-        touches = runsAlong(sx, sy, ex, ey, px, py, x[nv], y[nv], tol) || runsAlong(sx, sy, ex, ey, px, py, x[pv], y[pv], tol);
+  const pairs = new PairKeys(n);
+  const mark = new Int32Array(n).fill(-1);
+  const touching: number[] = [];
+  for (let place = 0; place < places.count; place++) {
+    const first = places.members[places.start[place]];
+    const px = x[first], py = y[first];
+    const found = index.search(px, py, px, py);
+    const hits = index.results;
+    if (rule === 'queen') {
+      // every area whose boundary passes through this point touches every other such area
+      touching.length = 0;
+      for (let h = 0; h < found; h++) {
+        const s = hits[h];
+        const a = owner[s];
+        if (mark[a] === place) continue;
+        if (pointSegmentDistance(px, py, x[s], y[s], x[next[s]], y[next[s]]) > tol) continue;
+        mark[a] = place;
+        touching.push(a);
       }
-      if (!touches) continue;
-      lastPartner = other;
-      if (keyCount === keys.length) {
-        const bigger = new Float64Array(keys.length * 2);
-        bigger.set(keys);
-        keys = bigger;
+      for (let u = 0; u < touching.length; u++) {
+        for (let t = u + 1; t < touching.length; t++) pairs.add(touching[u], touching[t]);
       }
-      keys[keyCount++] = a < other ? a * n + other : other * n + a;
+      continue;
+    }
+    for (let m = places.start[place]; m < places.start[place + 1]; m++) {
+      const v = places.members[m];
+      const a = owner[v];
+      const nx = x[next[v]], ny = y[next[v]], qx = x[prev[v]], qy = y[prev[v]];
+      let lastPartner = -1;
+      for (let h = 0; h < found; h++) {
+        const s = hits[h];
+        const other = owner[s];
+        if (other === a || other === lastPartner) continue;
+        const sx = x[s], sy = y[s], ex = x[next[s]], ey = y[next[s]];
+        if (runsAlong(sx, sy, ex, ey, px, py, nx, ny, tol) || runsAlong(sx, sy, ex, ey, px, py, qx, qy, tol)) {
+          lastPartner = other;
+          pairs.add(a, other);
+        }
+      }
     }
   }
+  return csrFromSortedPairs(n, pairs.sortedUnique());
+}
 
-  const pairs = keys.subarray(0, keyCount).sort();
-  const links = new LinkList();
-  let last = -1;
-  for (let k = 0; k < keyCount; k++) {
-    const key = pairs[k];
-    if (key === last) continue;
-    last = key;
-    const i = Math.floor(key / n);
-    links.pushBoth(i, key - i * n);
+/** Unordered area pairs as keys min·n + max in a growable Float64Array. */
+class PairKeys {
+  private keys = new Float64Array(1024);
+  private length = 0;
+  constructor(private readonly n: number) {}
+
+  add(a: number, b: number): void {
+    if (this.length === this.keys.length) {
+      const bigger = new Float64Array(this.keys.length * 2);
+      bigger.set(this.keys);
+      this.keys = bigger;
+    }
+    this.keys[this.length++] = a < b ? a * this.n + b : b * this.n + a;
   }
-  return csrFromLinks(n, links);
+
+  sortedUnique(): Float64Array {
+    const sorted = this.keys.subarray(0, this.length).sort();
+    let m = 0;
+    for (let k = 0; k < sorted.length; k++) if (k === 0 || sorted[k] !== sorted[k - 1]) sorted[m++] = sorted[k];
+    return sorted.slice(0, m);
+  }
+}
+
+/**
+ * Vertices at bitwise-equal coordinates grouped into places (open-addressing hash on the
+ * coordinates' bits), so that each shared corner is looked up once, not once per area.
+ */
+function groupCoincident(x: Float64Array, y: Float64Array, count: number): { count: number; start: Int32Array; members: Int32Array } {
+  let size = 1;
+  while (size < count * 2) size <<= 1;
+  const slotPlace = new Int32Array(size).fill(-1);
+  const placeVertex: number[] = [];
+  const placeOf = new Int32Array(count);
+  const bits = new Float64Array(2);
+  const words = new Int32Array(bits.buffer);
+  for (let v = 0; v < count; v++) {
+    bits[0] = x[v] + 0; // + 0 turns −0 into 0
+    bits[1] = y[v] + 0;
+    let h = Math.imul(words[0] ^ Math.imul(words[1], 0x9e3779b1), 0x85ebca6b) ^ Math.imul(words[2] ^ Math.imul(words[3], 0xc2b2ae35), 0x27d4eb2f);
+    h ^= h >>> 15;
+    let slot = h & (size - 1);
+    for (;;) {
+      const place = slotPlace[slot];
+      if (place < 0) {
+        slotPlace[slot] = placeVertex.length;
+        placeOf[v] = placeVertex.length;
+        placeVertex.push(v);
+        break;
+      }
+      const w = placeVertex[place];
+      if (x[w] === x[v] && y[w] === y[v]) {
+        placeOf[v] = place;
+        break;
+      }
+      slot = (slot + 1) & (size - 1);
+    }
+  }
+  const places = placeVertex.length;
+  const start = new Int32Array(places + 1);
+  for (let v = 0; v < count; v++) start[placeOf[v] + 1]++;
+  for (let p = 0; p < places; p++) start[p + 1] += start[p];
+  const fill = start.slice(0, places);
+  const members = new Int32Array(count);
+  for (let v = 0; v < count; v++) members[fill[placeOf[v]]++] = v;
+  return { count: places, start, members };
 }
 
 function flattenBoundaries(geometries: AreaGeometry[]): Boundary {

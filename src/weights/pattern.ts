@@ -39,50 +39,69 @@ export class LinkList {
 }
 
 /**
- * CSR matrix from a link list by counting sort on rows, then sorting each row by column.
- * Self-links are dropped; a repeated (i, j) keeps its first value (builders only repeat a link
- * when they find it twice, with the same value).
+ * CSR matrix from a link list: two stable counting sorts (by column, then by row) give rows
+ * sorted by column in O(links + n). Self-links are dropped; a repeated (i, j) keeps its first
+ * value (builders only repeat a link when they find it twice, with the same value).
  */
 export function csrFromLinks(n: number, links: LinkList): CsrMatrix {
   const { rows, cols, vals, length } = links;
-  const count = new Int32Array(n + 1);
-  for (let p = 0; p < length; p++) if (rows[p] !== cols[p]) count[rows[p] + 1]++;
-  for (let i = 0; i < n; i++) count[i + 1] += count[i];
-  const fill = count.slice(0, n);
-  const tmpCol = new Int32Array(count[n]);
-  const tmpVal = new Float64Array(count[n]);
-  for (let p = 0; p < length; p++) {
+  const byCol = new Int32Array(n + 1);
+  for (let p = 0; p < length; p++) byCol[cols[p] + 1]++;
+  for (let j = 0; j < n; j++) byCol[j + 1] += byCol[j];
+  const order1 = new Int32Array(length);
+  for (let p = 0; p < length; p++) order1[byCol[cols[p]]++] = p;
+  const rowPtr = new Int32Array(n + 1);
+  for (let p = 0; p < length; p++) if (rows[p] !== cols[p]) rowPtr[rows[p] + 1]++;
+  for (let i = 0; i < n; i++) rowPtr[i + 1] += rowPtr[i];
+  const fill = rowPtr.slice(0, n);
+  const colIdx = new Int32Array(rowPtr[n]);
+  const values = new Float64Array(rowPtr[n]);
+  for (let k = 0; k < length; k++) {
+    const p = order1[k];
     const i = rows[p];
     if (i === cols[p]) continue;
     const q = fill[i]++;
-    tmpCol[q] = cols[p];
-    tmpVal[q] = vals[p];
+    colIdx[q] = cols[p];
+    values[q] = vals[p];
   }
-  // sort each row by column and drop repeats
-  const rowPtr = new Int32Array(n + 1);
-  const colIdx = new Int32Array(count[n]);
-  const values = new Float64Array(count[n]);
-  let order = new Int32Array(16);
+  // squeeze out repeats (adjacent now that rows are sorted)
   let nnz = 0;
+  let start = 0;
   for (let i = 0; i < n; i++) {
-    const start = count[i];
-    const len = count[i + 1] - start;
-    if (order.length < len) order = new Int32Array(len * 2);
-    const idx = order.subarray(0, len);
-    for (let k = 0; k < len; k++) idx[k] = k;
-    idx.sort((a, b) => tmpCol[start + a] - tmpCol[start + b] || a - b);
-    let last = -1;
-    for (let k = 0; k < len; k++) {
-      const c = tmpCol[start + idx[k]];
-      if (c === last) continue;
-      last = c;
-      colIdx[nnz] = c;
-      values[nnz] = tmpVal[start + idx[k]];
+    const end = rowPtr[i + 1];
+    for (let q = start; q < end; q++) {
+      if (q > start && colIdx[q] === colIdx[q - 1]) continue;
+      colIdx[nnz] = colIdx[q];
+      values[nnz] = values[q];
       nnz++;
     }
+    start = end;
     rowPtr[i + 1] = nnz;
   }
   return { n, rowPtr, colIdx: colIdx.slice(0, nnz), values: values.slice(0, nnz) };
+}
+
+/**
+ * Symmetric binary CSR from sorted, repeat-free pair keys i·n + j (i < j). Walking the keys in
+ * order appends to every row in ascending column order, so no sort is needed.
+ */
+export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
+  const rowPtr = new Int32Array(n + 1);
+  for (let k = 0; k < keys.length; k++) {
+    const i = Math.floor(keys[k] / n);
+    rowPtr[i + 1]++;
+    rowPtr[keys[k] - i * n + 1]++;
+  }
+  for (let i = 0; i < n; i++) rowPtr[i + 1] += rowPtr[i];
+  const fill = rowPtr.slice(0, n);
+  const colIdx = new Int32Array(rowPtr[n]);
+  for (let k = 0; k < keys.length; k++) {
+    const i = Math.floor(keys[k] / n);
+    const j = keys[k] - i * n;
+    colIdx[fill[i]++] = j;
+    colIdx[fill[j]++] = i;
+  }
+  return { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) };
 }
 
 /** Same pattern with every value set to `value`. */
