@@ -441,7 +441,7 @@ function geojsonText(features: { properties: Record<string, string>; geometry: o
   return `{"type":"FeatureCollection","spillway:coordinates":"projected metres, invented local grid","features":[\n${lines.join(',\n')}\n]}\n`;
 }
 
-async function workbookBytes(sheetName: string, columns: ColumnSpec[], rows: Record<string, string | number>[], about: string[][]): Promise<Uint8Array> {
+async function workbookBytes(sheetName: string, columns: ColumnSpec[], rows: Record<string, string | number>[], about: (string | number)[][]): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook();
   wb.creator = 'Spillway sample generator';
   wb.created = FIXED_DATE;
@@ -531,9 +531,9 @@ const VILLAGE_COLUMNS: ColumnSpec[] = [
 ];
 
 /** The "About this data" sheet: one or two cells a row; a single-cell row is a heading. */
-function buildAboutRows(kind: 'districts' | 'villages', truth: Record<string, unknown>): string[][] {
+function buildAboutRows(kind: 'districts' | 'villages', truth: Record<string, unknown>): (string | number)[][] {
   const t = truth as { n: number; seed: number; sigma: number; beta: Record<string, number>; rho?: number; lambda?: number; solver: { iterations: number } };
-  const betas = Object.entries(t.beta).map(([k, b]) => [`beta: ${k}`, String(b)]);
+  const betas = Object.entries(t.beta).map(([k, b]) => [`beta: ${k}`, b]);
   const lag = kind === 'districts';
   return [
     [lag ? 'Vell Basin districts: invented sample data' : 'Vell Basin villages: invented sample data'],
@@ -547,9 +547,9 @@ function buildAboutRows(kind: 'districts' | 'villages', truth: Record<string, un
       ? 'Long commutes spill over: a district whose neighbours commute far shares their roads and their job market. So the outcome was simulated from a spatial lag process, y = (I − ρW)⁻¹(Xβ + ε), where W links districts that share at least one boundary point (queen contiguity), each row scaled to sum to 1.'
       : 'Unmeasured local conditions (a shared market, a walking trail, a good bus) cluster across nearby villages. So the outcome was simulated from a spatial error process, y = Xβ + u with u = (I − λW)⁻¹ε, where W links each village to its 5 nearest villages, each row scaled to sum to 1.'],
     ['', 'ε is independent normal noise with standard deviation σ. A spatial regression on this sheet should land near the values below; it will not hit them exactly, because ε is one random draw.'],
-    lag ? ['rho (ρ)', String(t.rho)] : ['lambda (λ)', String(t.lambda)],
+    lag ? ['rho (ρ)', t.rho ?? NaN] : ['lambda (λ)', t.lambda ?? NaN],
     ...betas,
-    ['sigma (σ)', String(t.sigma)],
+    ['sigma (σ)', t.sigma],
     ['seed', `${t.seed} (mulberry32 generator, normal draws by Box–Muller)`],
     ['solve', `fixed-point iteration, converged in ${t.solver.iterations} steps`],
     ['regenerate', 'node --import tsx scripts/generate-samples.ts'],
