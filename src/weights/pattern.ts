@@ -138,7 +138,6 @@ export function isSymmetric(m: CsrMatrix): boolean {
   for (let i = 0; i < m.n; i++) {
     for (let p = m.rowPtr[i]; p < m.rowPtr[i + 1]; p++) {
       const j = m.colIdx[p];
-      if (j < i) continue;
       const q = findEntry(m, j, i);
       if (q < 0) return false;
       const a = m.values[p];
