@@ -6,7 +6,7 @@ export function formatSummary(r: AnalysisResult): string {
   const lines: string[] = [];
   const w = r.weights;
   lines.push(`Spillway ${r.engineVersion}: ${r.request.y} explained by ${r.request.x.join(', ')} in ${r.n} areas`);
-  lines.push(`Neighbours: ${w.description}, ${w.transform === 'row' ? 'each row scaled to sum to 1' : w.transform === 'binary' ? 'every link weighted 1' : 'weights as given'}.`);
+  lines.push(`Neighbours: ${w.description}.`);
   lines.push(`  ${w.links} links, ${fmt(w.summary.meanNeighbours, 3)} neighbours per area on average (fewest ${w.summary.minNeighbours}, most ${w.summary.maxNeighbours}); ` +
     `${w.islands.length ? `${w.islands.length} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
   if (r.droppedRows.length) lines.push(`  Left out for missing values: ${r.droppedRows.length} row(s).`);
@@ -38,7 +38,7 @@ export function formatSummary(r: AnalysisResult): string {
     lines.push('');
   }
   if (r.error) lines.push(...spatialBlock('Spatial error model (maximum likelihood): spatially patterned omitted causes', r.error, 'lambda'), '');
-  lines.push(`Log-determinant: ${r.algebra.logDeterminant} (${r.algebra.accuracy}); admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
+  lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
   if (r.warnings.length) {
     lines.push('', 'Warnings');
     for (const wn of r.warnings) lines.push(`  - ${wn}`);
