@@ -8,7 +8,7 @@ const TEST_COLUMNS: TableColumn[] = [
   { header: 'Statistic', format: 'decimal4', width: 12 },
   { header: 'Degrees of freedom', format: 'integer', width: 10 },
   { header: 'p-value', format: 'pvalue', width: 11 },
-  { header: 'What it asks', format: 'text', width: 90 },
+  { header: 'What it asks', format: 'text', width: 24 },
 ];
 
 function testRow(label: string, t: TestResult | undefined, meaning: string): Cell[] {

@@ -23,7 +23,7 @@ export * from './pictures/index.js';
 export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {
   const overview = overviewBlocks(result, opts.title);
   const sheets: ReportSheet[] = [
-    { name: 'Summary', role: 'overview', blocks: overview, images: overviewPictures(result, layoutBlocks(overview).lastRow + 2, opts.renderPng) },
+    { name: 'Summary', role: 'overview', blocks: overview, images: overviewPictures(result, layoutBlocks(overview).lastRow + 3, opts.renderPng) },
     { name: MODEL_LABEL.ols, role: 'model', blocks: olsBlocks(result) },
   ];
   if (result.lag) sheets.push({ name: MODEL_LABEL.lag, role: 'model', blocks: spatialBlocks(result, result.lag) });
