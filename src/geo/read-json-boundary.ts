@@ -83,8 +83,10 @@ export function layerFromTopology(topology: Topology, file: string, layer?: stri
     ...(scale ? { closeWithinStep: [Math.abs(scale[0]), Math.abs(scale[1])] as [number, number] } : {}),
   });
   let claim: CoordinateClaim | null = null;
-  const bbox = topology.bbox;
-  if (!override && Array.isArray(bbox) && bbox.length >= 4 && bbox.every((v) => Number.isFinite(v))) {
+  const stated = topology.bbox;
+  // a 3-D bbox is [minX, minY, minZ, maxX, maxY, maxZ]
+  const bbox = Array.isArray(stated) && stated.length === 6 ? [stated[0], stated[1], stated[3], stated[4]] : stated;
+  if (!override && Array.isArray(bbox) && bbox.length === 4 && bbox.every((v) => Number.isFinite(v))) {
     // The bbox is stated by the writer; inside degree ranges it counts as a claim of longitude/latitude.
     // Outside them the ranges decide (so swapped axes are still caught).
     const inDegrees = bbox[0] >= -180 && bbox[2] <= 180 && bbox[1] >= -90 && bbox[3] <= 90;

@@ -1,0 +1,153 @@
+// Joining tables to boundaries, numeric columns and subsets. Inputs are invented: a small grid of
+// unit squares whose IDs and values are written here, so every expected row/feature is known by construction.
+import { describe, expect, it } from 'vitest';
+import { joinAreas, numericColumn, readBoundary, readTable, subsetAreas, tableFromLayer, JoinError } from '../src/geo/index.js';
+import type { AreaLayer, DataTable } from '../src/geo/index.js';
+import { InputError } from '../src/errors.js';
+
+const square = (x: number) => [[[x, 0], [x + 1, 0], [x + 1, 1], [x, 1], [x, 0]]];
+
+async function layerOf(ids: (string | number | null)[], opts: { noGeometry?: number[] } = {}): Promise<AreaLayer> {
+  const features = ids.map((id, i) => ({
+    type: 'Feature',
+    properties: { zone: id, size: i + 10 },
+    geometry: opts.noGeometry?.includes(i + 1) ? null : { type: 'Polygon', coordinates: square(i) },
+  }));
+  return readBoundary([{ name: 'zones.geojson', bytes: new TextEncoder().encode(JSON.stringify({ type: 'FeatureCollection', features })) }]);
+}
+
+const csv = (s: string) => readTable({ name: 'values.csv', bytes: new TextEncoder().encode(s) });
+
+function joinFailure(f: () => unknown): JoinError {
+  try {
+    f();
+  } catch (e) {
+    expect(e).toBeInstanceOf(InputError);
+    return e as JoinError;
+  }
+  throw new Error('expected an InputError');
+}
+
+describe('joinAreas', () => {
+  it('keeps the table row order, matches numbers to text without a trailing .0', async () => {
+    const layer = await layerOf([101, 102, 103]);
+    const table = await csv('zone,y\n103,3\n101.0,1\n 102 ,2\n');
+    const j = joinAreas(layer, table, 'zone');
+    expect(j.ids).toEqual(['103', '101', '102']);
+    expect(j.rows).toEqual([2, 3, 4]);
+    expect(j.column('y')).toEqual(['3', '1', '2']);
+    expect(j.column('size')).toEqual([12, 10, 11]); // boundary-file property, in table order
+    expect(j.geometries[0]).toEqual({ kind: 'polygon', polygons: [square(2)] });
+    expect(j.columnNames).toEqual(['zone', 'y', 'size']);
+  });
+
+  it('reports features without a row as a warning and leaves them out', async () => {
+    const layer = await layerOf(['a', 'b', 'c']);
+    const j = joinAreas(layer, await csv('zone,y\nc,1\na,2\n'), 'zone');
+    expect(j.ids).toEqual(['c', 'a']);
+    expect(j.report.unmatchedFeatures).toEqual([{ feature: 2, id: 'b' }]);
+    expect(j.warnings.join(' ')).toMatch(/1 feature\(s\) of zones\.geojson have no row .*feature 2 \(b\)/);
+  });
+
+  it('refuses rows without a feature, naming the rows, and reports zero-padding suspects', async () => {
+    const layer = await layerOf(['01001', '01003', '02000']);
+    const e = joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['1001'], ['01003'], ['9999']], firstRow: 2 }, 'zone'));
+    expect(e.message).toMatch(/t\.csv: 2 row\(s\) have an ID with no feature in zones\.geojson: row 2 \(1001\), row 4 \(9999\)/);
+    expect(e.message).toMatch(/1001 vs 01001/);
+    expect(e.report.zeroPaddingSuspects).toEqual([{ tableId: '1001', featureId: '01001' }]);
+  });
+
+  it('refuses duplicated IDs on either side', async () => {
+    const layer = await layerOf(['a', 'b']);
+    const e1 = joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['b'], ['a']], firstRow: 2 }, 'zone'));
+    expect(e1.message).toMatch(/t\.csv: IDs appear more than once: a \(rows 2, 4\)/);
+    const twice = await layerOf(['a', 'b', 'a']);
+    const e2 = joinFailure(() => joinAreas(twice, null, 'zone'));
+    expect(e2.message).toMatch(/zones\.geojson: IDs appear on more than one feature: a \(features 1, 3\)/);
+  });
+
+  it('refuses blank IDs on either side, naming rows and features', async () => {
+    const layer = await layerOf(['a', null, 'c']);
+    const e = joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['  '], ['c']], firstRow: 2 }, 'zone'));
+    expect(e.message).toMatch(/t\.csv: the ID is blank in row 3/);
+    expect(e.message).toMatch(/zones\.geojson: the ID is blank for feature 2/);
+  });
+
+  it('refuses matched features without geometry', async () => {
+    const layer = await layerOf(['a', 'b'], { noGeometry: [2] });
+    const e = joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['b']], firstRow: 2 }, 'zone'));
+    expect(e.message).toMatch(/these features have no geometry: feature 2 \(b, row 3\)/);
+    // not fatal when the table does not ask for that feature
+    expect(joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a']], firstRow: 2 }, 'zone').ids).toEqual(['a']);
+  });
+
+  it('names a missing ID column on either side, listing what exists', async () => {
+    const layer = await layerOf(['a']);
+    expect(joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a']], firstRow: 2 }, 'code', { featureIdProperty: 'zone' })).message)
+      .toMatch(/t\.csv has no column "code" to join by; its columns are "zone"/);
+    expect(joinFailure(() => joinAreas(layer, null, 'GEOID')).message).toMatch(/zones\.geojson has no property "GEOID" .*"zone", "size"/);
+    const j = joinAreas(layer, { sourceName: 't.csv', columns: ['code', 'v'], rows: [['a', 1]], firstRow: 2 }, 'code', { featureIdProperty: 'zone' });
+    expect(j.ids).toEqual(['a']);
+  });
+
+  it('joins the boundary file to its own table, counting in features', async () => {
+    const layer = await layerOf(['a', 'b']);
+    const j = joinAreas(layer, tableFromLayer(layer), 'zone');
+    expect(j.rows).toEqual([1, 2]);
+    expect(j.rowKind).toBe('feature');
+    expect(Array.from(numericColumn(j, 'size'))).toEqual([10, 11]);
+  });
+});
+
+describe('numericColumn', () => {
+  const layerP = layerOf(['a', 'b', 'c', 'd', 'e', 'f']);
+  const table: DataTable = {
+    sourceName: 't.xlsx', columns: ['zone', 'v'], firstRow: 2,
+    rows: [['a', '1.5'], ['b', 'abc'], ['c', null], ['d', NaN], ['e', 'Infinity'], ['f', -2e3]],
+  };
+
+  it('names the rows holding text, blanks, NaN and Infinity', async () => {
+    const j = joinAreas(await layerP, table, 'zone');
+    let message = '';
+    try {
+      numericColumn(j, 'v');
+    } catch (e) {
+      expect(e).toBeInstanceOf(InputError);
+      message = (e as Error).message;
+    }
+    expect(message).toMatch(/Column "v" must hold a number/);
+    expect(message).toMatch(/text in row 3 \("abc"\)/);
+    expect(message).toMatch(/blank cells in row 4/);
+    expect(message).toMatch(/NaN or infinite values in row 5 \(NaN\), row 6 \(Infinity\)/);
+  });
+
+  it('returns NaN at those rows with allowMissing', async () => {
+    const j = joinAreas(await layerP, table, 'zone');
+    const v = Array.from(numericColumn(j, 'v', { allowMissing: true }));
+    expect(v).toEqual([1.5, NaN, NaN, NaN, NaN, -2000]);
+  });
+
+  it('reads decimal commas in semicolon files and reports spreadsheet errors as text', async () => {
+    const layer = await layerOf(['a', 'b']);
+    const j = joinAreas(layer, await csv('zone;v\na;3,5\nb;#N/A\n'), 'zone');
+    expect(() => numericColumn(j, 'v')).toThrow(/text in row 3 \("#N\/A"\)/);
+    expect(numericColumn(j, 'v', { allowMissing: true })[0]).toBe(3.5);
+  });
+
+  it('names an unknown column', async () => {
+    const j = joinAreas(await layerP, table, 'zone');
+    expect(() => numericColumn(j, 'w')).toThrow(/no column "w" in t\.xlsx/);
+  });
+});
+
+describe('subsetAreas', () => {
+  it('keeps the chosen areas with their rows and columns', async () => {
+    const layer = await layerOf(['a', 'b', 'c']);
+    const j = joinAreas(layer, await csv('zone,v\na,1\nb,2\nc,3\n'), 'zone');
+    const s = subsetAreas(j, [0, 2]);
+    expect(s.ids).toEqual(['a', 'c']);
+    expect(s.rows).toEqual([2, 4]);
+    expect(Array.from(numericColumn(s, 'v'))).toEqual([1, 3]);
+    expect(s.geometries).toEqual([j.geometries[0], j.geometries[2]]);
+  });
+});
