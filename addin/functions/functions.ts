@@ -1,0 +1,113 @@
+/**
+ * Cell functions (namespace SPILL, set in the manifest). Thin wrappers: the JSDoc below is read by
+ * custom-functions-metadata to make functions.json; the arithmetic lives in logic.ts. Every function
+ * takes the neighbours as a range of links (origin ID, neighbour ID, weight), as on the neighbour
+ * sheet the sidebar writes, plus the ID column that puts the values in order.
+ */
+/* eslint-disable @typescript-eslint/no-explicit-any */
+import { InputError } from '../../src/errors.js';
+import {
+  gearyOfRange, lagOfRange, localMoranOfRange, moranOfRange, moranPermutationP,
+} from './logic.js';
+
+declare const CustomFunctions: {
+  associate(id: string, fn: (...args: any[]) => unknown): void;
+  Error: new (code: string, message?: string) => Error;
+  ErrorCode: { invalidValue: string; notAvailable: string };
+};
+
+function cellError(e: unknown): Error {
+  const message = e instanceof Error ? e.message : String(e);
+  if (typeof CustomFunctions === 'undefined') return e instanceof Error ? e : new Error(message);
+  const code = e instanceof InputError ? CustomFunctions.ErrorCode.invalidValue : CustomFunctions.ErrorCode.notAvailable;
+  return new CustomFunctions.Error(code, message.slice(0, 255));
+}
+
+function guarded<T>(work: () => T): T {
+  try {
+    return work();
+  } catch (e) {
+    throw cellError(e);
+  }
+}
+
+/**
+ * Moran's I of a column of values: how much neighbouring areas resemble each other.
+ * @customfunction MORAN
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row (the neighbour sheet Spillway writes).
+ * @param [detail] TRUE to spill four cells across: the statistic, its expected value, z and the two-sided p-value.
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1; by default the weights are used as listed.
+ * @returns Moran's I, or a row of four numbers with detail.
+ */
+export function moran(values: any[][], ids: any[][], neighbours: any[][], detail?: boolean, rowStandardise?: boolean): number[][] {
+  return guarded(() => moranOfRange(values, ids, neighbours, detail === true, { rowStandardise: rowStandardise === true }));
+}
+
+/**
+ * Permutation p-value of Moran's I: the share of random reshufflings of the values at least as extreme as the observed pattern.
+ * @customfunction MORANPERM
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [permutations] How many reshufflings to draw (default 999).
+ * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
+ * @returns The two-sided permutation p-value.
+ */
+export function moranPerm(
+  values: any[][], ids: any[][], neighbours: any[][], permutations?: number, seed?: number, rowStandardise?: boolean,
+): number {
+  return guarded(() => moranPermutationP(values, ids, neighbours, permutations ?? 999, seed ?? 1, { rowStandardise: rowStandardise === true }));
+}
+
+/**
+ * Spatial lag: for each area, the weighted sum of its neighbours' values (their average when each area's weights sum to 1).
+ * @customfunction LAG
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
+ * @returns One value per area, spilled down in the order of the IDs.
+ */
+export function lag(values: any[][], ids: any[][], neighbours: any[][], rowStandardise?: boolean): number[][] {
+  return guarded(() => lagOfRange(values, ids, neighbours, { rowStandardise: rowStandardise === true }));
+}
+
+/**
+ * Local Moran values: each area's share in the overall resemblance of neighbours.
+ * @customfunction LOCALMORAN
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
+ * @returns One value per area, spilled down in the order of the IDs.
+ */
+export function localMoran(values: any[][], ids: any[][], neighbours: any[][], rowStandardise?: boolean): number[][] {
+  return guarded(() => localMoranOfRange(values, ids, neighbours, { rowStandardise: rowStandardise === true }));
+}
+
+/**
+ * Geary's C: below 1 when neighbouring areas have similar values, above 1 when they differ.
+ * @customfunction GEARY
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [detail] TRUE to spill four cells across: the statistic, its expected value (1), z and the two-sided p-value.
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
+ * @returns Geary's C, or a row of four numbers with detail.
+ */
+export function geary(values: any[][], ids: any[][], neighbours: any[][], detail?: boolean, rowStandardise?: boolean): number[][] {
+  return guarded(() => gearyOfRange(values, ids, neighbours, detail === true, { rowStandardise: rowStandardise === true }));
+}
+
+/** Ties each metadata id to its function; Office.js provides CustomFunctions in the shared runtime. */
+export function registerCellFunctions(): void {
+  if (typeof CustomFunctions === 'undefined') return;
+  CustomFunctions.associate('MORAN', moran);
+  CustomFunctions.associate('MORANPERM', moranPerm);
+  CustomFunctions.associate('LAG', lag);
+  CustomFunctions.associate('LOCALMORAN', localMoran);
+  CustomFunctions.associate('GEARY', geary);
+}
