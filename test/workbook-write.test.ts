@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
-import { buildReport, layoutBlocks, type Block, type Cell, type Report, type ReportSheet } from '../src/report/index.js';
+import { buildReport, layoutBlocks, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
 import { renderPng } from '../src/report/render-png.js';
 import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, plannedSheetNames, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
 import { runAnalysis } from '../src/pipeline/index.js';
@@ -10,8 +10,8 @@ import { InputError } from '../src/errors.js';
 import { fakeResult } from './helpers/fake-result.js';
 
 /** Every cell a block puts on the sheet, at the row the shared layout gives it: [row, col, value, format]. */
-function expectedCells(sheet: ReportSheet): [number, number, Cell, string | undefined][] {
-  const out: [number, number, Cell, string | undefined][] = [];
+function expectedCells(sheet: ReportSheet): [number, number, Cell, NumberFormat | undefined][] {
+  const out: [number, number, Cell, NumberFormat | undefined][] = [];
   const { starts } = layoutBlocks(sheet.blocks);
   sheet.blocks.forEach((b: Block, i) => {
     const top = starts[i];
