@@ -1,5 +1,6 @@
 /** Rook-contiguity grids for benchmarks and tests: binary B, row-standardised W, S = D^-1/2 B D^-1/2. */
 import type { CsrMatrix } from '../src/linalg/csr.js';
+import { seededUniform } from '../src/linalg/sparse/random.js';
 
 export interface GridWeights {
   w: CsrMatrix;
@@ -47,4 +48,44 @@ export function rookGrid(rows: number, cols: number): GridWeights {
     }
   }
   return { ...weightsFromNeighbours(nb), x, y };
+}
+
+/** Irregular planar-like graph: random points, each linked to points within a radius (symmetric). */
+export function randomGeometric(n: number, radius: number, seed: number) {
+  const u = seededUniform(seed);
+  const x = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) { x[i] = u(); y[i] = u(); }
+  const nb: number[][] = Array.from({ length: n }, () => []);
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      if ((x[i] - x[j]) ** 2 + (y[i] - y[j]) ** 2 < radius * radius) { nb[i].push(j); nb[j].push(i); }
+    }
+  }
+  // keep every area linked: join isolated points to their nearest neighbour
+  for (let i = 0; i < n; i++) {
+    if (nb[i].length > 0) continue;
+    let best = -1, bestD = Infinity;
+    for (let j = 0; j < n; j++) if (j !== i) { const d = (x[i] - x[j]) ** 2 + (y[i] - y[j]) ** 2; if (d < bestD) { bestD = d; best = j; } }
+    nb[i].push(best); nb[best].push(i);
+  }
+  return { ...weightsFromNeighbours(nb), x, y };
+}
+
+
+/** k-nearest-neighbour weights (row-standardised, not symmetric) on random points. */
+export function randomKnn(n: number, k: number, seed: number): { w: CsrMatrix; x: Float64Array; y: Float64Array } {
+  const u = seededUniform(seed);
+  const x = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) { x[i] = u(); y[i] = u(); }
+  const rowPtr = new Int32Array(n + 1);
+  const colIdx = new Int32Array(n * k);
+  const values = new Float64Array(n * k).fill(1 / k);
+  for (let i = 0; i < n; i++) {
+    const order = Array.from({ length: n }, (_, j) => j).filter((j) => j !== i)
+      .sort((a, b) => (x[a] - x[i]) ** 2 + (y[a] - y[i]) ** 2 - ((x[b] - x[i]) ** 2 + (y[b] - y[i]) ** 2));
+    const chosen = order.slice(0, k).sort((a, b) => a - b);
+    colIdx.set(chosen, i * k);
+    rowPtr[i + 1] = (i + 1) * k;
+  }
+  return { w: { n, rowPtr, colIdx, values }, x, y };
 }

@@ -11,7 +11,7 @@
  */
 import { csrMultiply, type CsrMatrix } from '../csr.js';
 import type { AdmissibleRange } from '../logdet.js';
-import { rademacher, seededUniform } from './random.js';
+import { seededUniform } from './random.js';
 
 /** Row sums all 1 and entries nonnegative: λmax = 1 exactly. */
 export function isRowStochastic(w: CsrMatrix): boolean {
@@ -94,8 +94,13 @@ export function lanczosExtremes(s: CsrMatrix, seed = 1, maxSteps = 300, toleranc
   const n = s.n;
   const steps = Math.min(n, maxSteps);
   const alpha = new Float64Array(steps), beta = new Float64Array(steps);
-  let v: Float64Array = rademacher(new Float64Array(n), seededUniform(seed));
-  let norm = Math.sqrt(n);
+  // a continuous random start: ±1 entries can be exactly orthogonal to an eigenvector of a small
+  // component (a linked pair has eigenvector (1, −1))
+  const uniform = seededUniform(seed);
+  let v: Float64Array = new Float64Array(n).map(() => uniform() - 0.5 + 1e-3 * (uniform() - 0.5));
+  let norm = 0;
+  for (let i = 0; i < n; i++) norm += v[i] * v[i];
+  norm = Math.sqrt(norm);
   for (let i = 0; i < n; i++) v[i] /= norm;
   let vPrev: Float64Array = new Float64Array(n);
   let wv: Float64Array = new Float64Array(n);

@@ -17,6 +17,8 @@ export interface SeriesOptions {
   seed?: number;
   /** spectral radius of W (1 for row-standardised W) */
   radius?: number;
+  /** n · terms · nnz up to which tr(Wᵏ) come exactly from unit vectors */
+  exactBudget?: number;
 }
 
 export class SeriesLogDet implements LogDeterminant {
@@ -31,7 +33,7 @@ export class SeriesLogDet implements LogDeterminant {
   constructor(readonly w: CsrMatrix, opts: SeriesOptions = {}) {
     this.terms = opts.terms ?? 100;
     this.radius = opts.radius ?? 1;
-    const est = powerTraces(w, null, this.terms, opts.seed ?? 7, opts.probes ?? 32);
+    const est = powerTraces(w, null, this.terms, opts.seed ?? 7, opts.probes ?? 32, opts.exactBudget);
     this.probes = est.probes;
     this.samples = est.samples;
     this.traces = est.traces;
@@ -84,6 +86,7 @@ export class SeriesLogDet implements LogDeterminant {
   errorBound(rho: number): number {
     const x = Math.abs(rho) * this.radius;
     const truncation = x < 1 ? (this.w.n * x ** (this.terms + 1)) / ((this.terms + 1) * (1 - x)) : Infinity;
-    return 1.96 * this.standardError(rho) + truncation;
+    // plus rounding in the sum of n-sized traces
+    return 1.96 * this.standardError(rho) + truncation + 1e-12 * this.w.n;
   }
 }
