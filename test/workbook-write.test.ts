@@ -4,7 +4,7 @@ import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
 import { buildReport, layoutBlocks, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
 import { renderPng } from '../src/report/render-png.js';
-import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, plannedSheetNames, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
+import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, plannedSheetNames, baseWorkbookRisks, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
 import { runAnalysis } from '../src/pipeline/index.js';
 import { InputError } from '../src/errors.js';
 import { fakeResult } from './helpers/fake-result.js';
@@ -153,5 +153,20 @@ describe('results of the real pipeline on the Columbus neighbourhoods', () => {
       expect(row[2]).toBe(f.bytes.length);
       expect(row[3]).toBe(createHash('sha256').update(f.bytes).digest('hex'));
     }
+  });
+});
+
+describe('baseWorkbookRisks', () => {
+  it('names the parts a copy would lose, and none for a plain workbook', async () => {
+    const { zipSync, strToU8 } = await import('fflate');
+    const zip = zipSync({
+      '[Content_Types].xml': strToU8('<Types/>'),
+      'xl/workbook.xml': strToU8('<workbook/>'),
+      'xl/charts/chart1.xml': strToU8('<chart/>'),
+      'xl/vbaProject.bin': new Uint8Array([0, 1]),
+    });
+    expect(baseWorkbookRisks(zip).sort()).toEqual(['charts', 'macros']);
+    expect(baseWorkbookRisks(await baseWorkbook())).toEqual([]);
+    expect(baseWorkbookRisks(new Uint8Array([1, 2, 3]))).toEqual([]);
   });
 });

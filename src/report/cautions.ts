@@ -1,5 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import { say } from './format.js';
+import { listSome } from '../errors.js';
 
 /** Plain-language cautions that belong beside every result. */
 export function cautions(result: AnalysisResult): string[] {
@@ -31,7 +32,7 @@ export function collectWarnings(result: AnalysisResult): string[] {
     out.push(`The explanatory columns are strongly related to each other (condition number ${say(result.ols.conditionNumber)}, above the usual threshold of 30): individual coefficients may be unstable.`);
   }
   if (result.weights.islands.length) {
-    out.push(`${result.weights.islands.length} area(s) have no neighbours under this definition: ${result.weights.islands.slice(0, 10).join(', ')}${result.weights.islands.length > 10 ? ' …' : ''}.`);
+    out.push(`${result.weights.islands.length} area(s) have no neighbours under this definition: ${listSome(result.weights.islands, 10)}.`);
   }
   if (result.weights.components > 1) out.push(`The neighbour links split the areas into ${result.weights.components} separate groups.`);
   if (result.droppedRows.length) out.push(`${result.droppedRows.length} row(s) with missing values were left out; the list is on the run record sheet.`);

@@ -1,6 +1,6 @@
 import type { AnalysisResult, ModelName } from '../pipeline/types.js';
 import type { Coefficient } from '../models/types.js';
-import { MODEL_LABEL, SOME_LEVEL, say, sayP } from './format.js';
+import { MODEL_LABEL, SOME_LEVEL, say, sayList, sayP } from './format.js';
 
 /** The models that were fitted, in a fixed order, with their headline figures. */
 export function fittedModels(result: AnalysisResult): { name: ModelName; logLik: number; aic: number; schwarz: number; coefficients: Coefficient[] }[] {
@@ -26,8 +26,8 @@ export function interpretation(result: AnalysisResult): string {
 
   const m = result.ols.moran;
   parts.push(m.p < SOME_LEVEL
-    ? `After taking ${result.xNames.join(', ')} into account, the plain regression's residuals still show a spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}), so the plain regression's standard errors and tests are not fully trustworthy.`
-    : `After taking ${result.xNames.join(', ')} into account, the plain regression's residuals show no clear spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}).`);
+    ? `After taking ${sayList(result.xNames)} into account, the plain regression's residuals still show a spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}), so the plain regression's standard errors and tests are not fully trustworthy.`
+    : `After taking ${sayList(result.xNames)} into account, the plain regression's residuals show no clear spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}).`);
 
   parts.push(result.ols.recommendation.text);
 

@@ -1,6 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
 import { num } from './format.js';
+import { listSome } from '../errors.js';
 
 /** Summary of the neighbour links, their count histogram, and the full edge list. */
 export function neighboursBlocks(result: AnalysisResult): Block[] {
@@ -33,7 +34,7 @@ export function neighboursBlocks(result: AnalysisResult): Block[] {
       rows: s.histogram.map(([k, count]): Cell[] => [k, count]),
     },
   ];
-  if (s.islands.length) blocks.push({ kind: 'paragraph', style: 'caution', text: `Areas without neighbours: ${s.islands.join(', ')}.` });
+  if (s.islands.length) blocks.push({ kind: 'paragraph', style: 'caution', text: `Areas without neighbours: ${listSome(s.islands, 200)}.` });
   blocks.push({
     kind: 'table', title: 'Every link',
     columns: [{ header: 'Area ID', format: 'text', width: 14 }, { header: 'Neighbour ID', format: 'text', width: 14 }, { header: 'Weight', format: 'decimal4', width: 12 }],

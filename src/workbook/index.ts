@@ -8,6 +8,7 @@ import { writeSheet } from './write-sheet.js';
 export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
 export { EXCEL_FORMAT } from './number-formats.js';
 export { readWorkbook, type ReadSheet } from './read-back.js';
+export { baseWorkbookRisks } from './base-risks.js';
 
 export interface WriteWorkbookOptions {
   /** the input .xlsx to copy; its sheets are kept as they are and the results are added after them */

@@ -43,7 +43,15 @@ export function pathOf(g: AreaGeometry, f: Frame, r1: (n: number) => string): st
   const parts: string[] = [];
   for (const poly of g.polygons) for (const ring of poly) {
     if (ring.length < 3) continue;
-    parts.push(`M${ring.map((p) => `${r1(f.x(p[0], p[1]))} ${r1(f.y(p[0], p[1]))}`).join('L')}Z`);
+    // consecutive positions that round to the same pixel tenth add bytes and nothing visible
+    const pts: string[] = [];
+    let last = '';
+    for (const p of ring) {
+      const s = `${r1(f.x(p[0], p[1]))} ${r1(f.y(p[0], p[1]))}`;
+      if (s !== last) pts.push(s);
+      last = s;
+    }
+    if (pts.length >= 3) parts.push(`M${pts.join('L')}Z`);
   }
   return parts.join('');
 }
