@@ -68,7 +68,7 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   return {
     sourceName: shp.name,
     areas: converted.areas,
-    propertyNames: dbfLayout.fields.map((f) => f.name).filter((n) => converted.propertyNames.includes(n)),
+    propertyNames: converted.propertyNames, // the package keeps the .dbf field order
     coordinates: decision.coordinates,
     coordinateEvidence: parts.prj || override ? decision.coordinateEvidence : `${shp.name} comes without a .prj file. ${decision.coordinateEvidence}`,
     warnings: [...warnings, ...converted.warnings, ...decision.warnings],
