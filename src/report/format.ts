@@ -59,3 +59,8 @@ export function sayList(items: readonly string[]): string {
 export function question(y: string, x: readonly string[]): string {
   return `${y} explained by ${x.join(', ')}`;
 }
+
+/** Yes/no in words rather than a spreadsheet's TRUE/FALSE. */
+export function yesNo(b: boolean | undefined): string {
+  return b ? 'yes' : 'no';
+}

@@ -24,7 +24,9 @@ export function impactsBlocks(result: AnalysisResult): Block[] {
       ],
       rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP),
         num(m.total), num(m.totalSe), num(m.totalP)]),
-      note: `Standard errors and p-values come from ${im.draws} simulated draws (seed ${im.seed}); method: ${im.method}.`,
+      note: im.method.includes(String(im.seed))
+        ? `How the standard errors and p-values were found: ${im.method}.`
+        : `How the standard errors and p-values were found: ${im.method} (${im.draws} simulated draws, seed ${im.seed}).`,
     },
   ];
   for (const m of im.impacts) {

@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, SpatialFit } from '../models/types.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { MARK_NOTE, MODEL_LABEL, evidenceMark, num } from './format.js';
+import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, yesNo } from './format.js';
 
 function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
   return {
@@ -64,9 +64,10 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
     ['Likelihood ratio against the plain regression', num(fit.lr.stat), 'decimal4'],
     ['Its degrees of freedom', fit.lr.df, 'integer'],
     ['Its p-value', num(fit.lr.p), 'pvalue'],
-    ['Admissible range of the spatial parameter', `${fit.range.lower} to ${fit.range.upper}`, 'text'],
+    ['Lowest admissible spatial parameter', num(fit.range.lower), 'decimal4'],
+    ['Highest admissible spatial parameter', num(fit.range.upper), 'decimal4'],
     ['Log-determinant method', fit.logDeterminantMethod, 'text'],
-    ['Search converged', c.converged, 'text'],
+    ['Search converged', yesNo(c.converged), 'text'],
     ['Iterations', c.iterations, 'integer'],
     ['Final interval width', num(c.tolerance), 'scientific'],
     ['Search note', c.atBound ? `${c.message} (ended at the ${c.atBound} bound)` : c.message, 'text'],

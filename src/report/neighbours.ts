@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { num } from './format.js';
+import { num, yesNo } from './format.js';
 import { listSome } from '../errors.js';
 
 /** Summary of the neighbour links, their count histogram, and the full edge list. */
@@ -24,7 +24,7 @@ export function neighboursBlocks(result: AnalysisResult): Block[] {
         ['Most neighbours of an area', s.maxNeighbours, 'integer'],
         ['Areas without neighbours', s.islands.length, 'integer'],
         ['Separate groups of linked areas', s.components, 'integer'],
-        ['Links run both ways with equal weight', s.symmetric, 'text'],
+        ['Links run both ways with equal weight', yesNo(s.symmetric), 'text'],
         ['Weights', w.transform === 'row' ? 'row-standardised' : w.transform, 'text'],
       ],
     },

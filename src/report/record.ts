@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { MODEL_LABEL } from './format.js';
+import { MODEL_LABEL, num, say, yesNo } from './format.js';
 
 /** The weights request in plain words, e.g. "queen contiguity, order 2 (with lower orders)". */
 export function describeWeightsRequest(w: AnalysisResult['request']['weights']): string {
@@ -47,15 +47,17 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('Neighbour definition used', result.weights.description),
         kv('Weights transform', r.transform),
         kv('Models fitted', r.models.map((m) => MODEL_LABEL[m]).join(', ')),
-        kv('Robust standard errors asked for', r.robust),
-        kv('Rows with missing values left out', r.dropMissing),
+        kv('Robust standard errors asked for', yesNo(r.robust)),
+        kv('Rows with missing values left out', yesNo(r.dropMissing)),
         kv('Random seed', r.seed, 'integer'),
         kv('Simulated draws for spillover effects', r.impactDraws, 'integer'),
         kv('Random permutations for Moran\'s I', r.permutations, 'integer'),
         kv('Log-determinant method', result.algebra.logDeterminant),
         kv('Log-determinant accuracy', result.algebra.accuracy),
         kv('Trace computation', result.algebra.traces),
-        kv('Admissible parameter range', `${result.algebra.range.lower} to ${result.algebra.range.upper} (${result.algebra.range.method})`),
+        kv('Lowest admissible spatial parameter', num(result.algebra.range.lower), 'decimal4'),
+        kv('Highest admissible spatial parameter', num(result.algebra.range.upper), 'decimal4'),
+        kv('How the range was found', `${result.algebra.range.method} (${say(result.algebra.range.lower)} to ${say(result.algebra.range.upper)})`),
         kv('Coordinates', `${result.coordinates}: ${result.coordinateEvidence}`),
         kv('Engine version', result.engineVersion),
         kv('Made at', result.createdAt),
