@@ -6,6 +6,7 @@ import { InputError } from '../errors.js';
 export interface FitArgs {
   boundary: string;
   layer?: string;
+  coordinates?: 'geographic' | 'projected';
   data?: string;
   sheet?: string;
   id: string;
@@ -33,6 +34,7 @@ export const FIT_USAGE = `Usage:
 Files
   --boundary FILE      GeoJSON, TopoJSON, a shapefile (.shp with its .dbf beside it) or a .zip of one
   --layer NAME         which object of a TopoJSON file (default: the first)
+  --coordinates KIND   geographic (longitude/latitude) or projected, when the file does not say
   --data FILE          CSV or .xlsx table joined to the areas by --id (default: the boundary's own attributes)
   --sheet NAME         sheet of the .xlsx table (default: the first)
   --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one)
@@ -71,7 +73,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
       args: argv,
       allowPositionals: false,
       options: {
-        boundary: { type: 'string' }, layer: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
+        boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, 'include-lower': { type: 'boolean' },
         tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' },
@@ -96,10 +98,14 @@ export function parseFitArgs(argv: string[]): FitArgs {
   for (const m of models) if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`--models: unknown model "${m}"; choose from ols, lag, error.`);
   const algebra = (v.algebra ?? 'auto') as FitArgs['algebra'];
   if (!['auto', 'dense', 'sparse'].includes(algebra)) throw new InputError(`--algebra must be auto, dense or sparse, not "${v.algebra}".`);
+  if (v.coordinates !== undefined && v.coordinates !== 'geographic' && v.coordinates !== 'projected') {
+    throw new InputError(`--coordinates must be geographic or projected, not "${v.coordinates}".`);
+  }
   if (v.out && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
   return {
     boundary: need('boundary'),
     layer: v.layer,
+    coordinates: v.coordinates as FitArgs['coordinates'],
     data: v.data,
     sheet: v.sheet,
     id: need('id'),
@@ -131,7 +137,7 @@ export function parseWeightsRule(rule: string, order?: string, includeLower = fa
     return n;
   };
   if (name === 'queen' || name === 'rook') {
-    const spec: WeightsSpec = { method: name };
+    const spec: Extract<WeightsSpec, { method: 'queen' | 'rook' }> = { method: name };
     if (order !== undefined) {
       const k = num(order, '--order');
       if (!Number.isInteger(k) || k < 1) throw new InputError(`--order must be a whole number of at least 1, not "${order}".`);
@@ -159,7 +165,7 @@ export function parseWeightsRule(rule: string, order?: string, includeLower = fa
   if (name === 'idw') {
     const p = num(params[0], 'the power (idw:POWER)');
     if (p <= 0) throw new InputError(`--weights ${rule}: the power must be positive.`);
-    const spec: WeightsSpec = { method: 'idw', power: p };
+    const spec: Extract<WeightsSpec, { method: 'idw' }> = { method: 'idw', power: p };
     if (params[1] !== undefined) {
       const c = num(params[1], 'the cut-off (idw:POWER:CUTOFF)');
       if (c <= 0) throw new InputError(`--weights ${rule}: the cut-off must be positive.`);

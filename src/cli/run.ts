@@ -38,6 +38,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     const result = await runAnalysis({
       boundary: readBoundaryFiles(args.boundary),
       layer: args.layer,
+      coordinates: args.coordinates,
       data: args.data ? readNamedFile(args.data, 'data') : undefined,
       sheet: args.sheet,
       id: args.id,

@@ -40,7 +40,7 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   if (request.data) inputs.push(await record('data', request.data));
   if (request.edgeList) inputs.push(await record('edge list', request.edgeList));
 
-  const layer = await readBoundary(request.boundary, { layer: request.layer });
+  const layer = await readBoundary(request.boundary, { layer: request.layer, coordinates: request.coordinates });
   const table = request.data ? await readTable(request.data, { sheet: request.sheet }) : tableFromLayer(layer);
   lap('read');
   progress(0.1, 'Joining the table to the areas');

@@ -12,6 +12,8 @@ export interface AnalysisRequest {
   boundary: NamedBytesLike[];
   /** Which object of a TopoJSON file (default: the first). */
   layer?: string;
+  /** Overrides what the coordinates are taken to be (when the file says nothing and the ranges mislead). */
+  coordinates?: 'geographic' | 'projected';
   /** Data table (CSV or .xlsx); when absent the boundary file's own attributes are used. */
   data?: NamedBytesLike;
   sheet?: string;
