@@ -86,7 +86,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
   if (timings.length) {
     blocks.push({
       kind: 'table', title: 'Time taken',
-      columns: [{ header: 'Stage', format: 'text', width: 20 }, { header: 'Milliseconds', format: 'integer', width: 14 }],
+      columns: [{ header: 'Stage', format: 'text', width: 20 }, { header: 'Seconds', format: 'decimal4', width: 14 }],
       rows: timings.map(([k, v]): Cell[] => [k, v]),
     });
   }

@@ -136,7 +136,7 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     olsResidualLag: spatialLag(edges, residuals),
     moranY: { I: moranIY, expected: -1 / 24, variance: 0.0152, z: (moranIY + 1 / 24) / Math.sqrt(0.0152), p: 0.0001, permutationP: 0.001, permutations: 999 },
     warnings: [],
-    timings: { read: 3, weights: 1, models: 12 },
+    timings: { read: 0.003, weights: 0.001, models: 0.012 }, // seconds, as the pipeline reports them
   };
   if (models.includes('lag')) {
     result.lag = spatial('lag', 0.41);
