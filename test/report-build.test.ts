@@ -154,4 +154,20 @@ describe('buildReport', () => {
     }
     expect(blockHeight({ kind: 'table', title: 't', columns: [], rows: [[1], [2]], note: 'n' })).toBe(5);
   });
+
+  it('shows robust coefficients, islands, left-out rows and a given title', () => {
+    const r = fakeResult();
+    r.ols.robustCoefficients = r.ols.coefficients.map((c) => ({ ...c, se: c.se * 1.2 }));
+    r.weights.islands = ['W25'];
+    r.weights.summary = { ...r.weights.summary, islands: ['W25'] };
+    r.droppedRows = [{ row: 9, id: 'W99', columns: ['median_rent'] }];
+    const rep = buildReport(r, { title: 'Vacancy in Lake Marrow' });
+    expect(rep.sheets[0].blocks[0]).toEqual({ kind: 'title', text: 'Vacancy in Lake Marrow' });
+    const robust = table(rep, 'Plain regression', 'Coefficients with standard errors robust to unequal variance');
+    expect(robust.rows.map((x) => x[2])).toEqual(r.ols.robustCoefficients.map((c) => c.se));
+    expect(table(rep, 'How this was made', 'Rows left out for missing values').rows).toEqual([[9, 'W99', 'median_rent']]);
+    const joined = allText(rep).join('\n');
+    expect(joined).toMatch(/1 area\(s\) have no neighbours under this definition: W25/);
+    expect(joined).toMatch(/Areas without neighbours: W25\./);
+  });
 });
