@@ -26,11 +26,18 @@ export class SparseCholeskyLogDet implements LogDeterminant {
     const g = graphOf(s);
     const c = opts.coordinates;
     const useCoordinates = !!c && c.x.length === s.n && c.y.length === s.n && allFinite(c.x) && allFinite(c.y);
-    const perm = useCoordinates ? coordinateDissection(g, c!.x, c!.y) : levelDissection(g);
-    this.symbolic = analyse(g, perm, s);
+    // with coordinates, both dissections are analysed and the one with fewer factorisation
+    // operations (Σ colcount², George & Liu 1981) is kept
+    const candidates: { symbolic: SymbolicFactor; ordering: string }[] = [
+      { symbolic: analyse(g, levelDissection(g), s), ordering: 'nested dissection from breadth-first level structures' },
+    ];
+    if (useCoordinates) candidates.push({ symbolic: analyse(g, coordinateDissection(g, c!.x, c!.y), s), ordering: 'nested dissection from area coordinates' });
+    const cost = (f: SymbolicFactor) => { let t = 0; for (let j = 0; j < f.n; j++) t += f.colCount[j] * f.colCount[j]; return t; };
+    const best = candidates.reduce((a, b) => (cost(b.symbolic) < cost(a.symbolic) ? b : a));
+    this.symbolic = best.symbolic;
     this.engine = new Multifrontal(this.symbolic, s.values);
     this.symbolicSeconds = (performance.now() - t0) / 1000;
-    const ordering = useCoordinates ? 'nested dissection from area coordinates' : 'nested dissection from breadth-first level structures';
+    const ordering = best.ordering + (useCoordinates ? ' (fewer operations than the other dissection tried)' : '');
     this.method = `exact, sparse Cholesky of I − ρS (S symmetric, similar to W; multifrontal, ${ordering}; ` +
       `nnz(L) ${this.symbolic.nnzL}, one symbolic analysis reused for every ρ)`;
   }

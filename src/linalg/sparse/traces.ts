@@ -36,7 +36,7 @@ export class CholeskyTraces {
   constructor(private readonly ld: SparseCholeskyLogDet, private readonly s: CsrMatrix, private readonly t: Float64Array, opts: TraceOptions = {}) {
     this.seed = opts.seed ?? 20240601;
     this.probes = opts.probes ?? 48;
-    this.exact = s.n * ld.symbolic.nnzStored <= (opts.exactBudget ?? 4e8);
+    this.exact = s.n * ld.symbolic.nnzStored <= (opts.exactBudget ?? 1.5e8);
   }
 
   describe(): string {
