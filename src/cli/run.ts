@@ -58,7 +58,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     });
     if (args.out) {
       const { writeResultsFile } = await import('./write-results.js');
-      await writeResultsFile(result, args.out, args.data);
+      for (const note of await writeResultsFile(result, args.out, args.data)) io.stderr(`spillway: note: ${note}\n`);
     }
     if (args.json) io.stdout(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2) + '\n');
     else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : ''));
