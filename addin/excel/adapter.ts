@@ -1,0 +1,267 @@
+/**
+ * The one place that touches Office.js. Reads the active sheet's table, writes the report as new
+ * sheets (one batch and one sync per sheet), inserts the maps as pictures and the Moran scatter as
+ * a native chart, and keeps the setup (document settings) and the boundary files (a custom XML part)
+ * in the workbook. If any write fails, the sheets this run added are deleted again.
+ */
+import { InputError } from '../../src/errors.js';
+import type { Report, ReportImage, ReportSheet } from '../../src/report/index.js';
+import { uniqueSheetName } from '../../src/workbook/sheet-names.js';
+import type { BoundaryFile, RunOutput, SavedSetup, ScatterPoints, SheetValue, TableSnapshot } from '../shared/types.js';
+import type { ContextLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
+import { BOUNDARY_NAMESPACE, boundaryPartXml, readBoundaryPart } from './boundary-part.js';
+import { address, columnLeft, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
+
+export const SETUP_KEY = 'spillway.setup';
+const PX_TO_POINTS = 0.75;
+const SCATTER_PICTURE = 'Moran scatter plot';
+
+const STYLE: Record<CellStyle, { bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean }> = {
+  title: { bold: true, size: 14, color: '#1B4470' },
+  blockTitle: { bold: true },
+  header: { bold: true, fill: '#E6EDF4', wrap: true },
+  note: { italic: true, color: '#555555' },
+  caution: { color: '#8A3F0A' },
+};
+
+function toBase64(bytes: Uint8Array): string {
+  let s = '';
+  for (let i = 0; i < bytes.length; i += 0x8000) s += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
+  return btoa(s);
+}
+
+function plainCell(v: unknown): SheetValue {
+  if (v === '' || v === undefined || v === null) return null;
+  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
+  return String(v);
+}
+
+/** Message of an Office error (OfficeExtension.Error carries a code) or any other. */
+function describe(e: unknown): string {
+  if (e instanceof Error) {
+    const code = (e as { code?: unknown }).code;
+    return typeof code === 'string' && code && !e.message.includes(code) ? `${e.message} (${code})` : e.message;
+  }
+  return String(e);
+}
+
+export class ExcelAdapter {
+  constructor(private readonly run: ExcelRunner) {}
+
+  /** The first table on the active sheet, or else its used range: the header row and the rows below. */
+  async readActiveTable(): Promise<TableSnapshot> {
+    return this.run(async (context) => {
+      const ws = context.workbook.worksheets.getActiveWorksheet();
+      ws.load('name');
+      ws.tables.load('items/name');
+      await context.sync();
+      const range: RangeLike = ws.tables.items.length > 0 ? ws.tables.items[0].getRange() : ws.getUsedRangeOrNullObject(true);
+      range.load(['values', 'rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
+      await context.sync();
+      if (range.isNullObject || range.rowCount === 0) {
+        throw new InputError(`The sheet "${ws.name}" is empty. Open the sheet that holds one row per area, with column names in the first row.`);
+      }
+      const values = range.values.map((row) => row.map(plainCell));
+      let head = 0;
+      while (head < values.length && values[head].every((c) => c === null)) head++;
+      if (head === values.length) throw new InputError(`The sheet "${ws.name}" has no values.`);
+      const headers = values[head].map((c) => (c === null ? '' : String(c).trim()));
+      while (headers.length > 0 && headers[headers.length - 1] === '') headers.pop();
+      const rows: SheetValue[][] = [];
+      const rowNumbers: number[] = [];
+      for (let r = head + 1; r < values.length; r++) {
+        if (values[r].every((c) => c === null)) continue;
+        rows.push(values[r].slice(0, headers.length));
+        rowNumbers.push(range.rowIndex + r + 1);
+      }
+      return { sheet: ws.name, headerRow: range.rowIndex + head + 1, firstColumn: range.columnIndex + 1, headers, rows, rowNumbers };
+    });
+  }
+
+  /** Selects a cell so the analyst sees the value at fault. */
+  async showCell(sheet: string, cell: string): Promise<void> {
+    await this.run(async (context) => {
+      const ws = context.workbook.worksheets.getItemOrNullObject(sheet);
+      await context.sync();
+      if (ws.isNullObject) return;
+      ws.activate();
+      ws.getRange(cell).select();
+      await context.sync();
+    });
+  }
+
+  /**
+   * Writes every report sheet as a new sheet, one batch each. On the first failure the sheets this
+   * call added are deleted and the error is passed on with the sheet it happened on.
+   */
+  async writeReport(output: Pick<RunOutput, 'report' | 'scatter'>): Promise<string[]> {
+    const existing = await this.run(async (context) => {
+      context.workbook.worksheets.load('items/name');
+      await context.sync();
+      return context.workbook.worksheets.items.map((w) => w.name);
+    });
+    const taken = new Set(existing.map((n) => n.toLowerCase()));
+    const created: string[] = [];
+    let current = '';
+    try {
+      for (const sheet of output.report.sheets) {
+        current = uniqueSheetName(sheet.name, taken);
+        const name = current;
+        await this.run(async (context) => {
+          const ws = context.workbook.worksheets.add(name);
+          created.push(name);
+          const grid = sheetGrid(sheet);
+          writeGrid(ws, grid);
+          writePictures(ws, grid, sheet, sheet.role === 'overview' ? output.scatter : undefined);
+          await context.sync();
+        });
+      }
+      await this.run(async (context) => {
+        context.workbook.worksheets.getItemOrNullObject(created[0]).activate();
+        await context.sync();
+      }).catch(() => undefined);
+      return created;
+    } catch (e) {
+      await this.removeSheets(created);
+      throw new Error(`Writing the results stopped at the sheet "${current}": ${describe(e)}. The sheets this run had added were removed again.`);
+    }
+  }
+
+  private async removeSheets(names: readonly string[]): Promise<void> {
+    if (names.length === 0) return;
+    await this.run(async (context: ContextLike) => {
+      const sheets = names.map((n) => context.workbook.worksheets.getItemOrNullObject(n));
+      await context.sync();
+      for (const ws of sheets) if (!ws.isNullObject) ws.delete();
+      await context.sync();
+    });
+  }
+
+  async saveSetup(setup: SavedSetup): Promise<void> {
+    await this.run(async (context) => {
+      context.workbook.settings.add(SETUP_KEY, JSON.stringify(setup));
+      await context.sync();
+    });
+  }
+
+  async loadSetup(): Promise<SavedSetup | null> {
+    return this.run(async (context) => {
+      const item = context.workbook.settings.getItemOrNullObject(SETUP_KEY);
+      item.load('value');
+      await context.sync();
+      if (item.isNullObject || typeof item.value !== 'string') return null;
+      try {
+        const parsed = JSON.parse(item.value) as SavedSetup;
+        return parsed && parsed.version === 1 ? parsed : null;
+      } catch {
+        return null;
+      }
+    });
+  }
+
+  /** Replaces the stored boundary files with these. */
+  async storeBoundary(files: readonly BoundaryFile[]): Promise<void> {
+    const xml = boundaryPartXml(files);
+    await this.run(async (context) => {
+      const old = context.workbook.customXmlParts.getByNamespace(BOUNDARY_NAMESPACE);
+      old.load('items/id');
+      await context.sync();
+      for (const part of old.items) part.delete();
+      context.workbook.customXmlParts.add(xml);
+      await context.sync();
+    });
+  }
+
+  async loadBoundary(): Promise<BoundaryFile[] | null> {
+    return this.run(async (context) => {
+      const parts = context.workbook.customXmlParts.getByNamespace(BOUNDARY_NAMESPACE);
+      parts.load('items/id');
+      await context.sync();
+      if (parts.items.length === 0) return null;
+      const xml = parts.items[0].getXml();
+      await context.sync();
+      const files = readBoundaryPart(xml.value);
+      return files.length ? files : null;
+    });
+  }
+}
+
+/** Values, number formats, styles, merges, sizes and frozen rows of one sheet: queued, not synced. */
+export function writeGrid(ws: WorksheetLike, grid: SheetGrid): void {
+  const all = ws.getRangeByIndexes(0, 0, grid.rows, grid.cols);
+  // formats first, so text such as IDs with leading zeros or a leading minus stays text
+  all.numberFormat = grid.formats;
+  all.values = grid.values;
+  grid.columnWidths.forEach((w, c) => { ws.getRangeByIndexes(0, c, 1, 1).format.columnWidth = w * POINTS_PER_CHAR; });
+  for (const [r, h] of grid.rowHeights) ws.getRangeByIndexes(r, 0, 1, 1).format.rowHeight = h;
+  for (const m of grid.merges) {
+    const range = ws.getRangeByIndexes(m.row, m.col, 1, m.cols);
+    range.merge(false);
+    range.format.wrapText = true;
+    range.format.verticalAlignment = 'Top';
+  }
+  for (const s of grid.styles) {
+    const style = STYLE[s.style];
+    const f = ws.getRangeByIndexes(s.row, s.col, s.rows, s.cols).format;
+    if (style.bold) f.font.bold = true;
+    if (style.italic) f.font.italic = true;
+    if (style.size) f.font.size = style.size;
+    if (style.color) f.font.color = style.color;
+    if (style.fill) f.fill.color = style.fill;
+    if (style.wrap) f.wrapText = true;
+  }
+  if (grid.freezeRows > 0) ws.freezePanes.freezeRows(grid.freezeRows);
+}
+
+function placeAt(grid: SheetGrid, im: Pick<ReportImage, 'anchor'>) {
+  return { top: rowTop(grid, im.anchor.row - 1), left: columnLeft(grid, im.anchor.col - 1) };
+}
+
+/**
+ * The report's pictures as PNG shapes; on the overview, the Moran scatter becomes a native chart
+ * over its points, written to the right of the report (the slope of its trend line is Moran's I).
+ */
+export function writePictures(ws: WorksheetLike, grid: SheetGrid, sheet: ReportSheet, scatter?: ScatterPoints): void {
+  for (const im of sheet.images ?? []) {
+    const at = placeAt(grid, im);
+    if (scatter && im.name === SCATTER_PICTURE) {
+      writeScatterChart(ws, grid, scatter, at, im);
+      continue;
+    }
+    if (!im.png.length) continue;
+    const shape = ws.shapes.addImage(toBase64(im.png));
+    shape.name = im.name;
+    shape.altTextDescription = im.alt;
+    shape.top = at.top;
+    shape.left = at.left;
+    shape.width = im.widthPx * PX_TO_POINTS;
+    shape.height = im.heightPx * PX_TO_POINTS;
+  }
+}
+
+function writeScatterChart(ws: WorksheetLike, grid: SheetGrid, s: ScatterPoints, at: { top: number; left: number }, im: ReportImage): void {
+  const col = grid.cols + 1;
+  const n = s.z.length;
+  const title = ws.getRangeByIndexes(0, col, 1, 1);
+  title.values = [['Points of the Moran scatter plot']];
+  title.format.font.bold = true;
+  const data = ws.getRangeByIndexes(1, col, n + 1, 2);
+  data.numberFormat = [['@', '@'], ...s.z.map(() => ['0.0000', '0.0000'])];
+  data.values = [[`${s.valueName} (standardised)`, "Neighbours' average"], ...s.z.map((z, i) => [z, s.lag[i]])];
+  ws.getRangeByIndexes(1, col, 1, 2).format.font.bold = true;
+  const chart = ws.charts.add('XYScatter', data, 'Columns');
+  chart.name = 'Moran scatter';
+  chart.title.text = `Moran scatter plot of ${s.valueName} (slope ${s.slope.toFixed(3)})`;
+  chart.legend.visible = false;
+  chart.axes.categoryAxis.title.text = `${s.valueName}, standardised`;
+  chart.axes.valueAxis.title.text = "Neighbours' average, standardised";
+  chart.series.getItemAt(0).markerSize = 5;
+  chart.series.getItemAt(0).trendlines.add('Linear');
+  chart.top = at.top;
+  chart.left = at.left;
+  chart.width = im.widthPx * PX_TO_POINTS;
+  chart.height = im.heightPx * PX_TO_POINTS;
+}
+
+export { address };
+export type { Report };

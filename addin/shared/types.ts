@@ -1,0 +1,54 @@
+/** Shapes shared by the sidebar, its two hosts (Excel, the browser page) and the engine worker. No DOM, no Office. */
+import type { NamedBytesLike } from '../../src/pipeline/index.js';
+import type { Report } from '../../src/report/index.js';
+import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
+
+export type SheetValue = string | number | boolean | null;
+
+/** A table as read from a sheet: the header row and the rows under it, with where it sits. */
+export interface TableSnapshot {
+  /** sheet name */
+  sheet: string;
+  /** 1-based sheet row of the header and 1-based sheet column of the first column */
+  headerRow: number;
+  firstColumn: number;
+  headers: string[];
+  rows: SheetValue[][];
+  /** 1-based sheet row of each entry of rows (blank rows are left out) */
+  rowNumbers: number[];
+}
+
+/** What the analyst chose, saved with the workbook so the next run starts from it. */
+export interface SavedSetup {
+  version: 1;
+  sheet?: string;
+  id?: string;
+  y?: string;
+  x?: string[];
+  areas?: { kind: 'file'; names: string[]; layer?: string } | { kind: 'points'; xColumn: string; yColumn: string };
+  weights?: WeightsSpec;
+  transform?: WeightsTransform;
+  linkIslands?: boolean;
+  models?: ('lag' | 'error')[];
+  robust?: boolean;
+  dropMissing?: boolean;
+}
+
+/** Points of the Moran scatter plot, for a native chart. */
+export interface ScatterPoints {
+  valueName: string;
+  z: number[];
+  lag: number[];
+  slope: number;
+}
+
+/** What one run hands to the host to write. */
+export interface RunOutput {
+  report: Report;
+  scatter: ScatterPoints;
+  /** one line for the sidebar, e.g. "150 areas, spatial lag ρ = 0.48" */
+  headline: string;
+  warnings: string[];
+}
+
+export type BoundaryFile = NamedBytesLike;

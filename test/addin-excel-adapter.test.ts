@@ -1,0 +1,187 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { runAnalysis, type AnalysisResult } from '../src/pipeline/index.js';
+import { buildReport, moranScatterData, type Report } from '../src/report/index.js';
+import { ExcelAdapter, SETUP_KEY } from '../addin/excel/adapter.js';
+import { sheetGrid } from '../addin/excel/report-grid.js';
+import { FakeExcel, FakeOfficeError } from './helpers/fake-excel.js';
+import type { ScatterPoints } from '../addin/shared/types.js';
+
+const ROOT = join(import.meta.dirname, '..');
+const COLUMBUS = join(ROOT, 'test/fixtures/columbus');
+// The 8-byte PNG signature (PNG spec, section 5.2) stands in for a rendered picture.
+const PNG_STUB = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+
+let result: AnalysisResult;
+let report: Report;
+let scatter: ScatterPoints;
+
+beforeAll(async () => {
+  const boundary = ['columbus.shp', 'columbus.shx', 'columbus.dbf'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(COLUMBUS, name))) }));
+  result = await runAnalysis({
+    boundary, id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag'],
+    impactDraws: 50, permutations: 49,
+  });
+  report = buildReport(result, { renderPng: () => PNG_STUB });
+  const d = moranScatterData(result.y, result.weights.edges);
+  scatter = { valueName: 'CRIME', z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope };
+});
+
+describe('the Excel stand-in keeps Office.js proxy semantics', () => {
+  it('a value is readable only after load and sync; before, it throws PropertyNotLoaded as Office does', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data', [['a', 'b'], [1, 2]]);
+    await excel.run(async (ctx) => {
+      const range = ctx.workbook.worksheets.getActiveWorksheet().getRange('A1:B2');
+      expect(() => range.values).toThrow(FakeOfficeError);
+      range.load('values');
+      expect(() => range.values).toThrow(/call the load method.*context\.sync/);
+      await ctx.sync();
+      expect(range.values).toEqual([['a', 'b'], [1, 2]]);
+    });
+  });
+
+  it('writes wait for sync, and a 2-D array of the wrong size fails the sync', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    await excel.run(async (ctx) => {
+      const ws = ctx.workbook.worksheets.getActiveWorksheet();
+      ws.getRange('A1').values = [[5]];
+      expect(excel.cell('Data', 'A1')).toBeUndefined();
+      await ctx.sync();
+      expect(excel.cell('Data', 'A1')?.value).toBe(5);
+      ws.getRange('A1:B1').values = [[1]];
+      await expect(ctx.sync()).rejects.toThrow(/doesn't match the size/);
+    });
+  });
+});
+
+describe('reading the active sheet', () => {
+  it('finds the header and rows of the used range wherever they start, keeping sheet row numbers', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Districts', [
+      ['code', 'rate', 'note'],
+      ['A1', 3.5, 'x'],
+      [null, null, null],
+      ['A2', 4, null],
+    ], { row: 2, col: 1 });
+    const t = await new ExcelAdapter(excel.run).readActiveTable();
+    expect(t.sheet).toBe('Districts');
+    expect(t.headerRow).toBe(3);
+    expect(t.firstColumn).toBe(2);
+    expect(t.headers).toEqual(['code', 'rate', 'note']);
+    expect(t.rows).toEqual([['A1', 3.5, 'x'], ['A2', 4, null]]);
+    expect(t.rowNumbers).toEqual([4, 6]);
+  });
+
+  it('prefers a table on the sheet over the used range', async () => {
+    const excel = new FakeExcel();
+    const s = excel.addSheet('Data', [['title'], [], ['id', 'v'], ['a', 1], ['b', 2]]);
+    s.tables.push({ name: 'Areas', row: 2, col: 0, rows: 3, cols: 2 });
+    const t = await new ExcelAdapter(excel.run).readActiveTable();
+    expect(t.headers).toEqual(['id', 'v']);
+    expect(t.rowNumbers).toEqual([4, 5]);
+  });
+
+  it('says so when the sheet is empty', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Empty');
+    await expect(new ExcelAdapter(excel.run).readActiveTable()).rejects.toThrow(/"Empty" is empty/);
+  });
+});
+
+describe('writing the report (Columbus data, Anselin 1988)', () => {
+  it('adds one sheet per report sheet with one sync each, values and number formats from the report model', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    excel.addSheet('Summary'); // taken: the report's Summary becomes "Summary (2)"
+    const adapter = new ExcelAdapter(excel.run);
+    const names = await adapter.writeReport({ report, scatter });
+    expect(names).toHaveLength(report.sheets.length);
+    expect(names[0]).toBe('Summary (2)');
+    expect(excel.sheetNames()).toEqual(['Data', 'Summary', ...names]);
+    // first run lists the sheets; then exactly one sync per written sheet
+    const writes = excel.syncsPerRun.slice(1, 1 + names.length);
+    expect(writes.every((n) => n === 1)).toBe(true);
+
+    // the neighbour sheet holds every link: 236 queen links (test/golden, independent numpy reference)
+    const nbIndex = report.sheets.findIndex((s) => s.role === 'neighbours');
+    const nbName = names[nbIndex];
+    const grid = sheetGrid(report.sheets[nbIndex]);
+    const header = grid.values.findIndex((r) => r[0] === 'Area ID');
+    expect(header).toBeGreaterThan(0);
+    const links = grid.values.slice(header + 1).filter((r) => typeof r[2] === 'number');
+    expect(links).toHaveLength(236);
+    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.value).toBe(String(links[0][0]));
+    // IDs are written as text; weights with four decimals
+    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.format).toBe('@');
+    expect(excel.sheet(nbName)!.cells.get(`${header + 1},2`)?.format).toBe('0.0000');
+  });
+
+  it('inserts the maps as pictures and the Moran scatter as a chart whose points are on the sheet', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const names = await new ExcelAdapter(excel.run).writeReport({ report, scatter });
+    const summary = excel.sheet(names[0])!;
+    const maps = report.sheets[0].images!.filter((im) => im.name !== 'Moran scatter plot');
+    expect(summary.shapes).toHaveLength(maps.length);
+    expect(summary.shapes[0].altTextDescription).toBe(maps[0].alt);
+    expect(summary.charts).toHaveLength(1);
+    const chart = summary.charts[0];
+    expect(chart.type).toBe('XYScatter');
+    expect(chart.source.rows).toBe(scatter.z.length + 1);
+    expect(chart.trendlines).toEqual(['Linear']);
+    // With row-standardised weights the scatter's least-squares slope is Moran's I (Anselin 1996).
+    expect(scatter.slope).toBeCloseTo(result.moranY.I, 10);
+    const firstPoint = summary.cells.get(`${chart.source.row + 1},${chart.source.col}`);
+    expect(firstPoint?.value).toBeCloseTo(scatter.z[0], 12);
+  });
+
+  it('removes every sheet it added when a write fails, and names the sheet where it stopped', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data', [['keep me']]);
+    const third = report.sheets[2].name;
+    excel.failWhen = (c) => c.kind === 'values' && c.sheet === third;
+    const adapter = new ExcelAdapter(excel.run);
+    await expect(adapter.writeReport({ report, scatter })).rejects.toThrow(new RegExp(`stopped at the sheet "${third}".*removed again`));
+    expect(excel.sheetNames()).toEqual(['Data']);
+    expect(excel.cell('Data', 'A1')?.value).toBe('keep me');
+  });
+
+  it('also rolls back when the picture insert fails on the first sheet', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    excel.failWhen = (c) => c.kind === 'addImage';
+    await expect(new ExcelAdapter(excel.run).writeReport({ report, scatter })).rejects.toThrow(/Summary/);
+    expect(excel.sheetNames()).toEqual(['Data']);
+  });
+});
+
+describe('what the workbook keeps for the next run', () => {
+  it('saves the setup in the document settings and reads it back', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const adapter = new ExcelAdapter(excel.run);
+    expect(await adapter.loadSetup()).toBeNull();
+    await adapter.saveSetup({ version: 1, id: 'POLYID', y: 'CRIME', x: ['INC'], weights: { method: 'knn', k: 4 } });
+    expect(typeof excel.settings.get(SETUP_KEY)).toBe('string');
+    expect(await adapter.loadSetup()).toMatchObject({ id: 'POLYID', weights: { method: 'knn', k: 4 } });
+  });
+
+  it('stores the boundary files in one custom XML part, replaces it on the next store, and gives the same bytes back', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const adapter = new ExcelAdapter(excel.run);
+    expect(await adapter.loadBoundary()).toBeNull();
+    const shp = new Uint8Array(readFileSync(join(COLUMBUS, 'columbus.shp')));
+    const dbf = new Uint8Array(readFileSync(join(COLUMBUS, 'columbus.dbf')));
+    await adapter.storeBoundary([{ name: 'old & first.geojson', bytes: new Uint8Array([1, 2, 3]) }]);
+    await adapter.storeBoundary([{ name: 'columbus.shp', bytes: shp }, { name: 'columbus.dbf', bytes: dbf }]);
+    expect(excel.xmlParts).toHaveLength(1);
+    const back = await adapter.loadBoundary();
+    expect(back!.map((f) => f.name)).toEqual(['columbus.shp', 'columbus.dbf']);
+    expect(Buffer.from(back![0].bytes).equals(Buffer.from(shp))).toBe(true);
+    expect(Buffer.from(back![1].bytes).equals(Buffer.from(dbf))).toBe(true);
+  });
+});
