@@ -5,6 +5,7 @@ import type { NamedBytes } from './named-bytes.js';
 import { formatBytes, isZip, unzipBoundary } from './unzip.js';
 import { isTopology, layerFromGeoJson, layerFromTopology, parseJsonBytes } from './read-json-boundary.js';
 import { layerFromShapefile, type ShapefileParts } from './read-shapefile.js';
+import { checkMixedUnits } from './mixed-units.js';
 
 export type { NamedBytes };
 
@@ -30,6 +31,13 @@ function stem(name: string): string {
 }
 
 export async function readBoundary(files: NamedBytes[], opts: ReadBoundaryOptions = {}): Promise<AreaLayer> {
+  const layer = await readLayer(files, opts);
+  // Only a layer read as projected can hide degree features among planar ones.
+  if (layer.coordinates === 'projected') checkMixedUnits(layer.areas, layer.sourceName);
+  return layer;
+}
+
+async function readLayer(files: NamedBytes[], opts: ReadBoundaryOptions): Promise<AreaLayer> {
   const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   if (files.length === 0) throw new InputError('No boundary file was given.');
   let total = 0;
