@@ -1,7 +1,7 @@
 /** Boundaries and the data table: reading, validating and joining them by ID. */
 export type { NamedBytes } from './named-bytes.js';
 export { readBoundary, type ReadBoundaryOptions } from './read-boundary.js';
-export { readTable } from './read-table.js';
+export { readTable, type ReadTableOptions } from './read-table.js';
 export { joinAreas, JoinError } from './join.js';
 export { numericColumn } from './numeric-column.js';
 export { subsetAreas, tableFromLayer } from './subset.js';

@@ -4,12 +4,25 @@ import type { DataTable } from './types.js';
 import type { NamedBytes } from './named-bytes.js';
 import { readCsv } from './read-csv.js';
 import { readXlsx } from './read-xlsx.js';
+import { formatBytes } from './unzip.js';
 
-export async function readTable(file: NamedBytes, opts: { sheet?: string } = {}): Promise<DataTable> {
+export interface ReadTableOptions {
+  sheet?: string;
+  /** Cap on the file's size and on what an .xlsx may expand to; default 1 GiB. */
+  maxBytes?: number;
+}
+
+const DEFAULT_MAX_BYTES = 2 ** 30;
+
+export async function readTable(file: NamedBytes, opts: ReadTableOptions = {}): Promise<DataTable> {
   const b = file.bytes;
+  const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   if (!b || b.length === 0) throw new InputError(`${file.name} is empty (0 bytes).`, { file: file.name });
+  if (b.length > maxBytes) {
+    throw new InputError(`${file.name} is ${formatBytes(b.length)}, over the ${formatBytes(maxBytes)} limit for data tables.`, { file: file.name });
+  }
   const isZipBytes = b.length >= 4 && b[0] === 0x50 && b[1] === 0x4b && b[2] === 0x03 && b[3] === 0x04;
-  if (/\.xlsx$|\.xlsm$/i.test(file.name) || isZipBytes) return readXlsx(b, file.name, opts.sheet);
+  if (/\.xlsx$|\.xlsm$/i.test(file.name) || isZipBytes) return readXlsx(b, file.name, opts.sheet, maxBytes);
   if (/\.xls$/i.test(file.name) || (b[0] === 0xd0 && b[1] === 0xcf)) {
     throw new InputError(`${file.name} is an old-style .xls workbook; save it as .xlsx or CSV and try again.`, { file: file.name });
   }

@@ -1,10 +1,13 @@
 /** .xlsx sheets read with exceljs. Formulas give their cached result; no formula is evaluated. */
 import ExcelJS from 'exceljs';
+import { unzipSync } from 'fflate';
 import { InputError } from '../errors.js';
+import { formatBytes } from './unzip.js';
 import type { DataTable } from './types.js';
 import { shapeTable, type Cell, type RawRow } from './table-shape.js';
 
-export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: string): Promise<DataTable> {
+export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: string, maxBytes = 2 ** 30): Promise<DataTable> {
+  checkExpansion(bytes, sourceName, maxBytes);
   const workbook = new ExcelJS.Workbook();
   try {
     // exceljs's typings want a Node Buffer; a Uint8Array is what it actually reads.
@@ -36,6 +39,25 @@ export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: st
   });
   const table = shapeTable(raw, `${sourceName} (sheet "${ws.name}")`);
   return { ...table, sheet: ws.name };
+}
+
+/**
+ * An .xlsx is a zip: its declared sizes (central directory, read by fflate without inflating
+ * anything) are added up and checked against the cap before exceljs expands the parts.
+ */
+function checkExpansion(bytes: Uint8Array, sourceName: string, maxBytes: number): void {
+  let declared = 0;
+  try {
+    unzipSync(bytes, { filter: (info) => { declared += info.originalSize; return false; } });
+  } catch {
+    return; // not readable as a zip: exceljs gives the error message
+  }
+  if (declared > maxBytes) {
+    throw new InputError(
+      `${sourceName} would expand to ${formatBytes(declared)}, more than the ${formatBytes(maxBytes)} limit for data tables.`,
+      { file: sourceName },
+    );
+  }
 }
 
 /** Plain value of an exceljs cell: rich text → text, formula → cached result, date → ISO text, error → its text. */
