@@ -60,6 +60,12 @@ export function joinAreas(
       );
     }
     rowWord = table.rowsAreFeatures ? 'feature' : 'row';
+    if (table.rows.length === 0) {
+      throw new InputError(
+        `${table.sourceName} has a header (row ${table.firstRow - 1}) but no data rows under it; add one row per area.`,
+        { file: table.sourceName, row: table.firstRow },
+      );
+    }
     const rowNo = (i: number) => table.rowNumbers?.[i] ?? table.firstRow + i;
     const byRowId = new Map<string, number[]>();
     table.rows.forEach((r, i) => {
