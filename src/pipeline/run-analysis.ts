@@ -40,8 +40,12 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   if (request.data) inputs.push(await record('data', request.data));
   if (request.edgeList) inputs.push(await record('edge list', request.edgeList));
 
-  const layer = await readBoundary(request.boundary, { layer: request.layer, coordinates: request.coordinates });
-  const table = request.data ? await readTable(request.data, { sheet: request.sheet }) : tableFromLayer(layer);
+  const maxBytes = request.maxBytes;
+  const layer = await readBoundary(request.boundary, { layer: request.layer, coordinates: request.coordinates, maxBytes });
+  const table = request.data ? await readTable(request.data, { sheet: request.sheet, maxBytes }) : tableFromLayer(layer);
+  if (request.edgeList && maxBytes !== undefined && request.edgeList.bytes.length > maxBytes) {
+    throw new InputError(`${request.edgeList.name} is ${request.edgeList.bytes.length} bytes, over the ${maxBytes}-byte limit for neighbour lists.`, { file: request.edgeList.name });
+  }
   lap('read');
   progress(0.1, 'Joining the table to the areas');
   const joinedAll = joinAreas(layer, table, request.id);

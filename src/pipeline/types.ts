@@ -32,6 +32,8 @@ export interface AnalysisRequest {
   seed?: number;
   impactDraws?: number;
   permutations?: number;
+  /** Cap in bytes on each input file and on what a .zip or .xlsx may expand to (default 1 GiB). */
+  maxBytes?: number;
   /** 'auto' chooses dense for small n, sparse above. */
   algebra?: 'auto' | 'dense' | 'sparse';
   /** Called with a fraction in [0, 1] and a stage label; lets a sidebar show progress. */
