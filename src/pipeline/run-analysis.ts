@@ -1,6 +1,6 @@
 import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints } from '../geo/index.js';
 import {
-  buildWeights, readEdgeList, summarizeWeights, symmetricForm, spatialLag,
+  buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
@@ -57,9 +57,15 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   const points = representativePoints(joined.geometries);
   let w: SpatialWeights;
   if (request.edgeList) {
-    w = readEdgeList(new TextDecoder().decode(request.edgeList.bytes), joined.ids, {
-      transform: request.transform, source: request.edgeList.name,
-    });
+    const text = new TextDecoder().decode(request.edgeList.bytes);
+    const listOpts = { transform: request.transform, source: request.edgeList.name };
+    if (dropped.length > 0) {
+      // The list names the areas of the whole table: read it on all of them, then leave out the dropped rows.
+      const position = new Map(joinedAll.ids.map((id, i) => [id, i]));
+      w = subsetWeights(readEdgeList(text, joinedAll.ids, listOpts), joined.ids.map((id) => position.get(id)!));
+    } else {
+      w = readEdgeList(text, joined.ids, listOpts);
+    }
   } else {
     w = buildWeights(
       { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? points : undefined },
