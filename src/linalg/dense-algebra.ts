@@ -1,7 +1,7 @@
 import type { TracesAt, WeightsAlgebra } from './algebra.js';
 import { csrMultiply, type CsrMatrix } from './csr.js';
 import { csrToDense, generalEigenvalues, symmetricEigenvalues } from './dense-eigen.js';
-import { solveShifted } from './dense-iterative.js';
+import { shiftedSolver } from './dense-iterative.js';
 import type { AdmissibleRange, LogDeterminant } from './logdet.js';
 
 /**
@@ -249,11 +249,12 @@ function traceGtG(w: CsrMatrix, rho: number): number {
   const n = w.n;
   const unit = new Float64Array(n);
   const g = new Float64Array(n);
+  const solve = shiftedSolver(w, rho);
   let sum = 0;
   for (let i = 0; i < n; i++) {
     unit.fill(0);
     unit[i] = 1;
-    const { x } = solveShifted(w, rho, unit);
+    const { x } = solve(unit);
     csrMultiply(w, x, g);
     for (let t = 0; t < n; t++) sum += g[t] * g[t];
   }

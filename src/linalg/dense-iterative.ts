@@ -20,13 +20,23 @@ export function solveShifted(
   b: Float64Array,
   opts: { tolerance?: number; restart?: number; maxIterations?: number } = {},
 ): ShiftedSolve {
+  return shiftedSolver(w, rho, opts)(b);
+}
+
+/**
+ * The same solve as a reusable function: the Krylov workspace is allocated once, for callers that
+ * solve with many right-hand sides at one ρ (exact traces need one solve per area). The returned x
+ * is a fresh array each call.
+ */
+export function shiftedSolver(
+  w: CsrMatrix,
+  rho: number,
+  opts: { tolerance?: number; restart?: number; maxIterations?: number } = {},
+): (b: Float64Array) => ShiftedSolve {
   const n = w.n;
   const tol = opts.tolerance ?? 1e-12;
   const m = Math.min(opts.restart ?? 40, Math.max(n, 1));
   const maxIterations = opts.maxIterations ?? 4000;
-  const x = new Float64Array(n);
-  const bNorm = norm(b);
-  if (bNorm === 0) return { x, iterations: 0, relativeResidual: 0, converged: true };
   const wv = new Float64Array(n);
   const apply = (v: Float64Array, out: Float64Array): Float64Array => {
     csrMultiply(w, v, wv);
@@ -40,63 +50,68 @@ export function solveShifted(
   const sn = new Float64Array(m);
   const g = new Float64Array(m + 1);
   const r = new Float64Array(n);
-  let iterations = 0;
-  let relativeResidual = 1;
-  while (iterations < maxIterations) {
+  return (b: Float64Array): ShiftedSolve => {
+    const x = new Float64Array(n);
+    const bNorm = norm(b);
+    if (bNorm === 0) return { x, iterations: 0, relativeResidual: 0, converged: true };
+    let iterations = 0;
+    let relativeResidual = 1;
+    while (iterations < maxIterations) {
+      apply(x, r);
+      for (let i = 0; i < n; i++) r[i] = b[i] - r[i];
+      const beta = norm(r);
+      relativeResidual = beta / bNorm;
+      if (relativeResidual <= tol) return { x, iterations, relativeResidual, converged: true };
+      for (let i = 0; i < n; i++) basis[0][i] = r[i] / beta;
+      g.fill(0);
+      g[0] = beta;
+      let j = 0;
+      for (; j < m && iterations < maxIterations; ) {
+        const v = apply(basis[j], basis[j + 1]);
+        for (let i = 0; i <= j; i++) {
+          const bi = basis[i];
+          let dot = 0;
+          for (let t = 0; t < n; t++) dot += v[t] * bi[t];
+          h[i * m + j] = dot;
+          for (let t = 0; t < n; t++) v[t] -= dot * bi[t];
+        }
+        const hNext = norm(v);
+        if (hNext > 0) for (let t = 0; t < n; t++) v[t] /= hNext;
+        for (let i = 0; i < j; i++) {
+          const a = h[i * m + j];
+          const c = h[(i + 1) * m + j];
+          h[i * m + j] = cs[i] * a + sn[i] * c;
+          h[(i + 1) * m + j] = -sn[i] * a + cs[i] * c;
+        }
+        const diag = h[j * m + j];
+        const rad = Math.hypot(diag, hNext);
+        cs[j] = rad === 0 ? 1 : diag / rad;
+        sn[j] = rad === 0 ? 0 : hNext / rad;
+        h[j * m + j] = rad;
+        g[j + 1] = -sn[j] * g[j];
+        g[j] = cs[j] * g[j];
+        j++;
+        iterations++;
+        if (Math.abs(g[j]) / bNorm <= tol || hNext === 0) break;
+      }
+      // back substitution for the j Krylov coefficients, then update x
+      const y = new Float64Array(j);
+      for (let i = j - 1; i >= 0; i--) {
+        let s = g[i];
+        for (let c = i + 1; c < j; c++) s -= h[i * m + c] * y[c];
+        y[i] = s / h[i * m + i];
+      }
+      for (let i = 0; i < j; i++) {
+        const bi = basis[i];
+        const yi = y[i];
+        for (let t = 0; t < n; t++) x[t] += yi * bi[t];
+      }
+    }
     apply(x, r);
     for (let i = 0; i < n; i++) r[i] = b[i] - r[i];
-    const beta = norm(r);
-    relativeResidual = beta / bNorm;
-    if (relativeResidual <= tol) return { x, iterations, relativeResidual, converged: true };
-    for (let i = 0; i < n; i++) basis[0][i] = r[i] / beta;
-    g.fill(0);
-    g[0] = beta;
-    let j = 0;
-    for (; j < m && iterations < maxIterations; ) {
-      const v = apply(basis[j], basis[j + 1]);
-      for (let i = 0; i <= j; i++) {
-        const bi = basis[i];
-        let dot = 0;
-        for (let t = 0; t < n; t++) dot += v[t] * bi[t];
-        h[i * m + j] = dot;
-        for (let t = 0; t < n; t++) v[t] -= dot * bi[t];
-      }
-      const hNext = norm(v);
-      if (hNext > 0) for (let t = 0; t < n; t++) v[t] /= hNext;
-      for (let i = 0; i < j; i++) {
-        const a = h[i * m + j];
-        const c = h[(i + 1) * m + j];
-        h[i * m + j] = cs[i] * a + sn[i] * c;
-        h[(i + 1) * m + j] = -sn[i] * a + cs[i] * c;
-      }
-      const diag = h[j * m + j];
-      const rad = Math.hypot(diag, hNext);
-      cs[j] = rad === 0 ? 1 : diag / rad;
-      sn[j] = rad === 0 ? 0 : hNext / rad;
-      h[j * m + j] = rad;
-      g[j + 1] = -sn[j] * g[j];
-      g[j] = cs[j] * g[j];
-      j++;
-      iterations++;
-      if (Math.abs(g[j]) / bNorm <= tol || hNext === 0) break;
-    }
-    // back substitution for the j Krylov coefficients, then update x
-    const y = new Float64Array(j);
-    for (let i = j - 1; i >= 0; i--) {
-      let s = g[i];
-      for (let c = i + 1; c < j; c++) s -= h[i * m + c] * y[c];
-      y[i] = s / h[i * m + i];
-    }
-    for (let i = 0; i < j; i++) {
-      const bi = basis[i];
-      const yi = y[i];
-      for (let t = 0; t < n; t++) x[t] += yi * bi[t];
-    }
-  }
-  apply(x, r);
-  for (let i = 0; i < n; i++) r[i] = b[i] - r[i];
-  relativeResidual = norm(r) / bNorm;
-  return { x, iterations, relativeResidual, converged: relativeResidual <= Math.max(tol * 100, 1e-9) };
+    relativeResidual = norm(r) / bNorm;
+    return { x, iterations, relativeResidual, converged: relativeResidual <= Math.max(tol * 100, 1e-9) };
+  };
 }
 
 function norm(v: Float64Array): number {

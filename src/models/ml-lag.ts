@@ -112,7 +112,7 @@ export function fitSpatialLag(
 
   const we = csrMultiply(w, e);
   const t22 = algebra.lmTrace;
-  const cross = lagCrossTrace(w, rho);
+  const cross = lagCrossTrace(algebra, rho);
   if (cross.method !== 'exact') warnings.push(`The trace tr(WᵀG + WG) in the test for remaining error dependence was ${cross.method}.`);
   const lmStat = (dot(e, we) / sigma2) ** 2 / (t22 - cross.value * cross.value * rhoVar);
 
