@@ -64,6 +64,15 @@ describe('k nearest neighbours', () => {
     for (let i = 0; i < 300; i++) expect(row(w, i)).toEqual(bruteNearest(haversine(p), 300, i, 6));
   });
 
+  it('great-circle k = 5 near the pole and with longitudes written 0°…360° matches haversine brute force', () => {
+    const p = randomPoints(300, 17, 360, 12, 0, 78); // all longitudes, latitudes 78°…90°
+    const w = buildWeights(input(p, 'geographic'), { method: 'knn', k: 5 }, { transform: 'binary' });
+    for (let i = 0; i < 300; i++) expect(row(w, i)).toEqual(bruteNearest(haversine(p), 300, i, 5));
+    const band = buildWeights(input(p, 'geographic'), { method: 'band', distance: 150 }, { transform: 'binary' });
+    const d = haversine(p);
+    for (let i = 0; i < 300; i++) expect(row(band, i)).toEqual(Array.from({ length: 300 }, (_, j) => j).filter((j) => j !== i && d(i, j) <= 150));
+  });
+
   it('row standardised: each row holds k weights of 1/k', () => {
     const w = buildWeights(input(pts, 'projected'), { method: 'knn', k: 4 });
     for (const v of w.values) expect(v).toBe(0.25);

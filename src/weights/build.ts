@@ -78,8 +78,10 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? 'queen contiguity (areas sharing at least one boundary point)'
       : 'rook contiguity (areas sharing a stretch of boundary)';
   if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
-  const pts = input.points ? checkedPoints(input, 'contiguity') : boxCentres(input);
+  // points only matter for islands; the caller's points when given, else bounding-box centres
+  const points = () => (input.points ? checkedPoints(input, 'contiguity') : boxCentres(input));
   if (pattern.rowPtr[n] === 0) {
+    const pts = points();
     const { distance } = nearestOther(pts);
     const needed = Math.max(...distance);
     throw new InputError(
@@ -90,7 +92,7 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
   }
   let linkedIslands: string[] | undefined;
   if (opts.linkIslands) {
-    const linked = linkToNearest(pattern, pts, input.ids, () => 1);
+    const linked = linkToNearest(pattern, points, input.ids, () => 1);
     if (linked.ids.length > 0) {
       pattern = linked.pattern;
       linkedIslands = linked.ids;
@@ -170,7 +172,7 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
   description += ` (${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points; every area has a neighbour from ${plain(largest)} ${unit})`;
   let linkedIslands: string[] | undefined;
   if (opts.linkIslands) {
-    const linked = linkToNearest(base, pts, input.ids, (i, j) => weight(pointDistance(pts, i, j), i, j), nearest.nearest);
+    const linked = linkToNearest(base, () => pts, input.ids, (i, j) => weight(pointDistance(pts, i, j), i, j), nearest.nearest);
     if (linked.ids.length > 0) {
       base = linked.pattern;
       linkedIslands = linked.ids;
@@ -183,7 +185,7 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
 /** Adds a link both ways between every area without neighbours and its nearest area. */
 function linkToNearest(
   pattern: CsrMatrix,
-  pts: PointSet,
+  points: () => PointSet,
   ids: string[],
   weight: (i: number, j: number) => number,
   nearest?: Int32Array,
@@ -192,7 +194,7 @@ function linkToNearest(
   const islands: number[] = [];
   for (let i = 0; i < n; i++) if (pattern.rowPtr[i + 1] === pattern.rowPtr[i]) islands.push(i);
   if (islands.length === 0) return { pattern, ids: [] };
-  const near = nearest ?? nearestOther(pts).nearest;
+  const near = nearest ?? nearestOther(points()).nearest;
   const links = new LinkList();
   for (let i = 0; i < n; i++) {
     for (let p = pattern.rowPtr[i]; p < pattern.rowPtr[i + 1]; p++) links.push(i, pattern.colIdx[p], pattern.values[p]);

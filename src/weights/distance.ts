@@ -1,9 +1,9 @@
 import type KDBush from 'kdbush';
-import { around } from 'geokdbush';
 import type { CsrMatrix } from '../linalg/csr.js';
 import { InputError } from '../errors.js';
 import { LinkList, csrFromLinks } from './pattern.js';
-import { pointDistance, type PointSet } from './nearest.js';
+import { EARTH_RADIUS_KM, pointDistance, type PointSet } from './nearest.js';
+import { TreeSearch } from './tree-search.js';
 
 /** Largest number of areas for inverse-distance weights over all pairs (n² links) without a cutoff. */
 export const FULL_INVERSE_DISTANCE_LIMIT = 5000;
@@ -15,15 +15,11 @@ export const FULL_INVERSE_DISTANCE_LIMIT = 5000;
 export function pairsWithin(pts: PointSet, index: KDBush, reach: number, weight: (d: number, i: number, j: number) => number): CsrMatrix {
   const n = pts.x.length;
   const links = new LinkList();
+  const search = new TreeSearch(index, pts.greatCircle);
+  const maxKey = search.radiusKey(reach, EARTH_RADIUS_KM);
   for (let i = 0; i < n; i++) {
-    const found = pts.greatCircle
-      ? around(index, pts.x[i], pts.y[i], Infinity, reach, (j) => j > i)
-      : index.within(pts.x[i], pts.y[i], reach);
-    for (const j of found) {
-      if (j <= i) continue;
-      const d = pointDistance(pts, i, j);
-      if (d > reach) continue;
-      links.pushBoth(i, j, weight(d, i, j));
+    for (const j of search.within(pts.x[i], pts.y[i], i, maxKey)) {
+      if (j > i) links.pushBoth(i, j, weight(pointDistance(pts, i, j), i, j));
     }
   }
   return csrFromLinks(n, links);

@@ -48,6 +48,11 @@ export function checkedPoints(input: WeightsInput, method: string): PointSet {
       );
     }
   }
+  if (greatCircle && p.x.some((x) => x < -180 || x > 180)) {
+    // the spherical search works on longitudes in [−180°, 180°]
+    const x = p.x.map((v) => ((((v + 180) % 360) + 360) % 360) - 180);
+    return { x, y: p.y, greatCircle };
+  }
   return { x: p.x, y: p.y, greatCircle };
 }
 
