@@ -83,7 +83,8 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
   if (pattern.rowPtr[n] === 0) {
     const pts = points();
     const { distance } = nearestOther(pts);
-    const needed = Math.max(...distance);
+    let needed = 0;
+    for (const d of distance) needed = Math.max(needed, d);
     throw new InputError(
       `No area has a neighbour under ${rule} contiguity: no two boundaries ${rule === 'queen' ? 'touch' : 'share a stretch of border'}. ` +
         `If the areas are points or do not touch, try a distance band of at least ${plain(needed)} ${distanceUnit(pts)} ` +

@@ -104,18 +104,6 @@ export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
   return { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) };
 }
 
-/** Same pattern with every value set to `value`. */
-export function withConstantValues(m: CsrMatrix, value = 1): CsrMatrix {
-  return { n: m.n, rowPtr: m.rowPtr, colIdx: m.colIdx, values: new Float64Array(m.colIdx.length).fill(value) };
-}
-
-/** Number of neighbours of each area. */
-export function rowCounts(m: CsrMatrix): Int32Array {
-  const out = new Int32Array(m.n);
-  for (let i = 0; i < m.n; i++) out[i] = m.rowPtr[i + 1] - m.rowPtr[i];
-  return out;
-}
-
 /** Position of entry (i, j) in colIdx, or -1; binary search since rows are sorted by column. */
 export function findEntry(m: CsrMatrix, i: number, j: number): number {
   let lo = m.rowPtr[i];
@@ -146,13 +134,4 @@ export function isSymmetric(m: CsrMatrix): boolean {
     }
   }
   return true;
-}
-
-/** Pattern of W + Wᵀ (values 1), used for components and island checks on asymmetric weights. */
-export function symmetrisedPattern(m: CsrMatrix): CsrMatrix {
-  const links = new LinkList();
-  for (let i = 0; i < m.n; i++) {
-    for (let p = m.rowPtr[i]; p < m.rowPtr[i + 1]; p++) links.pushBoth(i, m.colIdx[p]);
-  }
-  return csrFromLinks(m.n, links);
 }
