@@ -23,7 +23,13 @@ import type { Design, OlsFit, SpatialFit } from './types.js';
  * convention); LR against OLS, 1 df; fitted = Xβ, residuals = y − Xβ, pseudo-R² = corr(y, Xβ)²;
  * Breusch–Pagan on the filtered residuals ε = B(y − Xβ) against X.
  */
-export function fitSpatialError(y: Float64Array, x: Design, algebra: WeightsAlgebra, ols?: OlsFit): SpatialFit {
+export function fitSpatialError(
+  y: Float64Array,
+  x: Design,
+  algebra: WeightsAlgebra,
+  ols?: OlsFit,
+  opts: { maxIterations?: number } = {},
+): SpatialFit {
   const base = ols ?? fitOls(y, x);
   const n = y.length;
   const k = x.columns.length;
@@ -42,7 +48,7 @@ export function fitSpatialError(y: Float64Array, x: Design, algebra: WeightsAlge
     -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log(filtered(lambda).ssr / n) - 0.5 * n + algebra.logdet.evaluate(lambda);
 
   const { lo, hi } = searchInterval(algebra.range);
-  const best = brentMaximise(concentrated, lo, hi);
+  const best = brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
   const lambda = best.x;
   const convergence = best.convergence;
   const warnings: string[] = [];

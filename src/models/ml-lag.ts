@@ -37,7 +37,7 @@ export function fitSpatialLag(
   x: Design,
   algebra: WeightsAlgebra,
   ols?: OlsFit,
-  opts: { fixedRho?: number } = {},
+  opts: { fixedRho?: number; maxIterations?: number } = {},
 ): SpatialFit {
   const base = ols ?? fitOls(y, x);
   const n = y.length;
@@ -62,7 +62,7 @@ export function fitSpatialLag(
     rho = opts.fixedRho;
     convergence = { converged: true, iterations: 0, tolerance: 0, message: `ρ held fixed at ${rho}` };
   } else {
-    const best = brentMaximise(concentrated, lo, hi);
+    const best = brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
     rho = best.x;
     convergence = best.convergence;
   }
