@@ -7,9 +7,9 @@ const RULE =
 
 /**
  * Guidance on the choice between the lag and error models from the Lagrange-multiplier tests, by
- * the decision rule described in Anselin (2005, Exploring Spatial Data with GeoDa: A Workbook,
- * §23) and Anselin & Rey (2014, Modern Spatial Econometrics in Practice, ch. 5). It is guidance, not
- * a verdict: theory about the process should weigh more than the tests.
+ * the decision rule described in Anselin (2005, a workbook on exploring spatial data) and Anselin &
+ * Rey (2014, Modern Spatial Econometrics in Practice, ch. 5). It is guidance, not a verdict: theory
+ * about the process should weigh more than the tests.
  */
 export function recommendModel(lm: LmTests, alpha = 0.05): Recommendation {
   const pct = `${+(alpha * 100).toFixed(2)}%`;

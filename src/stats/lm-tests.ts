@@ -12,7 +12,7 @@ import { dot, residualQuadratic } from './residual-maker.js';
  *   LM lag          = d_lag² / nJ
  *   robust LM error = (d_err − T d_lag / nJ)² / (T (1 − T/nJ))
  *   robust LM lag   = (d_lag − d_err)² / (nJ − T)
- *   joint (SARMA)   = (d_lag − d_err)² / (nJ − T) + d_err² / T, 2 df; the rest 1 df.
+ *   joint           = (d_lag − d_err)² / (nJ − T) + d_err² / T, 2 df; the rest 1 df.
  */
 export function lmTests(ols: OlsFit, x: Design, algebra: WeightsAlgebra): LmTests {
   const { n, residuals: e, fitted } = ols;
