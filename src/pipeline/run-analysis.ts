@@ -81,6 +81,12 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   lap('algebra');
 
   const y = values.get(request.y)!;
+  if (y.length > 0 && y.every((v) => v === y[0])) {
+    throw new InputError(
+      `The outcome column "${request.y}" has the same value (${y[0]}) in every ${joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
+      { column: request.y },
+    );
+  }
   const design: Design = {
     names: ['constant', ...request.x],
     columns: [new Float64Array(y.length).fill(1), ...request.x.map((c) => values.get(c)!)],

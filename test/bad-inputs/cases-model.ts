@@ -11,7 +11,7 @@ const grid = () => ({ boundary: [gridFile()] });
 const edges = (lines: string) => ({ boundary: [gridFile()], edgeList: text('links.csv', lines) });
 
 export const modelCases: BadInput[] = [
-  { group: M, name: 'constant outcome', files: () => withTable(gridCsv('table.csv', (r) => r.forEach((row) => { row[1] = 5; }))), expect: ['The outcome has the same value (5) in every area'] },
+  { group: M, name: 'constant outcome', files: () => withTable(gridCsv('table.csv', (r) => r.forEach((row) => { row[1] = 5; }))), expect: ['The outcome column "y" has the same value (5) in every row'] },
   { group: M, name: 'constant explanatory column', files: () => withTable(gridCsv('table.csv', (r) => r.forEach((row) => { row[2] = 0.25; }))), expect: ['Column "x1" has the same value (0.25) in every area'] },
   {
     group: M, name: 'perfectly collinear columns (x2 = 3·x1)',
