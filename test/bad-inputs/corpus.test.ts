@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { InputError } from '../../src/errors.js';
 import { runAnalysis, type AnalysisRequest } from '../../src/pipeline/index.js';
 import { main } from '../../src/cli/run.js';
-import { STACK_LINE } from '../helpers/cli.js';
+import { STACK_LINE, runCli } from '../helpers/cli.js';
 import { BASE, weightsRule, type BadInput, type CaseFiles } from './case.js';
 import { geoCases } from './cases-geo.js';
 import { tableCases } from './cases-table.js';
@@ -128,6 +128,21 @@ describe(`bad-input corpus (${ALL_CASES.length} cases)`, () => {
     expect(r.stderr).toMatch(/huge\.geojson" is 1024 MiB, over the 1024 MiB limit/);
     expect(existsSync(join(folder, 'out.xlsx'))).toBe(false);
     rmSync(big);
+  });
+
+  it('the real command (bin/spillway.mjs, a separate process) behaves the same on a few cases', async () => {
+    const picks = ['JSON cut off mid-way', 'numbers vs zero-padded text (1001 vs 01001): reported, not guessed', 'edge list naming an unknown ID'];
+    for (const name of picks) {
+      const c = ALL_CASES.find((x) => x.name === name)!;
+      const folder = join(dir, `spawned-${picks.indexOf(name)}`);
+      const out = join(folder, 'results.xlsx');
+      const r = runCli(cliArgs(c, await c.files(), folder, out));
+      expect(r.code, r.stderr).toBe(2);
+      expect(r.stdout).toBe('');
+      expect(r.stderr).not.toMatch(STACK_LINE);
+      matchesAll(r.stderr, c.expect);
+      expect(existsSync(out)).toBe(false);
+    }
   });
 
   it('command line: a missing file, a folder and an empty file are named', async () => {
