@@ -84,12 +84,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
       },
     });
   } catch (e) {
-    throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')}\n\n${FIT_USAGE}`);
+    throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')} (spillway fit --help lists the options)`);
   }
   const v = parsed.values;
   const need = (name: 'boundary' | 'id' | 'y' | 'x') => {
     const value = v[name];
-    if (!value || !value.trim()) throw new InputError(`--${name} is required.\n\n${FIT_USAGE}`);
+    if (!value || !value.trim()) throw new InputError(`--${name} is required (spillway fit --help lists the options).`);
     return value.trim();
   };
   const transform = (v.transform ?? 'row') as WeightsTransform;
