@@ -1,0 +1,59 @@
+/** Messages between the sidebar and the engine worker. Everything here is structured-cloneable. */
+import type { AnalysisRequest, NamedBytesLike } from '../../src/pipeline/index.js';
+import type { InputLocation } from '../../src/errors.js';
+import type { JoinReport, CoordinateKind } from '../../src/geo/index.js';
+import type { Report } from '../../src/report/index.js';
+import type { WeightsSpec, WeightsSummary, WeightsTransform } from '../../src/weights/index.js';
+import type { RunOutput, TableSnapshot } from './types.js';
+
+export interface CheckRequest {
+  boundary: NamedBytesLike[];
+  layer?: string;
+  data: NamedBytesLike;
+  sheet?: string;
+  id: string;
+  weights: WeightsSpec;
+  transform: WeightsTransform;
+  linkIslands?: boolean;
+}
+
+export interface CheckResult {
+  features: number;
+  propertyNames: string[];
+  coordinates: CoordinateKind;
+  coordinateEvidence: string;
+  matched: number;
+  join: JoinReport;
+  /** when the join failed, why (the report above says where) */
+  joinError?: string;
+  neighbours?: WeightsSummary & { description: string };
+  neighboursError?: EngineError;
+  warnings: string[];
+}
+
+export type EngineJob =
+  | { op: 'sheets'; file: NamedBytesLike }
+  | { op: 'table'; file: NamedBytesLike; sheet?: string }
+  | { op: 'check'; check: CheckRequest }
+  | { op: 'run'; request: Omit<AnalysisRequest, 'onProgress'> }
+  | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
+
+export type EngineAnswer =
+  | { op: 'sheets'; sheets: string[] }
+  | { op: 'table'; table: TableSnapshot }
+  | { op: 'check'; result: CheckResult }
+  | { op: 'run'; output: RunOutput }
+  | { op: 'workbook'; bytes: Uint8Array };
+
+export interface EngineError {
+  message: string;
+  /** true for bad input (InputError): the message is for the analyst */
+  input: boolean;
+  where?: InputLocation;
+  join?: JoinReport;
+}
+
+export type WorkerMessage =
+  | { id: number; kind: 'progress'; fraction: number; stage: string }
+  | { id: number; kind: 'done'; answer: EngineAnswer }
+  | { id: number; kind: 'failed'; error: EngineError };

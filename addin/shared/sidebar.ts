@@ -1,0 +1,336 @@
+/**
+ * The sidebar: five steps top to bottom (data, areas, neighbours, model, run), each showing what it
+ * found. Shared by the Excel task pane and the browser page; the host supplies the table and
+ * writes the results. The engine runs in a worker (EngineClient).
+ */
+import type { JoinReport } from '../../src/geo/index.js';
+import type { NamedBytesLike } from '../../src/pipeline/index.js';
+import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
+import { button, checkbox, clear, h, message, numberInput, select, setDisabled, some } from './dom.js';
+import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
+import type { CheckResult, EngineError } from './engine-protocol.js';
+import type { SidebarHost, TableSource } from './host.js';
+import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
+import type { BoundaryFile, SavedSetup } from './types.js';
+
+type Method = WeightsSpec['method'];
+
+interface State {
+  source?: TableSource;
+  profile?: TableProfile;
+  id?: string;
+  areas: { kind: 'file'; files: BoundaryFile[]; stored?: boolean } | { kind: 'points'; x?: string; y?: string } | null;
+  check?: CheckResult;
+  method: Method;
+  k: number; distance: number; power: number; order: number;
+  transform: WeightsTransform;
+  linkIslands: boolean;
+  y?: string;
+  x: Set<string>;
+  lag: boolean; error: boolean; robust: boolean; dropMissing: boolean;
+  running: boolean;
+}
+
+const METHODS: { value: Method; text: string }[] = [
+  { value: 'queen', text: 'Shared border or corner (queen)' },
+  { value: 'rook', text: 'Shared border only (rook)' },
+  { value: 'knn', text: 'Nearest areas (a fixed number)' },
+  { value: 'band', text: 'All areas within a distance' },
+  { value: 'idw', text: 'Inverse distance' },
+];
+
+export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
+  const engine = new EngineClient();
+  const s: State = {
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkIslands: false,
+    x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
+  };
+  let saved: SavedSetup | null = null;
+
+  const step = (n: number, title: string) => {
+    const id = `step-${n}-title`;
+    const body = h('div', { class: 'step-body' });
+    const found = h('div', { class: 'found', 'aria-live': 'polite' });
+    const errors = h('div', { class: 'errors' });
+    root.append(h('section', { class: 'step', 'aria-labelledby': id }, h('h2', { id }, h('span', { class: 'num' }, String(n)), ` ${title}`), body, found, errors));
+    return { body, found, errors };
+  };
+  const data = step(1, 'Data');
+  const areas = step(2, 'Areas');
+  const nb = step(3, 'Neighbours');
+  const model = step(4, 'Model');
+  const run = step(5, 'Run');
+
+  /** An error shown inline; for bad input with a row, names the cell (and in Excel offers to show it). */
+  const showError = (where: HTMLElement, e: unknown) => {
+    if (e instanceof Cancelled) return;
+    const detail: EngineError = e instanceof EngineFailure ? e.detail
+      : { message: e instanceof Error ? e.message : String(e), input: (e as { name?: string })?.name === 'InputError', where: (e as { where?: EngineError['where'] })?.where };
+    let action: HTMLElement | undefined;
+    let text = detail.input ? detail.message : `Something went wrong inside Spillway: ${detail.message}`;
+    const t = s.source?.table;
+    if (t && detail.where?.row && s.source?.file.name.startsWith('sheet ') && (detail.where.file === undefined || detail.where.file === s.source.file.name)) {
+      const cell = cellOf(t, detail.where.row, detail.where.column);
+      text += ` (cell ${cell} on sheet "${t.sheet}")`;
+      if (host.showCell) action = button(`Show ${cell}`, () => { void host.showCell!(t.sheet, cell); });
+    }
+    where.append(message('error', text, action));
+  };
+
+  // ---- 1 Data
+  const dataSlot = h('div', { class: 'source' });
+  data.body.append(dataSlot);
+  host.dataSource(dataSlot, (source) => { clear(data.errors); useTable(source); }, (e) => { clear(data.errors); showError(data.errors, e); }, engine);
+
+  function useTable(source: TableSource) {
+    s.source = source;
+    s.profile = profileTable(source.table);
+    const p = s.profile;
+    const keep = (c?: string) => (c && source.table.headers.includes(c) ? c : undefined);
+    s.id = keep(saved?.id) ?? keep(s.id) ?? p.suggestedId;
+    s.y = keep(saved?.y) ?? keep(s.y) ?? p.numeric.find((c) => c !== s.id);
+    s.x = new Set((saved?.x ?? [...s.x]).filter((c) => p.numeric.includes(c) && c !== s.y && c !== s.id));
+    drawData();
+    drawAreas();
+    drawModel();
+    void refreshCheck();
+  }
+
+  function drawData() {
+    const p = s.profile!;
+    const t = s.source!.table;
+    const kinds = { numbers: 'numbers', text: 'text', mixed: 'numbers and text', empty: 'empty' } as const;
+    const list = h('ul', { class: 'columns' }, ...p.columns.map((c) =>
+      h('li', {}, h('strong', {}, c.name), `: ${kinds[c.kind]}${c.blanks ? `, ${c.blanks} blank` : ''}${c.unique ? ', all different' : ''}`)));
+    clear(data.found,
+      h('p', {}, `Sheet "${t.sheet}": ${p.n} rows (header on row ${t.headerRow}), ${p.columns.length} columns.`),
+      select('id-column', 'ID column (one per area)', t.headers.map((c) => ({ value: c, text: c })), s.id, (v) => { s.id = v; drawModel(); void refreshCheck(); }),
+      p.suggestedId ? h('p', { class: 'hint' }, `Suggested: ${p.suggestedId} (every row has a different value).`) : h('p', { class: 'hint' }, 'No column has a different value in every row; pick the ID column.'),
+      h('details', {}, h('summary', {}, 'Column types'), list),
+    );
+  }
+
+  // ---- 2 Areas
+  const fileInput = h('input', { type: 'file', id: 'boundary-file', accept: '.geojson,.json,.topojson,.zip,.shp,.shx,.dbf,.prj,.cpg', multiple: true, class: 'visually-hidden' });
+  fileInput.addEventListener('change', async () => {
+    const files = [...(fileInput.files ?? [])];
+    if (!files.length) return;
+    s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))) };
+    drawAreas();
+    void refreshCheck();
+  });
+  const openButton = button('Open boundary file…', () => fileInput.click(), { id: 'open-boundary' });
+  const pointsButton = button('Use coordinate columns instead', () => { s.areas = { kind: 'points' }; drawAreas(); }, { id: 'use-points' });
+  areas.body.append(h('p', { class: 'hint' }, 'GeoJSON, TopoJSON or a zipped shapefile. It stays on this computer.'), h('div', { class: 'buttons' }, openButton, pointsButton), fileInput);
+  const areaChoice = h('div');
+  areas.body.append(areaChoice);
+
+  function drawAreas() {
+    clear(areaChoice);
+    if (s.areas?.kind === 'file') {
+      areaChoice.append(h('p', {}, `Boundaries: ${s.areas.files.map((f) => f.name).join(', ')}${s.areas.stored ? ' (kept in this workbook from an earlier run)' : ''}.`));
+    } else if (s.areas?.kind === 'points' && s.profile) {
+      const a = s.areas;
+      const opts = [{ value: '', text: '(choose)' }, ...s.profile.numeric.map((c) => ({ value: c, text: c }))];
+      areaChoice.append(
+        select('x-column', 'Across (x or longitude)', opts, a.x, (v) => { a.x = v || undefined; void refreshCheck(); }),
+        select('y-column', 'Up (y or latitude)', opts, a.y, (v) => { a.y = v || undefined; void refreshCheck(); }),
+      );
+    }
+  }
+
+  function boundaryFiles(): NamedBytesLike[] | null {
+    if (!s.areas || !s.source || !s.id) return null;
+    if (s.areas.kind === 'file') return s.areas.files;
+    if (!s.areas.x || !s.areas.y) return null;
+    return [pointsLayer(s.source.table, s.id, s.areas.x, s.areas.y)];
+  }
+
+  function weightsSpec(): WeightsSpec {
+    switch (s.method) {
+      case 'queen': case 'rook': return { method: s.method, order: s.order };
+      case 'knn': return { method: 'knn', k: s.k };
+      case 'band': return { method: 'band', distance: s.distance };
+      case 'idw': return { method: 'idw', power: s.power };
+    }
+  }
+
+  let checkSerial = 0;
+  async function refreshCheck() {
+    const serial = ++checkSerial;
+    clear(areas.errors); clear(nb.errors);
+    let boundary: NamedBytesLike[] | null;
+    try { boundary = boundaryFiles(); } catch (e) { showError(areas.errors, e); return; }
+    if (!boundary || !s.source || !s.id) { clear(areas.found); clear(nb.found); return; }
+    clear(areas.found, h('p', { class: 'hint' }, 'Matching the table to the areas…'));
+    try {
+      const { result } = await engine.call({ op: 'check', check: {
+        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+      } });
+      if (serial !== checkSerial) return;
+      s.check = result;
+      drawJoin(result);
+      drawNeighbours(result);
+    } catch (e) {
+      if (serial !== checkSerial) return;
+      clear(areas.found);
+      showError(areas.errors, e);
+    }
+  }
+
+  function drawJoin(r: CheckResult) {
+    const j: JoinReport = r.join;
+    const lines: string[] = [];
+    if (j.unmatchedRows.length) lines.push(`Rows with no matching area: ${some(j.unmatchedRows, (u) => `row ${u.row} (${u.id})`)}.`);
+    if (j.unmatchedFeatures.length) lines.push(`Areas with no row: ${some(j.unmatchedFeatures, (u) => `${u.id} (feature ${u.feature})`)}.`);
+    if (j.duplicateRows.length) lines.push(`IDs on more than one row: ${some(j.duplicateRows, (d) => `${d.id} on rows ${d.rows.join(', ')}`)}.`);
+    if (j.duplicateFeatures.length) lines.push(`IDs on more than one area: ${some(j.duplicateFeatures, (d) => `${d.id} (features ${d.features.join(', ')})`)}.`);
+    if (j.blankRows.length) lines.push(`Rows with no ID: ${some(j.blankRows, (n) => `row ${n}`)}.`);
+    if (j.withoutGeometry.length) lines.push(`Matched areas without a shape: ${some(j.withoutGeometry, (g) => `${g.id} (row ${g.row})`)}.`);
+    if (j.zeroPaddingSuspects.length) lines.push(`IDs that differ only by leading zeros: ${some(j.zeroPaddingSuspects, (z) => `${z.tableId} / ${z.featureId}`)}. Make them the same in both places.`);
+    clear(areas.found,
+      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); ${r.matched} matched to rows by ${s.id}.`),
+      lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
+    );
+    if (r.joinError) areas.errors.append(message('error', r.joinError));
+    for (const w of r.warnings) areas.found.append(message('warning', w));
+  }
+
+  // ---- 3 Neighbours
+  const nbControls = h('div');
+  nb.body.append(nbControls);
+  function drawNeighbourControls() {
+    const changed = () => { drawNeighbourControls(); void refreshCheck(); };
+    const extra: HTMLElement[] = [];
+    if (s.method === 'queen' || s.method === 'rook') extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'knn') extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'band') extra.push(numberInput('distance', 'Distance (in the map’s units)', s.distance, (v) => { s.distance = v; changed(); }, { min: 0 }));
+    if (s.method === 'idw') extra.push(numberInput('power', 'Power of the distance', s.power, (v) => { s.power = v; changed(); }, { min: 0, step: 0.5 }));
+    clear(nbControls,
+      select('method', 'Who counts as a neighbour', METHODS, s.method, (v) => { s.method = v as Method; changed(); }),
+      ...extra,
+      select('transform', 'Weights', [{ value: 'row', text: 'Each area’s weights sum to 1' }, { value: 'binary', text: 'Every link weighs 1' }], s.transform, (v) => { s.transform = v as WeightsTransform; void refreshCheck(); }),
+      checkbox('link-islands', 'Link areas without neighbours to the nearest area', s.linkIslands, (v) => { s.linkIslands = v; void refreshCheck(); }),
+    );
+  }
+  drawNeighbourControls();
+
+  function drawNeighbours(r: CheckResult) {
+    clear(nb.found);
+    if (r.neighboursError) { showError(nb.errors, new EngineFailure(r.neighboursError)); return; }
+    const w = r.neighbours;
+    if (!w) return;
+    const top = Math.max(...w.histogram.map(([, c]) => c), 1);
+    const bars = h('div', { class: 'histogram', role: 'img', 'aria-label': `Neighbour counts: ${w.histogram.map(([k, c]) => `${c} areas have ${k}`).join(', ')}` },
+      ...w.histogram.map(([k, c]) => {
+        const bar = h('span', { class: 'bar' });
+        bar.style.width = `${Math.max(2, (100 * c) / top)}%`;
+        return h('div', { class: 'hrow' }, h('span', { class: 'hk' }, String(k)), bar, h('span', { class: 'hc' }, String(c)));
+      }));
+    nb.found.append(
+      h('p', {}, `${w.description}. Neighbours per area: fewest ${w.minNeighbours}, average ${w.meanNeighbours.toFixed(1)}, most ${w.maxNeighbours}.`),
+      h('p', { class: 'hint' }, 'Number of neighbours → number of areas'), bars,
+      h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
+    );
+    if (w.islands.length) nb.found.append(message('warning', `${w.islands.length} area(s) have no neighbours: ${some(w.islands, (i) => i)}.`));
+  }
+
+  // ---- 4 Model
+  function drawModel() {
+    clear(model.body);
+    const p = s.profile;
+    if (!p) { model.body.append(h('p', { class: 'hint' }, 'Choose the data first.')); return; }
+    const candidates = p.numeric.filter((c) => c !== s.id);
+    model.body.append(
+      select('y-column', 'Outcome to explain', candidates.map((c) => ({ value: c, text: c })), s.y, (v) => { s.y = v; s.x.delete(v); drawModel(); }),
+      h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
+        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, c, s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); }))),
+      h('fieldset', { class: 'models' }, h('legend', {}, 'Models (the plain regression is always fitted)'),
+        checkbox('model-lag', 'Spatial lag: the outcome depends on the neighbours’ outcome', s.lag, (v) => { s.lag = v; }),
+        checkbox('model-error', 'Spatial error: unmeasured causes are shared with neighbours', s.error, (v) => { s.error = v; })),
+      checkbox('robust', 'Standard errors robust to unequal spread', s.robust, (v) => { s.robust = v; }),
+      checkbox('drop-missing', 'Leave out rows with missing values', s.dropMissing, (v) => { s.dropMissing = v; }),
+    );
+  }
+  drawModel();
+
+  // ---- 5 Run
+  const progress = h('fluent-progress-bar', { id: 'progress', max: 100, value: 0, 'aria-label': 'Progress' }) as HTMLElement & { value: number };
+  const stage = h('p', { class: 'stage', role: 'status', 'aria-live': 'polite' });
+  const runButton = button('Run', () => void start(), { primary: true, id: 'run' });
+  const cancelButton = button('Cancel', () => engine.cancel(), { id: 'cancel', disabled: true });
+  run.body.append(h('div', { class: 'buttons' }, runButton, cancelButton), progress, stage);
+
+  function setup(): SavedSetup {
+    return {
+      version: 1, sheet: s.source?.table.sheet, id: s.id, y: s.y, x: [...s.x],
+      areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name) }
+        : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
+      weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+      models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
+    };
+  }
+
+  async function start() {
+    clear(run.errors); clear(run.found);
+    const missing = !s.source ? 'Choose the data (step 1).' : !s.id ? 'Choose the ID column (step 1).'
+      : !s.areas ? 'Open a boundary file or choose coordinate columns (step 2).' : !s.y ? 'Choose the outcome (step 4).'
+      : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).' : '';
+    if (missing) { run.errors.append(message('error', missing)); return; }
+    let boundary: NamedBytesLike[] | null;
+    try { boundary = boundaryFiles(); } catch (e) { showError(run.errors, e); return; }
+    if (!boundary) { run.errors.append(message('error', 'Choose both coordinate columns (step 2).')); return; }
+    s.running = true;
+    setDisabled(runButton, true); setDisabled(cancelButton, false);
+    progress.value = 0;
+    const onProgress = (f: number, text: string) => { progress.value = Math.round(100 * f); stage.textContent = text; };
+    try {
+      const { output } = await engine.call({ op: 'run', request: {
+        boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, y: s.y!, x: [...s.x],
+        weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+        models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
+        robust: s.robust, dropMissing: s.dropMissing,
+      } }, onProgress);
+      onProgress(0.94, 'Writing the results');
+      const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
+      await host.saveSetup(setup()).catch(() => undefined);
+      const used = s.areas;
+      if (used?.kind === 'file' && !used.stored) await host.storeBoundary(used.files).catch(() => undefined);
+      onProgress(1, 'Done');
+      run.found.append(message('success', `${output.headline}. ${outcome.message}`));
+      if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
+      for (const w of output.warnings) run.found.append(message('warning', w));
+    } catch (e) {
+      if (e instanceof Cancelled) { stage.textContent = 'Stopped. Nothing was written.'; progress.value = 0; }
+      else { stage.textContent = ''; showError(run.errors, e); }
+    } finally {
+      s.running = false;
+      setDisabled(runButton, false); setDisabled(cancelButton, true);
+    }
+  }
+
+  // ---- the last setup, and boundaries kept in the document
+  void (async () => {
+    saved = await host.loadSetup().catch(() => null);
+    if (saved) {
+      if (saved.weights) {
+        s.method = saved.weights.method;
+        if ('k' in saved.weights) s.k = saved.weights.k;
+        if ('distance' in saved.weights) s.distance = saved.weights.distance;
+        if ('power' in saved.weights) s.power = saved.weights.power;
+        if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
+      }
+      s.transform = saved.transform ?? s.transform;
+      s.linkIslands = saved.linkIslands ?? false;
+      s.lag = saved.models?.includes('lag') ?? true;
+      s.error = saved.models?.includes('error') ?? false;
+      s.robust = saved.robust ?? false;
+      s.dropMissing = saved.dropMissing ?? false;
+      if (saved.areas?.kind === 'points') s.areas = { kind: 'points', x: saved.areas.xColumn, y: saved.areas.yColumn };
+      drawNeighbourControls();
+      drawModel();
+    }
+    const stored = await host.loadBoundary().catch(() => null);
+    if (stored && !s.areas) { s.areas = { kind: 'file', files: stored, stored: true }; drawAreas(); void refreshCheck(); }
+  })();
+}

@@ -1,0 +1,107 @@
+/**
+ * The engine in a Web Worker, so the sidebar stays responsive and a run can be cancelled by ending
+ * the worker. Pure engine calls only: files come in as bytes, plain data goes back.
+ */
+import ExcelJS from 'exceljs';
+import { InputError } from '../../src/errors.js';
+import { readBoundary, readTable, joinAreas, representativePoints, JoinError } from '../../src/geo/index.js';
+import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
+import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
+import { buildWeights, summarizeWeights } from '../../src/weights/index.js';
+import { writeResultsWorkbook } from '../../src/workbook/index.js';
+import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import type { RunOutput, TableSnapshot } from './types.js';
+
+const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
+
+function asEngineError(e: unknown): EngineError {
+  if (e instanceof InputError) return { message: e.message, input: true, where: e.where, join: e instanceof JoinError ? e.report : undefined };
+  return { message: e instanceof Error ? e.message : String(e), input: false };
+}
+
+async function sheetNames(bytes: Uint8Array): Promise<string[]> {
+  const wb = new ExcelJS.Workbook();
+  try {
+    await wb.xlsx.load(bytes as unknown as ArrayBuffer);
+  } catch (e) {
+    throw new InputError(`This file could not be opened as an .xlsx workbook (${e instanceof Error ? e.message : String(e)}). Save it as .xlsx and try again.`);
+  }
+  return wb.worksheets.map((w) => w.name);
+}
+
+async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string): Promise<TableSnapshot> {
+  const t = await readTable(file, { sheet });
+  const rowNumbers = t.rowNumbers ?? t.rows.map((_, i) => t.firstRow + i);
+  return { sheet: t.sheet ?? file.name, headerRow: t.firstRow - 1, firstColumn: 1, headers: t.columns, rows: t.rows, rowNumbers };
+}
+
+async function check(c: CheckRequest): Promise<CheckResult> {
+  const layer = await readBoundary(c.boundary, { layer: c.layer });
+  const table = await readTable(c.data, { sheet: c.sheet });
+  const base = {
+    features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
+    coordinateEvidence: layer.coordinateEvidence, warnings: [...layer.warnings],
+  };
+  let joined;
+  try {
+    joined = joinAreas(layer, table, c.id);
+  } catch (e) {
+    if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
+    throw e;
+  }
+  const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...base.warnings, ...joined.warnings] };
+  try {
+    const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
+    const w = buildWeights(
+      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined },
+      c.weights,
+      { transform: c.transform, linkIslands: c.linkIslands },
+    );
+    result.neighbours = { ...summarizeWeights(w), description: w.description };
+  } catch (e) {
+    result.neighboursError = asEngineError(e);
+  }
+  return result;
+}
+
+function headline(r: AnalysisResult): string {
+  const parts = [`${r.n} areas`, `Moran's I of ${r.request.y} ${r.moranY.I.toFixed(3)}`];
+  if (r.lag) parts.push(`${MODEL_LABEL.lag}: ρ = ${r.lag.parameter.toFixed(3)}`);
+  if (r.error) parts.push(`${MODEL_LABEL.error}: λ = ${r.error.parameter.toFixed(3)}`);
+  return parts.join(' · ');
+}
+
+async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunOutput> {
+  const result = await runAnalysis({
+    ...request.request,
+    onProgress: (fraction, stage) => scope.postMessage({ id, kind: 'progress', fraction: 0.9 * fraction, stage }),
+  });
+  scope.postMessage({ id, kind: 'progress', fraction: 0.92, stage: 'Laying out the results' });
+  // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
+  const report = buildReport(result);
+  const d = moranScatterData(result.y, result.weights.edges);
+  return {
+    report,
+    scatter: { valueName: result.request.y, z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope },
+    headline: headline(result),
+    warnings: result.warnings,
+  };
+}
+
+async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
+  switch (job.op) {
+    case 'sheets': return { op: 'sheets', sheets: await sheetNames(job.file.bytes) };
+    case 'table': return { op: 'table', table: await tableOf(job.file, job.sheet) };
+    case 'check': return { op: 'check', result: await check(job.check) };
+    case 'run': return { op: 'run', output: await run(id, job) };
+    case 'workbook': return { op: 'workbook', bytes: await writeResultsWorkbook(job.report, { base: job.base, baseName: job.baseName }) };
+  }
+}
+
+scope.onmessage = (e) => {
+  const { id, job } = e.data;
+  answer(id, job).then(
+    (a) => scope.postMessage({ id, kind: 'done', answer: a }),
+    (err) => scope.postMessage({ id, kind: 'failed', error: asEngineError(err) }),
+  );
+};

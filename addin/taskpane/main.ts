@@ -1,0 +1,45 @@
+/**
+ * The Excel task pane: the shared sidebar with the Office adapter as its host. Runs in the shared
+ * runtime, so the cell functions (functions.js) are registered from here too.
+ */
+import '../shared/sidebar.css';
+import '../functions/register.js';
+import { ExcelAdapter } from '../excel/adapter.js';
+import type { ContextLike, ExcelRunner } from '../excel/api.js';
+import { applyTheme, button, h } from '../shared/dom.js';
+import type { SidebarHost } from '../shared/host.js';
+import { drawReportPictures } from '../shared/png.js';
+import { mountSidebar } from '../shared/sidebar.js';
+import { tableAsCsv } from '../shared/table-profile.js';
+
+const run: ExcelRunner = (batch) => Excel.run((context) => batch(context as unknown as ContextLike));
+const excel = new ExcelAdapter(run);
+
+const host: SidebarHost = {
+  kind: 'excel',
+  dataSource(slot, provide, fail) {
+    const read = () => excel.readActiveTable().then((table) => provide({ table, file: tableAsCsv(table) }), fail);
+    slot.append(
+      h('p', { class: 'hint' }, 'Open the sheet with one row per area (column names in the first row), then read it.'),
+      h('div', { class: 'buttons' }, button('Read the active sheet', () => void read(), { id: 'read-sheet', primary: true })),
+    );
+    void read();
+  },
+  loadSetup: () => excel.loadSetup(),
+  saveSetup: (setup) => excel.saveSetup(setup),
+  loadBoundary: () => excel.loadBoundary(),
+  storeBoundary: (files) => excel.storeBoundary(files),
+  async writeResults(output, _engine, stage) {
+    stage('Drawing the maps');
+    await drawReportPictures(output.report);
+    stage('Writing the result sheets');
+    const names = await excel.writeReport(output);
+    return { message: `The results are on ${names.length} new sheets, starting with "${names[0]}". The neighbour list is on "${names.find((n) => n.startsWith('Neighbours')) ?? 'Neighbours'}" for the SPILL cell functions.` };
+  },
+  showCell: (sheet, cell) => excel.showCell(sheet, cell),
+};
+
+Office.onReady(() => {
+  applyTheme();
+  mountSidebar(document.getElementById('sidebar')!, host);
+});

@@ -1,0 +1,149 @@
+/**
+ * Builds and serves the add-in (task pane + cell functions) and the no-install browser page.
+ *   npm run build:addin   → dist-addin/
+ *   npm run serve         → https://localhost:3000 (office-addin-dev-certs); SPILLWAY_HTTP=1 for plain http
+ * Output paths the manifest names (taskpane/index.html, functions.js, functions.json, assets/icon-*.png)
+ * carry no content hash so the manifest can point at them.
+ */
+import { defineConfig, type Plugin, type UserConfig } from 'vite';
+import { fileURLToPath } from 'node:url';
+import { dirname, resolve } from 'node:path';
+
+const ROOT = dirname(fileURLToPath(import.meta.url));
+const FUNCTIONS_SOURCE = resolve(ROOT, 'functions/functions.ts');
+
+/** The browser page sends nothing anywhere: every fetch, image and script comes from this origin. */
+export const PAGE_CSP = [
+  "default-src 'self'", "script-src 'self'", "style-src 'self'", "img-src 'self' data: blob:", "font-src 'self'",
+  "connect-src 'self'", "worker-src 'self'", "object-src 'none'", "base-uri 'self'", "form-action 'none'",
+].join('; ');
+
+/** The task pane must also load Office.js from Microsoft's script host (Office requires it). */
+export const TASKPANE_CSP = [
+  "default-src 'self'", "script-src 'self' https://appsforoffice.microsoft.com", "style-src 'self' 'unsafe-inline'",
+  "img-src 'self' data: blob:", "font-src 'self'", "connect-src 'self' https://appsforoffice.microsoft.com",
+  "worker-src 'self'", "object-src 'none'", "base-uri 'self'", "form-action 'none'",
+].join('; ');
+
+function cspFor(url: string): string | undefined {
+  if (url.startsWith('/page/') || url === '/page') return PAGE_CSP;
+  if (url.startsWith('/taskpane/') || url.startsWith('/help/')) return TASKPANE_CSP;
+  return undefined;
+}
+
+/** functions.json from the JSDoc of functions.ts (custom-functions-metadata), at build and in the dev server. */
+function cellFunctionMetadata(): Plugin {
+  const generate = async (): Promise<string> => {
+    const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
+    const r = await generateCustomFunctionsMetadata(FUNCTIONS_SOURCE);
+    if (r.errors.length) throw new Error(`cell function metadata: ${r.errors.join('; ')}`);
+    return r.metadataJson;
+  };
+  return {
+    name: 'spillway-cell-function-metadata',
+    async generateBundle() {
+      this.emitFile({ type: 'asset', fileName: 'functions.json', source: await generate() });
+    },
+    configureServer(server) {
+      server.middlewares.use('/functions.json', (_req, res, next) => {
+        generate().then((json) => { res.setHeader('Content-Type', 'application/json'); res.end(json); }, next);
+      });
+    },
+  };
+}
+
+/** Content-Security-Policy as a response header too (the pages also carry it in a meta tag). */
+function securityHeaders(): Plugin {
+  const use = (mw: { use: (fn: (req: { url?: string }, res: { setHeader(k: string, v: string): void }, next: () => void) => void) => void }) =>
+    mw.use((req, res, next) => {
+      const csp = cspFor(req.url ?? '');
+      if (csp) res.setHeader('Content-Security-Policy', csp);
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      next();
+    });
+  return {
+    name: 'spillway-security-headers',
+    configureServer(server) { use(server.middlewares); },
+    configurePreviewServer(server) { use(server.middlewares); },
+  };
+}
+
+/**
+ * exceljs's browser build (we use the one without polyfills) keeps two dynamic-code fallbacks:
+ * lodash's `Function('return this')()` global lookup (never reached in a browser, where `self`
+ * exists) and a setImmediate shim that turns a string argument into code. We replace both with
+ * plain code, then refuse any bundle that still builds code from strings, so the strict CSP
+ * (no 'unsafe-eval') holds.
+ */
+const GLOBAL_LOOKUP = /Function\(\s*['"]return this['"]\s*\)\(\)/g;
+const STRING_CALLBACK = /new Function\(\s*""\s*\+\s*(\w+)\s*\)/g;
+const DYNAMIC_CODE = /(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/;
+
+function noDynamicCode(): Plugin {
+  return {
+    name: 'spillway-no-dynamic-code',
+    transform(code, id) {
+      if (!/exceljs[\\/]dist[\\/]exceljs\.bare(\.min)?\.js$/.test(id)) return null;
+      const out = code
+        .replace(GLOBAL_LOOKUP, 'globalThis')
+        .replace(STRING_CALLBACK, '(function () { throw new TypeError("setImmediate needs a function"); })');
+      return { code: out, map: null };
+    },
+    generateBundle(_options, bundle) {
+      for (const [name, item] of Object.entries(bundle)) {
+        if (item.type !== 'chunk') continue;
+        const m = DYNAMIC_CODE.exec(item.code);
+        if (m) {
+          const at = item.code.slice(Math.max(0, m.index - 60), m.index + 60);
+          this.error(`${name} builds code from a string (${JSON.stringify(at)}); the page's CSP forbids it.`);
+        }
+      }
+    },
+  };
+}
+
+export default defineConfig(async ({ command }): Promise<UserConfig> => {
+  let https: { key: Buffer; cert: Buffer; ca: Buffer } | undefined;
+  if (command === 'serve' && process.env.SPILLWAY_HTTP !== '1') {
+    try {
+      const certs = await import('office-addin-dev-certs');
+      https = (await certs.getHttpsServerOptions()) as typeof https;
+    } catch (e) {
+      console.warn(`Could not set up the development certificate (${e instanceof Error ? e.message : String(e)}); serving plain http. Excel needs https.`);
+    }
+  }
+  return {
+    root: ROOT,
+    base: '/',
+    publicDir: resolve(ROOT, 'public'),
+    logLevel: process.env.VITEST ? 'warn' : 'info',
+    resolve: {
+      alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
+    },
+    plugins: [cellFunctionMetadata(), securityHeaders(), noDynamicCode()],
+    worker: {
+      format: 'es',
+      plugins: () => [noDynamicCode()],
+    },
+    build: {
+      outDir: process.env.SPILLWAY_ADDIN_OUT ?? resolve(ROOT, '..', 'dist-addin'),
+      emptyOutDir: true,
+      target: 'es2022',
+      sourcemap: false,
+      chunkSizeWarningLimit: 2500,
+      rolldownOptions: {
+        input: {
+          taskpane: resolve(ROOT, 'taskpane/index.html'),
+          page: resolve(ROOT, 'page/index.html'),
+          help: resolve(ROOT, 'help/index.html'),
+          functions: resolve(ROOT, 'functions/register.ts'),
+        },
+        output: {
+          entryFileNames: (chunk) => (chunk.name === 'functions' ? 'functions.js' : 'assets/[name]-[hash].js'),
+        },
+      },
+    },
+    server: { port: 3000, strictPort: true, https, host: 'localhost' },
+    preview: { port: 3000, strictPort: true, https, host: 'localhost' },
+  };
+});
