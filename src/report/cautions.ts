@@ -15,6 +15,12 @@ export function cautions(result: AnalysisResult): string[] {
   return list;
 }
 
+/** One-paragraph reminder carried at the foot of every results sheet besides the summary, which has the full list. */
+export function shortCaution(result: AnalysisResult): string {
+  return `Read with care: association, not cause; areas, not people; other neighbour definitions (here: ${result.weights.description}) can change the answers; ` +
+    'rates for small areas are unstable. Check these figures with people who know the places.';
+}
+
 /** Warnings from every stage, plus our own readings of the numbers, without repeats. */
 export function collectWarnings(result: AnalysisResult): string[] {
   const out: string[] = [...result.warnings, ...result.ols.warnings];

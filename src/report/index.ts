@@ -11,6 +11,7 @@ import { recordBlocks } from './record.js';
 import { layoutBlocks } from './layout.js';
 import { overviewPictures } from './pictures-for-report.js';
 import { MODEL_LABEL } from './format.js';
+import { shortCaution } from './cautions.js';
 
 export type {
   Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
@@ -34,5 +35,9 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   sheets.push({ name: 'By area', role: 'areas', blocks: areasBlocks(result), freezeHeader: true });
   sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
   sheets.push({ name: 'How this was made', role: 'record', blocks: recordBlocks(result) });
+  const reminder = shortCaution(result);
+  for (const sheet of sheets) {
+    if (sheet.role !== 'overview') sheet.blocks.push({ kind: 'paragraph', text: reminder, style: 'caution' });
+  }
   return { sheets };
 }
