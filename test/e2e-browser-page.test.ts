@@ -1,0 +1,137 @@
+/**
+ * End to end in a real browser (Debian's Chromium driven by playwright-core): the no-install page
+ * opens the Vell Basin workbook and district boundaries, runs a spatial lag model in its worker,
+ * and downloads the result workbook, which is read back with exceljs.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { build, preview, type PreviewServer } from 'vite';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import ExcelJS from 'exceljs';
+
+const ROOT = join(import.meta.dirname, '..');
+const CHROMIUM = '/usr/bin/chromium';
+const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
+const GEOJSON = join(ROOT, 'sample-workbooks/vell-basin-districts.geojson');
+const TRUTH = join(ROOT, 'sample-workbooks/vell-basin-truth.json');
+const ready = existsSync(CHROMIUM) && existsSync(XLSX) && existsSync(GEOJSON);
+
+let out: string;
+let server: PreviewServer;
+let browser: Browser;
+let page: Page;
+let origin: string;
+const foreignRequests: string[] = [];
+const problems: string[] = [];
+
+describe.skipIf(!ready)('the browser page, end to end', () => {
+  beforeAll(async () => {
+    out = mkdtempSync(join(tmpdir(), 'spillway-e2e-'));
+    process.env.SPILLWAY_ADDIN_OUT = out;
+    process.env.SPILLWAY_HTTP = '1';
+    const configFile = join(ROOT, 'addin/vite.config.ts');
+    await build({ configFile, logLevel: 'warn' });
+    server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
+    origin = server.resolvedUrls!.local[0].replace(/\/$/, '');
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    const context = await browser.newContext({ acceptDownloads: true, viewport: { width: 360, height: 900 } });
+    page = await context.newPage();
+    page.on('request', (r) => { if (!r.url().startsWith(origin) && !/^(blob|data):/.test(r.url())) foreignRequests.push(r.url()); });
+    page.on('console', (m) => { if (m.type() === 'error') problems.push(m.text()); });
+    page.on('pageerror', (e) => problems.push(e.message));
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await new Promise<void>((resolve) => (server ? server.httpServer.close(() => resolve()) : resolve()));
+    if (out) rmSync(out, { recursive: true, force: true });
+  });
+
+  it('serves the page with a Content-Security-Policy header that keeps every request on this machine', async () => {
+    const res = await fetch(`${origin}/page/index.html`);
+    const csp = res.headers.get('content-security-policy') ?? '';
+    expect(csp).toContain("connect-src 'self'");
+    expect(csp).toContain("default-src 'self'");
+    expect(csp).not.toContain('unsafe-eval');
+  });
+
+  it('opens the workbook and the boundaries, runs a spatial lag model, and downloads a workbook with the results', async () => {
+    await page.goto(`${origin}/page/index.html`);
+    await page.setInputFiles('#data-file', XLSX);
+    await page.getByText(/150 rows/).waitFor();
+    expect(await page.inputValue('#id-column')).toBe('district_id');
+
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.getByText('Every row has exactly one area.').waitFor();
+    await page.getByText(/Neighbours per area/).waitFor();
+
+    await page.selectOption('#y-column', 'long_commute_pct');
+    for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    // readable at narrow width: nothing forces sideways scrolling at 320 px
+    await page.setViewportSize({ width: 320, height: 900 });
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(320);
+
+    const download = page.waitForEvent('download', { timeout: 45_000 });
+    await page.click('#run');
+    const file = await download;
+    const saved = join(out, 'result.xlsx');
+    await file.saveAs(saved);
+    await page.getByText(/new sheets after your own/).waitFor();
+    // Fluent buttons are form-associated custom elements: the browser applies :disabled to them
+    expect(await page.evaluate(() => [document.querySelector('#run')!.matches(':disabled'), document.querySelector('#cancel')!.matches(':disabled')])).toEqual([false, true]);
+
+    const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    mkdirSync(shots, { recursive: true });
+    await page.setViewportSize({ width: 360, height: 900 });
+    await page.mouse.move(0, 0);
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.screenshot({ path: join(shots, 'browser-page-sidebar.png'), fullPage: true });
+
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(readFileSync(saved) as unknown as ArrayBuffer);
+    const names = wb.worksheets.map((w) => w.name);
+    expect(names.slice(0, 2)).toEqual(['Districts', 'About this data']); // the analyst's own sheets come first, unchanged
+    expect(names).toContain('Summary');
+    expect(names).toContain('Neighbours');
+    const lagSheet = wb.worksheets.find((w) => /lag/i.test(w.name));
+    expect(lagSheet, names.join(', ')).toBeDefined();
+    // ρ read from the lag sheet: the row whose label names ρ (rho)
+    let rho = NaN;
+    lagSheet!.eachRow((row) => {
+      const label = String(row.getCell(1).value ?? '');
+      const v = row.getCell(2).value;
+      if (Number.isNaN(rho) && /ρ|rho/i.test(label) && typeof v === 'number') rho = v;
+    });
+    // The sample outcome was simulated with ρ = 0.5 (sample-workbooks/vell-basin-truth.json); one draw of
+    // 150 areas lands near it, not on it.
+    const truth = JSON.parse(readFileSync(TRUTH, 'utf8')) as { rho?: number; parameters?: { rho?: number } };
+    const trueRho = truth.rho ?? truth.parameters?.rho ?? 0.5;
+    expect(Math.abs(rho - trueRho), `ρ = ${rho}`).toBeLessThan(0.2);
+    const summary = wb.getWorksheet('Summary')!;
+    expect(summary.getImages().length).toBeGreaterThanOrEqual(2); // maps drawn to PNG in the browser
+    const districts = wb.getWorksheet('Districts')!;
+    expect(districts.getCell('A1').value).toBe('district_id');
+  }, 60_000);
+
+  it('the keyboard reaches every step: Tab from the top arrives at Run', async () => {
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.focus('#open-data');
+    let reached = false;
+    for (let i = 0; i < 80 && !reached; i++) {
+      await page.keyboard.press('Tab');
+      reached = await page.evaluate(() => document.activeElement?.id === 'run');
+    }
+    expect(reached).toBe(true);
+  });
+
+  it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {
+    expect(foreignRequests).toEqual([]);
+    expect(problems).toEqual([]);
+  });
+});
