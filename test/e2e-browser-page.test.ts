@@ -11,6 +11,11 @@ import { build, preview, type PreviewServer } from 'vite';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 
+// The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
+/* eslint-disable @typescript-eslint/no-explicit-any */
+declare const document: any;
+type HTMLElement = any;
+
 const ROOT = join(import.meta.dirname, '..');
 const CHROMIUM = '/usr/bin/chromium';
 const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
