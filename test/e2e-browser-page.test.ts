@@ -4,7 +4,7 @@
  * and downloads the result workbook, which is read back with exceljs.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { build, preview, type PreviewServer } from 'vite';
@@ -133,6 +133,40 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
       reached = await page.evaluate(() => document.activeElement?.id === 'run');
     }
     expect(reached).toBe(true);
+  });
+
+  it('Cancel stops a run in the worker and nothing is downloaded', async () => {
+    let downloaded = false;
+    const onDownload = () => { downloaded = true; };
+    page.on('download', onDownload);
+    // both clicks in one task: Run enables Cancel before it first waits for the engine
+    await page.evaluate(() => { document.querySelector('#run').click(); document.querySelector('#cancel').click(); });
+    await page.getByText('Stopped. Nothing was written.').waitFor();
+    await page.waitForTimeout(300);
+    page.off('download', onDownload);
+    expect(downloaded).toBe(false);
+  });
+
+  it('shows a repeated ID inline with the rows it is on (a CSV where row 3 repeats row 2’s ID)', async () => {
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(readFileSync(XLSX) as unknown as ArrayBuffer);
+    const ws = wb.getWorksheet('Districts')!;
+    const lines: string[] = [];
+    ws.eachRow((row, n) => {
+      const cells = (row.values as unknown[]).slice(1).map((v) => String(v ?? ''));
+      if (n === 3) cells[0] = lines[1].split(',')[0];
+      lines.push(cells.map((c) => (/[",]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(','));
+    });
+    const csv = join(out, 'districts-with-a-repeat.csv');
+    writeFileSync(csv, lines.join('\n') + '\n');
+    const repeated = lines[1].split(',')[0];
+    await page.setInputFiles('#data-file', csv);
+    await page.getByText(new RegExp(`IDs on more than one row: ${repeated} on rows 2, 3`)).waitFor();
+    // the run refuses it too, with a message naming the rows
+    await page.click('#run');
+    await page.locator('fluent-message-bar[intent="error"]').filter({ hasText: /rows? 2.*3|2 and 3/ }).first().waitFor();
+    const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    await page.locator('section[aria-labelledby="step-2-title"]').screenshot({ path: join(shots, 'browser-page-repeated-id.png') });
   });
 
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {

@@ -189,7 +189,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (j.withoutGeometry.length) lines.push(`Matched areas without a shape: ${some(j.withoutGeometry, (g) => `${g.id} (row ${g.row})`)}.`);
     if (j.zeroPaddingSuspects.length) lines.push(`IDs that differ only by leading zeros: ${some(j.zeroPaddingSuspects, (z) => `${z.tableId} / ${z.featureId}`)}. Make them the same in both places.`);
     clear(areas.found,
-      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); ${r.matched} matched to rows by ${s.id}.`),
+      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); `
+        + (r.joinError ? `the rows cannot be matched to them by ${s.id} until the problems below are fixed.` : `${r.matched} matched to rows by ${s.id}.`)),
       lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
