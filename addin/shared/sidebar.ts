@@ -330,6 +330,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (saved.areas?.kind === 'points') s.areas = { kind: 'points', x: saved.areas.xColumn, y: saved.areas.yColumn };
       drawNeighbourControls();
       drawModel();
+      // the table may have arrived before the setup did
+      if (s.source) useTable(s.source);
     }
     const stored = await host.loadBoundary().catch(() => null);
     if (stored && !s.areas) { s.areas = { kind: 'file', files: stored, stored: true }; drawAreas(); void refreshCheck(); }

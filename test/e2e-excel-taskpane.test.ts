@@ -1,0 +1,153 @@
+/**
+ * The Excel task pane in a real browser, with Office.js replaced by the in-memory Excel stand-in
+ * (test/helpers/fake-excel.ts, bundled for the browser): the pane reads the active sheet, runs the
+ * job in its worker, draws the maps to PNG, and writes the result sheets, pictures and chart through
+ * the adapter; the cell functions register in the same runtime. The request for Office.js is
+ * answered by the test (page.route), so nothing leaves the machine.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { build, preview, type PreviewServer } from 'vite';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import ExcelJS from 'exceljs';
+
+/* eslint-disable @typescript-eslint/no-explicit-any */
+declare const window: any;
+declare const document: any;
+declare const sessionStorage: any;
+
+const ROOT = join(import.meta.dirname, '..');
+const CHROMIUM = '/usr/bin/chromium';
+const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
+const GEOJSON = join(ROOT, 'sample-workbooks/vell-basin-districts.geojson');
+const ready = existsSync(CHROMIUM) && existsSync(XLSX) && existsSync(GEOJSON);
+
+let out: string;
+let server: PreviewServer;
+let browser: Browser;
+let page: Page;
+const problems: string[] = [];
+
+/** Office.js stand-in: Office.onReady, Excel.run over the fake workbook, CustomFunctions.associate. */
+async function officeStandIn(rows: unknown[][]): Promise<string> {
+  const entry = join(out, 'office-stand-in.ts');
+  writeFileSync(entry, `
+    import { FakeExcel } from ${JSON.stringify(join(ROOT, 'test/helpers/fake-excel.ts'))};
+    const excel = new FakeExcel();
+    excel.addSheet('Districts', ${JSON.stringify(rows)});
+    const associated: string[] = [];
+    const w = window as any;
+    // what a saved workbook would bring back: document settings and custom XML parts
+    const seed = JSON.parse(sessionStorage.getItem('seed') ?? 'null');
+    if (seed) {
+      for (const [k, v] of seed.settings) excel.settings.set(k, v);
+      for (const xml of seed.parts) excel.newPart(xml);
+    }
+    w.__excel = excel;
+    w.__associated = associated;
+    w.Excel = { run: excel.run };
+    w.Office = { onReady: (cb: (info: unknown) => void) => Promise.resolve().then(() => cb({ host: 'Excel', platform: 'PC' })) };
+    w.CustomFunctions = {
+      associate: (id: string) => { associated.push(id); },
+      Error: class extends Error { constructor(readonly code: string, message?: string) { super(message); } },
+      ErrorCode: { invalidValue: '#VALUE!', notAvailable: '#N/A' },
+    };
+  `);
+  const result = await build({
+    configFile: false, logLevel: 'warn',
+    build: { write: false, minify: false, lib: { entry, formats: ['iife'], name: 'officeStandIn', fileName: 'office' } },
+  });
+  const output = Array.isArray(result) ? result[0] : result;
+  return (output as { output: { code?: string }[] }).output[0].code!;
+}
+
+describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () => {
+  beforeAll(async () => {
+    out = mkdtempSync(join(tmpdir(), 'spillway-pane-'));
+    process.env.SPILLWAY_ADDIN_OUT = join(out, 'dist');
+    process.env.SPILLWAY_HTTP = '1';
+    const configFile = join(ROOT, 'addin/vite.config.ts');
+    await build({ configFile, logLevel: 'warn' });
+    server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
+
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(readFileSync(XLSX) as unknown as ArrayBuffer);
+    const rows: unknown[][] = [];
+    wb.getWorksheet('Districts')!.eachRow((row) => rows.push((row.values as unknown[]).slice(1)));
+    const standIn = await officeStandIn(rows);
+
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    const context = await browser.newContext({ viewport: { width: 340, height: 900 } });
+    await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: standIn }));
+    await context.route((url) => !url.href.startsWith(server.resolvedUrls!.local[0].replace(/\/$/, '')) && !url.href.startsWith('https://appsforoffice.microsoft.com/'), (route) => route.abort());
+    page = await context.newPage();
+    page.on('console', (m) => { if (m.type() === 'error') problems.push(m.text()); });
+    page.on('pageerror', (e) => problems.push(e.message));
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await new Promise<void>((resolve) => (server ? server.httpServer.close(() => resolve()) : resolve()));
+    if (out) rmSync(out, { recursive: true, force: true });
+  });
+
+  it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
+    await page.goto(`${server.resolvedUrls!.local[0].replace(/\/$/, '')}/taskpane/index.html`);
+    await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'LOCALMORAN', 'GEARY']);
+
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    await page.click('#run');
+    await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+
+    const state = await page.evaluate(() => {
+      const x = window.__excel;
+      const summary = x.sheet('Summary');
+      return {
+        names: x.sheetNames(),
+        shapes: summary.shapes.map((s: any) => ({ name: s.name, png: String(s.base64).slice(0, 8) })),
+        charts: summary.charts.map((c: any) => ({ type: c.type, rows: c.source.rows, trend: c.trendlines })),
+        settings: [...x.settings.keys()],
+        parts: x.xmlParts.length,
+        active: x.active,
+      };
+    });
+    expect(state.names[0]).toBe('Districts');
+    expect(state.names).toContain('Summary');
+    expect(state.names).toContain('Neighbours');
+    // PNG files start with the bytes 89 50 4E 47, "iVBORw0K" in base64 (PNG spec, section 5.2)
+    expect(state.shapes.length).toBe(2);
+    for (const s of state.shapes) expect(s.png).toBe('iVBORw0K');
+    expect(state.charts).toEqual([{ type: 'XYScatter', rows: 151, trend: ['Linear'] }]);
+    expect(state.settings).toEqual(['spillway.setup']);
+    expect(state.parts).toBe(1); // the boundary file, kept in the workbook
+    expect(state.active).toBe('Summary');
+    expect(problems).toEqual([]);
+    if (process.env.SPILLWAY_SCREENSHOTS === '1') {
+      await page.mouse.move(0, 0);
+      await page.screenshot({ path: join(ROOT, 'docs/screenshots/excel-taskpane-sidebar.png'), fullPage: true });
+    }
+  }, 60_000);
+
+  it('reopened, the pane finds the kept boundary file and the last setup in the workbook, and runs again without the file', async () => {
+    await page.evaluate(() => {
+      const x = window.__excel;
+      sessionStorage.setItem('seed', JSON.stringify({ settings: [...x.settings.entries()], parts: x.xmlParts.map((p: any) => p.xml) }));
+    });
+    await page.reload();
+    await page.getByText(/vell-basin-districts\.geojson \(kept in this workbook from an earlier run\)/).waitFor();
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    for (const x of ['broadband_pct', 'rail_km', 'rent_index']) expect(await page.evaluate((id) => document.querySelector(id).checked, `#x-${x}`)).toBe(true);
+    expect(await page.evaluate(() => document.querySelector('#model-lag').checked)).toBe(true);
+    await page.click('#run');
+    await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    expect(problems).toEqual([]);
+  }, 60_000);
+});
