@@ -3,8 +3,8 @@
  * matrix solution") of M = I − ρS over a symbolic analysis made once. Each supernode assembles a
  * dense frontal matrix (row-major, lower triangle) from M and its children's update matrices,
  * factors its leading columns, and passes the Schur complement to its parent on a stack. The dense
- * kernels are dot products over contiguous rows, blocked two-by-two so that each load feeds two
- * multiply-adds. Written by hand: no kept JavaScript library offers sparse Cholesky.
+ * kernels are dot products over contiguous rows, in 4×2 register blocks (both the triangular solve
+ * for L21 and the Schur update) so that each load feeds more than one multiply-add. Written by hand: no kept JavaScript library offers sparse Cholesky.
  */
 import type { SymbolicFactor } from './symbolic.js';
 
@@ -108,6 +108,8 @@ export class Multifrontal {
   }
 }
 
+let reciprocals = new Float64Array(64);
+
 /**
  * Factor the leading k columns of the m×m front in place (row-major, lower): rows 0..k−1 become
  * L11, rows k..m−1 become L21. Returns 2 Σ ln diag.
@@ -129,19 +131,40 @@ function partialCholesky(F: Float64Array, m: number, k: number, firstColumn: num
     F[ri + i] = root;
     logdet += 2 * Math.log(root);
   }
-  // rows below: solve L21 L11ᵀ = F21, four rows at a time sharing the loads of row j of L11
+  // rows below: solve L21 L11ᵀ = F21 in blocks of four rows by two columns, so that each load
+  // feeds two multiply-adds (the same 4×2 register block as the Schur update)
+  if (reciprocals.length < k) reciprocals = new Float64Array(2 * k);
+  const inv = reciprocals;
+  for (let j = 0; j < k; j++) inv[j] = 1 / F[j * m + j];
   let i = k;
   for (; i + 3 < m; i += 4) {
     const r0 = i * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
-    for (let j = 0; j < k; j++) {
+    let j = 0;
+    for (; j + 1 < k; j += 2) {
+      const ra = j * m, rb = ra + m;
+      let a0 = F[r0 + j], a1 = F[r1 + j], a2 = F[r2 + j], a3 = F[r3 + j];
+      let b0 = F[r0 + j + 1], b1 = F[r1 + j + 1], b2 = F[r2 + j + 1], b3 = F[r3 + j + 1];
+      for (let p = 0; p < j; p++) {
+        const la = F[ra + p], lb = F[rb + p];
+        const x0 = F[r0 + p], x1 = F[r1 + p], x2 = F[r2 + p], x3 = F[r3 + p];
+        a0 -= x0 * la; a1 -= x1 * la; a2 -= x2 * la; a3 -= x3 * la;
+        b0 -= x0 * lb; b1 -= x1 * lb; b2 -= x2 * lb; b3 -= x3 * lb;
+      }
+      const da = inv[j], db = inv[j + 1], l = F[rb + j];
+      a0 *= da; a1 *= da; a2 *= da; a3 *= da;
+      F[r0 + j] = a0; F[r1 + j] = a1; F[r2 + j] = a2; F[r3 + j] = a3;
+      F[r0 + j + 1] = (b0 - a0 * l) * db; F[r1 + j + 1] = (b1 - a1 * l) * db;
+      F[r2 + j + 1] = (b2 - a2 * l) * db; F[r3 + j + 1] = (b3 - a3 * l) * db;
+    }
+    for (; j < k; j++) {
       const rj = j * m;
       let s0 = F[r0 + j], s1 = F[r1 + j], s2 = F[r2 + j], s3 = F[r3 + j];
       for (let p = 0; p < j; p++) {
         const l = F[rj + p];
         s0 -= F[r0 + p] * l; s1 -= F[r1 + p] * l; s2 -= F[r2 + p] * l; s3 -= F[r3 + p] * l;
       }
-      const d = F[rj + j];
-      F[r0 + j] = s0 / d; F[r1 + j] = s1 / d; F[r2 + j] = s2 / d; F[r3 + j] = s3 / d;
+      const d = inv[j];
+      F[r0 + j] = s0 * d; F[r1 + j] = s1 * d; F[r2 + j] = s2 * d; F[r3 + j] = s3 * d;
     }
   }
   for (; i < m; i++) {
@@ -150,7 +173,7 @@ function partialCholesky(F: Float64Array, m: number, k: number, firstColumn: num
       const rj = j * m;
       let sa = F[ra + j];
       for (let p = 0; p < j; p++) sa -= F[ra + p] * F[rj + p];
-      F[ra + j] = sa / F[rj + j];
+      F[ra + j] = sa * inv[j];
     }
   }
   return logdet;
