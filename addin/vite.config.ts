@@ -25,8 +25,11 @@ export const TASKPANE_CSP = [
   "worker-src 'self'", "object-src 'none'", "base-uri 'self'", "form-action 'none'",
 ].join('; ');
 
-function cspFor(url: string): string | undefined {
-  if (url.startsWith('/page/') || url === '/page') return PAGE_CSP;
+/** The dev server injects each CSS module as a <style> element; only there are inline styles let through. */
+const DEV_PAGE_CSP = PAGE_CSP.replace("style-src 'self'", "style-src 'self' 'unsafe-inline'");
+
+function cspFor(url: string, dev = false): string | undefined {
+  if (url.startsWith('/page/') || url === '/page') return dev ? DEV_PAGE_CSP : PAGE_CSP;
   if (url.startsWith('/taskpane/') || url.startsWith('/help/')) return TASKPANE_CSP;
   return undefined;
 }
@@ -54,17 +57,23 @@ function cellFunctionMetadata(): Plugin {
 
 /** Content-Security-Policy as a response header too (the pages also carry it in a meta tag). */
 function securityHeaders(): Plugin {
-  const use = (mw: { use: (fn: (req: { url?: string }, res: { setHeader(k: string, v: string): void }, next: () => void) => void) => void }) =>
+  const use = (mw: { use: (fn: (req: { url?: string }, res: { setHeader(k: string, v: string): void }, next: () => void) => void) => void }, dev: boolean) =>
     mw.use((req, res, next) => {
-      const csp = cspFor(req.url ?? '');
+      const csp = cspFor(req.url ?? '', dev);
       if (csp) res.setHeader('Content-Security-Policy', csp);
       res.setHeader('X-Content-Type-Options', 'nosniff');
       next();
     });
   return {
     name: 'spillway-security-headers',
-    configureServer(server) { use(server.middlewares); },
-    configurePreviewServer(server) { use(server.middlewares); },
+    configureServer(server) { use(server.middlewares, true); },
+    configurePreviewServer(server) { use(server.middlewares, false); },
+    transformIndexHtml: {
+      order: 'pre',
+      handler(html, ctx) {
+        return ctx.server ? html.replace(`content="${PAGE_CSP}"`, `content="${DEV_PAGE_CSP}"`) : html;
+      },
+    },
   };
 }
 

@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { OfficeAddinManifest } from 'office-addin-manifest';
 import { build } from 'vite';
+import { PAGE_CSP, TASKPANE_CSP } from '../addin/vite.config.js';
 
 const ROOT = join(import.meta.dirname, '..');
 const MANIFEST = join(ROOT, 'manifest/manifest.xml');
@@ -69,5 +70,13 @@ describe('the add-in manifest (read offline with office-addin-manifest)', () => 
       const code = readFileSync(f, 'utf8');
       expect(code, f).not.toMatch(/(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/);
     }
+  });
+
+  it('the pages carry the same Content-Security-Policy in their meta tag as the server sends', () => {
+    const meta = (file: string) => /http-equiv="Content-Security-Policy" content="([^"]+)"/.exec(readFileSync(join(out, file), 'utf8'))?.[1];
+    expect(meta('page/index.html')).toBe(PAGE_CSP);
+    expect(meta('taskpane/index.html')).toBe(TASKPANE_CSP);
+    expect(PAGE_CSP).toContain("connect-src 'self'");
+    expect(PAGE_CSP).not.toMatch(/unsafe|https?:/);
   });
 });
