@@ -169,6 +169,19 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.locator('section[aria-labelledby="step-2-title"]').screenshot({ path: join(shots, 'browser-page-repeated-id.png') });
   });
 
+  it('builds neighbours from coordinate columns (the Vell Basin villages, 5 nearest)', async () => {
+    const villages = join(ROOT, 'sample-workbooks/vell-basin-villages.xlsx');
+    await page.setInputFiles('#data-file', villages);
+    await page.getByText(/120 rows/).waitFor();
+    expect(await page.inputValue('#id-column')).toBe('village_id');
+    await page.click('#use-points');
+    await page.selectOption('#x-column', 'x_m');
+    await page.selectOption('#y-column', 'y_m');
+    await page.selectOption('#method', 'knn');
+    await page.getByText(/120 matched to rows by village_id/).waitFor();
+    await page.getByText(/fewest 5, average 5\.0, most 5/).waitFor();
+  });
+
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {
     expect(foreignRequests).toEqual([]);
     expect(problems).toEqual([]);
