@@ -1,6 +1,6 @@
 // Shapefile and TopoJSON reading. Sources: the Columbus fixture (test/fixtures/columbus, see its
 // LICENCE.md), checked against its own .dbf/.shx bytes parsed here by hand following the dBASE III
-// layout and the ESRI Shapefile Technical Description (1998); us-atlas 3.0.1 counties-10m.json
+// layout and the 1998 shapefile technical description; us-atlas 3.0.1 counties-10m.json
 // (TopoJSON), checked against the topology's own geometry list.
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';

@@ -19,7 +19,7 @@ export interface ScatterData {
 
 /**
  * Points of a Moran scatter plot. The slope z'Lz / z'z of the row-standardised lag on z equals
- * Moran's I with row-standardised weights (Anselin 1996, "The Moran scatterplot as an ESDA tool").
+ * Moran's I with row-standardised weights (Anselin 1996, on the Moran scatterplot).
  */
 export function moranScatterData(values: ArrayLike<number>, edges: Edges): ScatterData {
   const n = values.length;
