@@ -11,6 +11,10 @@ export interface TracesAt {
   trGtG: number;
   /** tr (I − ρW)⁻¹ */
   trAinv: number;
+  /** tr WᵀG (optional: the cross term of the test for remaining error dependence in the lag model) */
+  trWtG?: number;
+  /** tr WG (optional, as trWtG) */
+  trWG?: number;
 }
 
 /**
@@ -30,4 +34,13 @@ export interface WeightsAlgebra {
   powerTraces(count: number): Float64Array;
   /** How traces are computed ("exact ..." or an estimate with its precision). */
   readonly traceMethod: string;
+  /**
+   * Optional: a cheap approximation of the log-determinant, used only to bracket the maximum of a
+   * concentrated likelihood before exact evaluations polish it (its method and accuracy say what it is).
+   */
+  readonly roughLogdet?: LogDeterminant;
+  /** Optional: x = (I − ρW)⁻¹ b by a direct method (e.g. the factor kept from `traces` at that ρ). */
+  solve?(rho: number, b: Float64Array): Float64Array;
+  /** Optional: fast tr(I − ρW)⁻¹ at many ρ (impact simulations), when `traces` is costly per ρ. */
+  readonly traceInverse?: { evaluate(rho: number): number; readonly method: string };
 }

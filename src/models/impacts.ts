@@ -14,9 +14,10 @@ const MAX_REDRAWS = 1000;
  *
  * Standard errors (LeSage & Pace 2009, §2.7.4): `draws` samples of (β, ρ) from N(θ̂, V̂) using the
  * Cholesky factor of V̂ (the (β, ρ) block of the ML covariance) and a seeded generator; draws of ρ
- * outside the admissible range are rejected and redrawn. Each draw recomputes tr(A⁻¹): exactly from
- * the algebra when its traces are exact, otherwise by the series tr(A⁻¹) = n + Σ_{j≥1} ρʲ tr(Wʲ)
- * truncated at 300 terms (from powerTraces). SE = standard deviation over draws, p two-sided normal
+ * outside the admissible range are rejected and redrawn. Each draw recomputes tr(A⁻¹): from the
+ * algebra's fast evaluation when it has one (large n: stochastic Lanczos quadrature, with the point
+ * estimate taken from the traces at ρ̂), else exactly from the algebra when its traces are exact,
+ * otherwise by the series tr(A⁻¹) = n + Σ_{j≥1} ρʲ tr(Wʲ) truncated at 300 terms (from powerTraces). SE = standard deviation over draws, p two-sided normal
  * on estimate/SE. Point estimates are at θ̂, not the draw means.
  */
 export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, opts: { draws?: number; seed?: number } = {}): ImpactsResult {
@@ -26,8 +27,10 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   const n = algebra.n;
   const k = x.columns.length;
   const exactTraces = algebra.traceMethod.startsWith('exact');
-  const series = exactTraces ? null : algebra.powerTraces(SERIES_TERMS);
+  const fast = algebra.traceInverse;
+  const series = exactTraces || fast ? null : algebra.powerTraces(SERIES_TERMS);
   const meanDirect = (rho: number): number => {
+    if (fast) return fast.evaluate(rho) / n;
     if (!series) return algebra.traces(rho).trAinv / n;
     let s = n;
     let power = 1;
@@ -49,7 +52,8 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.name !== 'constant');
   const beta = fit.coefficients.map((c) => c.estimate);
   const rhoHat = fit.parameter;
-  const dHat = meanDirect(rhoHat);
+  // the point estimate takes tr(A⁻¹) at ρ̂ from the traces already computed there for the fit
+  const dHat = fast ? algebra.traces(rhoHat).trAinv / n : meanDirect(rhoHat);
   const tHat = meanTotal(rhoHat);
 
   // (β, ρ) block of the covariance of (β, ρ, σ²)
@@ -111,9 +115,11 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
       totalP: normalTwoSided(total / totalSe),
     };
   });
-  const traceText = series
-    ? `tr(I − ρW)⁻¹ by the power series to ${SERIES_TERMS} terms (${algebra.traceMethod})`
-    : `tr(I − ρW)⁻¹ ${algebra.traceMethod}`;
+  const traceText = fast
+    ? `tr(I − ρW)⁻¹ at ρ̂ ${algebra.traceMethod}; at the draws by ${fast.method}`
+    : series
+      ? `tr(I − ρW)⁻¹ by the power series to ${SERIES_TERMS} terms (${algebra.traceMethod})`
+      : `tr(I − ρW)⁻¹ ${algebra.traceMethod}`;
   return {
     impacts,
     draws,

@@ -9,7 +9,8 @@ const PROBES = 64;
 
 /**
  * T₂₁ = tr(WᵀG + WG) with G = W(I − ρW)⁻¹, the cross term of the LM test for error dependence in
- * the lag model.
+ * the lag model. When the algebra's traces carry tr WᵀG and tr WG (the sparse Cholesky algebra
+ * computes them from the same solves or probes as its other traces), those are used. Otherwise:
  * - tr(WG) comes from the identity G = W + ρWG: tr(WG) = (tr G − tr W)/ρ, with tr G from the
  *   algebra (for |ρ| < 1e-4, the series Σⱼ ρʲ tr Wʲ⁺² instead, to avoid cancellation).
  * - tr(WᵀG) = tr(WG) when W is symmetric; otherwise Σᵢ (W e_i)·(G e_i), exact from n solves for
@@ -19,11 +20,17 @@ const PROBES = 64;
 export function lagCrossTrace(algebra: WeightsAlgebra, rho: number): { value: number; method: string } {
   const w = algebra.w;
   const n = w.n;
+  const given = algebra.traces(rho);
+  if (given.trWtG !== undefined && given.trWG !== undefined) {
+    // the algebra computed both with its other traces at ρ (same solves, same probes)
+    const exact = algebra.traceMethod.startsWith('exact');
+    return { value: given.trWtG + given.trWG, method: exact ? 'exact' : `estimated with the other traces (${algebra.traceMethod})` };
+  }
   let trW = 0;
   for (let i = 0; i < n; i++) for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) if (w.colIdx[p] === i) trW += w.values[p];
   let trWG: number;
   if (Math.abs(rho) >= 1e-4) {
-    trWG = (algebra.traces(rho).trG - trW) / rho;
+    trWG = (given.trG - trW) / rho;
   } else {
     const pt = algebra.powerTraces(8);
     trWG = 0;

@@ -3,6 +3,7 @@ import type { WeightsAlgebra } from '../linalg/algebra.js';
 import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/dense-qr.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
+import { bracketAndPolish } from './bracket-polish.js';
 import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
 import { dot, residual } from './ml-lag.js';
 import { fitOls, table } from './ols.js';
@@ -13,7 +14,9 @@ import type { Design, OlsFit, SpatialFit } from './types.js';
  *
  * Concentrated in λ: B = I − λW; β(λ) is the OLS fit (Householder QR) of By on BX, ε = B(y − Xβ),
  *   L_c(λ) = −n/2 ln(2π) − n/2 ln(ε'ε/n) − n/2 + ln|I − λW|,
- * maximised by Brent on the admissible interval (ends shrunk by 1e-6 relative).
+ * maximised by Brent on the admissible interval (ends shrunk by 1e-6 relative) — or, when the
+ * algebra offers a cheap approximate log-determinant (large n), bracketed with it and polished with a
+ * few exact evaluations (bracket-polish.ts), which reaches the same maximiser.
  *
  * Covariance (Anselin 1988, eq. 6.35ff), H = W B⁻¹: β is information-orthogonal to (λ, σ²), so
  * Var β = σ²(X'B'BX)⁻¹, and the (λ, σ²) block is the inverse of
@@ -44,11 +47,16 @@ export function fitSpatialError(
     const eps = residual(ys, { names: x.names, columns: xs }, beta);
     return { qr, beta, eps, ssr: dot(eps, eps) };
   };
-  const concentrated = (lambda: number): number =>
-    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log(filtered(lambda).ssr / n) - 0.5 * n + algebra.logdet.evaluate(lambda);
+  const cheap = (lambda: number): number =>
+    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log(filtered(lambda).ssr / n) - 0.5 * n;
+  const concentrated = (lambda: number): number => cheap(lambda) + algebra.logdet.evaluate(lambda);
 
   const { lo, hi } = searchInterval(algebra.range);
-  const best = brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+  // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
+  // evaluations; an explicit iteration limit asks for the plain search
+  const best = algebra.roughLogdet && opts.maxIterations === undefined
+    ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
+    : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
   const lambda = best.x;
   const convergence = best.convergence;
   const warnings: string[] = [];
@@ -56,7 +64,7 @@ export function fitSpatialError(
 
   const at = filtered(lambda);
   const sigma2 = at.ssr / n;
-  const logLik = concentrated(lambda);
+  const logLik = best.value;
   const p = k + 2;
   const covariance = new Float64Array(p * p);
   const xtxInv = inverseCrossProduct(at.qr);

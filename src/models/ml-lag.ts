@@ -4,6 +4,7 @@ import { solveShifted } from '../linalg/dense-iterative.js';
 import { householderQr, qrSolve } from '../linalg/dense-qr.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
+import { bracketAndPolish } from './bracket-polish.js';
 import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
 import { lagCrossTrace } from './lag-cross-trace.js';
 import { fitOls, table } from './ols.js';
@@ -15,7 +16,9 @@ import type { Convergence, Design, OlsFit, SpatialFit } from './types.js';
  * Concentrated in ρ: with β₀, e₀ from OLS of y on X and β_L, e_L from OLS of Wy on X,
  *   e(ρ) = e₀ − ρe_L, σ²(ρ) = e(ρ)'e(ρ)/n,
  *   L_c(ρ) = −n/2 ln(2π) − n/2 ln σ²(ρ) − n/2 + ln|I − ρW|,
- * maximised by Brent on the admissible interval (ends shrunk by 1e-6 relative). Then
+ * maximised by Brent on the admissible interval (ends shrunk by 1e-6 relative) — or, when the
+ * algebra offers a cheap approximate log-determinant (large n), bracketed with it and polished with a
+ * few exact evaluations (bracket-polish.ts), which reaches the same maximiser. Then
  * β = β₀ − ρβ_L, σ² = e'e/n, residual e = y − ρWy − Xβ.
  *
  * Covariance of (β, ρ, σ²): inverse (Cholesky) of the information matrix (Anselin 1988, eq. 6.5ff),
@@ -52,19 +55,27 @@ export function fitSpatialLag(
   const s00 = dot(e0, e0);
   const s0L = dot(e0, eL);
   const sLL = dot(eL, eL);
-  const concentrated = (rho: number): number =>
-    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log((s00 - 2 * rho * s0L + rho * rho * sLL) / n) - 0.5 * n + algebra.logdet.evaluate(rho);
+  const cheap = (rho: number): number =>
+    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log((s00 - 2 * rho * s0L + rho * rho * sLL) / n) - 0.5 * n;
+  const concentrated = (rho: number): number => cheap(rho) + algebra.logdet.evaluate(rho);
 
   const { lo, hi } = searchInterval(algebra.range);
   let rho: number;
   let convergence: Convergence;
+  let logLik: number;
   if (opts.fixedRho !== undefined) {
     rho = opts.fixedRho;
     convergence = { converged: true, iterations: 0, tolerance: 0, message: `ρ held fixed at ${rho}` };
+    logLik = concentrated(rho);
   } else {
-    const best = brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+    // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
+    // evaluations; an explicit iteration limit asks for the plain search
+    const best = algebra.roughLogdet && opts.maxIterations === undefined
+      ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
+      : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
     rho = best.x;
     convergence = best.convergence;
+    logLik = best.value;
   }
   const warnings: string[] = [];
   if (!convergence.converged || convergence.atBound) warnings.push(convergence.message);
@@ -72,17 +83,22 @@ export function fitSpatialLag(
   const beta = b0.map((b, j) => b - rho * bL[j]);
   const e = e0.map((v, i) => v - rho * eL[i]);
   const sigma2 = dot(e, e) / n;
-  const logLik = concentrated(rho);
 
   // reduced form ŷ = A⁻¹Xβ, and GXβ = Wŷ
   const xb = new Float64Array(n);
   for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) xb[i] += beta[j] * x.columns[j][i];
-  const solved = solveShifted(w, rho, xb);
-  if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
-  const fitted = solved.x;
+  // traces first: a sparse algebra factors I − ρW there and reuses the factor for the solve
+  const tr = algebra.traces(rho);
+  let fitted: Float64Array;
+  if (algebra.solve) {
+    fitted = algebra.solve(rho, xb);
+  } else {
+    const solved = solveShifted(w, rho, xb);
+    if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
+    fitted = solved.x;
+  }
   const gxb = csrMultiply(w, fitted);
 
-  const tr = algebra.traces(rho);
   const p = k + 2;
   const info = new Float64Array(p * p);
   for (let a = 0; a < k; a++) {

@@ -1,27 +1,33 @@
 /**
  * Weights algebra for large n. With a symmetric form S of W: exact log-determinant by sparse
- * Cholesky of I − ρS, range by Lanczos, traces through the factor (exact or Hutchinson).
+ * Cholesky of I − ρS, range by Lanczos, traces through the factor (exact or Hutchinson, probes
+ * solved together with the factor at ρ, which is kept for the reduced-form solve), and one
+ * stochastic Lanczos quadrature (built on first use) for a cheap log-determinant that only brackets
+ * the likelihood maximum, for tr(I − ρW)⁻¹ at the impact draws and for long power series.
  * Without one (e.g. k-nearest neighbours): Monte Carlo series log-determinant with a stated error
  * bound, range from the spectral radius, traces by iterative solves.
  */
 import type { CsrMatrix } from '../csr.js';
-import type { TracesAt, WeightsAlgebra } from '../algebra.js';
-import type { AdmissibleRange, LogDeterminant } from '../logdet.js';
+import type { WeightsAlgebra } from '../algebra.js';
+import type { LogDeterminant } from '../logdet.js';
 import { SparseCholeskyLogDet } from './cholesky-logdet.js';
 import { CholeskyTraces } from './traces.js';
 import { GeneralTraces } from './general-traces.js';
 import { SeriesLogDet } from './series-logdet.js';
-import { powerTraces, traceOfSquare, frobeniusSquared } from './power-traces.js';
+import { powerTraces, traceOf, traceOfSquare, frobeniusSquared } from './power-traces.js';
+import { LanczosQuadrature } from './quadrature.js';
 import { spectralRadiusRange, symmetricRange } from './extremes.js';
 import { symmetricForm } from './similarity.js';
 
 export interface SparseOptions {
   coordinates?: { x: Float64Array; y: Float64Array };
   seed?: number;
-  /** Rademacher probes for stochastic traces (default 48) */
+  /** Rademacher probes for stochastic traces at one ρ (default 32) */
   probes?: number;
   /** terms of the Monte Carlo series when W has no symmetric form (default 100) */
   seriesTerms?: number;
+  /** probes of the Lanczos quadrature behind the bracketing log-determinant and impacts (default 8) */
+  quadratureProbes?: number;
 }
 
 /** The algebra plus figures for benchmarks and reports. */
@@ -34,20 +40,63 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
   const seed = opts.seed ?? 20240601;
   const form = symmetricForm(w, symmetric);
   const lmTrace = frobeniusSquared(w) + traceOfSquare(w);
-  let logdet: LogDeterminant;
-  let range: AdmissibleRange;
-  let tracer: { traces(rho: number): TracesAt; describe(): string };
-  let cholesky: SparseCholeskyLogDet | null = null;
-  if (form) {
-    cholesky = new SparseCholeskyLogDet(form.s, { coordinates: opts.coordinates });
-    logdet = cholesky;
-    range = symmetricRange(w, form.s, seed);
-    tracer = new CholeskyTraces(cholesky, form.s, form.t, { seed, probes: opts.probes });
-  } else {
-    range = spectralRadiusRange(w);
-    logdet = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius: range.eigenMax });
-    tracer = new GeneralTraces(w, seed, opts.probes ?? 48);
-  }
+  if (!form) return generalAlgebra(w, lmTrace, seed, opts);
+
+  const cholesky = new SparseCholeskyLogDet(form.s, { coordinates: opts.coordinates });
+  const range = symmetricRange(w, form.s, seed);
+  const tracer = new CholeskyTraces(cholesky, form.s, form.t, { seed, probes: opts.probes }, w);
+  // built on first use: the bracketing log-determinant, impacts and long power series share it
+  let quadrature: LanczosQuadrature | null = null;
+  const quad = (): LanczosQuadrature => (quadrature ??= new LanczosQuadrature(form.s, { probes: opts.quadratureProbes ?? 8, steps: 25, seed: seed + 2 }));
+  const roughLogdet: LogDeterminant = {
+    evaluate: (rho: number) => quad().logdet(rho),
+    get method(): string { return `${quad().describe()} of ln|I − ρS|`; },
+    accuracy: 'approximate (stochastic); used only to bracket the maximum, which exact evaluations then polish',
+  };
+  const traceInverse = {
+    evaluate: (rho: number) => quad().traceInverse(rho),
+    get method(): string {
+      const q = quad();
+      const at = q.trace((x) => 1 / (1 - 0.5 * x));
+      return `${q.describe()} (standard error ${at.se.toPrecision(2)} on tr(I − 0.5W)⁻¹ = ${at.value.toPrecision(6)})`;
+    },
+  };
+  const powerCache = new Map<number, Float64Array>();
+  return {
+    n: w.n,
+    w,
+    logdet: cholesky,
+    range,
+    lmTrace,
+    cholesky,
+    roughLogdet,
+    traceInverse,
+    traces: (rho: number) => tracer.traces(rho),
+    solve: (rho: number, b: Float64Array) => tracer.solve(rho, b),
+    powerTraces(count: number): Float64Array {
+      let cached = powerCache.get(count);
+      if (!cached) {
+        // exact from unit vectors when affordable, else from the quadrature nodes (exact per probe
+        // up to k = 49, Gauss quadrature beyond); tr W and tr W² exact either way
+        const exact = w.n * count * Math.max(form.s.rowPtr[w.n], 1) <= 2e8;
+        cached = exact ? powerTraces(w, form.s, count, seed + 1, 0).traces : quad().powerTraces(count).traces;
+        if (count >= 1) cached[0] = traceOf(w);
+        if (count >= 2) cached[1] = traceOfSquare(w);
+        powerCache.set(count, cached);
+      }
+      return cached.slice();
+    },
+    get traceMethod(): string {
+      return tracer.describe();
+    },
+  };
+}
+
+/** W without a symmetric form: Monte Carlo series log-determinant, BiCGSTAB traces. */
+function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: SparseOptions): SparseWeightsAlgebra {
+  const range = spectralRadiusRange(w);
+  const logdet = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius: range.eigenMax });
+  const tracer = new GeneralTraces(w, seed, opts.probes ?? 48);
   const powerCache = new Map<number, Float64Array>();
   const powerProbes = opts.probes ?? 48;
   return {
@@ -56,12 +105,12 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
     logdet,
     range,
     lmTrace,
-    cholesky,
+    cholesky: null,
     traces: (rho: number) => tracer.traces(rho),
     powerTraces(count: number): Float64Array {
       let cached = powerCache.get(count);
       if (!cached) {
-        cached = powerTraces(w, form ? form.s : null, count, seed + 1, powerProbes).traces;
+        cached = powerTraces(w, null, count, seed + 1, powerProbes).traces;
         powerCache.set(count, cached);
       }
       return cached.slice();
