@@ -8,10 +8,12 @@ import type { Convergence } from './types.js';
  * polishes it through the correction δ = g − a, which is small and smooth:
  *   1. ρ₀ = argmax c + a (Brent, no exact evaluation);
  *   2. δ at ρ₀ − h, ρ₀, ρ₀ + h (exact); δ̃ = the parabola through the three points of δ nearest the
- *      current estimate (kept at least h/4 apart, so rounding in g is not divided by a tiny step);
+ *      current estimate (kept at least 1e-5 apart, so rounding in g is not divided by a tiny step);
  *   3. ρ_{k+1} = argmax c + a + δ̃ (Brent within a trust region around those points, refined as the
  *      zero of the derivative); evaluate δ there; stop when two successive estimates agree to
- *      `tolerance`.
+ *      `tolerance` and the parabola's slope error (estimated from a fourth point's divided
+ *      difference) moves the maximiser by less than `tolerance`; when only the latter fails, add a
+ *      point closer in and go on.
  * This is the model-correction idea of surrogate optimisation (Alexandrov et al. 1998, "A trust
  * region framework for managing the use of approximation models"): at the stopping point the
  * corrected model interpolates g, so its maximiser is the maximiser of the exact f. The result is the
@@ -42,24 +44,32 @@ export function bracketAndPolish(
   const h = Math.min(1e-3 * Math.max(1, Math.abs(rho0)), 0.01 * width);
   if (rho0 - 2 * h <= lo || rho0 + 2 * h >= hi) return fullSearch('the approximate maximum lies at an end of the range');
 
+  // closest spacing of model points: rounding in g (at most ≈ 1e-16 · n) divided by it stays far
+  // below the likelihood's curvature (≈ n)
+  const gap = 1e-7 * Math.max(1, Math.abs(rho0));
   const xs: number[] = [], ds: number[] = [];
   const add = (rho: number) => { const v = g(rho); xs.push(rho); ds.push(v - rough.evaluate(rho)); return v; };
+  const known = (r: number) => cheap(r) + rough.evaluate(r);
   try {
     add(rho0 - h);
     add(rho0 + h);
     let current = rho0;
     let currentValue = cheap(rho0) + add(rho0);
     for (;;) {
-      const points = nearest(xs, ds, current, h / 4);
+      const points = nearest(xs, ds, current, gap, 3);
       const model = parabola(points);
       // trust region: the parabola is believed only near the points it interpolates
       const span = Math.max(...points.map(([x]) => x)) - Math.min(...points.map(([x]) => x));
       const radius = Math.max(20 * h, 2 * span);
       const a = Math.max(lo, current - radius), b = Math.min(hi, current + radius);
-      const known = (r: number) => cheap(r) + rough.evaluate(r);
       const step = brentMaximise((r) => known(r) + model(r), a, b, { tolerance: 1e-13 });
       const next = stationaryPoint(known, points, step.x, a, b);
-      if (Math.abs(next - current) <= tolerance * Math.max(1, Math.abs(current))) {
+      const settled = Math.abs(next - current) <= tolerance * Math.max(1, Math.abs(current));
+      // a-posteriori check: the parabola through current, x₂, x₃ misstates δ' at current by about
+      // δ'''·(current − x₂)(current − x₃)/6 (δ''' from the fourth-nearest point's divided
+      // difference), which moves the maximiser by that over the curvature
+      const misstated = settled ? slopeError(xs, ds, current, gap, known, model) : 0;
+      if (settled && misstated <= tolerance * Math.max(1, Math.abs(current))) {
         const edge = Math.max(1e-9 * width, 4 * tolerance);
         const atBound = current - lo <= edge ? 'lower' : hi - current <= edge ? 'upper' : undefined;
         if (atBound) return fullSearch('the maximum lies at an end of the range');
@@ -72,6 +82,12 @@ export function bracketAndPolish(
         return { x: current, value: currentValue, convergence, exactEvaluations: evaluations };
       }
       if (evaluations >= maxExact) return fullSearch(`the polish had not settled after ${evaluations} exact evaluations`);
+      if (settled) {
+        // the model is not local enough: add a point a quarter of the way to the next-nearest one
+        const other = points.filter(([x]) => x !== current).sort((p, q) => Math.abs(p[0] - current) - Math.abs(q[0] - current))[0][0];
+        add(current + 0.25 * (other - current));
+        continue;
+      }
       current = next;
       currentValue = cheap(next) + add(next);
     }
@@ -122,15 +138,43 @@ function parabolaSlope(points: [number, number][], x: number): number {
   return sum;
 }
 
-/** Three points of (x, d) nearest `at`, each at least `gap` from the others already chosen. */
-function nearest(xs: number[], ds: number[], at: number, gap: number): [number, number][] {
+/** `count` points of (x, d) nearest `at`, each at least `gap` from the others already chosen. */
+function nearest(xs: number[], ds: number[], at: number, gap: number, count: number): [number, number][] {
   const order = xs.map((_, i) => i).sort((a, b) => Math.abs(xs[a] - at) - Math.abs(xs[b] - at));
   const chosen: [number, number][] = [];
   for (const i of order) {
     if (chosen.every(([x]) => Math.abs(x - xs[i]) >= gap)) chosen.push([xs[i], ds[i]]);
-    if (chosen.length === 3) break;
+    if (chosen.length === count) break;
   }
   return chosen;
+}
+
+/**
+ * Estimated error in the maximiser from the parabola's slope at `at` (the nearest point): with four
+ * points, |δ[x₁..x₄]|·|(at − x₂)(at − x₃)| over the curvature of the corrected model; Infinity
+ * with fewer than four points (no estimate yet).
+ */
+function slopeError(xs: number[], ds: number[], at: number, gap: number, known: (x: number) => number, model: (x: number) => number): number {
+  const four = nearest(xs, ds, at, gap, 4);
+  if (four.length < 4) return Infinity;
+  const third = dividedDifference(four);
+  const [, p2, p3] = four;
+  const slopeMiss = Math.abs(third * (at - p2[0]) * (at - p3[0]));
+  const d = 1e-4 * Math.max(1, Math.abs(at));
+  const f = (x: number) => known(x) + model(x);
+  const curvature = Math.abs((f(at + d) - 2 * f(at) + f(at - d)) / (d * d));
+  return curvature > 0 ? slopeMiss / curvature : Infinity;
+}
+
+/** The highest divided difference of the points (for four points, ≈ δ'''/6). */
+function dividedDifference(points: [number, number][]): number {
+  let values = points.map(([, d]) => d);
+  for (let level = 1; level < points.length; level++) {
+    const next: number[] = [];
+    for (let i = 0; i + level < points.length; i++) next.push((values[i + 1] - values[i]) / (points[i + level][0] - points[i][0]));
+    values = next;
+  }
+  return values[0];
 }
 
 /** Lagrange interpolant through up to three points (a constant, a line or a parabola). */

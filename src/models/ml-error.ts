@@ -47,8 +47,23 @@ export function fitSpatialError(
     const eps = residual(ys, { names: x.names, columns: xs }, beta);
     return { qr, beta, eps, ssr: dot(eps, eps) };
   };
+  // ε'ε at any λ from one QR of the n×2(k+1) matrix [X, y, WX, Wy] = QR: [BX, By] = QR·[I; −λI],
+  // so the residual sum of squares of By on BX is the last diagonal² of the QR of the small
+  // 2(k+1)×(k+1) matrix R·[I; −λI] — O(k³) per λ instead of O(nk²), and as stable (no cross-products)
+  const tall = householderQr([...x.columns, y, ...wx, wy]);
+  const m = 2 * (k + 1);
+  const ssrAt = (lambda: number): number => {
+    const cols: Float64Array[] = [];
+    for (let j = 0; j <= k; j++) {
+      const c = new Float64Array(m);
+      for (let i = 0; i < m; i++) c[i] = tall.r[i * m + j] - lambda * tall.r[i * m + k + 1 + j];
+      cols.push(c);
+    }
+    const d = householderQr(cols).r[k * (k + 1) + k];
+    return d * d;
+  };
   const cheap = (lambda: number): number =>
-    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log(filtered(lambda).ssr / n) - 0.5 * n;
+    -0.5 * n * Math.log(2 * Math.PI) - 0.5 * n * Math.log(ssrAt(lambda) / n) - 0.5 * n;
   const concentrated = (lambda: number): number => cheap(lambda) + algebra.logdet.evaluate(lambda);
 
   const { lo, hi } = searchInterval(algebra.range);

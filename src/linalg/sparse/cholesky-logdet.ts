@@ -48,16 +48,24 @@ export class SparseCholeskyLogDet implements LogDeterminant {
 
   evaluate(rho: number): number {
     if (rho === 0) return 0;
-    return this.engine.factor(rho);
+    return this.factorAt(rho).logdet;
   }
 
-  /** Factor at ρ and keep the panels, for solves with I − ρS. */
+  /**
+   * Factor at ρ and keep the panels, for solves with I − ρS. The factor of the last ρ evaluated is
+   * kept, so the traces at an estimate found by exact evaluations need no new factorisation.
+   */
   factorAt(rho: number): { factor: NumericFactor; logdet: number } {
+    if (this.last && this.last.rho === rho) return this.last.kept;
+    this.last = null;
     const panels = new Float64Array(this.engine.panelSize());
     const factor: NumericFactor = { panels, panelPtr: new Float64Array(this.symbolic.superCount) };
     const logdet = this.engine.factor(rho, factor);
-    return { factor, logdet };
+    this.last = { rho, kept: { factor, logdet } };
+    return this.last.kept;
   }
+
+  private last: { rho: number; kept: { factor: NumericFactor; logdet: number } } | null = null;
 }
 
 /** Share of areas whose number of neighbours is the most common one. */

@@ -87,10 +87,13 @@ export interface LanczosExtremes {
   minResidual: number;
   maxResidual: number;
   steps: number;
+  /** the Lanczos tridiagonal (first `steps` entries), e.g. for a one-probe quadrature */
+  alpha?: Float64Array;
+  beta?: Float64Array;
 }
 
 /** Extreme eigenvalues of a symmetric sparse matrix by Lanczos. */
-export function lanczosExtremes(s: CsrMatrix, seed = 1, maxSteps = 300, tolerance = 1e-10): LanczosExtremes {
+export function lanczosExtremes(s: CsrMatrix, seed = 1, maxSteps = 300, tolerance = 1e-10, needMax = true): LanczosExtremes {
   const n = s.n;
   const steps = Math.min(n, maxSteps);
   const alpha = new Float64Array(steps), beta = new Float64Array(steps);
@@ -128,8 +131,8 @@ export function lanczosExtremes(s: CsrMatrix, seed = 1, maxSteps = 300, toleranc
       const max = tridiagonalEigenvalue(alpha, beta, jj, jj - 1, lo, hi);
       const minResidual = b * lastComponent(alpha, beta, jj, min, false);
       const maxResidual = b * lastComponent(alpha, beta, jj, max, true);
-      result = { min, max, minResidual, maxResidual, steps: jj };
-      if (done || (minResidual < tolerance && maxResidual < tolerance)) break;
+      result = { min, max, minResidual, maxResidual, steps: jj, alpha, beta };
+      if (done || (minResidual < tolerance && (!needMax || maxResidual < tolerance))) break;
     }
     const t = vPrev;
     vPrev = v;
@@ -141,9 +144,25 @@ export function lanczosExtremes(s: CsrMatrix, seed = 1, maxSteps = 300, toleranc
 
 /** Range from the symmetric form S of W. */
 export function symmetricRange(w: CsrMatrix, s: CsrMatrix, seed = 1): AdmissibleRange {
+  return symmetricRangeWithLanczos(w, s, seed).range;
+}
+
+/** The same, with the Lanczos run behind it (its tridiagonal serves a one-probe quadrature). */
+export function symmetricRangeWithLanczos(w: CsrMatrix, s: CsrMatrix, seed = 1): { range: AdmissibleRange; lanczos: LanczosExtremes } {
   const stochastic = isRowStochastic(w);
   const radius = stochastic ? 1 : maxAbsRowSum(s);
-  const ex = lanczosExtremes(s, seed);
+  // A bipartite neighbour graph (e.g. a rook lattice) has a spectrum symmetric about 0 (Chung 1997,
+  // Spectral Graph Theory, lemma 1.8), so λmin = −λmax = −1 exactly for row-standardised W; there
+  // Lanczos converges slowly on the clustered end and would only meet the −1 floor, so it runs
+  // just long enough for the bracketing quadrature.
+  const bipartite = stochastic && isBipartite(s);
+  const ex = lanczosExtremes(s, seed, bipartite ? 60 : 300, 1e-10, !stochastic);
+  if (bipartite) {
+    return {
+      range: { lower: -1, upper: 1, eigenMin: -1, eigenMax: 1, method: 'λmax = 1 (rows of W sum to one); λmin = −1 (the neighbour graph is bipartite, so the spectrum is symmetric about 0)' },
+      lanczos: ex,
+    };
+  }
   const eigenMin = Math.max(-radius, ex.min - ex.minResidual);
   const eigenMax = stochastic ? 1 : ex.max + ex.maxResidual;
   const parts = [
@@ -151,7 +170,30 @@ export function symmetricRange(w: CsrMatrix, s: CsrMatrix, seed = 1): Admissible
     stochastic ? 'λmax = 1 (rows of W sum to one)' : `λmax ${ex.max.toPrecision(12)} (residual bound ${ex.maxResidual.toExponential(1)})`,
   ];
   if (eigenMin === -radius) parts.push(`λmin taken as −${radius} (spectral radius bound)`);
-  return { lower: 1 / eigenMin, upper: 1 / eigenMax, eigenMin, eigenMax, method: parts.join('; ') };
+  return { range: { lower: 1 / eigenMin, upper: 1 / eigenMax, eigenMin, eigenMax, method: parts.join('; ') }, lanczos: ex };
+}
+
+/** True when the pattern of S (a symmetric matrix) is bipartite: a two-colouring by breadth-first search. */
+export function isBipartite(s: CsrMatrix): boolean {
+  const n = s.n;
+  const colour = new Int8Array(n).fill(-1);
+  const queue = new Int32Array(n);
+  for (let root = 0; root < n; root++) {
+    if (colour[root] !== -1) continue;
+    colour[root] = 0;
+    let head = 0, tail = 0;
+    queue[tail++] = root;
+    while (head < tail) {
+      const i = queue[head++];
+      for (let p = s.rowPtr[i]; p < s.rowPtr[i + 1]; p++) {
+        const j = s.colIdx[p];
+        if (j === i) { if (s.values[p] !== 0) return false; continue; }
+        if (colour[j] === -1) { colour[j] = 1 - colour[i]; queue[tail++] = j; }
+        else if (colour[j] === colour[i]) return false;
+      }
+    }
+  }
+  return true;
 }
 
 /** Range for W without a symmetric form: (−1/λmax, 1/λmax) with λmax the Perron root. */

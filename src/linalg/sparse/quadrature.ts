@@ -7,7 +7,9 @@
  * an m-point Gauss quadrature, exact for polynomials of degree ≤ 2m − 1. Averaged over p probes this
  * estimates tr f(S) (Hutchinson 1990) with the standard error of the probe mean. One set of nodes
  * serves every f and every ρ: ln|I − ρS| (a cheap log-determinant used only to bracket the maximum
- * of a likelihood), tr(I − ρS)⁻¹ (impact simulations) and tr(Sᵏ) (series).
+ * of a likelihood — there one probe suffices: the Lanczos run already made for the admissible
+ * range, whose random unit start v gives n·vᵀf(S)v), tr(I − ρS)⁻¹ (impact simulations) and tr(Sᵏ)
+ * (series).
  * The small tridiagonal eigenproblems go to ml-matrix; the Lanczos recurrence is written here
  * (without reorthogonalisation: lost orthogonality only duplicates converged Ritz values, and the
  * quadrature stays accurate — Greenbaum 1989).
@@ -31,12 +33,24 @@ export class LanczosQuadrature {
   private readonly nodes: Float64Array[] = [];
   private readonly weights: Float64Array[] = [];
 
-  constructor(s: CsrMatrix, opts: QuadratureOptions = {}) {
-    const n = s.n;
+  /** From a Lanczos run already made (one probe: its start vector), e.g. the one behind the range. */
+  static fromTridiagonal(n: number, alpha: Float64Array, beta: Float64Array, steps: number, seed: number): LanczosQuadrature {
+    return new LanczosQuadrature(null, { probes: 1, steps, seed }, { n, alpha, beta });
+  }
+
+  constructor(s: CsrMatrix | null, opts: QuadratureOptions = {}, given?: { n: number; alpha: Float64Array; beta: Float64Array }) {
+    const n = s ? s.n : given!.n;
     this.n = n;
     this.probes = opts.probes ?? 24;
     this.steps = Math.min(opts.steps ?? 40, n);
     this.seed = opts.seed ?? 20240601;
+    if (!s) {
+      const { theta, tau2 } = tridiagonalQuadrature(given!.alpha, given!.beta, this.steps);
+      for (let j = 0; j < theta.length; j++) tau2[j] *= n;
+      this.nodes.push(theta);
+      this.weights.push(tau2);
+      return;
+    }
     const uniform = seededUniform(this.seed);
     const z = new Float64Array(n);
     let v = new Float64Array(n), prev = new Float64Array(n), w = new Float64Array(n);
@@ -133,6 +147,7 @@ export class LanczosQuadrature {
   }
 
   describe(): string {
+    if (this.probes === 1) return `stochastic Lanczos quadrature, one random start × ${this.steps} Lanczos steps (seed ${this.seed})`;
     return `stochastic Lanczos quadrature, ${this.probes} Rademacher probes × ${this.steps} Lanczos steps (seed ${this.seed})`;
   }
 }

@@ -35,7 +35,7 @@ export interface TraceOptions {
 }
 
 /** Right-hand sides per blocked solve. */
-const BLOCK = 8;
+const BLOCK = 16;
 
 export class CholeskyTraces {
   readonly exact: boolean;
@@ -48,7 +48,7 @@ export class CholeskyTraces {
   /** `w` is W itself (for the cross traces); when omitted, W = T S T⁻¹ is applied through S. */
   constructor(private readonly ld: SparseCholeskyLogDet, private readonly s: CsrMatrix, private readonly t: Float64Array, opts: TraceOptions = {}, private readonly w?: CsrMatrix) {
     this.seed = opts.seed ?? 20240601;
-    this.probes = opts.probes ?? 32;
+    this.probes = opts.probes ?? 16;
     this.exact = s.n * ld.symbolic.nnzStored <= (opts.exactBudget ?? 1.5e8);
   }
 
