@@ -77,7 +77,7 @@ export function lag(values: any[][], ids: any[][], neighbours: any[][], rowStand
 
 /**
  * Local Moran values: each area's share in the overall resemblance of neighbours.
- * @customfunction LOCALMORAN
+ * @customfunction MORANBYAREA
  * @param values One number per area, in a single column. A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
  * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
@@ -108,6 +108,6 @@ export function registerCellFunctions(): void {
   CustomFunctions.associate('MORAN', moran);
   CustomFunctions.associate('MORANPERM', moranPerm);
   CustomFunctions.associate('LAG', lag);
-  CustomFunctions.associate('LOCALMORAN', localMoran);
+  CustomFunctions.associate('MORANBYAREA', localMoran);
   CustomFunctions.associate('GEARY', geary);
 }

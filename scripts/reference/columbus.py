@@ -17,7 +17,7 @@ Conventions (the engine follows the same ones):
 - AIC = -2 logL + 2 q, Schwarz = -2 logL + q ln n with q = k (OLS) or k + 1 (ML: beta and the
   spatial parameter; sigma2 is not counted).
 - p-values are two-sided: Student t with n-k df for OLS coefficients, standard normal for ML
-  coefficients and Moran's z; chi-squared upper tail for the LM, LR, JB, BP and KB statistics.
+  coefficients and Moran's z; chi-squared upper tail for the Lagrange-multiplier, likelihood-ratio, Jarque-Bera and both Breusch-Pagan statistics.
 """
 import json
 import math
@@ -256,7 +256,7 @@ def breusch_pagan(e, X):
     statistic is half the explained sum of squares, chi-squared with k-1 df (variance regressors: the
     model's own X, constant included).
 
-    Note: a widely published output for this data shows BP 7.9002 and Koenker-Bassett 5.6941
+    Note: a widely published output for this data shows 7.9002 for Breusch-Pagan and 5.6941 for its studentised form
     (recalled from memory). Those are reproduced exactly when the variance regressors are the
     constant and the SQUARES of INC and HOVAL (this script gives 7.90044 and 5.69409 that way); with
     X itself, as here, the figures are 10.0128 and 7.2166. Same residuals, different choice of z."""
