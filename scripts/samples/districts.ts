@@ -1,0 +1,104 @@
+/** The 150 invented districts: Voronoi cells of the basin, an outcome from a spatial lag process. */
+import { districtCells, basinOutline, jitteredSites, RAIL_LINES, TOWN } from './basin.js';
+import type { ColumnSpec } from './files.js';
+import { polylineDistance, ringArea, ringCentroid, round, type Pt } from './geometry.js';
+import { closestNonNeighbourGap, sharedVertexNeighbours, solveSpatial } from './neighbours.js';
+import { inventNames, mulberry32, normal, smoothField, stats } from './random.js';
+
+export const DISTRICT_SEED = 90125;
+export const DISTRICT_TRUTH = {
+  rho: 0.5,
+  beta: { intercept: 32, broadband_pct: -0.15, rail_km: 0.35, rent_index: -0.08 },
+  sigma: 2.5,
+};
+const DISTRICT_COUNT = 150;
+
+const DISTRICT_ROOTS = ['Arvel', 'Brennic', 'Corvane', 'Dovrin', 'Esselt', 'Fennock', 'Gellin', 'Harrun', 'Istel', 'Jossar', 'Korrin', 'Lummet', 'Morvel', 'Nessar', 'Ovrad', 'Pellow', 'Quessel', 'Rothen', 'Sarrel', 'Tovrin', 'Ulvar', 'Wendrel', 'Yessick', 'Zennic'];
+const DISTRICT_ENDINGS = [' Vale', 'mere', 'holt', 'stead', ' Fen', 'brook', 'ley', ' Cross'];
+
+export const DISTRICT_COLUMNS: ColumnSpec[] = [
+  { name: 'district_id', width: 12, meaning: 'District code, VB-001 to VB-150; matches district_id in vell-basin-districts.geojson.' },
+  { name: 'district_name', width: 18, meaning: 'Invented district name.' },
+  { name: 'long_commute_pct', width: 18, format: '0.00', meaning: "Outcome. Share of households whose main earner's usual one-way journey to work takes more than 45 minutes, in percent (0–100)." },
+  { name: 'broadband_pct', width: 15, format: '0.0', meaning: 'Share of addresses with a fixed broadband line of at least 100 Mbit/s, in percent. More home working, fewer long commutes.' },
+  { name: 'rail_km', width: 10, format: '0.0', meaning: "Straight-line distance from the district's centre to the nearest passenger rail line, in kilometres." },
+  { name: 'rent_index', width: 12, format: '0.0', meaning: 'Median monthly rent relative to the median district (= 100). Dearer districts sit near the jobs.' },
+  { name: 'population', width: 12, format: '#,##0', meaning: 'Residents. Not part of the simulated process; there for maps and weighting.' },
+];
+
+export interface DistrictData {
+  outline: Pt[];
+  cells: Pt[][];
+  neighbours: number[][];
+  rows: Record<string, string | number>[];
+  truth: Record<string, unknown>;
+}
+
+export async function makeDistricts(): Promise<DistrictData> {
+  let found: { outline: Pt[]; cells: Pt[][]; nb: number[][]; rand: () => number; spacing: number } | null = null;
+  // Same seed, slightly different grid spacings, until exactly 150 districts with no near-miss corners.
+  for (let step = 0; step < 200 && !found; step++) {
+    const rand = mulberry32(DISTRICT_SEED);
+    const outline = basinOutline(rand);
+    const spacing = 6800 + 10 * step;
+    const sites = jitteredSites(rand, spacing, outline);
+    if (sites.length !== DISTRICT_COUNT) continue;
+    const cells = await districtCells(sites, outline);
+    const nb = sharedVertexNeighbours(cells);
+    if (nb.some((n) => n.length === 0) || closestNonNeighbourGap(cells, nb) < 10) continue;
+    found = { outline, cells, nb, rand, spacing };
+  }
+  if (!found) throw new Error('no grid spacing gave 150 clean districts');
+  const { outline, cells, nb, rand, spacing } = found;
+  const names = inventNames(rand, DISTRICT_ROOTS, DISTRICT_ENDINGS, cells.length);
+  const broadbandField = smoothField(rand);
+  const rentField = smoothField(rand);
+  const popField = smoothField(rand);
+  const base = cells.map((ring, i) => {
+    const c = ringCentroid(ring);
+    const townKm = Math.hypot(c[0] - TOWN[0], c[1] - TOWN[1]) / 1000;
+    const railKm = round(polylineDistance(c, RAIL_LINES) / 1000, 1);
+    const logit = 2.8 - 0.035 * townKm - 0.02 * railKm + 0.35 * broadbandField(c) + 0.2 * normal(rand);
+    const logRent = -0.006 * townKm - 0.004 * railKm + 0.1 * rentField(c) + 0.05 * normal(rand);
+    const population = Math.round(Math.exp(Math.log(9000) - 0.015 * townKm + 0.25 * popField(c) + 0.3 * normal(rand)));
+    return { i, railKm, broadband: round(100 / (1 + Math.exp(-logit)), 1), logRent, population };
+  });
+  const sortedRent = base.map((b) => b.logRent).sort((a, b) => a - b);
+  const mid = sortedRent.length >> 1;
+  const medianRent = sortedRent.length % 2 ? sortedRent[mid] : (sortedRent[mid - 1] + sortedRent[mid]) / 2;
+  const { beta, rho, sigma } = DISTRICT_TRUTH;
+  const X = base.map((b) => ({ ...b, rent: round(100 * Math.exp(b.logRent - medianRent), 1) }));
+  const eps = X.map(() => sigma * normal(rand));
+  const rhs = X.map((x, i) => beta.intercept + beta.broadband_pct * x.broadband + beta.rail_km * x.railKm + beta.rent_index * x.rent + eps[i]);
+  const solved = solveSpatial(nb, rho, rhs);
+  if (solved.y.some((v) => v <= 0 || v >= 100)) throw new Error('simulated commute share left 0–100');
+  const rows = X.map((x, i) => ({
+    district_id: `VB-${String(i + 1).padStart(3, '0')}`,
+    district_name: names[i],
+    long_commute_pct: round(solved.y[i], 2),
+    broadband_pct: x.broadband,
+    rail_km: x.railKm,
+    rent_index: x.rent,
+    population: x.population,
+  }));
+  const e = stats(eps);
+  const truth = {
+    dataset: 'Vell Basin districts (invented)',
+    files: ['vell-basin.xlsx', 'vell-basin-districts.geojson'],
+    n: cells.length,
+    seed: DISTRICT_SEED,
+    random_generator: 'mulberry32; normal draws by Box–Muller (cosine branch only)',
+    process: 'spatial lag: y = (I − rho·W)⁻¹ (X·beta + e), e ~ N(0, sigma²) independent',
+    weights: 'queen contiguity (districts sharing at least one boundary vertex), row-standardised',
+    outcome: 'long_commute_pct',
+    rho,
+    beta,
+    sigma,
+    rounding: 'regressors rounded to 0.1 before simulating; outcome rounded to 0.01 after',
+    solver: { method: 'fixed-point iteration y ← b + rho·W·y', stop: 'largest change ≤ 1e-13 · max(1, max|y|)', iterations: solved.iterations, max_residual: Number(solved.residual.toExponential(2)) },
+    realised_errors: { mean: round(e.mean, 6), sd: round(e.sd, 6) },
+    outline_area_m2: round(ringArea(outline), 2),
+    grid_spacing_m: spacing,
+  };
+  return { outline, cells, neighbours: nb, rows, truth };
+}
