@@ -2,23 +2,14 @@
 // (GeoJSON: FeatureCollection/Feature/geometry types, rings closed with first = last, at least 4 positions).
 import { describe, expect, it } from 'vitest';
 import { readBoundary } from '../src/geo/index.js';
-import { InputError } from '../src/errors.js';
+import { failure } from './helpers/input-error.js';
+import { squareRing } from './fixtures/weights/shapes.js';
 
 const enc = (o: unknown) => new TextEncoder().encode(typeof o === 'string' ? o : JSON.stringify(o));
 const file = (o: unknown, name = 'areas.geojson') => [{ name, bytes: enc(o) }];
-const square = (x: number, y: number, d = 1) => [[[x, y], [x + d, y], [x + d, y + d], [x, y + d], [x, y]]];
+const square = (x: number, y: number, d = 1) => [squareRing(x, y, d)];
 const fc = (...features: unknown[]) => ({ type: 'FeatureCollection', features });
 const poly = (props: object, coordinates: unknown) => ({ type: 'Feature', properties: props, geometry: { type: 'Polygon', coordinates } });
-
-async function failure(p: Promise<unknown>): Promise<InputError> {
-  try {
-    await p;
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 describe('readBoundary: GeoJSON', () => {
   it('round-trips polygons, properties and the id member', async () => {

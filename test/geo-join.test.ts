@@ -4,8 +4,10 @@ import { describe, expect, it } from 'vitest';
 import { joinAreas, numericColumn, readBoundary, readTable, subsetAreas, tableFromLayer, JoinError } from '../src/geo/index.js';
 import type { AreaLayer, DataTable } from '../src/geo/index.js';
 import { InputError } from '../src/errors.js';
+import { thrown } from './helpers/input-error.js';
+import { squareRing } from './fixtures/weights/shapes.js';
 
-const square = (x: number) => [[[x, 0], [x + 1, 0], [x + 1, 1], [x, 1], [x, 0]]];
+const square = (x: number) => [squareRing(x, 0)];
 
 async function layerOf(ids: (string | number | null)[], opts: { noGeometry?: number[] } = {}): Promise<AreaLayer> {
   const features = ids.map((id, i) => ({
@@ -18,15 +20,7 @@ async function layerOf(ids: (string | number | null)[], opts: { noGeometry?: num
 
 const csv = (s: string) => readTable({ name: 'values.csv', bytes: new TextEncoder().encode(s) });
 
-function joinFailure(f: () => unknown): JoinError {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as JoinError;
-  }
-  throw new Error('expected an InputError');
-}
+const joinFailure = (f: () => unknown) => thrown<JoinError>(f);
 
 describe('joinAreas', () => {
   it('keeps the table row order, matches numbers to text without a trailing .0', async () => {

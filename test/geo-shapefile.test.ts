@@ -6,22 +6,12 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { zipSync } from 'fflate';
 import { readBoundary } from '../src/geo/index.js';
-import { InputError } from '../src/errors.js';
+import { failure } from './helpers/input-error.js';
 import { dbf, pointShp } from './fixtures/geo/make-shapefile.js';
 
 const dir = new URL('./fixtures/columbus/', import.meta.url);
 const bytesOf = (name: string) => new Uint8Array(readFileSync(new URL(name, dir)));
 const columbus = () => ['columbus.shp', 'columbus.shx', 'columbus.dbf'].map((name) => ({ name, bytes: bytesOf(name) }));
-
-async function failure(p: Promise<unknown>): Promise<InputError> {
-  try {
-    await p;
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 /** Independent dBASE III reader: field descriptors from byte 32, records after the header. */
 function dbfByHand(b: Uint8Array) {

@@ -4,19 +4,9 @@
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { readTable } from '../src/geo/index.js';
-import { InputError } from '../src/errors.js';
+import { failure } from './helpers/input-error.js';
 
 const text = (s: string, name = 'data.csv') => ({ name, bytes: new TextEncoder().encode(s) });
-
-async function failure(p: Promise<unknown>): Promise<InputError> {
-  try {
-    await p;
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError');
-}
 
 describe('readTable: CSV', () => {
   it('strips a BOM, detects semicolons, keeps text and row numbers across blank lines', async () => {

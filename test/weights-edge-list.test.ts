@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
-import { InputError } from '../src/errors.js';
+import { thrown } from './helpers/input-error.js';
 import { buildWeights, readEdgeList, summarizeWeights, writeEdgeList } from '../src/weights/index.js';
 import { row, squareGrid } from './fixtures/weights/shapes.js';
 
@@ -9,15 +9,7 @@ import { row, squareGrid } from './fixtures/weights/shapes.js';
 const places = ['North Vale', 'Marsh, East', 'Hollow', 'Dry Fork "Upper"'];
 const fixture = readFileSync('test/fixtures/weights/invented-links.csv', 'utf8');
 
-function message(f: () => unknown): string {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return (e as Error).message;
-  }
-  throw new Error('expected an InputError');
-}
+const message = (f: () => unknown): string => thrown(f).message;
 
 describe('reading edge lists', () => {
   it('reads the fixture as given: links, weights, quoted IDs, an island for the unlisted area', () => {

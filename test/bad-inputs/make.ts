@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { zipSync } from 'fflate';
 import ExcelJS from 'exceljs';
 import type { NamedBytes } from '../../src/geo/index.js';
+import { squareRing } from '../fixtures/weights/shapes.js';
 
 export type { NamedBytes };
 
@@ -50,9 +51,7 @@ export interface GridOptions {
   props?: Record<string, unknown>[];
 }
 
-export function squareRing(x: number, y: number, s: number): number[][] {
-  return [[x, y], [x + s, y], [x + s, y + s], [x, y + s], [x, y]];
-}
+export { squareRing };
 
 /** A FeatureCollection of square cells, row by row; cell i carries props[i]. */
 export function gridCollection(opts: GridOptions = {}): { type: 'FeatureCollection'; features: any[] } {
