@@ -25,11 +25,14 @@ export class Multifrontal {
   private readonly front: Float64Array;
   private readonly stack: Float64Array;
   private readonly pos: Int32Array;
+  /** positions in the parent front of a child's update rows */
+  private readonly map: Int32Array;
 
   constructor(readonly sym: SymbolicFactor, private readonly values: Float64Array) {
     this.front = new Float64Array(sym.maxFront * sym.maxFront);
     this.stack = new Float64Array(Math.max(1, sym.stackSize));
     this.pos = new Int32Array(sym.n);
+    this.map = new Int32Array(Math.max(1, sym.maxFront));
   }
 
   /**
@@ -51,7 +54,7 @@ export class Multifrontal {
       const r0 = rowPtr[s];
       const m = rowPtr[s + 1] - r0;
       for (let t = 0; t < m; t++) pos[rows[r0 + t]] = t;
-      for (let i = 0; i < m; i++) front.fill(0, i * m, i * m + Math.min(i, m) + 1);
+      for (let i = 0; i < m; i++) { const row = i * m; for (let c = 0; c <= i; c++) front[row + c] = 0; }
 
       // entries of I − ρS in the supernode's columns
       for (let c = 0; c < k; c++) {
@@ -68,10 +71,12 @@ export class Multifrontal {
         base = at;
         const cr0 = rowPtr[child] + (superFirst[child + 1] - superFirst[child]);
         const r = rowPtr[child + 1] - cr0;
+        const map = this.map;
+        for (let a = 0; a < r; a++) map[a] = pos[rows[cr0 + a]];
         for (let a = 0; a < r; a++) {
-          const la = pos[rows[cr0 + a]] * m;
+          const la = map[a] * m;
           const ua = at + a * r;
-          for (let b = 0; b <= a; b++) front[la + pos[rows[cr0 + b]]] += stack[ua + b];
+          for (let b = 0; b <= a; b++) front[la + map[b]] += stack[ua + b];
         }
       }
       top = base;
@@ -79,10 +84,12 @@ export class Multifrontal {
       logdet += partialCholesky(front, m, k, f);
 
       if (keep) {
+        const panels = keep.panels;
         for (let i = 0; i < m; i++) {
-          const w = Math.min(i + 1, k);
-          keep.panels.set(front.subarray(i * m, i * m + w), panelOffset + i * k);
-          if (w < k) keep.panels.fill(0, panelOffset + i * k + w, panelOffset + (i + 1) * k);
+          const w = i + 1 < k ? i + 1 : k;
+          const from = i * m, to = panelOffset + i * k;
+          for (let c = 0; c < w; c++) panels[to + c] = front[from + c];
+          for (let c = w; c < k; c++) panels[to + c] = 0;
         }
         keep.panelPtr[s] = panelOffset;
         panelOffset += m * k;

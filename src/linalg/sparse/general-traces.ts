@@ -31,13 +31,24 @@ export function solveShifted(w: CsrMatrix, rho: number, b: Float64Array, x: Floa
     if (Math.sqrt(rn) <= tol * bNorm) return it;
     let rhoNow = 0;
     for (let i = 0; i < n; i++) rhoNow += rHat[i] * r[i];
+    if (rhoNow === 0) {
+      // breakdown (the shadow residual became orthogonal to r): restart from the current residual
+      rHat.set(r); p.fill(0); v.fill(0); rhoPrev = 1; alpha = 1; omega = 1;
+      rhoNow = rn;
+    }
     const beta = (rhoNow / rhoPrev) * (alpha / omega);
     for (let i = 0; i < n; i++) p[i] = r[i] + beta * (p[i] - omega * v[i]);
     apply(p, v);
     let hv = 0;
     for (let i = 0; i < n; i++) hv += rHat[i] * v[i];
     alpha = rhoNow / hv;
-    for (let i = 0; i < n; i++) s[i] = r[i] - alpha * v[i];
+    let sn = 0;
+    for (let i = 0; i < n; i++) { s[i] = r[i] - alpha * v[i]; sn += s[i] * s[i]; }
+    if (Math.sqrt(sn) <= tol * bNorm) {
+      // converged on the half step (van der Vorst 1992): t = As would be 0 and ω undefined
+      for (let i = 0; i < n; i++) x[i] += alpha * p[i];
+      return it + 1;
+    }
     apply(s, t);
     let ts = 0, tt = 0;
     for (let i = 0; i < n; i++) { ts += t[i] * s[i]; tt += t[i] * t[i]; }

@@ -5,8 +5,9 @@
  * Lanczos quadrature from the range's own Lanczos run for a cheap log-determinant that only
  * brackets the likelihood maximum, and a several-probe quadrature (built on first use) for
  * tr(I − ρW)⁻¹ at the impact draws and for long power series.
- * Without one (e.g. k-nearest neighbours): Monte Carlo series log-determinant with a stated error
- * bound, range from the spectral radius, traces by iterative solves.
+ * Without one (e.g. k-nearest neighbours): exact dense LU per evaluation up to 1,500 areas, the
+ * Monte Carlo series log-determinant with a stated error bound above; range from the spectral
+ * radius, traces by iterative solves.
  */
 import type { CsrMatrix } from '../csr.js';
 import type { WeightsAlgebra } from '../algebra.js';
@@ -15,6 +16,7 @@ import { SparseCholeskyLogDet } from './cholesky-logdet.js';
 import { CholeskyTraces } from './traces.js';
 import { GeneralTraces } from './general-traces.js';
 import { SeriesLogDet } from './series-logdet.js';
+import { DenseLuLogDet } from '../dense-lu-logdet.js';
 import { powerTraces, traceOf, traceOfSquare, frobeniusSquared } from './power-traces.js';
 import { LanczosQuadrature } from './quadrature.js';
 import { spectralRadiusRange, symmetricRangeWithLanczos } from './extremes.js';
@@ -96,10 +98,18 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
   };
 }
 
-/** W without a symmetric form: Monte Carlo series log-determinant, BiCGSTAB traces. */
+/** Largest n for which W without a symmetric form gets the exact dense LU log-determinant. */
+export const DENSE_LU_LIMIT = 1500;
+
+/**
+ * W without a symmetric form: exact dense LU per evaluation up to 1,500 areas (the Monte Carlo
+ * series then only brackets the maximum), the series with its stated bound above; BiCGSTAB traces.
+ */
 function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: SparseOptions): SparseWeightsAlgebra {
   const range = spectralRadiusRange(w);
-  const logdet = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius: range.eigenMax });
+  const series = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius: range.eigenMax });
+  const exact = w.n <= DENSE_LU_LIMIT ? new DenseLuLogDet(w) : null;
+  const logdet: LogDeterminant = exact ?? series;
   const tracer = new GeneralTraces(w, seed, opts.probes ?? 48);
   const powerCache = new Map<number, Float64Array>();
   const powerProbes = opts.probes ?? 48;
@@ -110,6 +120,7 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
     range,
     lmTrace,
     cholesky: null,
+    ...(exact ? { roughLogdet: series } : {}),
     traces: (rho: number) => tracer.traces(rho),
     powerTraces(count: number): Float64Array {
       let cached = powerCache.get(count);
