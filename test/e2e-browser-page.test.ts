@@ -7,21 +7,20 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { build, preview, type PreviewServer } from 'vite';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import type { PreviewServer } from 'vite';
+import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
+import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
 
 // The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const document: any;
 type HTMLElement = any;
 
-const ROOT = join(import.meta.dirname, '..');
-const CHROMIUM = '/usr/bin/chromium';
 const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
 const GEOJSON = join(ROOT, 'sample-workbooks/vell-basin-districts.geojson');
 const TRUTH = join(ROOT, 'sample-workbooks/vell-basin-truth.json');
-const ready = existsSync(CHROMIUM) && existsSync(XLSX) && existsSync(GEOJSON);
+const ready = chromiumPresent && existsSync(XLSX) && existsSync(GEOJSON);
 
 let out: string;
 let server: PreviewServer;
@@ -34,16 +33,8 @@ const problems: string[] = [];
 describe.skipIf(!ready)('the browser page, end to end', () => {
   beforeAll(async () => {
     out = mkdtempSync(join(tmpdir(), 'spillway-e2e-'));
-    process.env.SPILLWAY_ADDIN_OUT = out;
-    process.env.SPILLWAY_HTTP = '1';
-    const configFile = join(ROOT, 'addin/vite.config.ts');
-    await build({ configFile, logLevel: 'warn' });
-    server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
-    origin = server.resolvedUrls!.local[0].replace(/\/$/, '');
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
+    ({ server, origin } = await buildAndServe(out));
+    browser = await launchChromium();
     const context = await browser.newContext({ acceptDownloads: true, viewport: { width: 360, height: 900 } });
     page = await context.newPage();
     page.on('request', (r) => { if (!r.url().startsWith(origin) && !/^(blob|data):/.test(r.url())) foreignRequests.push(r.url()); });
@@ -52,8 +43,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await new Promise<void>((resolve) => (server ? server.httpServer.close(() => resolve()) : resolve()));
+    await closeBoth(browser, server);
     if (out) rmSync(out, { recursive: true, force: true });
   });
 

@@ -9,23 +9,23 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { build, preview, type PreviewServer } from 'vite';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { build, type PreviewServer } from 'vite';
+import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
+import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const window: any;
 declare const document: any;
 declare const sessionStorage: any;
 
-const ROOT = join(import.meta.dirname, '..');
-const CHROMIUM = '/usr/bin/chromium';
 const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
 const GEOJSON = join(ROOT, 'sample-workbooks/vell-basin-districts.geojson');
-const ready = existsSync(CHROMIUM) && existsSync(XLSX) && existsSync(GEOJSON);
+const ready = chromiumPresent && existsSync(XLSX) && existsSync(GEOJSON);
 
 let out: string;
 let server: PreviewServer;
+let origin: string;
 let browser: Browser;
 let page: Page;
 const problems: string[] = [];
@@ -66,11 +66,7 @@ async function officeStandIn(rows: unknown[][]): Promise<string> {
 describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () => {
   beforeAll(async () => {
     out = mkdtempSync(join(tmpdir(), 'spillway-pane-'));
-    process.env.SPILLWAY_ADDIN_OUT = join(out, 'dist');
-    process.env.SPILLWAY_HTTP = '1';
-    const configFile = join(ROOT, 'addin/vite.config.ts');
-    await build({ configFile, logLevel: 'warn' });
-    server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
+    ({ server, origin } = await buildAndServe(join(out, 'dist')));
 
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(readFileSync(XLSX) as unknown as ArrayBuffer);
@@ -78,26 +74,22 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     wb.getWorksheet('Districts')!.eachRow((row) => rows.push((row.values as unknown[]).slice(1)));
     const standIn = await officeStandIn(rows);
 
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
+    browser = await launchChromium();
     const context = await browser.newContext({ viewport: { width: 340, height: 900 } });
     await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: standIn }));
-    await context.route((url) => !url.href.startsWith(server.resolvedUrls!.local[0].replace(/\/$/, '')) && !url.href.startsWith('https://appsforoffice.microsoft.com/'), (route) => route.abort());
+    await context.route((url) => !url.href.startsWith(origin) && !url.href.startsWith('https://appsforoffice.microsoft.com/'), (route) => route.abort());
     page = await context.newPage();
     page.on('console', (m) => { if (m.type() === 'error') problems.push(m.text()); });
     page.on('pageerror', (e) => problems.push(e.message));
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await new Promise<void>((resolve) => (server ? server.httpServer.close(() => resolve()) : resolve()));
+    await closeBoth(browser, server);
     if (out) rmSync(out, { recursive: true, force: true });
   });
 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
-    await page.goto(`${server.resolvedUrls!.local[0].replace(/\/$/, '')}/taskpane/index.html`);
+    await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
     expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY']);
 
