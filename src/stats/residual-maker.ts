@@ -1,5 +1,6 @@
 import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../linalg/csr.js';
 import { householderQr, thinQ } from '../linalg/dense-qr.js';
+import { entry } from '../linalg/dense-algebra.js';
 import type { Design } from '../models/types.js';
 
 /**
@@ -33,7 +34,7 @@ export function residualMakerTraces(x: Design, w: CsrMatrix): ResidualMakerTrace
       const v = w.values[p];
       if (j === i) trW += v;
       trWWt += v * v;
-      trWW += v * entryOf(w, j, i);
+      trWW += v * entry(w, j, i);
     }
   }
   let trA = 0;
@@ -80,17 +81,4 @@ export function weightsTotal(w: CsrMatrix): number {
   let s = 0;
   for (let p = 0; p < w.values.length; p++) s += w.values[p];
   return s;
-}
-
-function entryOf(w: CsrMatrix, i: number, j: number): number {
-  let lo = w.rowPtr[i];
-  let hi = w.rowPtr[i + 1] - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const c = w.colIdx[mid];
-    if (c === j) return w.values[mid];
-    if (c < j) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return 0;
 }
