@@ -1,3 +1,7 @@
+// The Excel adapter over the in-memory stand-in (test/helpers/fake-excel.ts). The stand-in follows
+// Office.js's documented proxy rules — values readable only after load() and sync(), writes queued
+// until sync() (recalled from memory of Microsoft's Office.js documentation); the numbers written
+// come from the Columbus data (Anselin 1988) and are checked against test/golden (numpy reference).
 import { beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';

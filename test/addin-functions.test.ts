@@ -1,3 +1,6 @@
+// The cell functions. Sources: Moran's I (Moran 1950) and Geary's C (Geary 1954) worked by hand on a
+// four-area path; the Columbus data (Anselin 1988) with queen links from the independent numpy
+// reference in test/golden; brute-force double sums over the definitions; local Moran (Anselin 1995).
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';

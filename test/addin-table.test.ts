@@ -1,3 +1,6 @@
+// The sidebar's data step, checked against spreadsheet conventions: A1 column letters (A…Z, AA…,
+// as Excel and every spreadsheet program address cells), sheet row numbers as the sheet shows them,
+// and the engine's own CSV reader for the hand-over (the same rules as a CSV file, RFC 4180).
 import { describe, expect, it } from 'vitest';
 import { readBoundary, readTable } from '../src/geo/index.js';
 import { cellOf, columnLetters, pointsLayer, profileTable, tableAsCsv } from '../addin/shared/table-profile.js';

@@ -1,3 +1,6 @@
+// The command line on the Columbus data (Anselin 1988; test/fixtures/columbus): widely published
+// figures (recalled from memory), the independent numpy/scipy reference in test/golden, identities
+// for impacts, and the project's rules for the readable summary and for input errors.
 import { describe, expect, it } from 'vitest';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -78,6 +81,7 @@ describe('spillway fit on the Columbus neighbourhood data (Anselin 1988)', () =>
   it('prints a readable summary with the cautions by default', () => {
     const r = runCli(['fit', '--boundary', COLUMBUS, '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL']);
     expect(r.code).toBe(0);
+    // project rule: the readable summary carries the cautions (README, Cautions)
     expect(r.stdout).toMatch(/Plain regression/);
     expect(r.stdout).toMatch(/not proof of cause/);
   });
@@ -95,6 +99,7 @@ describe('spillway fit with bad input', () => {
       const base: Record<string, string> = { '--boundary': COLUMBUS, '--id': 'POLYID', '--y': 'CRIME', '--x': 'INC,HOVAL' };
       for (let i = 0; i < args.length; i += 2) base[args[i]] = args[i + 1];
       const r = runCli(['fit', ...Object.entries(base).flat()]);
+      // project rule for input errors: exit code 2, one message naming the fault, no stack trace
       expect(r.code).toBe(2);
       expect(r.stdout).toBe('');
       expect(r.stderr).toMatch(message);

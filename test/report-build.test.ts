@@ -1,3 +1,7 @@
+// The report model, built from a hand-made result (test/helpers/fake-result.ts). Checks rest on
+// identities (residual = observed − fitted, total = direct + indirect, row weights sum to 1), on
+// node:crypto for SHA-256, on Excel's sheet-name rules (recalled from memory) and on the project's
+// rules (our own evidence marks, the cautions on every sheet), named beside each check.
 import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { buildReport, layoutBlocks, blockHeight, type Block, type Cell, type Report } from '../src/report/index.js';

@@ -1,3 +1,6 @@
+// Pictures: colour classes against CIE 1976 lightness (sRGB per IEC 61966-2-1), quantile counts by
+// construction, the Moran scatter slope against Moran's I computed directly (Anselin 1996), SVG text
+// escaping per XML 1.0, and PNG sizes read from the IHDR chunk (ISO/IEC 15948).
 import { describe, expect, it } from 'vitest';
 import { Resvg } from '@resvg/resvg-js';
 import {

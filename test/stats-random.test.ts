@@ -1,9 +1,12 @@
+// The seeded generator and tail probabilities: reproducibility by definition of a seeded stream,
+// first two moments by the law of large numbers, and standard normal / chi-square / t tables.
 import { describe, expect, it } from 'vitest';
 import { normalSampler, seededRandom } from '../src/stats/random.js';
 import { chiSquareUpper, normalTwoSided, studentTwoSided } from '../src/stats/distributions.js';
 
 describe('seeded generator', () => {
   it('same seed, same stream; different seed, different stream; values in [0, 1)', () => {
+    // definition of a seeded stream: the seed alone fixes every draw
     const a = seededRandom(123);
     const b = seededRandom(123);
     const c = seededRandom(124);
@@ -15,6 +18,8 @@ describe('seeded generator', () => {
   });
 
   it('uniform and normal draws have the right first two moments (law of large numbers, 4 SE)', () => {
+    // U(0,1): mean 1/2, variance 1/12; N(0,1): mean 0, E[z²] = 1, Var(z²) = 2. A 4-standard-error band
+    // keeps a correct generator from failing by chance (common practice).
     const u = seededRandom(9);
     const m = 100_000;
     let s = 0;

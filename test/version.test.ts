@@ -1,3 +1,4 @@
+// Source: the project's own package.json, the record users see beside every result (a consistency check).
 import { expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { ENGINE_VERSION } from '../src/version.js';

@@ -1,3 +1,6 @@
+// Contiguity. Sources, named beside each group: counting identities on square lattices, rook/queen
+// moves (Manhattan/Chebyshev distance 1), hand-drawn special cases whose answer follows from the
+// definitions, and the us-atlas 3.0.1 counties against topojson-client's shared arcs.
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { feature, neighbors } from 'topojson-client';

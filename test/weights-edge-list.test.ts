@@ -1,3 +1,6 @@
+// Edge lists: an invented fixture read as given, a round trip parsed back with papaparse (a
+// general-purpose CSV library), and bad lines named by number (the project's input-error rule:
+// file, line and what to do).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';

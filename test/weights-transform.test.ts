@@ -1,3 +1,6 @@
+// Weight transforms, the spatial lag, summaries and subsets. Sources beside each group: the similarity
+// transform of row-standardised weights (Ord 1975) with eigenvalues from ml-matrix, the definition of
+// the spatial lag, counting on small lattices, and restriction identities for subsets.
 import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import type { CsrMatrix } from '../src/linalg/csr.js';

@@ -1,3 +1,6 @@
+// Writing the results file safely. Source: POSIX rename(2) semantics as Node's fs.rename exposes them
+// (a rename within one folder replaces the target in one step, so a reader sees the old file or the
+// new one, never half of either); the folder listings are read back with node:fs itself.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtemp, readdir, readFile, rm, mkdir, writeFile, chmod } from 'node:fs/promises';
 import { tmpdir } from 'node:os';

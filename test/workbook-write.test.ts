@@ -1,3 +1,6 @@
+// The results workbook, written and read back with exceljs (a general-purpose library): every number
+// stays a number with its format, the user's sheets survive cell by cell, Excel's sheet-name rules
+// (recalled from memory), and the real pipeline on the Columbus data (Anselin 1988).
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
