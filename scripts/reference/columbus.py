@@ -1,4 +1,5 @@
 #!/usr/bin/env python3
+# One file on purpose (~690 lines): an independent reference is easiest to audit read top to bottom, with no local modules to follow.
 """Independent reference figures for the Columbus neighbourhood data (49 areas).
 
 Computed with general-purpose libraries only (numpy, scipy) and small readers written here, so that
