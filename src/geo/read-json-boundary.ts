@@ -47,15 +47,7 @@ export function isTopology(root: unknown): root is Topology {
 export function layerFromGeoJson(root: unknown, file: string, override?: CoordinateKind): AreaLayer {
   const converted = featuresToAreas(root, file);
   const claim = claimFromGeoJsonCrs(root, file);
-  const decision = decideCoordinates(converted.bounds, claim, file, override);
-  return {
-    sourceName: file,
-    areas: converted.areas,
-    propertyNames: converted.propertyNames,
-    coordinates: decision.coordinates,
-    coordinateEvidence: decision.coordinateEvidence,
-    warnings: [...converted.warnings, ...decision.warnings],
-  };
+  return layerOf(file, converted, claim, override);
 }
 
 /** Decodes one object of a topology (the named one, else the first) into areas. */
@@ -98,6 +90,11 @@ export function layerFromTopology(topology: Topology, file: string, layer?: stri
       };
     }
   }
+  return layerOf(source, converted, claim, override);
+}
+
+/** The layer from converted features, with the coordinate kind decided from the claim and the bounds. */
+function layerOf(source: string, converted: ReturnType<typeof featuresToAreas>, claim: CoordinateClaim | null, override?: CoordinateKind): AreaLayer {
   const decision = decideCoordinates(converted.bounds, claim, source, override);
   return {
     sourceName: source,
