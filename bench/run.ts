@@ -1,41 +1,41 @@
 /**
- * Benchmarks of the large-n weights algebra. `npm run bench` runs every workload in its own child
- * process (so that peak memory is per workload) and prints one JSON line each.
+ * Benchmarks of the large-n engine. `npm run bench` runs every workload in its own child process
+ * (so that peak memory is per workload) and prints one JSON line each:
+ *  - rook grids 56², 300², 500²: symbolic analysis, seconds per exact log-determinant, lag and error
+ *    fits (with the exact evaluations they used), peak memory, and scipy's splu on the same
+ *    I − ρS when python3 with scipy is installed (ratio = ours / scipy, same ρ values);
+ *  - us-atlas counties, queen and rook: weights built by the real pipeline (readBoundary +
+ *    buildWeights), then the full analysis (OLS, Moran, LM, lag, error, impacts) by runAnalysis;
+ *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
+ *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder.
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { csrMultiply, type CsrMatrix } from '../src/linalg/csr.js';
+import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
+import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
+import { readBoundary } from '../src/geo/index.js';
+import { buildWeights, symmetricForm } from '../src/weights/index.js';
+import { runAnalysis } from '../src/pipeline/run-analysis.js';
 import { rookGrid } from './grid.js';
-import { countyWeights } from './counties.js';
+import { gridGeoJson } from './grid-geojson.js';
 
-interface Workload {
-  name: string;
-  build: () => { w: CsrMatrix; s: CsrMatrix; x: Float64Array; y: Float64Array };
-  rhos: number[];
-  scipyRhos: number[];
-  fits: boolean;
-}
-
-const WORKLOADS: Workload[] = [
-  { name: 'columbus-size grid 7x7', build: () => rookGrid(7, 7), rhos: [0.2, 0.5, 0.8, -0.3, 0.9], scipyRhos: [0.2, 0.5, 0.8], fits: true },
-  { name: 'rook grid 56x56', build: () => rookGrid(56, 56), rhos: [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], scipyRhos: [0.2, 0.5, 0.8, 0.9, 0.95], fits: true },
-  { name: 'us counties rook', build: () => countyWeights('rook'), rhos: [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], scipyRhos: [0.2, 0.5, 0.8, 0.9, 0.95], fits: true },
-  { name: 'us counties queen', build: () => countyWeights('queen'), rhos: [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], scipyRhos: [0.2, 0.5, 0.8, 0.9, 0.95], fits: true },
-  { name: 'rook grid 300x300', build: () => rookGrid(300, 300), rhos: [0.2, 0.5, 0.8, -0.3, 0.9], scipyRhos: [0.5, 0.8, 0.9], fits: true },
-  { name: 'rook grid 500x500', build: () => rookGrid(500, 500), rhos: [0.2, 0.5, 0.8, -0.3, 0.9], scipyRhos: [0.5, 0.8, 0.9], fits: false },
-];
+const ROOT = fileURLToPath(new URL('..', import.meta.url));
 
 let peakRss = 0;
 const sample = () => { peakRss = Math.max(peakRss, process.memoryUsage().rss); };
 const timer = setInterval(sample, 20);
 timer.unref();
-
+const peakMB = () => Math.round(Math.max(peakRss, process.resourceUsage().maxRSS * 1024) / 1e6);
 const median = (v: number[]) => { const s = [...v].sort((a, b) => a - b); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
+const round = (x: number, d = 3) => +x.toFixed(d);
+const seconds = (t0: number) => (performance.now() - t0) / 1000;
 
 function scipyAvailable(): boolean {
   return spawnSync('python3', ['-c', 'import scipy'], { stdio: 'ignore' }).status === 0;
@@ -62,14 +62,19 @@ function runScipy(s: CsrMatrix, rhos: number[]): { seconds: number; logdets: num
   }
 }
 
-/** y from a lag process y = (I − ρW)⁻¹(Xβ + ε), by the Neumann series (ρ = 0.5, 60 terms). */
-function syntheticData(w: CsrMatrix) {
+/** Seeded normals (test data only). */
+function normals(seed: number) {
+  let state = seed >>> 0;
+  const u = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) + 0.5) / 4294967296;
+  return () => Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u());
+}
+
+/** y = (I − 0.5W)⁻¹(1 + 2x₁ − x₂ + ε) by the Neumann series (60 terms). */
+function lagData(w: CsrMatrix, seed = 12345) {
   const n = w.n;
-  let state = 12345;
-  const u = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) / 4294967296);
-  const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
-  const x1 = new Float64Array(n).map(normal);
-  const base = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] + normal());
+  const normal = normals(seed);
+  const x1 = new Float64Array(n).map(normal), x2 = new Float64Array(n).map(normal);
+  const base = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] - x2[i] + normal());
   const y = base.slice();
   let term = base.slice();
   const next = new Float64Array(n);
@@ -77,106 +82,184 @@ function syntheticData(w: CsrMatrix) {
     csrMultiply(w, term, next);
     for (let i = 0; i < n; i++) { term[i] = 0.5 * next[i]; y[i] += term[i]; }
   }
-  return { y, design: { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1] } };
+  return { y, x1, x2, design: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
 }
 
-async function runOne(work: Workload): Promise<Record<string, unknown>> {
+/** The algebra with its exact log-determinant counted. */
+function counted(alg: WeightsAlgebra): { alg: WeightsAlgebra; count: () => number; reset: () => void } {
+  let calls = 0;
+  const inner = alg.logdet;
+  const logdet = { evaluate: (r: number) => { calls++; return inner.evaluate(r); }, method: inner.method, accuracy: inner.accuracy };
+  return { alg: Object.assign(Object.create(alg) as WeightsAlgebra, { logdet }), count: () => calls, reset: () => { calls = 0; } };
+}
+
+async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): Promise<Record<string, unknown>> {
+  const g = rookGrid(rows, rows);
+  sample();
   const t0 = performance.now();
-  const g = work.build();
-  const buildSeconds = (performance.now() - t0) / 1000;
-  sample();
   const alg = sparseAlgebra(g.w, g.s, { coordinates: { x: g.x, y: g.y } });
+  const algebraSeconds = seconds(t0);
   const chol = alg.cholesky!;
+  const times: number[] = [];
+  for (const rho of rhos) { const a = performance.now(); alg.logdet.evaluate(rho); times.push(seconds(a)); sample(); }
+  const { design, y } = lagData(g.w);
+  const c = counted(alg);
+  let a = performance.now();
+  const lag = fitSpatialLag(y, design, c.alg);
+  const lagFitSeconds = seconds(a);
+  const lagEvaluations = c.count();
   sample();
-  const seconds: number[] = [];
-  const logdets: number[] = [];
-  for (const rho of work.rhos) {
-    const a = performance.now();
-    logdets.push(alg.logdet.evaluate(rho));
-    seconds.push((performance.now() - a) / 1000);
-    sample();
-  }
-  const tt = performance.now();
-  alg.traces(0.5);
-  const tracesSeconds = (performance.now() - tt) / 1000;
+  c.reset();
+  a = performance.now();
+  const err = fitSpatialError(y, design, c.alg);
+  const errorFitSeconds = seconds(a);
+  const errorEvaluations = c.count();
   sample();
-  let lagFitSeconds: number | null = null;
-  let errorFitSeconds: number | null = null;
-  let fitNote = 'TODO: src/models/index.ts (fitSpatialLag, fitSpatialError) not available yet';
-  if (work.fits) {
-    try {
-      const models = (await import('../src/models/index.js' as string)) as Record<string, unknown>;
-      const lag = models.fitSpatialLag as ((y: Float64Array, x: unknown, a: unknown) => unknown) | undefined;
-      const err = models.fitSpatialError as ((y: Float64Array, x: unknown, a: unknown) => unknown) | undefined;
-      if (lag && err) {
-        const { y, design } = syntheticData(g.w);
-        let a = performance.now();
-        lag(y, design, alg);
-        lagFitSeconds = (performance.now() - a) / 1000;
-        a = performance.now();
-        err(y, design, alg);
-        errorFitSeconds = (performance.now() - a) / 1000;
-        fitNote = 'synthetic lag process, ρ = 0.5, two regressors';
-      }
-    } catch (e) {
-      fitNote = `TODO: model fits unavailable (${(e as Error).message.split('\n')[0]})`;
-    }
-  } else {
-    fitNote = 'skipped at this size to keep the benchmark short';
+  const scipy = runScipy(chol.s, scipyRhos);
+  const ours: number[] = [];
+  for (const [i, rho] of scipyRhos.entries()) {
+    a = performance.now();
+    const v = alg.logdet.evaluate(rho + 1e-9); // a new ρ: no kept factor
+    ours.push(seconds(a));
+    if (scipy && Math.abs(v - scipy.logdets[i]) > 1e-6 * Math.abs(scipy.logdets[i])) throw new Error(`log-determinant disagrees with scipy at ρ = ${rho}: ${v} vs ${scipy.logdets[i]}`);
   }
   sample();
-  const scipy = runScipy(chol.s, work.scipyRhos);
-  const oursAtScipyRhos: number[] = [];
-  for (const rho of work.scipyRhos) {
-    const a = performance.now();
-    const v = alg.logdet.evaluate(rho);
-    oursAtScipyRhos.push((performance.now() - a) / 1000);
-    if (scipy) {
-      const ref = scipy.logdets[work.scipyRhos.indexOf(rho)];
-      if (Math.abs(v - ref) > 1e-8 * Math.abs(ref)) throw new Error(`log-determinant disagrees with scipy at ρ = ${rho}: ${v} vs ${ref}`);
-    }
-  }
-  sample();
-  const sym = chol.symbolic;
   return {
-    workload: work.name,
+    workload: `rook grid ${rows}x${rows}`,
     n: g.w.n,
     links: g.w.rowPtr[g.w.n],
-    buildSeconds: +buildSeconds.toFixed(3),
-    symbolicSeconds: +chol.symbolicSeconds.toFixed(3),
-    logdetSecondsMedian: +median(seconds).toFixed(4),
-    logdetSeconds: seconds.map((s) => +s.toFixed(4)),
-    nnzL: sym.nnzL,
-    nnzStored: sym.nnzStored,
-    supernodes: sym.superCount,
-    largestFront: sym.maxFront,
-    tracesSeconds: +tracesSeconds.toFixed(3),
-    traceMethod: alg.traceMethod,
-    lagFitSeconds,
-    errorFitSeconds,
-    fitNote,
-    peakRssMB: Math.round(Math.max(peakRss, process.resourceUsage().maxRSS * 1024) / 1e6),
-    scipySpluSecondsMedian: scipy ? +scipy.seconds.toFixed(4) : null,
-    oursOverScipy: scipy ? +(median(oursAtScipyRhos) / scipy.seconds).toFixed(3) : null,
+    symbolicSeconds: round(chol.symbolicSeconds),
+    algebraSeconds: round(algebraSeconds),
+    logdetSecondsMedian: round(median(times), 4),
+    logdetSeconds: times.map((s) => round(s, 4)),
+    nnzL: chol.symbolic.nnzL,
+    lagFitSeconds: round(lagFitSeconds),
+    lagExactEvaluations: lagEvaluations,
+    errorFitSeconds: round(errorFitSeconds),
+    errorExactEvaluations: errorEvaluations,
+    rho: lag.parameter,
+    rhoSe: lag.parameterSe,
+    lambda: err.parameter,
+    peakRssMB: peakMB(),
+    scipySpluSecondsMedian: scipy ? round(scipy.seconds, 4) : null,
+    oursOverScipy: scipy ? round(median(ours) / scipy.seconds) : null,
     method: alg.logdet.method,
-    range: alg.range.method,
+    traceMethod: alg.traceMethod,
+    search: lag.convergence.message,
   };
 }
+
+/** Full analyses through runAnalysis: the median of `timed` runs after `warm` warm-up runs (JIT). */
+async function analysisWorkload(name: string, request: Parameters<typeof runAnalysis>[0], weightsSeconds: number | null, warm = 1, timed = 1): Promise<Record<string, unknown>> {
+  for (let i = 0; i < warm; i++) await runAnalysis(request);
+  sample();
+  const runs: number[] = [];
+  let result = await runAnalysis(request);
+  for (let i = 0; i < timed; i++) {
+    const a = performance.now();
+    result = await runAnalysis(request);
+    runs.push(seconds(a));
+  }
+  const reportSeconds = median(runs);
+  sample();
+  const r = result as unknown as { n: number; timings: Record<string, number>; lag?: { convergence: { iterations: number; message: string } }; error?: { convergence: { iterations: number } }; algebra?: { logDeterminant: string } };
+  return {
+    workload: name,
+    n: r.n,
+    weightsSeconds: weightsSeconds === null ? null : round(weightsSeconds),
+    reportSeconds: round(reportSeconds),
+    stageSeconds: Object.fromEntries(Object.entries(r.timings).map(([k, v]) => [k, round(v)])),
+    lagSearch: r.lag?.convergence.message,
+    peakRssMB: peakMB(),
+    method: r.algebra?.logDeterminant,
+  };
+}
+
+async function countiesWorkload(kind: 'queen' | 'rook'): Promise<Record<string, unknown>> {
+  const require = createRequire(import.meta.url);
+  const bytes = new Uint8Array(readFileSync(require.resolve('us-atlas/counties-10m.json')));
+  const boundary = [{ name: 'counties-10m.json', bytes }];
+  const layer = await readBoundary(boundary, { layer: 'counties' });
+  const ids = layer.areas.map((f) => String(f.properties.id));
+  // weights by the real pipeline pieces, timed after a warm-up
+  const input = { ids, geometries: layer.areas.map((f) => f.geometry!), coordinates: layer.coordinates };
+  buildWeights(input, { method: kind } as never);
+  const a = performance.now();
+  const w = buildWeights(input, { method: kind } as never);
+  const weightsSeconds = seconds(a);
+  // invented outcome: a lag process on these weights (ρ = 0.5)
+  const { y, x1, x2 } = lagData(w);
+  const csv = ['id,y,x1,x2', ...ids.map((id, i) => `${id},${y[i]},${x1[i]},${x2[i]}`)].join('\n');
+  const data = { name: 'invented-county-figures.csv', bytes: new TextEncoder().encode(csv) };
+  const out = await analysisWorkload(`us counties ${kind}`, { boundary, layer: 'counties', data, id: 'id', y: 'y', x: ['x1', 'x2'], weights: { method: kind } as never, transform: 'row', models: ['ols', 'lag', 'error'] }, weightsSeconds, 1, 2);
+  const form = symmetricForm(w);
+  const alg = sparseAlgebra(w, form, {});
+  const times: number[] = [];
+  for (const rho of [0.2, 0.5, 0.8, 0.9]) { const t = performance.now(); alg.logdet.evaluate(rho); times.push(seconds(t)); }
+  return { ...out, symbolicSeconds: alg.cholesky ? round(alg.cholesky.symbolicSeconds) : null, logdetSecondsMedian: round(median(times), 4) };
+}
+
+async function columbusWorkload(): Promise<Record<string, unknown>> {
+  const dir = join(ROOT, 'test/fixtures/columbus');
+  const boundary = ['columbus.shp', 'columbus.dbf', 'columbus.shx'].map((f) => ({ name: f, bytes: new Uint8Array(readFileSync(join(dir, f))) }));
+  return analysisWorkload('columbus', { boundary, id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' } as never, transform: 'row', models: ['ols', 'lag', 'error'] }, null, 10, 5);
+}
+
+function cliWorkload(): Record<string, unknown> {
+  const dir = mkdtempSync(join(tmpdir(), 'spillway-bench-'));
+  try {
+    const file = join(dir, 'grid300.geojson');
+    writeFileSync(file, gridGeoJson(300, 300));
+    const bin = join(ROOT, 'bin/spillway.mjs');
+    const run = (extra: string[]) => {
+      const a = performance.now();
+      const out = spawnSync(process.execPath, [bin, 'fit', '--boundary', file, '--id', 'id', '--y', 'y', '--x', 'x1,x2', '--models', 'lag', '--weights', 'rook', '--json', ...extra], { encoding: 'utf8', maxBuffer: 1 << 28 });
+      const s = seconds(a);
+      if (out.status !== 0) throw new Error(`the command failed: ${out.stderr.split('\n').slice(0, 3).join(' | ')}`);
+      const parsed = JSON.parse(out.stdout) as { lag?: { rho?: number; parameter?: number } };
+      return { seconds: round(s), rho: parsed.lag?.rho ?? parsed.lag?.parameter };
+    };
+    const plain = run([]);
+    const noPermutations = run(['--permutations', '0']);
+    return {
+      workload: 'command line, 300x300 grid GeoJSON, rook, lag model',
+      n: 90000,
+      cliSeconds: plain.seconds,
+      cliSecondsWithoutPermutations: noPermutations.seconds,
+      rho: plain.rho,
+      note: 'spillway fit --boundary grid300.geojson --id id --y y --x x1,x2 --models lag --weights rook --json; the second figure adds --permutations 0 (the 999-permutation Moran test of y is a stage of its own)',
+    };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<string, unknown>> = {
+  'columbus': columbusWorkload,
+  'rook grid 56x56': () => gridWorkload(56, [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], [0.2, 0.5, 0.8, 0.9, 0.95]),
+  'us counties queen': () => countiesWorkload('queen'),
+  'us counties rook': () => countiesWorkload('rook'),
+  'rook grid 300x300': () => gridWorkload(300, [0.2, 0.5, 0.8, -0.3, 0.9], [0.5, 0.8, 0.9]),
+  'rook grid 500x500': () => gridWorkload(500, [0.2, 0.5, 0.8], [0.5, 0.8]),
+  'command line 300x300': cliWorkload,
+};
 
 async function main(): Promise<void> {
   const at = process.argv.indexOf('--one');
   if (at >= 0) {
-    const work = WORKLOADS.find((w) => w.name === process.argv[at + 1]);
-    if (!work) throw new Error(`unknown workload ${process.argv[at + 1]}`);
-    console.log(JSON.stringify(await runOne(work)));
+    const name = process.argv[at + 1];
+    const work = WORKLOADS[name];
+    if (!work) throw new Error(`unknown workload ${name}`);
+    const load = loadavg()[0];
+    console.log(JSON.stringify({ ...(await work()), loadAverageAtStart: round(load, 2) }));
     return;
   }
   const script = fileURLToPath(import.meta.url);
-  for (const work of WORKLOADS) {
-    const child = spawnSync(process.execPath, [...process.execArgv, script, '--one', work.name], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  for (const name of Object.keys(WORKLOADS)) {
+    const child = spawnSync(process.execPath, [...process.execArgv, script, '--one', name], { encoding: 'utf8', maxBuffer: 1 << 24 });
     const line = child.stdout.trim().split('\n').pop();
     if (child.status === 0 && line) console.log(line);
-    else console.log(JSON.stringify({ workload: work.name, error: (child.stderr || 'failed').trim().split('\n').slice(-3).join(' | ') }));
+    else console.log(JSON.stringify({ workload: name, error: (child.stderr || 'failed').trim().split('\n').slice(-3).join(' | ') }));
   }
 }
 

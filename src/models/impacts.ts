@@ -41,9 +41,13 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     return s / n;
   };
   const rowsSumToOne = rowSumsAllOne(algebra);
+  const islands = rowsSumToOne ? 0 : unlinkedIslands(algebra);
   const ones = new Float64Array(n).fill(1);
   const meanTotal = (rho: number): number => {
     if (rowsSumToOne) return 1 / (1 - rho);
+    // rows summing to one except areas that link to no one and that no one links to: A⁻¹1 is
+    // 1/(1 − ρ) on the others and 1 on those
+    if (islands > 0) return ((n - islands) / (1 - rho) + islands) / n;
     const { x: sol } = solveShifted(algebra.w, rho, ones);
     let s = 0;
     for (let i = 0; i < n; i++) s += sol[i];
@@ -124,13 +128,31 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     impacts,
     draws,
     seed,
-    method: `${draws} simulated draws of (β, ρ) from their estimated normal distribution (seed ${seed}); ${traceText}; total effect ${rowsSumToOne ? 'β/(1 − ρ), every row of W sums to one' : "β·1'(I − ρW)⁻¹1/n by iterative solve"}`,
+    method: `${draws} simulated draws of (β, ρ) from their estimated normal distribution (seed ${seed}); ${traceText}; total effect ${rowsSumToOne ? 'β/(1 − ρ), every row of W sums to one' : islands > 0 ? `β·(1 + (n − m)ρ/(n(1 − ρ))), every row of W sums to one but those of the ${islands} area(s) without neighbours` : "β·1'(I − ρW)⁻¹1/n by iterative solve"}`,
   };
 }
 
 function accumulate(acc: number[], v: number): void {
   acc[0] += v;
   acc[1] += v * v;
+}
+
+/**
+ * Number of areas with no neighbours and named by no other area, when every other row of W sums
+ * to one; 0 when W is not of that form.
+ */
+function unlinkedIslands(algebra: WeightsAlgebra): number {
+  const w = algebra.w;
+  const named = new Uint8Array(w.n);
+  for (let p = 0; p < w.rowPtr[w.n]; p++) if (w.values[p] !== 0) named[w.colIdx[p]] = 1;
+  let count = 0;
+  for (let i = 0; i < w.n; i++) {
+    let s = 0;
+    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) s += w.values[p];
+    if (s === 0 && !named[i]) count++;
+    else if (Math.abs(s - 1) > 1e-12) return 0;
+  }
+  return count;
 }
 
 function rowSumsAllOne(algebra: WeightsAlgebra): boolean {

@@ -57,15 +57,26 @@ export class SparseCholeskyLogDet implements LogDeterminant {
    */
   factorAt(rho: number): { factor: NumericFactor; logdet: number } {
     if (this.last && this.last.rho === rho) return this.last.kept;
+    // two panel buffers in turn: the new factor is written over the one before last, so repeated
+    // evaluations allocate nothing (a returned factor stays valid until the second evaluation after)
+    const previous = this.last;
+    const factor = this.spare ?? { panels: new Float64Array(this.engine.panelSize()), panelPtr: new Float64Array(this.symbolic.superCount) };
+    this.spare = null;
     this.last = null;
-    const panels = new Float64Array(this.engine.panelSize());
-    const factor: NumericFactor = { panels, panelPtr: new Float64Array(this.symbolic.superCount) };
-    const logdet = this.engine.factor(rho, factor);
-    this.last = { rho, kept: { factor, logdet } };
-    return this.last.kept;
+    try {
+      const logdet = this.engine.factor(rho, factor);
+      this.last = { rho, kept: { factor, logdet } };
+      this.spare = previous ? previous.kept.factor : null;
+      return this.last.kept;
+    } catch (e) {
+      this.last = previous;
+      this.spare = factor;
+      throw e;
+    }
   }
 
   private last: { rho: number; kept: { factor: NumericFactor; logdet: number } } | null = null;
+  private spare: NumericFactor | null = null;
 }
 
 /** Share of areas whose number of neighbours is the most common one. */

@@ -4,7 +4,9 @@
  * reorthogonalisation — enough for the extreme Ritz values — with Sturm-sequence bisection on the
  * tridiagonal matrix and the residual bound β_j |y_j| (Parlett, The Symmetric Eigenvalue Problem,
  * §13.2). The reported λmin is the Ritz value minus its residual bound (Ritz values lie inside the
- * spectrum), never below −(spectral radius bound).
+ * spectrum), never below −(spectral radius bound). A bipartite neighbour graph with row-standardised
+ * W has λmin = −1 exactly (symmetric spectrum), and its Lanczos run is kept short: it then serves
+ * only the one-probe quadrature that brackets ρ (see quadrature.ts).
  * No symmetric form: power iteration for the Perron root λmax of a nonnegative W, which is also its
  * spectral radius (Perron–Frobenius), so every eigenvalue has |λ| ≤ λmax and (−1/λmax, 1/λmax) is
  * a safe interval.

@@ -30,7 +30,7 @@ export interface SparseOptions {
   probes?: number;
   /** terms of the Monte Carlo series when W has no symmetric form (default 100) */
   seriesTerms?: number;
-  /** probes of the Lanczos quadrature behind the bracketing log-determinant and impacts (default 8) */
+  /** probes of the Lanczos quadrature behind the bracketing log-determinant and impacts (default 4) */
   quadratureProbes?: number;
 }
 
@@ -53,7 +53,7 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
   const tracer = new CholeskyTraces(cholesky, form.s, form.t, { seed, probes: opts.probes }, w);
   // built on first use: impacts and long power series share it
   let quadrature: LanczosQuadrature | null = null;
-  const quad = (): LanczosQuadrature => (quadrature ??= new LanczosQuadrature(form.s, { probes: opts.quadratureProbes ?? 8, steps: 25, seed: seed + 2 }));
+  const quad = (): LanczosQuadrature => (quadrature ??= new LanczosQuadrature(form.s, { probes: opts.quadratureProbes ?? 4, steps: 20, seed: seed + 2 }));
   const roughLogdet: LogDeterminant = {
     evaluate: (rho: number) => bracket.logdet(rho),
     method: `${bracket.describe()} of ln|I − ρS|`,
@@ -83,7 +83,7 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
       let cached = powerCache.get(count);
       if (!cached) {
         // exact from unit vectors when affordable, else from the quadrature nodes (exact per probe
-        // up to k = 49, Gauss quadrature beyond); tr W and tr W² exact either way
+        // up to k = 39, Gauss quadrature beyond); tr W and tr W² exact either way
         const exact = w.n * count * Math.max(form.s.rowPtr[w.n], 1) <= 2e8;
         cached = exact ? powerTraces(w, form.s, count, seed + 1, 0).traces : quad().powerTraces(count).traces;
         if (count >= 1) cached[0] = traceOf(w);

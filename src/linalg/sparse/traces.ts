@@ -42,7 +42,6 @@ export class CholeskyTraces {
   readonly probes: number;
   readonly seed: number;
   lastErrors: TraceErrors | null = null;
-  private kept: { rho: number; factor: NumericFactor } | null = null;
   private lastTraces: { rho: number; traces: Required<TracesAt> } | null = null;
 
   /** `w` is W itself (for the cross traces); when omitted, W = T S T⁻¹ is applied through S. */
@@ -61,13 +60,9 @@ export class CholeskyTraces {
     return `${base}; standard errors at the last ρ: tr G ${f(e.trG)}, tr G² ${f(e.trG2)}, tr GᵀG ${f(e.trGtG)}, tr A⁻¹ ${f(e.trAinv)}`;
   }
 
-  /** The numeric factor of I − ρS, refactored only when ρ changes. */
+  /** The numeric factor of I − ρS (the log-determinant keeps the last one; refactored when ρ changes). */
   factorAt(rho: number): NumericFactor {
-    if (this.kept && this.kept.rho === rho) return this.kept.factor;
-    this.kept = null; // let the old panels go before allocating new ones
-    const { factor } = this.ld.factorAt(rho);
-    this.kept = { rho, factor };
-    return factor;
+    return this.ld.factorAt(rho).factor;
   }
 
   /** x = (I − ρW)⁻¹ b = T M⁻¹ T⁻¹ b by the Cholesky factor. */
