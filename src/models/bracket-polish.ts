@@ -29,7 +29,7 @@ export function bracketAndPolish(
   hi: number,
   opts: { tolerance?: number; maxExact?: number; maxIterations?: number } = {},
 ): { x: number; value: number; convergence: Convergence; exactEvaluations: number } {
-  const tolerance = opts.tolerance ?? 5e-9;
+  const tolerance = opts.tolerance ?? 1e-8;
   const maxExact = opts.maxExact ?? 10;
   let evaluations = 0;
   const g = (rho: number): number => { evaluations++; return exact.evaluate(rho); };
