@@ -158,7 +158,7 @@ export function symmetricRangeWithLanczos(w: CsrMatrix, s: CsrMatrix, seed = 1):
   // Lanczos converges slowly on the clustered end and would only meet the −1 floor, so it runs
   // just long enough for the bracketing quadrature.
   const bipartite = stochastic && isBipartite(s);
-  const ex = lanczosExtremes(s, seed, bipartite ? 60 : 300, 1e-10, !stochastic);
+  const ex = lanczosExtremes(s, seed, bipartite ? 120 : 300, 1e-10, !stochastic);
   if (bipartite) {
     return {
       range: { lower: -1, upper: 1, eigenMin: -1, eigenMax: 1, method: 'λmax = 1 (rows of W sum to one); λmin = −1 (the neighbour graph is bipartite, so the spectrum is symmetric about 0)' },
