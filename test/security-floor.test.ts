@@ -127,7 +127,7 @@ describe('dependencies', () => {
     const pkg = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8'));
     expect(lock.lockfileVersion).toBeGreaterThanOrEqual(3);
     for (const [name, version] of Object.entries({ ...pkg.dependencies, ...pkg.devDependencies } as Record<string, string>)) {
-      expect(version, `${name} should be pinned exactly`).toMatch(/^\d+\.\d+\.\d+$/);
+      expect(version, `${name} should be pinned exactly`).toMatch(/^\d+\.\d+\.\d+(-[0-9A-Za-z.]+)?$/);
       expect(lock.packages[`node_modules/${name}`]?.version, name).toBe(version);
     }
   });

@@ -62,7 +62,7 @@ Output and reproducibility
   --per-area           with --json, include fitted values and residuals per area
   --seed N             seed for permutations and simulated impacts (default 20261201)
   --draws N            simulation draws for impact standard errors (default 1000)
-  --permutations N     permutations for Moran's I of the outcome (default 999)
+  --permutations N     permutations for Moran's I of the outcome (default 999; 0 above 10,000 areas)
   --algebra A          auto | dense | sparse log-determinant (default auto)
 `;
 

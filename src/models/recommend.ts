@@ -1,7 +1,7 @@
 import type { LmTests, Recommendation } from './types.js';
 
 const RULE =
-  'Decision rule of Anselin (2005) and Anselin & Rey (2014): look at the LM error and LM lag tests; if only one is significant, ' +
+  'Decision rule of Anselin (2005) and Anselin & Rey (2014): look at the Lagrange-multiplier tests for a spatial error and for a spatial lag; if only one is significant, ' +
   'take that model; if both are, compare the robust forms and take the one whose robust test is significant; if both robust ' +
   'tests are significant, the larger one points the way, and a model with both a lag and an error term is worth considering.';
 
@@ -18,29 +18,29 @@ export function recommendModel(lm: LmTests, alpha = 0.05): Recommendation {
   const errorSig = sig(lm.error);
   const lagSig = sig(lm.lag);
   if (!errorSig && !lagSig) {
-    return out('ols', `Neither LM test is significant at ${pct}: the data give no reason to move beyond the ordinary regression.`);
+    return out('ols', `Neither Lagrange-multiplier test is significant at ${pct}: the data give no reason to move beyond the ordinary regression.`);
   }
-  if (lagSig && !errorSig) return out('lag', `Only the LM lag test is significant at ${pct}: the lag model is the suggested next step.`);
-  if (errorSig && !lagSig) return out('error', `Only the LM error test is significant at ${pct}: the error model is the suggested next step.`);
+  if (lagSig && !errorSig) return out('lag', `Only the Lagrange-multiplier test for a spatial lag is significant at ${pct}: the lag model is the suggested next step.`);
+  if (errorSig && !lagSig) return out('error', `Only the Lagrange-multiplier test for a spatial error is significant at ${pct}: the error model is the suggested next step.`);
   const rLag = sig(lm.robustLag);
   const rErr = sig(lm.robustError);
   if (rLag && !rErr) {
-    return out('lag', `Both LM tests are significant at ${pct}; of the robust forms only robust LM lag is, so the lag model is suggested.`);
+    return out('lag', `Both Lagrange-multiplier tests are significant at ${pct}; of their robust forms only the one for a lag is, so the lag model is suggested.`);
   }
   if (rErr && !rLag) {
-    return out('error', `Both LM tests are significant at ${pct}; of the robust forms only robust LM error is, so the error model is suggested.`);
+    return out('error', `Both Lagrange-multiplier tests are significant at ${pct}; of their robust forms only the one for an error is, so the error model is suggested.`);
   }
   const lagLarger = lm.robustLag.stat >= lm.robustError.stat;
   const lead = lagLarger ? 'lag' : 'error';
   if (rLag && rErr) {
     return out(
       'either',
-      `Both LM tests and both robust forms are significant at ${pct}; the larger robust statistic points to the ${lead} model, ` +
+      `Both Lagrange-multiplier tests and both robust forms are significant at ${pct}; the larger robust statistic points to the ${lead} model, ` +
         'and a model with both a lag and an error term is worth considering.',
     );
   }
   return out(
     lead,
-    `Both LM tests are significant at ${pct} but neither robust form is; the larger robust statistic points, weakly, to the ${lead} model.`,
+    `Both Lagrange-multiplier tests are significant at ${pct} but neither robust form is; the larger robust statistic points, weakly, to the ${lead} model.`,
   );
 }

@@ -16,6 +16,7 @@ import { readModelColumns } from './missing.js';
 import type { AnalysisRequest, AnalysisResult, InputRecord } from './types.js';
 
 const DEFAULT_SEED = 20261201;
+export const PERMUTATION_AREA_LIMIT = 10_000;
 
 /**
  * The whole job in one call: read the boundaries and the table, join them by ID, build the
@@ -30,7 +31,6 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   const progress = request.onProgress ?? (() => {});
   const seed = request.seed ?? DEFAULT_SEED;
   const impactDraws = request.impactDraws ?? 1000;
-  const permutations = request.permutations ?? 999;
   const models = request.models.length ? request.models : ['ols', 'lag', 'error'];
   validateRequest(request);
 
@@ -81,6 +81,9 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   lap('algebra');
 
   const y = values.get(request.y)!;
+  // Above PERMUTATION_AREA_LIMIT areas the randomisation p-value is accurate and 999 shuffles of n
+  // values cost more than the whole model fit, so the permutation test runs only when asked for.
+  const permutations = request.permutations ?? (y.length <= PERMUTATION_AREA_LIMIT ? 999 : 0);
   if (y.length > 0 && y.every((v) => v === y[0])) {
     throw new InputError(
       `The outcome column "${request.y}" has the same value (${y[0]}) in every ${joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
@@ -123,6 +126,9 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.islands.length > 0) {
     warnings.push(`${summary.islands.length} area(s) have no neighbours (${summary.islands.slice(0, 10).join(', ')}${summary.islands.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
+  }
+  if (request.permutations === undefined && permutations === 0) {
+    warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
   if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
   if (dropped.length > 0) warnings.push(`${dropped.length} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
