@@ -29,3 +29,17 @@ export function csrMultiplyTransposed(a: CsrMatrix, v: Float64Array, out: Float6
   }
   return out;
 }
+
+/** A[i, j] by binary search in row i (columns are sorted); 0 when absent. */
+export function csrEntry(a: CsrMatrix, i: number, j: number): number {
+  let lo = a.rowPtr[i];
+  let hi = a.rowPtr[i + 1] - 1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >> 1;
+    const c = a.colIdx[mid];
+    if (c === j) return a.values[mid];
+    if (c < j) lo = mid + 1;
+    else hi = mid - 1;
+  }
+  return 0;
+}

@@ -1,5 +1,5 @@
 import type { TracesAt, WeightsAlgebra } from './algebra.js';
-import { csrMultiply, type CsrMatrix } from './csr.js';
+import { csrEntry, csrMultiply, type CsrMatrix } from './csr.js';
 import { csrToDense, generalEigenvalues, symmetricEigenvalues } from './dense-eigen.js';
 import { shiftedSolver } from './dense-iterative.js';
 import type { AdmissibleRange, LogDeterminant } from './logdet.js';
@@ -154,19 +154,8 @@ export function lmTrace(w: CsrMatrix): number {
   return sum;
 }
 
-/** W[i][j] by binary search in row i (columns are sorted). */
-export function entry(w: CsrMatrix, i: number, j: number): number {
-  let lo = w.rowPtr[i];
-  let hi = w.rowPtr[i + 1] - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const c = w.colIdx[mid];
-    if (c === j) return w.values[mid];
-    if (c < j) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return 0;
-}
+/** W[i, j]: one lookup shared with the rest of linalg. */
+export const entry = csrEntry;
 
 function isSymmetric(w: CsrMatrix): boolean {
   for (let i = 0; i < w.n; i++) {

@@ -5,7 +5,7 @@
  * when n is small. With a symmetric form S (same traces), zᵀS²ᵃz = ‖Sᵃz‖² and
  * zᵀS²ᵃ⁺¹z = (Sᵃz)ᵀS(Sᵃz) halve the products needed.
  */
-import { csrMultiply, type CsrMatrix } from '../csr.js';
+import { csrEntry, csrMultiply, type CsrMatrix } from '../csr.js';
 import { meanAndError, rademacher, seededUniform } from './random.js';
 
 export function traceOf(w: CsrMatrix): number {
@@ -30,18 +30,8 @@ export function frobeniusSquared(w: CsrMatrix): number {
   return t;
 }
 
-/** W[i, j] by binary search in the sorted row. */
-export function entry(w: CsrMatrix, i: number, j: number): number {
-  let lo = w.rowPtr[i], hi = w.rowPtr[i + 1] - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const c = w.colIdx[mid];
-    if (c === j) return w.values[mid];
-    if (c < j) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return 0;
-}
+/** W[i, j]: one lookup shared with the rest of linalg. */
+export const entry = csrEntry;
 
 export interface PowerTraceEstimate {
   /** tr(Wᵏ) at index k − 1 */
