@@ -1,5 +1,4 @@
 /** .xlsx sheets read with exceljs. Formulas give their cached result; no formula is evaluated. */
-import ExcelJS from 'exceljs';
 import { unzipSync } from 'fflate';
 import { InputError } from '../errors.js';
 import { formatBytes } from './unzip.js';
@@ -8,6 +7,9 @@ import { shapeTable, type Cell, type RawRow } from './table-shape.js';
 
 export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: string, maxBytes = 2 ** 30): Promise<DataTable> {
   checkExpansion(bytes, sourceName, maxBytes);
+  // loaded on first use: exceljs takes about a third of a second to load, which a run reading
+  // only CSV or GeoJSON should not pay
+  const { default: ExcelJS } = await import('exceljs');
   const workbook = new ExcelJS.Workbook();
   try {
     // exceljs's typings want a Node Buffer; a Uint8Array is what it actually reads.

@@ -13,7 +13,7 @@ export function csrMultiply(a: CsrMatrix, v: Float64Array, out: Float64Array = n
   const { n, rowPtr, colIdx, values } = a;
   for (let i = 0; i < n; i++) {
     let s = 0;
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) s += values[p] * v[colIdx[p]];
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) s += values[p] * v[colIdx[p]];
     out[i] = s;
   }
   return out;
@@ -25,7 +25,7 @@ export function csrMultiplyTransposed(a: CsrMatrix, v: Float64Array, out: Float6
   out.fill(0);
   for (let i = 0; i < n; i++) {
     const vi = v[i];
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) out[colIdx[p]] += values[p] * vi;
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) out[colIdx[p]] += values[p] * vi;
   }
   return out;
 }

@@ -146,7 +146,7 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
 export function lmTrace(w: CsrMatrix): number {
   let sum = 0;
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const v = w.values[p];
       sum += v * v + v * entry(w, w.colIdx[p], i);
     }
@@ -159,7 +159,7 @@ export const entry = csrEntry;
 
 function isSymmetric(w: CsrMatrix): boolean {
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const v = w.values[p];
       if (Math.abs(v - entry(w, w.colIdx[p], i)) > 1e-12 * Math.abs(v)) return false;
     }
@@ -176,11 +176,11 @@ function similarSymmetric(w: CsrMatrix, sym: CsrMatrix): CsrMatrix {
   if (sym.n !== w.n) throw new Error(`symmetric matrix has order ${sym.n}, W has ${w.n}`);
   const n = w.n;
   const rowSum = new Float64Array(n);
-  for (let i = 0; i < n; i++) for (let p = sym.rowPtr[i]; p < sym.rowPtr[i + 1]; p++) rowSum[i] += sym.values[p];
+  for (let i = 0; i < n; i++) for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) rowSum[i] += sym.values[p];
   // the base C: W_ij = C_ij / Σ_j C_ij
   let isBase = true;
   for (let i = 0; i < n && isBase; i++) {
-    for (let p = sym.rowPtr[i]; p < sym.rowPtr[i + 1]; p++) {
+    for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) {
       const expected = sym.values[p] / rowSum[i];
       if (Math.abs(entry(w, i, sym.colIdx[p]) - expected) > 1e-10 * Math.abs(expected)) {
         isBase = false;
@@ -192,7 +192,7 @@ function similarSymmetric(w: CsrMatrix, sym: CsrMatrix): CsrMatrix {
     const scale = rowSum.map((d) => (d > 0 ? 1 / Math.sqrt(d) : 0));
     const values = new Float64Array(sym.values.length);
     for (let i = 0; i < n; i++) {
-      for (let p = sym.rowPtr[i]; p < sym.rowPtr[i + 1]; p++) values[p] = sym.values[p] * scale[i] * scale[sym.colIdx[p]];
+      for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) values[p] = sym.values[p] * scale[i] * scale[sym.colIdx[p]];
     }
     return { n, rowPtr: sym.rowPtr, colIdx: sym.colIdx, values };
   }
@@ -204,7 +204,7 @@ function similarSymmetric(w: CsrMatrix, sym: CsrMatrix): CsrMatrix {
     const stack = [start];
     while (stack.length > 0) {
       const i = stack.pop()!;
-      for (let p = sym.rowPtr[i]; p < sym.rowPtr[i + 1]; p++) {
+      for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) {
         const j = sym.colIdx[p];
         if (!Number.isNaN(e[j])) continue;
         e[j] = (entry(w, i, j) / sym.values[p]) * e[i];

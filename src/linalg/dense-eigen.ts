@@ -123,7 +123,7 @@ export function generalEigenvalues(w: CsrMatrix): { re: Float64Array; im: Float6
 export function csrToMatrix(w: CsrMatrix): Matrix {
   const m = Matrix.zeros(w.n, w.n);
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) m.set(i, w.colIdx[p], w.values[p]);
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) m.set(i, w.colIdx[p], w.values[p]);
   }
   return m;
 }
@@ -132,7 +132,7 @@ export function csrToMatrix(w: CsrMatrix): Matrix {
 export function csrToDense(w: CsrMatrix): Float64Array {
   const out = new Float64Array(w.n * w.n);
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) out[i * w.n + w.colIdx[p]] = w.values[p];
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) out[i * w.n + w.colIdx[p]] = w.values[p];
   }
   return out;
 }

@@ -26,7 +26,7 @@ export class DenseLuLogDet implements LogDeterminant {
     a.fill(0);
     for (let i = 0; i < n; i++) {
       a[i * n + i] = 1;
-      for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) a[i * n + colIdx[p]] -= rho * values[p];
+      for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) a[i * n + colIdx[p]] -= rho * values[p];
     }
     let logdet = 0;
     for (let k = 0; k < n; k++) {

@@ -15,8 +15,8 @@ const MAX_REDRAWS = 1000;
  * Standard errors (LeSage & Pace 2009, §2.7.4): `draws` samples of (β, ρ) from N(θ̂, V̂) using the
  * Cholesky factor of V̂ (the (β, ρ) block of the ML covariance) and a seeded generator; draws of ρ
  * outside the admissible range are rejected and redrawn. Each draw recomputes tr(A⁻¹): from the
- * algebra's fast evaluation when it has one (large n: stochastic Lanczos quadrature, with the point
- * estimate taken from the traces at ρ̂), else exactly from the algebra when its traces are exact,
+ * algebra's fast evaluation when it has one (large n: stochastic Lanczos quadrature for the change
+ * from ρ̂, added to the level the traces give at ρ̂, which is also the point estimate), else exactly from the algebra when its traces are exact,
  * otherwise by the series tr(A⁻¹) = n + Σ_{j≥1} ρʲ tr(Wʲ) truncated at 300 terms (from powerTraces). SE = standard deviation over draws, p two-sided normal
  * on estimate/SE. Point estimates are at θ̂, not the draw means.
  */
@@ -29,8 +29,11 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   const exactTraces = algebra.traceMethod.startsWith('exact');
   const fast = algebra.traceInverse;
   const series = exactTraces || fast ? null : algebra.powerTraces(SERIES_TERMS);
+  // with a fast evaluation the draws move tr(A⁻¹) by its change from ρ̂, so that they centre on
+  // the level the traces give at ρ̂ (set below)
+  let fastOffset = 0;
   const meanDirect = (rho: number): number => {
-    if (fast) return fast.evaluate(rho) / n;
+    if (fast) return fast.evaluate(rho) / n + fastOffset;
     if (!series) return algebra.traces(rho).trAinv / n;
     let s = n;
     let power = 1;
@@ -58,6 +61,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   const rhoHat = fit.parameter;
   // the point estimate takes tr(A⁻¹) at ρ̂ from the traces already computed there for the fit
   const dHat = fast ? algebra.traces(rhoHat).trAinv / n : meanDirect(rhoHat);
+  if (fast) fastOffset = dHat - fast.evaluate(rhoHat) / n;
   const tHat = meanTotal(rhoHat);
 
   // (β, ρ) block of the covariance of (β, ρ, σ²)
@@ -120,7 +124,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     };
   });
   const traceText = fast
-    ? `tr(I − ρW)⁻¹ at ρ̂ ${algebra.traceMethod}; at the draws by ${fast.method}`
+    ? `tr(I − ρW)⁻¹ at ρ̂ ${algebra.traceMethod}; at the draws that value plus the change from ρ̂ by ${fast.method}`
     : series
       ? `tr(I − ρW)⁻¹ by the power series to ${SERIES_TERMS} terms (${algebra.traceMethod})`
       : `tr(I − ρW)⁻¹ ${algebra.traceMethod}`;
@@ -148,7 +152,7 @@ function unlinkedIslands(algebra: WeightsAlgebra): number {
   let count = 0;
   for (let i = 0; i < w.n; i++) {
     let s = 0;
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) s += w.values[p];
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) s += w.values[p];
     if (s === 0 && !named[i]) count++;
     else if (Math.abs(s - 1) > 1e-12) return 0;
   }
@@ -159,7 +163,7 @@ function rowSumsAllOne(algebra: WeightsAlgebra): boolean {
   const w = algebra.w;
   for (let i = 0; i < w.n; i++) {
     let s = 0;
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) s += w.values[p];
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) s += w.values[p];
     if (Math.abs(s - 1) > 1e-12) return false;
   }
   return true;

@@ -27,7 +27,7 @@ export function lagCrossTrace(algebra: WeightsAlgebra, rho: number): { value: nu
     return { value: given.trWtG + given.trWG, method: exact ? 'exact' : `estimated with the other traces (${algebra.traceMethod})` };
   }
   let trW = 0;
-  for (let i = 0; i < n; i++) for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) if (w.colIdx[p] === i) trW += w.values[p];
+  for (let i = 0; i < n; i++) for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) if (w.colIdx[p] === i) trW += w.values[p];
   let trWG: number;
   if (Math.abs(rho) >= 1e-4) {
     trWG = (given.trG - trW) / rho;
@@ -48,7 +48,7 @@ export function lagCrossTrace(algebra: WeightsAlgebra, rho: number): { value: nu
       unit.fill(0);
       unit[i] = 1;
       csrMultiply(w, solve(unit).x, g);
-      for (let p = wt.rowPtr[i]; p < wt.rowPtr[i + 1]; p++) sum += wt.values[p] * g[wt.colIdx[p]];
+      for (let p = wt.rowPtr[i], pEnd = wt.rowPtr[i + 1]; p < pEnd; p++) sum += wt.values[p] * g[wt.colIdx[p]];
     }
     return { value: sum + trWG, method: 'exact' };
   }
@@ -75,7 +75,7 @@ function transpose(w: CsrMatrix): CsrMatrix {
   const values = new Float64Array(w.values.length);
   const next = Int32Array.from(count.subarray(0, n));
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const q = next[w.colIdx[p]]++;
       colIdx[q] = i; // rows visited in order, so columns come out sorted
       values[q] = w.values[p];

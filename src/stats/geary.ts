@@ -19,7 +19,7 @@ export function gearyC(v: Float64Array, w: CsrMatrix): { C: number; expected: nu
   const { s0, s1, s2 } = weightsSums(w);
   let sum = 0;
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const d = v[i] - v[w.colIdx[p]];
       sum += w.values[p] * d * d;
     }

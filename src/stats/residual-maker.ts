@@ -29,7 +29,7 @@ export function residualMakerTraces(x: Design, w: CsrMatrix): ResidualMakerTrace
   let trWWt = 0;
   let trWW = 0;
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const j = w.colIdx[p];
       const v = w.values[p];
       if (j === i) trW += v;

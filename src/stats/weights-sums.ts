@@ -11,7 +11,7 @@ export function weightsSums(w: CsrMatrix): { s0: number; s1: number; s2: number 
   const colSum = new Float64Array(n);
   let s0 = 0;
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       rowSum[i] += w.values[p];
       colSum[w.colIdx[p]] += w.values[p];
       s0 += w.values[p];

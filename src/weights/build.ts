@@ -198,7 +198,7 @@ function linkToNearest(
   const near = nearest ?? nearestOther(points()).nearest;
   const links = new LinkList();
   for (let i = 0; i < n; i++) {
-    for (let p = pattern.rowPtr[i]; p < pattern.rowPtr[i + 1]; p++) links.push(i, pattern.colIdx[p], pattern.values[p]);
+    for (let p = pattern.rowPtr[i], pEnd = pattern.rowPtr[i + 1]; p < pEnd; p++) links.push(i, pattern.colIdx[p], pattern.values[p]);
   }
   for (const i of islands) links.pushBoth(i, near[i], weight(i, near[i]));
   return { pattern: csrFromLinks(n, links), ids: islands.map((i) => ids[i]) };

@@ -79,7 +79,7 @@ export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' |
       }
       continue;
     }
-    for (let m = places.start[place]; m < places.start[place + 1]; m++) {
+    for (let m = places.start[place], mEnd = places.start[place + 1]; m < mEnd; m++) {
       const v = places.members[m];
       const a = owner[v];
       const nx = x[next[v]], ny = y[next[v]], qx = x[prev[v]], qy = y[prev[v]];

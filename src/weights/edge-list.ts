@@ -87,7 +87,7 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
 export function writeEdgeList(w: SpatialWeights): string {
   const data: string[][] = [];
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) data.push([w.ids[i], w.ids[w.colIdx[p]], String(w.values[p])]);
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) data.push([w.ids[i], w.ids[w.colIdx[p]], String(w.values[p])]);
   }
   return Papa.unparse({ fields: HEADER, data }, { newline: '\n' }) + '\n';
 }

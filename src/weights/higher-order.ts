@@ -27,7 +27,7 @@ export function higherOrder(pattern: CsrMatrix, order: number, includeLowerOrder
       const u = queue[head++];
       const du = depth[u];
       if (du === order) continue;
-      for (let p = rowPtr[u]; p < rowPtr[u + 1]; p++) {
+      for (let p = rowPtr[u], pEnd = rowPtr[u + 1]; p < pEnd; p++) {
         const w = colIdx[p];
         if (seenBy[w] === i) continue;
         seenBy[w] = i;

@@ -124,7 +124,7 @@ export function findEntry(m: CsrMatrix, i: number, j: number): number {
  */
 export function isSymmetric(m: CsrMatrix): boolean {
   for (let i = 0; i < m.n; i++) {
-    for (let p = m.rowPtr[i]; p < m.rowPtr[i + 1]; p++) {
+    for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
       const j = m.colIdx[p];
       const q = findEntry(m, j, i);
       if (q < 0) return false;

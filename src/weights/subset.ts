@@ -22,7 +22,7 @@ export function subsetWeights(w: SpatialWeights, keep: number[]): SpatialWeights
     const vals: number[] = [];
     keep.forEach((old, k) => {
       const row: [number, number][] = [];
-      for (let p = m.rowPtr[old]; p < m.rowPtr[old + 1]; p++) {
+      for (let p = m.rowPtr[old], pEnd = m.rowPtr[old + 1]; p < pEnd; p++) {
         const c = newIndex[m.colIdx[p]];
         if (c >= 0) row.push([c, m.values[p]]);
       }

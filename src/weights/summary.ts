@@ -20,7 +20,7 @@ export function connectedComponents(w: CsrMatrix): { count: number; label: Int32
     return a;
   };
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       let a = find(i);
       let b = find(w.colIdx[p]);
       if (a === b) continue;

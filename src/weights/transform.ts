@@ -14,8 +14,8 @@ export function applyTransform(base: CsrMatrix, transform: WeightsTransform): Cs
   } else {
     for (let i = 0; i < n; i++) {
       let sum = 0;
-      for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) sum += base.values[p];
-      for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) values[p] = base.values[p] / sum;
+      for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) sum += base.values[p];
+      for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) values[p] = base.values[p] / sum;
     }
   }
   return { n, rowPtr, colIdx, values };
@@ -37,12 +37,12 @@ export function symmetricForm(w: SpatialWeights): CsrMatrix | null {
   const scale = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let sum = 0;
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) sum += c.values[p];
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) sum += c.values[p];
     scale[i] = sum > 0 ? 1 / Math.sqrt(sum) : 0;
   }
   const values = new Float64Array(colIdx.length);
   for (let i = 0; i < n; i++) {
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) values[p] = scale[i] * c.values[p] * scale[colIdx[p]];
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) values[p] = scale[i] * c.values[p] * scale[colIdx[p]];
   }
   return { n, rowPtr, colIdx, values };
 }

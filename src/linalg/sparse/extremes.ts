@@ -19,7 +19,7 @@ import { seededUniform } from './random.js';
 export function isRowStochastic(w: CsrMatrix): boolean {
   for (let i = 0; i < w.n; i++) {
     let sum = 0;
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       if (w.values[p] < 0) return false;
       sum += w.values[p];
     }
@@ -32,7 +32,7 @@ function maxAbsRowSum(a: CsrMatrix): number {
   let best = 0;
   for (let i = 0; i < a.n; i++) {
     let sum = 0;
-    for (let p = a.rowPtr[i]; p < a.rowPtr[i + 1]; p++) sum += Math.abs(a.values[p]);
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) sum += Math.abs(a.values[p]);
     if (sum > best) best = sum;
   }
   return best;
@@ -187,7 +187,7 @@ export function isBipartite(s: CsrMatrix): boolean {
     queue[tail++] = root;
     while (head < tail) {
       const i = queue[head++];
-      for (let p = s.rowPtr[i]; p < s.rowPtr[i + 1]; p++) {
+      for (let p = s.rowPtr[i], pEnd = s.rowPtr[i + 1]; p < pEnd; p++) {
         const j = s.colIdx[p];
         if (j === i) { if (s.values[p] !== 0) return false; continue; }
         if (colour[j] === -1) { colour[j] = 1 - colour[i]; queue[tail++] = j; }

@@ -21,18 +21,47 @@ export interface NumericFactor {
   panelPtr: Float64Array;
 }
 
+/**
+ * Work split between two threads (see split.ts): two groups of whole subtrees run at once, each on
+ * its own stack, and leave their roots' update matrices in a shared store; the top supernodes then
+ * run on one thread, assembling every child update from that store.
+ */
+export interface FactorSplit {
+  /** [first, last + 1) supernode ranges of each group (whole subtrees in postorder) */
+  groups: [Int32Array, Int32Array];
+  /** top supernodes, ascending */
+  top: Int32Array;
+  /** offset in the store of supernode s's update matrix, −1 when it goes on the stack */
+  exportAt: Float64Array;
+  storeSize: number;
+  /** children of the top supernodes: childPtr over supernodes, childList their children */
+  childPtr: Int32Array;
+  childList: Int32Array;
+}
+
 export class Multifrontal {
   private readonly front: Float64Array;
   private readonly stack: Float64Array;
   private readonly pos: Int32Array;
   /** positions in the parent front of a child's update rows */
   private readonly map: Int32Array;
+  /** offset of each supernode's panel in the stored factor (the same for every ρ) */
+  readonly panelStart: Float64Array;
+  readonly panelTotal: number;
 
   constructor(readonly sym: SymbolicFactor, private readonly values: Float64Array) {
     this.front = new Float64Array(sym.maxFront * sym.maxFront);
     this.stack = new Float64Array(Math.max(1, sym.stackSize));
     this.pos = new Int32Array(sym.n);
     this.map = new Int32Array(Math.max(1, sym.maxFront));
+    const { superCount, superFirst, rowPtr } = sym;
+    this.panelStart = new Float64Array(superCount);
+    let size = 0;
+    for (let s = 0; s < superCount; s++) {
+      this.panelStart[s] = size;
+      size += (rowPtr[s + 1] - rowPtr[s]) * (superFirst[s + 1] - superFirst[s]);
+    }
+    this.panelTotal = size;
   }
 
   /**
@@ -40,64 +69,69 @@ export class Multifrontal {
    * solves. Throws NotPositiveDefiniteError when a pivot is not positive.
    */
   factor(rho: number, keep?: NumericFactor): number {
-    const { superCount, superFirst, rowPtr, rows, lowPtr, lowRow, lowSource } = this.sym;
-    const { front, stack, pos, values } = this;
+    return this.factorRange(rho, 0, this.sym.superCount, keep, null, null);
+  }
+
+  /** One group of a split: its subtrees, each root's update left in `store`. */
+  factorGroup(rho: number, split: FactorSplit, group: 0 | 1, store: Float64Array, keep?: NumericFactor): number {
+    const ranges = split.groups[group];
+    let logdet = 0;
+    for (let r = 0; r < ranges.length; r += 2) logdet += this.factorRange(rho, ranges[r], ranges[r + 1], keep, split, store);
+    return logdet;
+  }
+
+  /** The top supernodes of a split, after both groups. */
+  factorTop(rho: number, split: FactorSplit, store: Float64Array, keep?: NumericFactor): number {
+    const { superFirst, rowPtr } = this.sym;
+    const { childPtr, childList, exportAt } = split;
+    let logdet = 0;
+    for (let t = 0; t < split.top.length; t++) {
+      const s = split.top[t];
+      const m = this.assembleOwn(s, rho);
+      for (let c = childPtr[s]; c < childPtr[s + 1]; c++) {
+        const child = childList[c];
+        const cr0 = rowPtr[child] + (superFirst[child + 1] - superFirst[child]);
+        this.extendAdd(store, exportAt[child], cr0, rowPtr[child + 1] - cr0, m);
+      }
+      logdet += this.eliminate(s, m, keep);
+      const r = m - (superFirst[s + 1] - superFirst[s]);
+      if (r > 0) schurUpdate(this.front, m, m - r, store, exportAt[s]);
+    }
+    return logdet;
+  }
+
+  /** Supernodes lo..hi−1 (whole subtrees); updates of those whose parent lies outside go to `store`. */
+  private factorRange(rho: number, lo: number, hi: number, keep: NumericFactor | undefined, split: FactorSplit | null, store: Float64Array | null): number {
+    const { superFirst, rowPtr, superParent } = this.sym;
+    const stack = this.stack;
     let top = 0; // doubles in use on the stack
     const updateAt: number[] = []; // offset of each pending update matrix, in stack order
     const updateOwner: number[] = [];
     let logdet = 0;
-    let panelOffset = 0;
 
-    for (let s = 0; s < superCount; s++) {
-      const f = superFirst[s];
-      const k = superFirst[s + 1] - f;
-      const r0 = rowPtr[s];
-      const m = rowPtr[s + 1] - r0;
-      for (let t = 0; t < m; t++) pos[rows[r0 + t]] = t;
-      for (let i = 0; i < m; i++) { const row = i * m; for (let c = 0; c <= i; c++) front[row + c] = 0; }
-
-      // entries of I − ρS in the supernode's columns
-      for (let c = 0; c < k; c++) {
-        const j = f + c;
-        front[c * m + c] += 1;
-        for (let q = lowPtr[j]; q < lowPtr[j + 1]; q++) front[pos[lowRow[q]] * m + c] -= rho * values[lowSource[q]];
-      }
-
+    for (let s = lo; s < hi; s++) {
+      const m = this.assembleOwn(s, rho);
       // extend-add the children's update matrices (they sit at the top of the stack)
       let base = top;
-      while (updateOwner.length > 0 && this.sym.superParent[updateOwner[updateOwner.length - 1]] === s) {
+      while (updateOwner.length > 0 && superParent[updateOwner[updateOwner.length - 1]] === s) {
         const child = updateOwner.pop()!;
         const at = updateAt.pop()!;
         base = at;
         const cr0 = rowPtr[child] + (superFirst[child + 1] - superFirst[child]);
-        const r = rowPtr[child + 1] - cr0;
-        const map = this.map;
-        for (let a = 0; a < r; a++) map[a] = pos[rows[cr0 + a]];
-        for (let a = 0; a < r; a++) {
-          const la = map[a] * m;
-          const ua = at + a * r;
-          for (let b = 0; b <= a; b++) front[la + map[b]] += stack[ua + b];
-        }
+        this.extendAdd(stack, at, cr0, rowPtr[child + 1] - cr0, m);
       }
       top = base;
 
-      logdet += partialCholesky(front, m, k, f);
+      logdet += this.eliminate(s, m, keep);
 
-      if (keep) {
-        const panels = keep.panels;
-        for (let i = 0; i < m; i++) {
-          const w = i + 1 < k ? i + 1 : k;
-          const from = i * m, to = panelOffset + i * k;
-          for (let c = 0; c < w; c++) panels[to + c] = front[from + c];
-          for (let c = w; c < k; c++) panels[to + c] = 0;
-        }
-        keep.panelPtr[s] = panelOffset;
-        panelOffset += m * k;
-      }
-
+      const k = superFirst[s + 1] - superFirst[s];
       const r = m - k;
       if (r > 0) {
-        schurUpdate(front, m, k, stack, top);
+        if (split && split.exportAt[s] >= 0) {
+          schurUpdate(this.front, m, k, store!, split.exportAt[s]);
+          continue;
+        }
+        schurUpdate(this.front, m, k, stack, top);
         updateAt.push(top);
         updateOwner.push(s);
         top += r * r;
@@ -106,12 +140,59 @@ export class Multifrontal {
     return logdet;
   }
 
+  /** Zeroes the front of supernode s and adds the entries of I − ρS in its columns; returns m. */
+  private assembleOwn(s: number, rho: number): number {
+    const { superFirst, rowPtr, rows, lowPtr, lowRow, lowSource } = this.sym;
+    const { front, pos, values } = this;
+    const f = superFirst[s];
+    const k = superFirst[s + 1] - f;
+    const r0 = rowPtr[s];
+    const m = rowPtr[s + 1] - r0;
+    for (let t = 0; t < m; t++) pos[rows[r0 + t]] = t;
+    for (let i = 0; i < m; i++) { const row = i * m; for (let c = 0; c <= i; c++) front[row + c] = 0; }
+    for (let c = 0; c < k; c++) {
+      const j = f + c;
+      front[c * m + c] += 1;
+      for (let q = lowPtr[j], qEnd = lowPtr[j + 1]; q < qEnd; q++) front[pos[lowRow[q]] * m + c] -= rho * values[lowSource[q]];
+    }
+    return m;
+  }
+
+  /** Adds an r×r update matrix (lower triangle, rows rows[cr0..cr0+r)) at `at` into the m×m front. */
+  private extendAdd(from: Float64Array, at: number, cr0: number, r: number, m: number): void {
+    const { front, pos, map } = this;
+    const rows = this.sym.rows;
+    for (let a = 0; a < r; a++) map[a] = pos[rows[cr0 + a]];
+    for (let a = 0; a < r; a++) {
+      const la = map[a] * m;
+      const ua = at + a * r;
+      for (let b = 0; b <= a; b++) front[la + map[b]] += from[ua + b];
+    }
+  }
+
+  /** Factors the leading columns of the assembled front and stores the panel; returns their 2 Σ ln L_jj. */
+  private eliminate(s: number, m: number, keep: NumericFactor | undefined): number {
+    const f = this.sym.superFirst[s];
+    const k = this.sym.superFirst[s + 1] - f;
+    const front = this.front;
+    const logdet = partialCholesky(front, m, k, f);
+    if (keep) {
+      const panels = keep.panels;
+      const offset = this.panelStart[s];
+      for (let i = 0; i < m; i++) {
+        const w = i + 1 < k ? i + 1 : k;
+        const from = i * m, to = offset + i * k;
+        for (let c = 0; c < w; c++) panels[to + c] = front[from + c];
+        for (let c = w; c < k; c++) panels[to + c] = 0;
+      }
+      keep.panelPtr[s] = offset;
+    }
+    return logdet;
+  }
+
   /** Doubles needed to keep the factor panels. */
   panelSize(): number {
-    const { superCount, superFirst, rowPtr } = this.sym;
-    let size = 0;
-    for (let s = 0; s < superCount; s++) size += (rowPtr[s + 1] - rowPtr[s]) * (superFirst[s + 1] - superFirst[s]);
-    return size;
+    return this.panelTotal;
   }
 }
 

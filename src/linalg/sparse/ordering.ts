@@ -24,7 +24,7 @@ export function graphOf(a: CsrMatrix): Graph {
   const { n, rowPtr, colIdx } = a;
   const deg = new Int32Array(n);
   for (let i = 0; i < n; i++) {
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) {
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) {
       const j = colIdx[p];
       if (j !== i) { deg[i]++; deg[j]++; }
     }
@@ -34,7 +34,7 @@ export function graphOf(a: CsrMatrix): Graph {
   const fill = ptr.slice(0, n);
   const raw = new Int32Array(ptr[n]);
   for (let i = 0; i < n; i++) {
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) {
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) {
       const j = colIdx[p];
       if (j !== i) { raw[fill[i]++] = j; raw[fill[j]++] = i; }
     }
@@ -45,7 +45,7 @@ export function graphOf(a: CsrMatrix): Graph {
   const out = new Int32Array(ptr[n]);
   let q = 0;
   for (let i = 0; i < n; i++) {
-    for (let p = ptr[i]; p < ptr[i + 1]; p++) {
+    for (let p = ptr[i], pEnd = ptr[i + 1]; p < pEnd; p++) {
       const j = raw[p];
       if (mark[j] !== i) { mark[j] = i; out[q++] = j; }
     }
@@ -99,7 +99,7 @@ export function coordinateDissection(g: Graph, x: Float64Array, y: Float64Array)
       const v = sorted[t];
       const mine = side[v];
       const theirs = mine === stampA ? stampB : stampA;
-      for (let p = ptr[v]; p < ptr[v + 1]; p++) {
+      for (let p = ptr[v], pEnd = ptr[v + 1]; p < pEnd; p++) {
         if (side[adj[p]] === theirs) { (mine === stampA ? edgeA : edgeB).push(v); break; }
       }
     }
@@ -143,7 +143,7 @@ export function levelDissection(g: Graph): Int32Array {
     level[root] = 0;
     while (head < tail) {
       const v = queue[head++];
-      for (let p = ptr[v]; p < ptr[v + 1]; p++) {
+      for (let p = ptr[v], pEnd = ptr[v + 1]; p < pEnd; p++) {
         const u = adj[p];
         if (inSet[u] === s) { inSet[u] = visit; level[u] = level[v] + 1; queue[tail++] = u; }
       }

@@ -10,7 +10,7 @@ import { meanAndError, rademacher, seededUniform } from './random.js';
 
 export function traceOf(w: CsrMatrix): number {
   let t = 0;
-  for (let i = 0; i < w.n; i++) for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) if (w.colIdx[p] === i) t += w.values[p];
+  for (let i = 0; i < w.n; i++) for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) if (w.colIdx[p] === i) t += w.values[p];
   return t;
 }
 
@@ -18,7 +18,7 @@ export function traceOf(w: CsrMatrix): number {
 export function traceOfSquare(w: CsrMatrix): number {
   let t = 0;
   for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) t += w.values[p] * entry(w, w.colIdx[p], i);
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) t += w.values[p] * entry(w, w.colIdx[p], i);
   }
   return t;
 }

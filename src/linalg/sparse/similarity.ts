@@ -20,7 +20,7 @@ export function diagonalSimilarity(w: CsrMatrix, s: CsrMatrix): Float64Array | n
     queue[tail++] = root;
     while (head < tail) {
       const i = queue[head++];
-      for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+      for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
         const j = w.colIdx[p];
         if (Number.isNaN(t[j]) && w.values[p] !== 0 && s.values[p] !== 0) {
           t[j] = (t[i] * s.values[p]) / w.values[p];
@@ -31,7 +31,7 @@ export function diagonalSimilarity(w: CsrMatrix, s: CsrMatrix): Float64Array | n
     }
   }
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
       const j = w.colIdx[p];
       const expected = (t[i] * s.values[p]) / t[j];
       if (Math.abs(expected - w.values[p]) > 1e-10 * Math.max(Math.abs(w.values[p]), 1e-300)) return null;
@@ -43,7 +43,7 @@ export function diagonalSimilarity(w: CsrMatrix, s: CsrMatrix): Float64Array | n
 /** True when a equals its transpose (same pattern, values within 1e-12 relative). */
 export function isSymmetricMatrix(a: CsrMatrix): boolean {
   for (let i = 0; i < a.n; i++) {
-    for (let p = a.rowPtr[i]; p < a.rowPtr[i + 1]; p++) {
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) {
       const j = a.colIdx[p];
       let lo = a.rowPtr[j], hi = a.rowPtr[j + 1] - 1, found = NaN;
       while (lo <= hi) {
@@ -71,10 +71,10 @@ export function symmetricForm(w: CsrMatrix, given: CsrMatrix | null): { s: CsrMa
   const direct = diagonalSimilarity(w, given);
   if (direct) return { s: given, t: direct };
   const rowSum = new Float64Array(n);
-  for (let i = 0; i < n; i++) for (let p = given.rowPtr[i]; p < given.rowPtr[i + 1]; p++) rowSum[i] += given.values[p];
+  for (let i = 0; i < n; i++) for (let p = given.rowPtr[i], pEnd = given.rowPtr[i + 1]; p < pEnd; p++) rowSum[i] += given.values[p];
   const values = new Float64Array(given.values.length);
   for (let i = 0; i < n; i++) {
-    for (let p = given.rowPtr[i]; p < given.rowPtr[i + 1]; p++) {
+    for (let p = given.rowPtr[i], pEnd = given.rowPtr[i + 1]; p < pEnd; p++) {
       const j = given.colIdx[p];
       const d = rowSum[i] * rowSum[j];
       if (!(d > 0)) return null;

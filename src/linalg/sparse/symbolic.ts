@@ -66,7 +66,7 @@ export function analyse(g: Graph, perm: Int32Array, matrix: CsrMatrix): Symbolic
   for (let i = 0; i < n; i++) {
     mark[i] = i;
     const v = perm2[i];
-    for (let p = g.ptr[v]; p < g.ptr[v + 1]; p++) {
+    for (let p = g.ptr[v], pEnd = g.ptr[v + 1]; p < pEnd; p++) {
       let k = iperm[g.adj[p]];
       if (k >= i) continue;
       while (mark[k] !== i) { colCount[k]++; mark[k] = i; k = parent[k]; }
@@ -88,7 +88,7 @@ export function analyse(g: Graph, perm: Int32Array, matrix: CsrMatrix): Symbolic
 
   // row structure of each supernode: its columns, entries of A below, and children's structures
   const superOf = new Int32Array(n);
-  for (let s = 0; s < superCount; s++) for (let j = superFirst[s]; j < superFirst[s + 1]; j++) superOf[j] = s;
+  for (let s = 0; s < superCount; s++) for (let j = superFirst[s], jEnd = superFirst[s + 1]; j < jEnd; j++) superOf[j] = s;
   const childHead = new Int32Array(superCount).fill(-1);
   const childNext = new Int32Array(superCount).fill(-1);
   for (let s = superCount - 1; s >= 0; s--) {
@@ -105,7 +105,7 @@ export function analyse(g: Graph, perm: Int32Array, matrix: CsrMatrix): Symbolic
     for (let j = f; j < l; j++) mark[j] = s;
     for (let j = f; j < l; j++) {
       const v = perm2[j];
-      for (let p = g.ptr[v]; p < g.ptr[v + 1]; p++) {
+      for (let p = g.ptr[v], pEnd = g.ptr[v + 1]; p < pEnd; p++) {
         const i = iperm[g.adj[p]];
         if (i >= l && mark[i] !== s) { mark[i] = s; scratch.push(i); }
       }
@@ -147,7 +147,7 @@ export function analyse(g: Graph, perm: Int32Array, matrix: CsrMatrix): Symbolic
   const { rowPtr: aPtr, colIdx: aIdx } = matrix;
   for (let r = 0; r < n; r++) {
     const ir = iperm[r];
-    for (let p = aPtr[r]; p < aPtr[r + 1]; p++) {
+    for (let p = aPtr[r], pEnd = aPtr[r + 1]; p < pEnd; p++) {
       const jc = iperm[aIdx[p]];
       if (ir >= jc) lowCount[jc + 1]++;
     }
@@ -159,7 +159,7 @@ export function analyse(g: Graph, perm: Int32Array, matrix: CsrMatrix): Symbolic
   const lowSource = new Int32Array(lowPtr[n]);
   for (let r = 0; r < n; r++) {
     const ir = iperm[r];
-    for (let p = aPtr[r]; p < aPtr[r + 1]; p++) {
+    for (let p = aPtr[r], pEnd = aPtr[r + 1]; p < pEnd; p++) {
       const jc = iperm[aIdx[p]];
       if (ir >= jc) { const q = fillAt[jc]++; lowRow[q] = ir; lowSource[q] = p; }
     }
@@ -178,7 +178,7 @@ export function eliminationTree(g: Graph, perm: Int32Array, iperm: Int32Array): 
   const ancestor = new Int32Array(n).fill(-1);
   for (let i = 0; i < n; i++) {
     const v = perm[i];
-    for (let p = g.ptr[v]; p < g.ptr[v + 1]; p++) {
+    for (let p = g.ptr[v], pEnd = g.ptr[v + 1]; p < pEnd; p++) {
       let k = iperm[g.adj[p]];
       while (k !== -1 && k < i) {
         const up = ancestor[k];
