@@ -19,6 +19,8 @@ import { fileURLToPath } from 'node:url';
 import { csrMultiply, type CsrMatrix } from '../src/linalg/csr.js';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
+import { SparseCholeskyLogDet } from '../src/linalg/sparse/cholesky-logdet.js';
+import { startNodeHelper } from '../src/cli/helper-thread.js';
 import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
 import { readBoundary } from '../src/geo/index.js';
 import { buildWeights, symmetricForm } from '../src/weights/index.js';
@@ -97,7 +99,8 @@ async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): 
   const g = rookGrid(rows, rows);
   sample();
   const t0 = performance.now();
-  const alg = sparseAlgebra(g.w, g.s, { coordinates: { x: g.x, y: g.y } });
+  // as the command line runs it: a second thread shares the factor and its solves
+  const alg = sparseAlgebra(g.w, g.s, { coordinates: { x: g.x, y: g.y }, helper: startNodeHelper });
   const algebraSeconds = seconds(t0);
   const chol = alg.cholesky!;
   const times: number[] = [];
@@ -124,6 +127,14 @@ async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): 
     if (scipy && Math.abs(v - scipy.logdets[i]) > 1e-6 * Math.abs(scipy.logdets[i])) throw new Error(`log-determinant disagrees with scipy at ρ = ${rho}: ${v} vs ${scipy.logdets[i]}`);
   }
   sample();
+  const peak = peakMB();
+  // the same evaluations on one thread, for comparison
+  alg.dispose?.();
+  const single = new SparseCholeskyLogDet(chol.s, { coordinates: { x: g.x, y: g.y } });
+  const oneThread: number[] = [];
+  for (const rho of rhos) { const b = performance.now(); single.evaluate(rho); oneThread.push(seconds(b)); }
+  const oneThreadScipy: number[] = [];
+  for (const rho of scipyRhos) { const b = performance.now(); single.evaluate(rho + 1e-9); oneThreadScipy.push(seconds(b)); }
   return {
     workload: `rook grid ${rows}x${rows}`,
     n: g.w.n,
@@ -132,6 +143,8 @@ async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): 
     algebraSeconds: round(algebraSeconds),
     logdetSecondsMedian: round(median(times), 4),
     logdetSeconds: times.map((s) => round(s, 4)),
+    logdetSecondsMedianOneThread: round(median(oneThread), 4),
+    logdetSecondsOneThread: oneThread.map((s) => round(s, 4)),
     nnzL: chol.symbolic.nnzL,
     lagFitSeconds: round(lagFitSeconds),
     lagExactEvaluations: lagEvaluations,
@@ -140,9 +153,10 @@ async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): 
     rho: lag.parameter,
     rhoSe: lag.parameterSe,
     lambda: err.parameter,
-    peakRssMB: peakMB(),
+    peakRssMB: peak,
     scipySpluSecondsMedian: scipy ? round(scipy.seconds, 4) : null,
     oursOverScipy: scipy ? round(median(ours) / scipy.seconds) : null,
+    oursOneThreadOverScipy: scipy ? round(median(oneThreadScipy) / scipy.seconds) : null,
     method: alg.logdet.method,
     traceMethod: alg.traceMethod,
     search: lag.convergence.message,
@@ -151,13 +165,13 @@ async function gridWorkload(rows: number, rhos: number[], scipyRhos: number[]): 
 
 /** Full analyses through runAnalysis: the median of `timed` runs after `warm` warm-up runs (JIT). */
 async function analysisWorkload(name: string, request: Parameters<typeof runAnalysis>[0], weightsSeconds: number | null, warm = 1, timed = 1): Promise<Record<string, unknown>> {
-  for (let i = 0; i < warm; i++) await runAnalysis(request);
+  for (let i = 0; i < warm; i++) await runAnalysis(request, { helper: startNodeHelper });
   sample();
   const runs: number[] = [];
-  let result = await runAnalysis(request);
+  let result = await runAnalysis(request, { helper: startNodeHelper });
   for (let i = 0; i < timed; i++) {
     const a = performance.now();
-    result = await runAnalysis(request);
+    result = await runAnalysis(request, { helper: startNodeHelper });
     runs.push(seconds(a));
   }
   const reportSeconds = median(runs);
@@ -206,6 +220,9 @@ async function columbusWorkload(): Promise<Record<string, unknown>> {
 }
 
 function cliWorkload(): Record<string, unknown> {
+  // the built command line, as `npx spillway` runs it after npm ci; built now so it is never stale
+  const build = spawnSync('npm', ['run', '--silent', 'build'], { cwd: ROOT, encoding: 'utf8' });
+  if (build.status !== 0) throw new Error(`the build failed: ${build.stderr.split('\n').slice(0, 3).join(' | ')}`);
   const dir = mkdtempSync(join(tmpdir(), 'spillway-bench-'));
   try {
     const file = join(dir, 'grid300.geojson');
@@ -219,15 +236,18 @@ function cliWorkload(): Record<string, unknown> {
       const parsed = JSON.parse(out.stdout) as { lag?: { rho?: number; parameter?: number } };
       return { seconds: round(s), rho: parsed.lag?.rho ?? parsed.lag?.parameter };
     };
-    const plain = run([]);
-    const noPermutations = run(['--permutations', '0']);
+    const runs = [run([]), run([]), run([])];
+    const oneThread = run(['--threads', '1']);
+    const withPermutations = run(['--permutations', '999']);
     return {
       workload: 'command line, 300x300 grid GeoJSON, rook, lag model',
       n: 90000,
-      cliSeconds: plain.seconds,
-      cliSecondsWithoutPermutations: noPermutations.seconds,
-      rho: plain.rho,
-      note: 'spillway fit --boundary grid300.geojson --id id --y y --x x1,x2 --models lag --weights rook --json; the second figure adds --permutations 0 (the 999-permutation Moran test of y is a stage of its own)',
+      cliSecondsMedian: round(median(runs.map((r) => r.seconds))),
+      cliSeconds: runs.map((r) => r.seconds),
+      cliSecondsOneThread: oneThread.seconds,
+      cliSecondsWith999Permutations: withPermutations.seconds,
+      rho: runs[0].rho,
+      note: 'spillway fit --boundary grid300.geojson --id id --y y --x x1,x2 --models lag --weights rook --json (the built command line, as after npm ci), three runs; then once with --threads 1 and once with --permutations 999 (above 10,000 areas the permutation test of y runs only when asked)',
     };
   } finally {
     rmSync(dir, { recursive: true, force: true });

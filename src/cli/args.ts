@@ -23,6 +23,8 @@ export interface FitArgs {
   draws?: number;
   permutations?: number;
   algebra: 'auto' | 'dense' | 'sparse';
+  /** 1 or 2: a second thread for the large sparse factorisations */
+  threads: 1 | 2;
   json: boolean;
   perArea: boolean;
   out?: string;
@@ -64,6 +66,7 @@ Output and reproducibility
   --draws N            simulation draws for impact standard errors (default 1000)
   --permutations N     permutations for Moran's I of the outcome (default 999; 0 above 10,000 areas)
   --algebra A          auto | dense | sparse log-determinant (default auto)
+  --threads N          1 or 2: a second thread shares large sparse factorisations (default 2)
 `;
 
 export function parseFitArgs(argv: string[]): FitArgs {
@@ -79,7 +82,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
-        permutations: { type: 'string' }, algebra: { type: 'string' }, json: { type: 'boolean' },
+        permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
       },
     });
@@ -98,6 +101,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
   for (const m of models) if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`--models: unknown model "${m}"; choose from ols, lag, error.`);
   const algebra = (v.algebra ?? 'auto') as FitArgs['algebra'];
   if (!['auto', 'dense', 'sparse'].includes(algebra)) throw new InputError(`--algebra must be auto, dense or sparse, not "${v.algebra}".`);
+  const threads = v.threads === undefined ? 2 : Number(v.threads.trim());
+  if (threads !== 1 && threads !== 2) throw new InputError(`--threads must be 1 or 2, not "${v.threads}".`);
   if (v.coordinates !== undefined && v.coordinates !== 'geographic' && v.coordinates !== 'projected') {
     throw new InputError(`--coordinates must be geographic or projected, not "${v.coordinates}".`);
   }
@@ -122,6 +127,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     draws: optionalInteger('draws', v.draws, 1),
     permutations: optionalInteger('permutations', v.permutations, 0),
     algebra,
+    threads,
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,

@@ -4,6 +4,7 @@ import { ENGINE_VERSION } from '../version.js';
 import { FIT_USAGE, parseFitArgs } from './args.js';
 import { readBoundaryFiles, readNamedFile } from './read-files.js';
 import { formatSummary } from './summary.js';
+import { startNodeHelper } from './helper-thread.js';
 
 const USAGE = `Spillway ${ENGINE_VERSION}: spatial regression for area-level data.
 
@@ -55,7 +56,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       impactDraws: args.draws,
       permutations: args.permutations,
       algebra: args.algebra,
-    });
+    }, args.threads === 2 ? { helper: startNodeHelper } : {});
     if (args.out) {
       const { writeResultsFile } = await import('./write-results.js');
       for (const note of await writeResultsFile(result, args.out, args.data)) io.stderr(`spillway: note: ${note}\n`);

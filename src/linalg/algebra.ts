@@ -43,4 +43,6 @@ export interface WeightsAlgebra {
   solve?(rho: number, b: Float64Array): Float64Array;
   /** Optional: fast tr(I − ρW)⁻¹ at many ρ (impact simulations), when `traces` is costly per ρ. */
   readonly traceInverse?: { evaluate(rho: number): number; readonly method: string };
+  /** Optional: lets go of what outlives a run (a helper thread); the algebra stays usable on one thread. */
+  dispose?(): void;
 }

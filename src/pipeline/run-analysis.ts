@@ -13,7 +13,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
-import type { AnalysisRequest, AnalysisResult, InputRecord } from './types.js';
+import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord } from './types.js';
 
 const DEFAULT_SEED = 20261201;
 export const PERMUTATION_AREA_LIMIT = 10_000;
@@ -22,8 +22,10 @@ export const PERMUTATION_AREA_LIMIT = 10_000;
  * The whole job in one call: read the boundaries and the table, join them by ID, build the
  * neighbours, fit the plain regression and its spatial diagnostics, then the spatial lag and error
  * models and the lag model's impacts. Pure: bytes in, numbers out; the CLI and the add-in share it.
+ * `runtime` carries what the platform offers beyond that (a second thread) and never changes a figure
+ * beyond rounding.
  */
-export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisResult> {
+export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRuntime = {}): Promise<AnalysisResult> {
   const timings: Record<string, number> = {};
   const clock = () => (globalThis.performance ? performance.now() : Date.now());
   let t = clock();
@@ -77,7 +79,7 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   lap('weights');
 
   progress(0.3, 'Preparing the log-determinant');
-  const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed });
+  const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed, helper: runtime.helper });
   lap('algebra');
 
   const y = values.get(request.y)!;
@@ -107,20 +109,24 @@ export async function runAnalysis(request: AnalysisRequest): Promise<AnalysisRes
   let lag: AnalysisResult['lag'];
   let error: AnalysisResult['error'];
   let impacts: AnalysisResult['impacts'];
-  if (models.includes('lag')) {
-    progress(0.5, 'Fitting the spatial lag model');
-    const fit = fitSpatialLag(y, design, algebra, ols);
-    lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
-    lap('lag');
-    progress(0.7, 'Simulating the spillover effects');
-    impacts = lagImpacts(fit, design, algebra, { draws: impactDraws, seed });
-    lap('impacts');
-  }
-  if (models.includes('error')) {
-    progress(0.8, 'Fitting the spatial error model');
-    const fit = fitSpatialError(y, design, algebra, ols);
-    error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
-    lap('error');
+  try {
+    if (models.includes('lag')) {
+      progress(0.5, 'Fitting the spatial lag model');
+      const fit = fitSpatialLag(y, design, algebra, ols);
+      lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
+      lap('lag');
+      progress(0.7, 'Simulating the spillover effects');
+      impacts = lagImpacts(fit, design, algebra, { draws: impactDraws, seed });
+      lap('impacts');
+    }
+    if (models.includes('error')) {
+      progress(0.8, 'Fitting the spatial error model');
+      const fit = fitSpatialError(y, design, algebra, ols);
+      error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
+      lap('error');
+    }
+  } finally {
+    algebra.dispose?.();
   }
 
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];

@@ -1,3 +1,4 @@
+import type { StartHelperThread } from '../linalg/sparse/index.js';
 import type { NamedBytesLike } from './named-bytes.js';
 import type { WeightsSpec, WeightsTransform, WeightsSummary } from '../weights/types.js';
 import type {
@@ -8,6 +9,12 @@ import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
 export type ModelName = 'ols' | 'lag' | 'error';
 
 /** One analysis as the user asked for it. Files come as bytes so the same request runs in Node and the browser. */
+/** What the platform offers the engine beyond bytes in (not part of the request: no figure depends on it). */
+export interface AnalysisRuntime {
+  /** starts a second thread for large sparse factorisations (the command line: a Node worker) */
+  helper?: StartHelperThread;
+}
+
 export interface AnalysisRequest {
   boundary: NamedBytesLike[];
   /** Which object of a TopoJSON file (default: the first). */

@@ -9,10 +9,17 @@ import type { LogDeterminant } from '../logdet.js';
 import { coordinateDissection, graphOf, levelDissection } from './ordering.js';
 import { analyse, type SymbolicFactor } from './symbolic.js';
 import { Multifrontal, type NumericFactor } from './frontal.js';
+import { planSplit } from './split.js';
+import { HelperThread, type StartHelperThread } from './helper-thread.js';
 
 export interface CholeskyOptions {
   coordinates?: { x: Float64Array; y: Float64Array };
+  /** a second thread from the platform: factors half of each split and solves half the blocks */
+  helper?: StartHelperThread;
 }
+
+/** Right-hand sides per blocked solve on each thread. */
+export const SOLVE_BLOCK = 16;
 
 export class SparseCholeskyLogDet implements LogDeterminant {
   readonly method: string;
@@ -21,6 +28,8 @@ export class SparseCholeskyLogDet implements LogDeterminant {
   /** seconds spent on the ordering and symbolic analysis */
   readonly symbolicSeconds: number;
   private readonly engine: Multifrontal;
+  /** the second thread, when the platform offers one and the factor is large enough to split */
+  readonly helper: HelperThread | null;
 
   constructor(readonly s: CsrMatrix, opts: CholeskyOptions = {}) {
     const t0 = performance.now();
@@ -41,9 +50,11 @@ export class SparseCholeskyLogDet implements LogDeterminant {
       : `nested dissection from breadth-first level structures${lattice ? ' (regular lattice)' : ''}`;
     this.symbolic = analyse(g, perm, s);
     this.engine = new Multifrontal(this.symbolic, s.values);
+    const split = opts.helper ? planSplit(this.symbolic) : null;
+    this.helper = split ? new HelperThread(this.engine, split, s.values, opts.helper!, SOLVE_BLOCK) : null;
     this.symbolicSeconds = (performance.now() - t0) / 1000;
     this.method = `exact, sparse Cholesky of I − ρS (S symmetric, similar to W; multifrontal, ${ordering}; ` +
-      `nnz(L) ${this.symbolic.nnzL}, one symbolic analysis reused for every ρ)`;
+      `nnz(L) ${this.symbolic.nnzL}, one symbolic analysis reused for every ρ${this.helper ? '; two threads, one group of subtrees each' : ''})`;
   }
 
   evaluate(rho: number): number {
@@ -60,11 +71,11 @@ export class SparseCholeskyLogDet implements LogDeterminant {
     // two panel buffers in turn: the new factor is written over the one before last, so repeated
     // evaluations allocate nothing (a returned factor stays valid until the second evaluation after)
     const previous = this.last;
-    const factor = this.spare ?? { panels: new Float64Array(this.engine.panelSize()), panelPtr: new Float64Array(this.symbolic.superCount) };
+    const factor = this.spare ?? this.newFactor(previous);
     this.spare = null;
     this.last = null;
     try {
-      const logdet = this.engine.factor(rho, factor);
+      const logdet = this.helper ? this.helper.factor(rho, this.helper.factors.indexOf(factor) as 0 | 1) : this.engine.factor(rho, factor);
       this.last = { rho, kept: { factor, logdet } };
       this.spare = previous ? previous.kept.factor : null;
       return this.last.kept;
@@ -73,6 +84,12 @@ export class SparseCholeskyLogDet implements LogDeterminant {
       this.spare = factor;
       throw e;
     }
+  }
+
+  /** A panel buffer: with a helper, the shared one not held by `previous`. */
+  private newFactor(previous: { kept: { factor: NumericFactor } } | null): NumericFactor {
+    if (this.helper) return this.helper.factors[previous?.kept.factor === this.helper.factors[0] ? 1 : 0];
+    return { panels: new Float64Array(this.engine.panelSize()), panelPtr: new Float64Array(this.symbolic.superCount) };
   }
 
   private last: { rho: number; kept: { factor: NumericFactor; logdet: number } } | null = null;

@@ -5,3 +5,4 @@ export { SeriesLogDet } from './series-logdet.js';
 export { lanczosExtremes, symmetricRange, spectralRadiusRange } from './extremes.js';
 export { coordinateDissection, levelDissection, graphOf, isPermutation } from './ordering.js';
 export { symmetricForm } from './similarity.js';
+export { serveHelper, type StartHelperThread, type HelperInit } from './helper-thread.js';

@@ -6,7 +6,7 @@ import type { SymbolicFactor } from './symbolic.js';
 import type { NumericFactor } from './frontal.js';
 
 /** x = M⁻¹ b in the original ordering; `work` is scratch of length n. */
-export function choleskySolve(sym: SymbolicFactor, f: NumericFactor, b: Float64Array, x: Float64Array, work = new Float64Array(sym.n)): Float64Array {
+export function choleskySolve(sym: SymbolicFactor, f: NumericFactor, b: Float64Array, x: Float64Array, work: Float64Array = new Float64Array(sym.n)): Float64Array {
   const { n, perm, superCount, superFirst, rowPtr, rows } = sym;
   const { panels, panelPtr } = f;
   const y = work;
@@ -55,7 +55,7 @@ export function choleskySolve(sym: SymbolicFactor, f: NumericFactor, b: Float64A
  * updates below a supernode's diagonal block accumulate in registers, which is where a triangular
  * solve spends its time. `work` is scratch of length n·r.
  */
-export function choleskySolveBlock(sym: SymbolicFactor, f: NumericFactor, b: Float64Array, r: number, x: Float64Array, work = new Float64Array(sym.n * r)): Float64Array {
+export function choleskySolveBlock(sym: SymbolicFactor, f: NumericFactor, b: Float64Array, r: number, x: Float64Array, work: Float64Array = new Float64Array(sym.n * r)): Float64Array {
   const { n, perm, superCount, superFirst, rowPtr, rows } = sym;
   const { panels, panelPtr } = f;
   const y = work;

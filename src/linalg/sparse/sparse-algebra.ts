@@ -21,6 +21,7 @@ import { powerTraces, traceOf, traceOfSquare, frobeniusSquared } from './power-t
 import { LanczosQuadrature } from './quadrature.js';
 import { spectralRadiusRange, symmetricRangeWithLanczos } from './extremes.js';
 import { symmetricForm } from './similarity.js';
+import type { StartHelperThread } from './helper-thread.js';
 
 export interface SparseOptions {
   coordinates?: { x: Float64Array; y: Float64Array };
@@ -32,6 +33,8 @@ export interface SparseOptions {
   seriesTerms?: number;
   /** probes of the Lanczos quadrature behind the bracketing log-determinant and impacts (default 4) */
   quadratureProbes?: number;
+  /** a second thread from the platform for the Cholesky factor and its solves */
+  helper?: StartHelperThread;
 }
 
 /** The algebra plus figures for benchmarks and reports. */
@@ -46,7 +49,7 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
   const lmTrace = frobeniusSquared(w) + traceOfSquare(w);
   if (!form) return generalAlgebra(w, lmTrace, seed, opts);
 
-  const cholesky = new SparseCholeskyLogDet(form.s, { coordinates: opts.coordinates });
+  const cholesky = new SparseCholeskyLogDet(form.s, { coordinates: opts.coordinates, helper: opts.helper });
   const { range, lanczos } = symmetricRangeWithLanczos(w, form.s, seed);
   // the bracketing log-determinant comes free from the range's Lanczos run (one probe)
   const bracket = LanczosQuadrature.fromTridiagonal(w.n, lanczos.alpha!, lanczos.beta!, lanczos.steps, seed);
@@ -100,6 +103,7 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
     get traceMethod(): string {
       return tracer.describe();
     },
+    dispose: () => cholesky.helper?.stop(),
   };
 }
 

@@ -148,25 +148,32 @@ export class CholeskyTraces {
     const sWtG = new Float64Array(p), sWG = new Float64Array(p);
     const half = BLOCK >> 1; // probes per block: each brings z and T⁻¹z
     const b = new Float64Array(n * BLOCK), x = new Float64Array(n * BLOCK), work = new Float64Array(n * BLOCK);
-    const probes: Float64Array[] = [];
     const v = new Float64Array(n), sv = new Float64Array(n), gz = new Float64Array(n), wz = new Float64Array(n), scratch = new Float64Array(n);
-    for (let q0 = 0; q0 < p; q0 += half) {
-      const count = Math.min(half, p - q0);
+    // with a second thread, every other block is solved there at the same time (same probes, same
+    // arithmetic per column, so the same figures as on one thread)
+    const helper = this.ld.helper;
+    const buffer = helper ? helper.factors.indexOf(factor) : -1;
+    const twoAtOnce = helper !== null && buffer >= 0 && helper.block >= BLOCK;
+
+    const fill = (into: Float64Array, q0: number, count: number): Float64Array[] => {
       const r = 2 * count;
-      probes.length = 0;
+      const probes: Float64Array[] = [];
       for (let c = 0; c < count; c++) {
         const z = rademacher(new Float64Array(n), uniform);
         probes.push(z);
-        for (let i = 0; i < n; i++) { b[i * r + 2 * c] = z[i]; b[i * r + 2 * c + 1] = z[i] / t[i]; }
+        for (let i = 0; i < n; i++) { into[i * r + 2 * c] = z[i]; into[i * r + 2 * c + 1] = z[i] / t[i]; }
       }
-      choleskySolveBlock(sym, factor, b.subarray(0, n * r), r, x, work);
+      return probes;
+    };
+    const gather = (solved: Float64Array, q0: number, probes: Float64Array[]): void => {
+      const count = probes.length, r = 2 * count;
       for (let c = 0; c < count; c++) {
         const z = probes[c], q = q0 + c;
-        for (let i = 0; i < n; i++) v[i] = x[i * r + 2 * c];
+        for (let i = 0; i < n; i++) v[i] = solved[i * r + 2 * c];
         csrMultiply(this.s, v, sv); // H z
         let a = 0, g = 0, g2 = 0;
         for (let i = 0; i < n; i++) { a += z[i] * v[i]; g += z[i] * sv[i]; g2 += sv[i] * sv[i]; }
-        for (let i = 0; i < n; i++) v[i] = x[i * r + 2 * c + 1];
+        for (let i = 0; i < n; i++) v[i] = solved[i * r + 2 * c + 1];
         csrMultiply(this.s, v, sv);
         let gtg = 0;
         for (let i = 0; i < n; i++) { const gi = t[i] * sv[i]; gz[i] = gi; gtg += gi * gi; }
@@ -177,6 +184,22 @@ export class CholeskyTraces {
         let wg = 0;
         for (let i = 0; i < n; i++) wg += wz[i] * gz[i];
         sA[q] = a; sG[q] = g; sG2[q] = g2; sGtG[q] = gtg; sWtG[q] = wtg; sWG[q] = wg;
+      }
+    };
+
+    for (let q0 = 0; q0 < p; q0 += twoAtOnce ? 2 * half : half) {
+      const count = Math.min(half, p - q0);
+      const mine = fill(b, q0, count);
+      const q1 = q0 + count;
+      const theirCount = twoAtOnce ? Math.min(half, p - q1) : 0;
+      if (theirCount > 0) {
+        const theirs = fill(helper!.input, q1, theirCount);
+        helper!.solveTwo(buffer as 0 | 1, b, 2 * count, x, work, 2 * theirCount);
+        gather(x, q0, mine);
+        gather(helper!.output, q1, theirs);
+      } else {
+        choleskySolveBlock(sym, factor, b.subarray(0, n * 2 * count), 2 * count, x, work);
+        gather(x, q0, mine);
       }
     }
     const A = meanAndError(sA), G = meanAndError(sG), G2 = meanAndError(sG2), GtG = meanAndError(sGtG);
