@@ -13,6 +13,11 @@ import { NotPositiveDefiniteError } from '../src/linalg/sparse/frontal.js';
 import { planSplit } from '../src/linalg/sparse/split.js';
 import { symmetricForm } from '../src/linalg/sparse/similarity.js';
 import { startNodeHelper } from '../src/cli/helper-thread.js';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { gridGeoJson } from '../bench/grid-geojson.js';
+import { runCli, STACK_LINE } from './helpers/cli.js';
 
 describe('a second thread for the sparse Cholesky factor', () => {
   it('splits the nested-dissection tree into two groups of about equal work', () => {
@@ -58,4 +63,28 @@ describe('a second thread for the sparse Cholesky factor', () => {
     const b = new CholeskyTraces(two, form.s, form.t, budget, g.w).traces(0.6);
     for (const key of Object.keys(a) as (keyof typeof a)[]) expect(Math.abs(a[key] - b[key])).toBeLessThanOrEqual(1e-12 * Math.abs(a[key]));
   });
+
+  it('the command line gives the same lag model with --threads 1 and 2 on a 160×160 grid, and refuses --threads 3 in plain words', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'spillway-threads-'));
+    try {
+      const file = join(dir, 'grid.geojson');
+      writeFileSync(file, gridGeoJson(160, 160));
+      const base = ['fit', '--boundary', file, '--id', 'id', '--y', 'y', '--x', 'x1,x2', '--models', 'lag', '--weights', 'rook', '--json'];
+      const one = runCli([...base, '--threads', '1']);
+      const two = runCli(base);
+      expect(one.code).toBe(0);
+      expect(two.code).toBe(0);
+      const a = JSON.parse(one.stdout), b = JSON.parse(two.stdout);
+      expect(b.logDeterminant.logDeterminant).toMatch(/two threads/);
+      expect(a.logDeterminant.logDeterminant).not.toMatch(/two threads/);
+      expect(Math.abs(a.lag.rho - b.lag.rho)).toBeLessThan(1e-9);
+      expect(Math.abs(a.lag.logLik - b.lag.logLik)).toBeLessThan(1e-6);
+      const bad = runCli([...base, '--threads', '3']);
+      expect(bad.code).not.toBe(0);
+      expect(bad.stderr).toMatch(/--threads must be 1 or 2, not "3"/);
+      expect(bad.stderr).not.toMatch(STACK_LINE);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 120_000);
 });

@@ -51,7 +51,7 @@ export class SparseCholeskyLogDet implements LogDeterminant {
     this.symbolic = analyse(g, perm, s);
     this.engine = new Multifrontal(this.symbolic, s.values);
     const split = opts.helper ? planSplit(this.symbolic) : null;
-    this.helper = split ? new HelperThread(this.engine, split, s.values, opts.helper!, SOLVE_BLOCK) : null;
+    this.helper = split ? new HelperThread(this.engine, split, s, opts.helper!, SOLVE_BLOCK) : null;
     this.symbolicSeconds = (performance.now() - t0) / 1000;
     this.method = `exact, sparse Cholesky of I − ρS (S symmetric, similar to W; multifrontal, ${ordering}; ` +
       `nnz(L) ${this.symbolic.nnzL}, one symbolic analysis reused for every ρ${this.helper ? '; two threads, one group of subtrees each' : ''})`;

@@ -151,6 +151,22 @@ export function symmetricRange(w: CsrMatrix, s: CsrMatrix, seed = 1): Admissible
 
 /** The same, with the Lanczos run behind it (its tridiagonal serves a one-probe quadrature). */
 export function symmetricRangeWithLanczos(w: CsrMatrix, s: CsrMatrix, seed = 1): { range: AdmissibleRange; lanczos: LanczosExtremes } {
+  const plan = lanczosPlan(w, s);
+  const lanczos = lanczosExtremes(s, seed, plan.steps, plan.tolerance, plan.needMax);
+  return { range: rangeFromLanczos(plan, lanczos), lanczos };
+}
+
+/** What the Lanczos run behind the range must do, decided from W and S before it runs. */
+export interface LanczosPlan {
+  stochastic: boolean;
+  bipartite: boolean;
+  radius: number;
+  steps: number;
+  tolerance: number;
+  needMax: boolean;
+}
+
+export function lanczosPlan(w: CsrMatrix, s: CsrMatrix): LanczosPlan {
   const stochastic = isRowStochastic(w);
   const radius = stochastic ? 1 : maxAbsRowSum(s);
   // A bipartite neighbour graph (e.g. a rook lattice) has a spectrum symmetric about 0 (Chung 1997,
@@ -158,12 +174,14 @@ export function symmetricRangeWithLanczos(w: CsrMatrix, s: CsrMatrix, seed = 1):
   // Lanczos converges slowly on the clustered end and would only meet the −1 floor, so it runs
   // just long enough for the bracketing quadrature.
   const bipartite = stochastic && isBipartite(s);
-  const ex = lanczosExtremes(s, seed, bipartite ? 120 : 300, 1e-10, !stochastic);
-  if (bipartite) {
-    return {
-      range: { lower: -1, upper: 1, eigenMin: -1, eigenMax: 1, method: 'λmax = 1 (rows of W sum to one); λmin = −1 (the neighbour graph is bipartite, so the spectrum is symmetric about 0)' },
-      lanczos: ex,
-    };
+  return { stochastic, bipartite, radius, steps: bipartite ? 120 : 300, tolerance: 1e-10, needMax: !stochastic };
+}
+
+/** The admissible range from the plan and the Lanczos run it asked for. */
+export function rangeFromLanczos(plan: LanczosPlan, ex: LanczosExtremes): AdmissibleRange {
+  const { stochastic, radius } = plan;
+  if (plan.bipartite) {
+    return { lower: -1, upper: 1, eigenMin: -1, eigenMax: 1, method: 'λmax = 1 (rows of W sum to one); λmin = −1 (the neighbour graph is bipartite, so the spectrum is symmetric about 0)' };
   }
   const eigenMin = Math.max(-radius, ex.min - ex.minResidual);
   const eigenMax = stochastic ? 1 : ex.max + ex.maxResidual;
@@ -172,7 +190,7 @@ export function symmetricRangeWithLanczos(w: CsrMatrix, s: CsrMatrix, seed = 1):
     stochastic ? 'λmax = 1 (rows of W sum to one)' : `λmax ${ex.max.toPrecision(12)} (residual bound ${ex.maxResidual.toExponential(1)})`,
   ];
   if (eigenMin === -radius) parts.push(`λmin taken as −${radius} (spectral radius bound)`);
-  return { range: { lower: 1 / eigenMin, upper: 1 / eigenMax, eigenMin, eigenMax, method: parts.join('; ') }, lanczos: ex };
+  return { lower: 1 / eigenMin, upper: 1 / eigenMax, eigenMin, eigenMax, method: parts.join('; ') };
 }
 
 /** True when the pattern of S (a symmetric matrix) is bipartite: a two-colouring by breadth-first search. */

@@ -11,6 +11,8 @@
 import type { SymbolicFactor } from './symbolic.js';
 import { Multifrontal, NotPositiveDefiniteError, type FactorSplit, type NumericFactor } from './frontal.js';
 import { choleskySolveBlock } from './solve.js';
+import { lanczosExtremes, type LanczosExtremes } from './extremes.js';
+import type { CsrMatrix } from '../csr.js';
 
 /** Starts a thread that calls `serveHelper(init)`; provided by the platform. */
 export type StartHelperThread = (init: HelperInit) => void;
@@ -20,6 +22,10 @@ export interface HelperInit {
   numbers: SharedArrayBuffer;
   sym: SymbolicFactor;
   values: Float64Array;
+  /** the pattern of S (with `values`), for the Lanczos run behind the admissible range */
+  rowPtr: Int32Array;
+  colIdx: Int32Array;
+  lanczosOut: SharedArrayBuffer;
   split: FactorSplit;
   store: SharedArrayBuffer;
   panels: [SharedArrayBuffer, SharedArrayBuffer];
@@ -31,7 +37,13 @@ export interface HelperInit {
 
 // control words
 const SEQ = 0, DONE = 1, KIND = 2, BUFFER = 3, STATUS = 4, COLUMN = 5, COLUMNS = 6, READY = 7;
-const FACTOR = 1, SOLVE = 2, STOP = 3;
+const FACTOR = 1, SOLVE = 2, STOP = 3, LANCZOS = 4;
+// READY: 0 starting, 1 serving, 2 given up on by this thread (the helper then ends at once)
+const STARTING = 0, SERVING = 1, GIVEN_UP = 2;
+/** Longest Lanczos run the helper can report. */
+const LANCZOS_MAX = 300;
+/** How long this thread waits for a helper that has not come up before going on alone (ms). */
+const START_WAIT = 20000;
 const OK = 0, NOT_POSITIVE = 1, FAILED = 2;
 
 /** The helper's side: waits for work, does it, reports, forever. */
@@ -43,7 +55,9 @@ export function serveHelper(init: HelperInit): void {
   const factors: NumericFactor[] = init.panels.map((b) => ({ panels: new Float64Array(b), panelPtr: engine.panelStart }));
   const solveIn = new Float64Array(init.solveIn), solveOut = new Float64Array(init.solveOut);
   const work = new Float64Array(init.sym.n * init.block);
-  Atomics.store(ctrl, READY, 1);
+  const s: CsrMatrix = { n: init.sym.n, rowPtr: init.rowPtr, colIdx: init.colIdx, values: init.values };
+  const lanczosOut = new Float64Array(init.lanczosOut);
+  if (Atomics.compareExchange(ctrl, READY, STARTING, SERVING) === GIVEN_UP) return;
   Atomics.notify(ctrl, READY);
   let seen = 0;
   for (;;) {
@@ -54,7 +68,12 @@ export function serveHelper(init: HelperInit): void {
     try {
       const factor = factors[ctrl[BUFFER]];
       if (ctrl[KIND] === FACTOR) num[1] = engine.factorGroup(num[0], init.split, 1, store, factor);
-      else if (ctrl[KIND] === SOLVE) {
+      else if (ctrl[KIND] === LANCZOS) {
+        const ex = lanczosExtremes(s, num[0], ctrl[COLUMNS], num[1], ctrl[BUFFER] === 1);
+        lanczosOut.set([ex.min, ex.max, ex.minResidual, ex.maxResidual, ex.steps], 0);
+        lanczosOut.set(ex.alpha!.subarray(0, ex.steps), 8);
+        lanczosOut.set(ex.beta!.subarray(0, ex.steps), 8 + LANCZOS_MAX);
+      } else if (ctrl[KIND] === SOLVE) {
         const r = ctrl[COLUMNS];
         choleskySolveBlock(init.sym, factor, solveIn.subarray(0, init.sym.n * r), r, solveOut, work);
       }
@@ -82,7 +101,10 @@ export class HelperThread {
   /** why the helper could not be started, if it could not */
   startError: string | null = null;
 
-  constructor(private readonly engine: Multifrontal, private readonly split: FactorSplit, values: Float64Array, start: StartHelperThread, readonly block: number) {
+  private readonly lanczosOut: Float64Array;
+
+  constructor(private readonly engine: Multifrontal, private readonly split: FactorSplit, s: CsrMatrix, start: StartHelperThread, readonly block: number) {
+    const values = s.values;
     const sym = engine.sym;
     const shared = (doubles: number) => new SharedArrayBuffer(8 * Math.max(1, doubles));
     const init: HelperInit = {
@@ -93,10 +115,14 @@ export class HelperThread {
       split,
       store: shared(split.storeSize),
       panels: [shared(engine.panelTotal), shared(engine.panelTotal)],
+      rowPtr: s.rowPtr,
+      colIdx: s.colIdx,
+      lanczosOut: shared(8 + 2 * LANCZOS_MAX),
       solveIn: shared(sym.n * block),
       solveOut: shared(sym.n * block),
       block,
     };
+    this.lanczosOut = new Float64Array(init.lanczosOut);
     this.ctrl = new Int32Array(init.control);
     this.num = new Float64Array(init.numbers);
     this.store = new Float64Array(init.store);
@@ -117,11 +143,38 @@ export class HelperThread {
   /** False when the helper never came up (then everything runs on this thread). */
   available(): boolean {
     if (!this.usable) return false;
-    if (Atomics.load(this.ctrl, READY) === 1) return true;
+    if (Atomics.load(this.ctrl, READY) === SERVING) return true;
     // a worker starts in well under a second; past a generous wait, go on alone
-    Atomics.wait(this.ctrl, READY, 0, 20000);
-    this.usable = Atomics.load(this.ctrl, READY) === 1;
+    const deadline = performance.now() + START_WAIT;
+    while (Atomics.load(this.ctrl, READY) === STARTING && performance.now() < deadline) Atomics.wait(this.ctrl, READY, STARTING, 200);
+    if (Atomics.compareExchange(this.ctrl, READY, STARTING, GIVEN_UP) !== SERVING) this.usable = false;
     return this.usable;
+  }
+
+  /**
+   * Starts the Lanczos run behind the admissible range on the helper (it need not be up yet: the
+   * request waits for it); the returned function waits for the result, null when this thread must
+   * run it itself.
+   */
+  startLanczos(seed: number, steps: number, tolerance: number, needMax: boolean): () => LanczosExtremes | null {
+    if (!this.usable || steps > LANCZOS_MAX) return () => null;
+    this.num[0] = seed;
+    this.num[1] = tolerance;
+    this.ctrl[COLUMNS] = steps;
+    this.ctrl[BUFFER] = needMax ? 1 : 0;
+    this.post(LANCZOS);
+    let result: LanczosExtremes | null | undefined;
+    return () => {
+      if (result !== undefined) return result;
+      if (!this.available() || this.finish() !== OK) return (result = null);
+      const out = this.lanczosOut;
+      const used = out[4];
+      result = {
+        min: out[0], max: out[1], minResidual: out[2], maxResidual: out[3], steps: used,
+        alpha: out.slice(8, 8 + used), beta: out.slice(8 + LANCZOS_MAX, 8 + LANCZOS_MAX + used),
+      };
+      return result;
+    };
   }
 
   /** ln|I − ρS| with the factor written into factors[buffer]. */
@@ -185,6 +238,9 @@ export class HelperThread {
   }
 
   private post(kind: number): void {
+    // one request at a time: the one before must be done (a Lanczos run nobody asked back for)
+    if (this.outstanding && Atomics.load(this.ctrl, READY) === SERVING) this.finish();
+    this.outstanding = true;
     this.ctrl[KIND] = kind;
     this.seq++;
     Atomics.store(this.ctrl, SEQ, this.seq);
@@ -193,6 +249,9 @@ export class HelperThread {
 
   private finish(): number {
     while (Atomics.load(this.ctrl, DONE) !== this.seq) Atomics.wait(this.ctrl, DONE, Atomics.load(this.ctrl, DONE), 1000);
+    this.outstanding = false;
     return this.ctrl[STATUS];
   }
+
+  private outstanding = false;
 }

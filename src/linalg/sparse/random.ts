@@ -10,9 +10,14 @@ export function seededUniform(seed: number): () => number {
   };
 }
 
-/** Fill v with independent ±1 (Rademacher) entries. */
+/** Fill v with independent ±1 (Rademacher) entries: each draw's 32 bits give 32 signs. */
 export function rademacher(v: Float64Array, uniform: () => number): Float64Array {
-  for (let i = 0; i < v.length; i++) v[i] = uniform() < 0.5 ? -1 : 1;
+  let word = 0;
+  for (let i = 0; i < v.length; i++) {
+    const bit = i & 31;
+    if (bit === 0) word = (uniform() * 4294967296) >>> 0;
+    v[i] = (word >>> bit) & 1 ? 1 : -1;
+  }
   return v;
 }
 

@@ -11,7 +11,7 @@
  */
 import type { CsrMatrix } from '../csr.js';
 import type { WeightsAlgebra } from '../algebra.js';
-import type { LogDeterminant } from '../logdet.js';
+import type { AdmissibleRange, LogDeterminant } from '../logdet.js';
 import { SparseCholeskyLogDet } from './cholesky-logdet.js';
 import { CholeskyTraces } from './traces.js';
 import { GeneralTraces } from './general-traces.js';
@@ -19,7 +19,7 @@ import { SeriesLogDet } from './series-logdet.js';
 import { DenseLuLogDet } from '../dense-lu-logdet.js';
 import { powerTraces, traceOf, traceOfSquare, frobeniusSquared } from './power-traces.js';
 import { LanczosQuadrature } from './quadrature.js';
-import { spectralRadiusRange, symmetricRangeWithLanczos } from './extremes.js';
+import { lanczosExtremes, lanczosPlan, rangeFromLanczos, spectralRadiusRange } from './extremes.js';
 import { symmetricForm } from './similarity.js';
 import type { StartHelperThread } from './helper-thread.js';
 
@@ -50,23 +50,35 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
   if (!form) return generalAlgebra(w, lmTrace, seed, opts);
 
   const cholesky = new SparseCholeskyLogDet(form.s, { coordinates: opts.coordinates, helper: opts.helper });
-  const { range, lanczos } = symmetricRangeWithLanczos(w, form.s, seed);
-  // the bracketing log-determinant comes free from the range's Lanczos run (one probe)
-  const bracket = LanczosQuadrature.fromTridiagonal(w.n, lanczos.alpha!, lanczos.beta!, lanczos.steps, seed);
+  // The Lanczos run behind the range goes to the helper thread when there is one, and is waited
+  // for only when the range or the bracket is first needed (the plain regression and its tests
+  // run meanwhile).
+  const plan = lanczosPlan(w, form.s);
+  const onHelper = cholesky.helper ? cholesky.helper.startLanczos(seed, plan.steps, plan.tolerance, plan.needMax) : () => null;
+  let ran: { range: AdmissibleRange; bracket: LanczosQuadrature } | null = null;
+  const lanczosRun = () => {
+    if (ran) return ran;
+    const lanczos = onHelper() ?? lanczosExtremes(form.s, seed, plan.steps, plan.tolerance, plan.needMax);
+    // the bracketing log-determinant comes free from the range's Lanczos run (one probe)
+    ran = { range: rangeFromLanczos(plan, lanczos), bracket: LanczosQuadrature.fromTridiagonal(w.n, lanczos.alpha!, lanczos.beta!, lanczos.steps, seed) };
+    return ran;
+  };
   const tracer = new CholeskyTraces(cholesky, form.s, form.t, { seed, probes: opts.probes }, w);
   // built on first use: impacts and long power series share it
   let quadrature: LanczosQuadrature | null = null;
   const quad = (): LanczosQuadrature => (quadrature ??= new LanczosQuadrature(form.s, { probes: opts.quadratureProbes ?? 4, steps: 20, seed: seed + 2 }));
   const roughLogdet: LogDeterminant = {
-    evaluate: (rho: number) => bracket.logdet(rho),
-    method: `${bracket.describe()} of ln|I − ρS|`,
+    evaluate: (rho: number) => lanczosRun().bracket.logdet(rho),
+    get method(): string {
+      return `${lanczosRun().bracket.describe()} of ln|I − ρS|`;
+    },
     accuracy: 'approximate (stochastic); used only to bracket the maximum, which exact evaluations then polish',
   };
   // At the impact draws only the change of tr(I − ρW)⁻¹ away from ρ̂ matters (its level at ρ̂ comes
   // from the traces there). From 20,000 areas the range's own one-probe quadrature gives that
   // change to well under the 2% Monte Carlo error of 1,000 draws (the probe error of a trace
   // shrinks like 1/√n), and saves a second Lanczos run; below, the several-probe one is cheap.
-  const drawQuadrature = (): LanczosQuadrature => (w.n >= ONE_PROBE_DRAWS ? bracket : quad());
+  const drawQuadrature = (): LanczosQuadrature => (w.n >= ONE_PROBE_DRAWS ? lanczosRun().bracket : quad());
   const traceInverse = {
     evaluate: (rho: number) => drawQuadrature().traceInverse(rho),
     get method(): string {
@@ -80,7 +92,9 @@ export function sparseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null, opts: S
     n: w.n,
     w,
     logdet: cholesky,
-    range,
+    get range(): AdmissibleRange {
+      return lanczosRun().range;
+    },
     lmTrace,
     cholesky,
     roughLogdet,
