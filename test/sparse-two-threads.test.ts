@@ -12,6 +12,7 @@ import { CholeskyTraces } from '../src/linalg/sparse/traces.js';
 import { NotPositiveDefiniteError } from '../src/linalg/sparse/frontal.js';
 import { planSplit } from '../src/linalg/sparse/split.js';
 import { symmetricForm } from '../src/linalg/sparse/similarity.js';
+import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import { startNodeHelper } from '../src/cli/helper-thread.js';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -62,6 +63,19 @@ describe('a second thread for the sparse Cholesky factor', () => {
     const a = new CholeskyTraces(one, form.s, form.t, budget, g.w).traces(0.6);
     const b = new CholeskyTraces(two, form.s, form.t, budget, g.w).traces(0.6);
     for (const key of Object.keys(a) as (keyof typeof a)[]) expect(Math.abs(a[key] - b[key])).toBeLessThanOrEqual(1e-12 * Math.abs(a[key]));
+  });
+
+  it('runs the range\'s Lanczos on the helper with the same result as here, even when a factorisation is asked for first', () => {
+    const g = randomGeometric(12000, 0.015, 11);
+    for (const first of ['factor', 'range'] as const) {
+      const here = sparseAlgebra(g.w, g.s, { seed: 9 });
+      const there = sparseAlgebra(g.w, g.s, { seed: 9, helper: startNodeHelper });
+      expect(there.cholesky!.helper).not.toBeNull();
+      if (first === 'factor') there.logdet.evaluate(0.4);
+      expect(there.range).toEqual(here.range);
+      for (const rho of [-0.5, 0.3, 0.9]) expect(there.roughLogdet!.evaluate(rho)).toBe(here.roughLogdet!.evaluate(rho));
+      there.dispose?.();
+    }
   });
 
   it('the command line gives the same lag model with --threads 1 and 2 on a 160×160 grid, and refuses --threads 3 in plain words', () => {

@@ -158,11 +158,12 @@ export class HelperThread {
    */
   startLanczos(seed: number, steps: number, tolerance: number, needMax: boolean): () => LanczosExtremes | null {
     if (!this.usable || steps > LANCZOS_MAX) return () => null;
-    this.num[0] = seed;
-    this.num[1] = tolerance;
-    this.ctrl[COLUMNS] = steps;
-    this.ctrl[BUFFER] = needMax ? 1 : 0;
-    this.post(LANCZOS);
+    this.post(LANCZOS, () => {
+      this.num[0] = seed;
+      this.num[1] = tolerance;
+      this.ctrl[COLUMNS] = steps;
+      this.ctrl[BUFFER] = needMax ? 1 : 0;
+    });
     let result: LanczosExtremes | null | undefined;
     return () => {
       if (result !== undefined) return result;
@@ -181,9 +182,10 @@ export class HelperThread {
   factor(rho: number, buffer: 0 | 1): number {
     if (!this.available()) return this.engine.factor(rho, this.factors[buffer]);
     const keep = this.factors[buffer];
-    this.num[0] = rho;
-    this.ctrl[BUFFER] = buffer;
-    this.post(FACTOR);
+    this.post(FACTOR, () => {
+      this.num[0] = rho;
+      this.ctrl[BUFFER] = buffer;
+    });
     let mine = 0;
     let failure: unknown = null;
     try {
@@ -213,9 +215,10 @@ export class HelperThread {
       choleskySolveBlock(this.engine.sym, factor, this.input.subarray(0, n * helperColumns), helperColumns, this.output, work);
       return;
     }
-    this.ctrl[BUFFER] = buffer;
-    this.ctrl[COLUMNS] = helperColumns;
-    this.post(SOLVE);
+    this.post(SOLVE, () => {
+      this.ctrl[BUFFER] = buffer;
+      this.ctrl[COLUMNS] = helperColumns;
+    });
     let failure: unknown = null;
     try {
       choleskySolveBlock(this.engine.sym, factor, b.subarray(0, n * r), r, x, work);
@@ -234,13 +237,18 @@ export class HelperThread {
   stop(): void {
     if (!this.usable) return;
     this.usable = false;
-    this.post(STOP);
+    this.post(STOP, () => {});
   }
 
-  private post(kind: number): void {
-    // one request at a time: the one before must be done (a Lanczos run nobody asked back for)
+  /**
+   * One request at a time: the one before must be done before this one's parameters are written
+   * (the helper reads them when it starts on a request). Only a stop may be posted while the
+   * helper is still starting with a request outstanding: it then ends without answering it.
+   */
+  private post(kind: number, parameters: () => void): void {
     if (this.outstanding && Atomics.load(this.ctrl, READY) === SERVING) this.finish();
     this.outstanding = true;
+    parameters();
     this.ctrl[KIND] = kind;
     this.seq++;
     Atomics.store(this.ctrl, SEQ, this.seq);
