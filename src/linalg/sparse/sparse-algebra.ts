@@ -6,8 +6,8 @@
  * brackets the likelihood maximum, and a several-probe quadrature (built on first use) for
  * tr(I − ρW)⁻¹ at the impact draws and for long power series.
  * Without one (e.g. k-nearest neighbours): exact dense LU per evaluation up to 1,500 areas, the
- * Monte Carlo series log-determinant with a stated error bound above; range from the spectral
- * radius, traces by iterative solves.
+ * exact sparse LU above when the rows of W sum to one, else the Monte Carlo series log-determinant
+ * with a stated error bound; range from the spectral radius, traces by iterative solves.
  */
 import type { CsrMatrix } from '../csr.js';
 import type { WeightsAlgebra } from '../algebra.js';
@@ -19,7 +19,8 @@ import { SeriesLogDet } from './series-logdet.js';
 import { DenseLuLogDet } from '../dense-lu-logdet.js';
 import { powerTraces, traceOf, traceOfSquare, frobeniusSquared } from './power-traces.js';
 import { LanczosQuadrature } from './quadrature.js';
-import { lanczosExtremes, lanczosPlan, rangeFromLanczos, spectralRadiusRange } from './extremes.js';
+import { isRowStochastic, lanczosExtremes, lanczosPlan, rangeFromLanczos, spectralRadiusRange } from './extremes.js';
+import { SparseLuLogDet, SPARSE_LU_WORK_LIMIT } from './lu-logdet.js';
 import { symmetricForm } from './similarity.js';
 import type { StartHelperThread } from './helper-thread.js';
 
@@ -128,13 +129,19 @@ export const ONE_PROBE_DRAWS = 20000;
 export const DENSE_LU_LIMIT = 1500;
 
 /**
- * W without a symmetric form: exact dense LU per evaluation up to 1,500 areas (the Monte Carlo
- * series then only brackets the maximum), the series with its stated bound above; BiCGSTAB traces.
+ * W without a symmetric form: exact dense LU per evaluation up to 1,500 areas; above, when the rows
+ * of W sum to one, the exact sparse LU while one evaluation costs at most SPARSE_LU_WORK_LIMIT
+ * multiply-adds (the Monte Carlo series then only brackets the maximum); otherwise the series with
+ * its stated bound. BiCGSTAB traces.
  */
 function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: SparseOptions): SparseWeightsAlgebra {
   const range = spectralRadiusRange(w);
   const series = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius: range.eigenMax });
-  const exact = w.n <= DENSE_LU_LIMIT ? new DenseLuLogDet(w) : null;
+  let exact: LogDeterminant | null = w.n <= DENSE_LU_LIMIT ? new DenseLuLogDet(w) : null;
+  if (!exact && isRowStochastic(w)) {
+    const lu = new SparseLuLogDet(w, { coordinates: opts.coordinates });
+    if (lu.work <= SPARSE_LU_WORK_LIMIT) exact = lu;
+  }
   const logdet: LogDeterminant = exact ?? series;
   const tracer = new GeneralTraces(w, seed, opts.probes ?? 48);
   const powerCache = new Map<number, Float64Array>();
