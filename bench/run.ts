@@ -26,6 +26,9 @@ import { readBoundary } from '../src/geo/index.js';
 import { buildWeights, symmetricForm } from '../src/weights/index.js';
 import { runAnalysis } from '../src/pipeline/run-analysis.js';
 import { rookGrid } from './grid.js';
+import { seededUniform } from '../src/linalg/sparse/random.js';
+import { nearestNeighbours } from '../src/weights/nearest.js';
+import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -258,6 +261,43 @@ function cliWorkload(): Record<string, unknown> {
   }
 }
 
+/** k-nearest-neighbour weights (no symmetric form) on invented random points: the exact sparse LU. */
+async function knnWorkload(n: number, k: number): Promise<Record<string, unknown>> {
+  const u = seededUniform(31);
+  const x = new Float64Array(n).map(() => u()), y = new Float64Array(n).map(() => u());
+  let a = performance.now();
+  const { pattern } = nearestNeighbours({ x, y, greatCircle: false }, k);
+  const w = applyTransform(pattern, 'row');
+  const weightsSeconds = seconds(a);
+  sample();
+  a = performance.now();
+  const alg = sparseAlgebra(w, null, { coordinates: { x, y } });
+  const algebraSeconds = seconds(a);
+  const times: number[] = [];
+  for (const rho of [0.2, 0.5, 0.8]) { const b = performance.now(); alg.logdet.evaluate(rho); times.push(seconds(b)); sample(); }
+  const { design, y: outcome } = lagData(w);
+  const c = counted(alg);
+  a = performance.now();
+  const lag = fitSpatialLag(outcome, design, c.alg);
+  const lagFitSeconds = seconds(a);
+  sample();
+  return {
+    workload: `${k} nearest neighbours, ${n} random points`,
+    n,
+    weightsSeconds: round(weightsSeconds),
+    algebraSeconds: round(algebraSeconds),
+    logdetSecondsMedian: round(median(times), 4),
+    logdetSeconds: times.map((t) => round(t, 4)),
+    lagFitSeconds: round(lagFitSeconds),
+    lagExactEvaluations: c.count(),
+    rho: lag.parameter,
+    rhoSe: lag.parameterSe,
+    peakRssMB: peakMB(),
+    method: alg.logdet.method,
+    traceMethod: alg.traceMethod,
+  };
+}
+
 const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<string, unknown>> = {
   'columbus': columbusWorkload,
   'rook grid 56x56': () => gridWorkload(56, [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], [0.2, 0.5, 0.8, 0.9, 0.95]),
@@ -265,6 +305,7 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'us counties rook': () => countiesWorkload('rook'),
   'rook grid 300x300': () => gridWorkload(300, [0.2, 0.5, 0.8, -0.3, 0.9], [0.5, 0.8, 0.9]),
   'rook grid 500x500': () => gridWorkload(500, [0.2, 0.5, 0.8], [0.5, 0.8]),
+  'knn 6 of 90000 points': () => knnWorkload(90000, 6),
   'command line 300x300': cliWorkload,
 };
 

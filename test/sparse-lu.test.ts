@@ -35,7 +35,7 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
   });
 
   it('serves the algebra above 1,500 areas when the rows of W sum to one; binary weights keep the Monte Carlo series', () => {
-    const g = randomKnn(1800, 6, 5);
+    const g = randomKnn(1550, 6, 5);
     const alg = sparseAlgebra(g.w, null, { coordinates: { x: g.x, y: g.y } });
     expect(alg.logdet.method).toMatch(/exact, sparse LU/);
     expect(alg.logdet.accuracy).toMatch(/exact/);
@@ -44,8 +44,8 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
     expect(sparseAlgebra(binary, null).logdet.method).toMatch(/Monte Carlo/);
   });
 
-  it('gives the lag estimate of the dense LU at every step to 1e-7 (1,800 areas, 6 nearest neighbours)', () => {
-    const g = randomKnn(1800, 6, 5);
+  it('gives the lag estimate of the dense LU at every step to 1e-7 (1,550 areas, 6 nearest neighbours)', () => {
+    const g = randomKnn(1550, 6, 5);
     const n = g.w.n;
     const u = seededUniform(21);
     const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
