@@ -306,6 +306,7 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'rook grid 300x300': () => gridWorkload(300, [0.2, 0.5, 0.8, -0.3, 0.9], [0.5, 0.8, 0.9]),
   'rook grid 500x500': () => gridWorkload(500, [0.2, 0.5, 0.8], [0.5, 0.8]),
   'knn 6 of 90000 points': () => knnWorkload(90000, 6),
+  'knn 6 of 20000 points': () => knnWorkload(20000, 6),
   'command line 300x300': cliWorkload,
 };
 

@@ -4,7 +4,7 @@
  *   x = A⁻¹z, y = Wx = Gz, u = G y:  tr A⁻¹ ≈ zᵀx, tr G ≈ zᵀy, tr G² ≈ zᵀu, tr GᵀG ≈ ‖y‖².
  * Exact (unit vectors instead of probes) when n is small.
  */
-import { csrMultiply, type CsrMatrix } from '../csr.js';
+import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../csr.js';
 import type { TracesAt } from '../algebra.js';
 import type { TraceErrors } from './traces.js';
 import { meanAndError, rademacher, seededUniform } from './random.js';
@@ -77,29 +77,48 @@ export class GeneralTraces {
     return `${base}; standard errors at the last ρ: tr G ${f(e.trG)}, tr G² ${f(e.trG2)}, tr GᵀG ${f(e.trGtG)}, tr A⁻¹ ${f(e.trAinv)}`;
   }
 
+  /** The traces at ρ (the last ρ's are kept: the fit's standard errors and its tests ask twice). */
   traces(rho: number): TracesAt {
+    if (this.last && this.last.rho === rho) return { ...this.last.traces };
+    const traces = this.compute(rho);
+    this.last = { rho, traces };
+    return { ...traces };
+  }
+
+  private last: { rho: number; traces: TracesAt } | null = null;
+
+  private compute(rho: number): TracesAt {
     const n = this.w.n;
     const rounds = this.exact ? n : this.probes;
     const uniform = seededUniform(this.seed);
     const z = new Float64Array(n), x = new Float64Array(n), y = new Float64Array(n), x2 = new Float64Array(n), u = new Float64Array(n);
     const sA = new Float64Array(rounds), sG = new Float64Array(rounds), sG2 = new Float64Array(rounds), sGtG = new Float64Array(rounds);
+    // the cross traces of the remaining-error test from the same Gz: tr WᵀG ≈ (Wz)ᵀGz, tr WG ≈ (Wᵀz)ᵀGz
+    const sWtG = new Float64Array(rounds), sWG = new Float64Array(rounds);
+    const wz = new Float64Array(n), wtz = new Float64Array(n);
     for (let q = 0; q < rounds; q++) {
       if (this.exact) { z.fill(0); z[q] = 1; } else rademacher(z, uniform);
       solveShifted(this.w, rho, z, x);
       csrMultiply(this.w, x, y);
       solveShifted(this.w, rho, y, x2);
       csrMultiply(this.w, x2, u);
-      let a = 0, g = 0, g2 = 0, gtg = 0;
-      for (let i = 0; i < n; i++) { a += z[i] * x[i]; g += z[i] * y[i]; g2 += z[i] * u[i]; gtg += y[i] * y[i]; }
-      sA[q] = a; sG[q] = g; sG2[q] = g2; sGtG[q] = gtg;
+      csrMultiply(this.w, z, wz);
+      csrMultiplyTransposed(this.w, z, wtz);
+      let a = 0, g = 0, g2 = 0, gtg = 0, wtg = 0, wg = 0;
+      for (let i = 0; i < n; i++) {
+        const yi = y[i];
+        a += z[i] * x[i]; g += z[i] * yi; g2 += z[i] * u[i]; gtg += yi * yi; wtg += wz[i] * yi; wg += wtz[i] * yi;
+      }
+      sA[q] = a; sG[q] = g; sG2[q] = g2; sGtG[q] = gtg; sWtG[q] = wtg; sWG[q] = wg;
     }
     if (this.exact) {
       const sum = (v: Float64Array) => v.reduce((s, t) => s + t, 0);
-      this.lastErrors = { trG: 0, trG2: 0, trGtG: 0, trAinv: 0 };
-      return { trG: sum(sG), trG2: sum(sG2), trGtG: sum(sGtG), trAinv: sum(sA) };
+      this.lastErrors = { trG: 0, trG2: 0, trGtG: 0, trAinv: 0, trWtG: 0, trWG: 0 };
+      return { trG: sum(sG), trG2: sum(sG2), trGtG: sum(sGtG), trAinv: sum(sA), trWtG: sum(sWtG), trWG: sum(sWG) };
     }
     const A = meanAndError(sA), G = meanAndError(sG), G2 = meanAndError(sG2), GtG = meanAndError(sGtG);
-    this.lastErrors = { trG: G.se, trG2: G2.se, trGtG: GtG.se, trAinv: A.se };
-    return { trG: G.mean, trG2: G2.mean, trGtG: GtG.mean, trAinv: A.mean };
+    const WtG = meanAndError(sWtG), WG = meanAndError(sWG);
+    this.lastErrors = { trG: G.se, trG2: G2.se, trGtG: GtG.se, trAinv: A.se, trWtG: WtG.se, trWG: WG.se };
+    return { trG: G.mean, trG2: G2.mean, trGtG: GtG.mean, trAinv: A.mean, trWtG: WtG.mean, trWG: WG.mean };
   }
 }
