@@ -19,7 +19,7 @@ export const startNodeHelper: StartHelperThread = (init: HelperInit): void => {
     : `import(${JSON.stringify(entry)})`;
   const worker = new Worker(code, { eval: true, workerData: init });
   worker.unref();
-  worker.on('error', (e) => { if (process.env.SPILLWAY_DEBUG) console.error(e); /* the engine notices the helper never became ready */ });
+  worker.on('error', () => { /* the engine notices the helper never became ready and goes on alone */ });
 };
 
 /** tsx's ES-module API (its package exports name it; the CommonJS one cannot register hooks in a worker). */

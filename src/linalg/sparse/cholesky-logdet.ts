@@ -6,7 +6,7 @@
  */
 import type { CsrMatrix } from '../csr.js';
 import type { LogDeterminant } from '../logdet.js';
-import { coordinateDissection, graphOf, levelDissection } from './ordering.js';
+import { coordinateDissection, graphOf, levelDissection, usableCoordinates } from './ordering.js';
 import { analyse, type SymbolicFactor } from './symbolic.js';
 import { Multifrontal, type NumericFactor } from './frontal.js';
 import { planSplit } from './split.js';
@@ -35,7 +35,7 @@ export class SparseCholeskyLogDet implements LogDeterminant {
     const t0 = performance.now();
     const g = graphOf(s);
     const c = opts.coordinates;
-    const useCoordinates = !!c && c.x.length === s.n && c.y.length === s.n && allFinite(c.x) && allFinite(c.y);
+    const useCoordinates = usableCoordinates(c, s.n);
     // One ordering, chosen by one rule. On a regular lattice (nine in ten areas with the same number
     // of neighbours) breadth-first level sets are straight wavefronts and make the smaller
     // separators; on irregular maps they are ragged and the coordinate cut is better. Measured on
@@ -110,7 +110,3 @@ function regularShare(g: { n: number; ptr: Int32Array }): number {
   return best / g.n;
 }
 
-function allFinite(a: Float64Array): boolean {
-  for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i])) return false;
-  return true;
-}

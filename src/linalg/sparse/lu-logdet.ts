@@ -11,7 +11,7 @@
  */
 import type { CsrMatrix } from '../csr.js';
 import type { LogDeterminant } from '../logdet.js';
-import { coordinateDissection, graphOf, levelDissection } from './ordering.js';
+import { coordinateDissection, graphOf, levelDissection, usableCoordinates } from './ordering.js';
 import { analyse, type SymbolicFactor } from './symbolic.js';
 
 export class PivotError extends Error {
@@ -46,7 +46,7 @@ export class SparseLuLogDet implements LogDeterminant {
     this.upper = upper;
     const g = graphOf(pattern);
     const c = opts.coordinates;
-    const useCoordinates = !!c && c.x.length === w.n && c.y.length === w.n && [...c.x, ...c.y].every(Number.isFinite);
+    const useCoordinates = usableCoordinates(c, w.n);
     const perm = useCoordinates ? coordinateDissection(g, c!.x, c!.y) : levelDissection(g);
     this.symbolic = analyse(g, perm, pattern);
     const { superCount, superFirst, rowPtr, maxFront, stackSize } = this.symbolic;

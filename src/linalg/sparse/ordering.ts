@@ -217,3 +217,10 @@ export function isPermutation(p: Int32Array, n: number): boolean {
   }
   return true;
 }
+
+/** True when both coordinate arrays have one finite value per area (then they may order the areas). */
+export function usableCoordinates(c: { x: Float64Array; y: Float64Array } | undefined, n: number): c is { x: Float64Array; y: Float64Array } {
+  if (!c || c.x.length !== n || c.y.length !== n) return false;
+  for (let i = 0; i < n; i++) if (!Number.isFinite(c.x[i]) || !Number.isFinite(c.y[i])) return false;
+  return true;
+}

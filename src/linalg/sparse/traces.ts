@@ -155,7 +155,7 @@ export class CholeskyTraces {
     const buffer = helper ? helper.factors.indexOf(factor) : -1;
     const twoAtOnce = helper !== null && buffer >= 0 && helper.block >= BLOCK;
 
-    const fill = (into: Float64Array, q0: number, count: number): Float64Array[] => {
+    const fill = (into: Float64Array, count: number): Float64Array[] => {
       const r = 2 * count;
       const probes: Float64Array[] = [];
       for (let c = 0; c < count; c++) {
@@ -189,11 +189,11 @@ export class CholeskyTraces {
 
     for (let q0 = 0; q0 < p; q0 += twoAtOnce ? 2 * half : half) {
       const count = Math.min(half, p - q0);
-      const mine = fill(b, q0, count);
+      const mine = fill(b, count);
       const q1 = q0 + count;
       const theirCount = twoAtOnce ? Math.min(half, p - q1) : 0;
       if (theirCount > 0) {
-        const theirs = fill(helper!.input, q1, theirCount);
+        const theirs = fill(helper!.input, theirCount);
         helper!.solveTwo(buffer as 0 | 1, b, 2 * count, x, work, 2 * theirCount);
         gather(x, q0, mine);
         gather(helper!.output, q1, theirs);
