@@ -11,12 +11,18 @@ export const ROOT = join(import.meta.dirname, '..', '..');
 export const CHROMIUM = '/usr/bin/chromium';
 export const chromiumPresent = existsSync(CHROMIUM);
 
+const configFile = join(ROOT, 'addin/vite.config.ts');
+
+/** Builds the add-in (task pane, cell functions, help and browser page) into outDir. */
+export async function buildAddin(outDir: string): Promise<void> {
+  process.env.SPILLWAY_ADDIN_OUT = outDir;
+  await build({ configFile, logLevel: 'error' });
+}
+
 /** Builds the add-in into outDir and serves it over plain http; returns the server and its origin. */
 export async function buildAndServe(outDir: string): Promise<{ server: PreviewServer; origin: string }> {
-  process.env.SPILLWAY_ADDIN_OUT = outDir;
   process.env.SPILLWAY_HTTP = '1';
-  const configFile = join(ROOT, 'addin/vite.config.ts');
-  await build({ configFile, logLevel: 'warn' });
+  await buildAddin(outDir);
   const server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
   return { server, origin: server.resolvedUrls!.local[0].replace(/\/$/, '') };
 }
