@@ -7,19 +7,17 @@
  * No pivoting is needed: for |ρ| < 1 and rows of W summing to one, I − ρW is strictly diagonally
  * dominant by rows, elimination keeps it so (every pivot is positive), and the growth factor stays
  * below 2 (Wilkinson 1961; Golub & Van Loan, Matrix Computations, §3.4.10) — so ln|I − ρW| = Σ ln u_jj.
+ * The factor of the last ρ is kept, so the traces and the reduced form at an estimate found by exact
+ * evaluations are solved with it (two triangular solves each) rather than iteratively.
  * Written by hand: no kept JavaScript library offers a sparse LU.
  */
 import type { CsrMatrix } from '../csr.js';
 import type { LogDeterminant } from '../logdet.js';
 import { coordinateDissection, graphOf, levelDissection, usableCoordinates } from './ordering.js';
 import { analyse, type SymbolicFactor } from './symbolic.js';
+import { eliminateFront } from './lu-front.js';
 
-export class PivotError extends Error {
-  constructor(readonly column: number) {
-    super(`I − ρW has a pivot that is not positive (column ${column + 1}); ρ lies outside the range where the LU needs no pivoting`);
-    this.name = 'PivotError';
-  }
-}
+export { PivotError } from './lu-front.js';
 
 /** Multiply-adds of one LU evaluation above which the Monte Carlo series is used instead. */
 export const SPARSE_LU_WORK_LIMIT = 4e10;
@@ -30,6 +28,8 @@ export class SparseLuLogDet implements LogDeterminant {
   readonly symbolic: SymbolicFactor;
   /** multiply-adds per evaluation (k·m² summed over the fronts) */
   readonly work: number;
+  /** doubles of the kept factor: per supernode its k rows of U (and L's multipliers left of the diagonal), then L's m − k rows below */
+  readonly factorSize: number;
   readonly symbolicSeconds: number;
   /** W's values and Wᵀ's values on the pattern of W + Wᵀ */
   private readonly lower: Float64Array;
@@ -38,6 +38,11 @@ export class SparseLuLogDet implements LogDeterminant {
   private readonly stack: Float64Array;
   private readonly pos: Int32Array;
   private readonly map: Int32Array;
+  private readonly panelStart: Float64Array;
+  private panels: Float64Array | null = null;
+  /** ρ of the factor in `panels` (NaN when none is complete) and its log-determinant */
+  private keptRho = NaN;
+  private keptLogdet = 0;
 
   constructor(readonly w: CsrMatrix, opts: { coordinates?: { x: Float64Array; y: Float64Array } } = {}) {
     const t0 = performance.now();
@@ -50,12 +55,16 @@ export class SparseLuLogDet implements LogDeterminant {
     const perm = useCoordinates ? coordinateDissection(g, c!.x, c!.y) : levelDissection(g);
     this.symbolic = analyse(g, perm, pattern);
     const { superCount, superFirst, rowPtr, maxFront, stackSize } = this.symbolic;
-    let work = 0;
+    let work = 0, size = 0;
+    this.panelStart = new Float64Array(superCount);
     for (let s = 0; s < superCount; s++) {
       const k = superFirst[s + 1] - superFirst[s], m = rowPtr[s + 1] - rowPtr[s];
       work += k * m * m;
+      this.panelStart[s] = size;
+      size += k * (2 * m - k);
     }
     this.work = work;
+    this.factorSize = size;
     this.front = new Float64Array(maxFront * maxFront);
     this.stack = new Float64Array(Math.max(1, stackSize));
     this.pos = new Int32Array(w.n);
@@ -68,6 +77,82 @@ export class SparseLuLogDet implements LogDeterminant {
 
   evaluate(rho: number): number {
     if (rho === 0) return 0;
+    return this.factorAt(rho);
+  }
+
+  /** Factors I − ρW (unless the kept factor is at ρ) and keeps the factor; returns ln|I − ρW|. */
+  factorAt(rho: number): number {
+    if (rho === this.keptRho) return this.keptLogdet;
+    this.keptRho = NaN; // the panels are overwritten from here on
+    this.panels ??= new Float64Array(this.factorSize);
+    this.keptLogdet = this.factor(rho, this.panels);
+    this.keptRho = rho;
+    return this.keptLogdet;
+  }
+
+  /** x = (I − ρW)⁻¹ b by the factor at ρ (factored first when the kept one is at another ρ). */
+  solve(rho: number, b: Float64Array): Float64Array {
+    return this.solveBlock(rho, b, 1, new Float64Array(b.length));
+  }
+
+  /**
+   * X = (I − ρW)⁻¹ B for r right-hand sides stored interleaved (B[i·r + c] is row i of column c):
+   * each factor entry is read once for all r columns. `work` is scratch of length n·r.
+   */
+  solveBlock(rho: number, b: Float64Array, r: number, x: Float64Array, work: Float64Array = new Float64Array(b.length)): Float64Array {
+    this.factorAt(rho);
+    const panels = this.panels!;
+    const { n, perm, superCount, superFirst, rowPtr, rows } = this.symbolic;
+    const y = work;
+    for (let j = 0; j < n; j++) y.set(b.subarray(perm[j] * r, perm[j] * r + r), j * r);
+    // forward: L z = y (unit diagonal)
+    for (let s = 0; s < superCount; s++) {
+      const f = superFirst[s], k = superFirst[s + 1] - f;
+      const r0 = rowPtr[s], m = rowPtr[s + 1] - r0;
+      const at = this.panelStart[s];
+      for (let c = 1; c < k; c++) {
+        const row = at + c * m, dst = (f + c) * r;
+        for (let p = 0; p < c; p++) {
+          const l = panels[row + p];
+          if (l === 0) continue;
+          const src = (f + p) * r;
+          for (let q = 0; q < r; q++) y[dst + q] -= l * y[src + q];
+        }
+      }
+      const below = at + k * m;
+      for (let t = k; t < m; t++) {
+        const row = below + (t - k) * k, dst = rows[r0 + t] * r;
+        for (let p = 0; p < k; p++) {
+          const l = panels[row + p];
+          if (l === 0) continue;
+          const src = (f + p) * r;
+          for (let q = 0; q < r; q++) y[dst + q] -= l * y[src + q];
+        }
+      }
+    }
+    // backward: U x = z, rows k−1..0 of each supernode, latest supernode first
+    for (let s = superCount - 1; s >= 0; s--) {
+      const f = superFirst[s], k = superFirst[s + 1] - f;
+      const r0 = rowPtr[s], m = rowPtr[s + 1] - r0;
+      const at = this.panelStart[s];
+      for (let c = k - 1; c >= 0; c--) {
+        const row = at + c * m, dst = (f + c) * r;
+        for (let t = c + 1; t < m; t++) {
+          const u = panels[row + t];
+          if (u === 0) continue;
+          const src = rows[r0 + t] * r;
+          for (let q = 0; q < r; q++) y[dst + q] -= u * y[src + q];
+        }
+        const inv = 1 / panels[row + c];
+        for (let q = 0; q < r; q++) y[dst + q] *= inv;
+      }
+    }
+    for (let j = 0; j < n; j++) x.set(y.subarray(j * r, j * r + r), perm[j] * r);
+    return x;
+  }
+
+  /** The numeric multifrontal LU at ρ, stored into `panels`; returns Σ ln u_jj. */
+  private factor(rho: number, panels: Float64Array): number {
     const { superCount, superFirst, rowPtr, rows, superParent, lowPtr, lowRow, lowSource } = this.symbolic;
     const { front: F, stack, pos, map, lower, upper } = this;
     let top = 0;
@@ -104,7 +189,13 @@ export class SparseLuLogDet implements LogDeterminant {
         }
       }
       top = base;
-      logdet += eliminate(F, m, k, f);
+      logdet += eliminateFront(F, m, k, f);
+      // keep the k rows of U (with L's multipliers left of the diagonal), then L's rows below
+      const at = this.panelStart[s];
+      panels.set(F.subarray(0, k * m), at);
+      for (let i = k, to = at + k * m; i < m; i++, to += k) {
+        for (let c = 0, from = i * m; c < k; c++) panels[to + c] = F[from + c];
+      }
       const r = m - k;
       if (r > 0) {
         for (let a = 0; a < r; a++) {
@@ -121,60 +212,41 @@ export class SparseLuLogDet implements LogDeterminant {
 }
 
 /**
- * Right-looking elimination of the leading k columns of the m×m front (row-major, full): the
- * multipliers overwrite column p below the pivot, and rows below are updated by contiguous row
- * operations (each row i: F[i, p+1..m) −= l_ip · F[p, p+1..m)), which leaves the Schur complement
- * in F[k.., k..]. Returns Σ ln u_pp.
+ * The pattern of W + Wᵀ (rows sorted), with W's and Wᵀ's values on it (0 where one has no entry;
+ * repeated entries of W add up): row i merges W's row i with Wᵀ's row i, both sorted by column.
  */
-function eliminate(F: Float64Array, m: number, k: number, firstColumn: number): number {
-  let logdet = 0;
-  for (let p = 0; p < k; p++) {
-    const rp = p * m;
-    const pivot = F[rp + p];
-    if (!(pivot > 0)) throw new PivotError(firstColumn + p);
-    logdet += Math.log(pivot);
-    const inv = 1 / pivot;
-    for (let i = p + 1; i < m; i++) {
-      const ri = i * m;
-      const l = F[ri + p];
-      if (l === 0) continue;
-      const li = l * inv;
-      F[ri + p] = li;
-      for (let j = p + 1; j < m; j++) F[ri + j] -= li * F[rp + j];
-    }
-  }
-  return logdet;
-}
-
-/** The pattern of W + Wᵀ (rows sorted), with W's and Wᵀ's values on it (0 where one has no entry). */
 function symmetricPattern(w: CsrMatrix): { pattern: CsrMatrix; lower: Float64Array; upper: Float64Array } {
   const n = w.n;
-  const rowsOf: Map<number, [number, number]>[] = Array.from({ length: n }, () => new Map());
+  const nnz = w.rowPtr[n];
+  const { colIdx: wCol, values: wVal } = w; // rows sorted by column (CsrMatrix)
+  // Wᵀ by counting; scanning rows in order leaves each of its rows sorted
+  const tPtr = new Int32Array(n + 1);
+  for (let p = 0; p < nnz; p++) tPtr[wCol[p] + 1]++;
+  for (let i = 0; i < n; i++) tPtr[i + 1] += tPtr[i];
+  const tCol = new Int32Array(nnz), tVal = new Float64Array(nnz);
+  const fill = tPtr.slice(0, n);
   for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
-      const j = w.colIdx[p], v = w.values[p];
-      const a = rowsOf[i].get(j) ?? [0, 0];
-      a[0] += v; // W[i, j] at (i, j)
-      rowsOf[i].set(j, a);
-      const b = rowsOf[j].get(i) ?? [0, 0];
-      b[1] += v; // Wᵀ[j, i] = W[i, j] at (j, i)
-      rowsOf[j].set(i, b);
-    }
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) { const q = fill[wCol[p]]++; tCol[q] = i; tVal[q] = wVal[p]; }
   }
   const rowPtr = new Int32Array(n + 1);
-  for (let i = 0; i < n; i++) rowPtr[i + 1] = rowPtr[i] + rowsOf[i].size;
-  const colIdx = new Int32Array(rowPtr[n]);
-  const lower = new Float64Array(rowPtr[n]), upper = new Float64Array(rowPtr[n]);
+  const colIdx = new Int32Array(2 * nnz), lower = new Float64Array(2 * nnz), upper = new Float64Array(2 * nnz);
+  let at = 0;
   for (let i = 0; i < n; i++) {
-    const cols = [...rowsOf[i].keys()].sort((a, b) => a - b);
-    cols.forEach((j, t) => {
-      const at = rowPtr[i] + t;
-      const [wij, wji] = rowsOf[i].get(j)!;
-      colIdx[at] = j;
-      lower[at] = wij;
-      upper[at] = wji;
-    });
+    let p = w.rowPtr[i], q = tPtr[i];
+    const pEnd = w.rowPtr[i + 1], qEnd = tPtr[i + 1];
+    const rowStart = at;
+    while (p < pEnd || q < qEnd) {
+      const j = q >= qEnd || (p < pEnd && wCol[p] <= tCol[q]) ? wCol[p] : tCol[q];
+      if (at === rowStart || colIdx[at - 1] !== j) { colIdx[at] = j; lower[at] = 0; upper[at] = 0; at++; }
+      if (p < pEnd && wCol[p] === j) lower[at - 1] += wVal[p++];
+      else upper[at - 1] += tVal[q++];
+    }
+    rowPtr[i + 1] = at;
   }
   // the pattern's values are never read by the symbolic analysis beyond its positions
-  return { pattern: { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) }, lower, upper };
+  return {
+    pattern: { n, rowPtr, colIdx: colIdx.slice(0, at), values: new Float64Array(at).fill(1) },
+    lower: lower.slice(0, at),
+    upper: upper.slice(0, at),
+  };
 }

@@ -7,7 +7,8 @@
  * tr(I − ρW)⁻¹ at the impact draws and for long power series.
  * Without one (e.g. k-nearest neighbours): exact dense LU per evaluation up to 1,500 areas, the
  * exact sparse LU above when the rows of W sum to one, else the Monte Carlo series log-determinant
- * with a stated error bound; range from the spectral radius, traces by iterative solves.
+ * with a stated error bound; range from the spectral radius, traces by solves with the sparse LU
+ * (or iterative ones where there is none).
  */
 import type { CsrMatrix } from '../csr.js';
 import type { WeightsAlgebra } from '../algebra.js';
@@ -132,15 +133,16 @@ export const DENSE_LU_LIMIT = 1500;
  * W without a symmetric form: exact dense LU per evaluation up to 1,500 areas; above, when the rows
  * of W sum to one, the exact sparse LU while one evaluation costs at most SPARSE_LU_WORK_LIMIT
  * multiply-adds (the Monte Carlo series then only brackets the maximum); otherwise the series with
- * its stated bound. BiCGSTAB traces.
+ * its stated bound. Traces and the reduced form through the sparse LU's kept factor when there is
+ * one, else by BiCGSTAB.
  */
 function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: SparseOptions): SparseWeightsAlgebra {
   const range = spectralRadiusRange(w);
   let exact: LogDeterminant | null = w.n <= DENSE_LU_LIMIT ? new DenseLuLogDet(w) : null;
-  let sparseLu = false;
+  let sparseLu: SparseLuLogDet | null = null;
   if (!exact && isRowStochastic(w)) {
     const lu = new SparseLuLogDet(w, { coordinates: opts.coordinates });
-    if (lu.work <= SPARSE_LU_WORK_LIMIT) { exact = lu; sparseLu = true; }
+    if (lu.work <= SPARSE_LU_WORK_LIMIT) exact = sparseLu = lu;
   }
   // beside the sparse LU the series only brackets the maximum, which the exact evaluations then
   // polish: 8 probes do (the 32 that make it the log-determinant itself took 17 s at 90,000 areas)
@@ -148,7 +150,7 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
   const logdet: LogDeterminant = exact ?? series;
   // above 20,000 areas 16 probes, as with the Cholesky factor (the standard errors are reported)
   const probes = opts.probes ?? (w.n > 20000 ? 16 : 48);
-  const tracer = new GeneralTraces(w, seed, probes);
+  const tracer = new GeneralTraces(w, { seed, probes, ...(sparseLu ? { direct: sparseLu } : {}) });
   const powerCache = new Map<number, Float64Array>();
   const powerProbes = probes;
   return {
@@ -160,6 +162,8 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
     cholesky: null,
     ...(exact ? { roughLogdet: series } : {}),
     traces: (rho: number) => tracer.traces(rho),
+    // the reduced form at the estimate through the LU kept from its traces
+    ...(sparseLu ? { solve: (rho: number, b: Float64Array) => sparseLu.solve(rho, b) } : {}),
     powerTraces(count: number): Float64Array {
       let cached = powerCache.get(count);
       if (!cached) {
