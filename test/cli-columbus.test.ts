@@ -1,9 +1,11 @@
 // The command line on the Columbus data (Anselin 1988; test/fixtures/columbus): widely published
 // figures (recalled from memory), the independent numpy/scipy reference in test/golden, identities
 // for impacts, and the project's rules for the readable summary and for input errors.
-import { describe, expect, it } from 'vitest';
-import { existsSync, readFileSync } from 'node:fs';
+import { afterAll, describe, expect, it } from 'vitest';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { openDbf } from 'shapefile';
 import { runCli, ROOT, STACK_LINE } from './helpers/cli.js';
 
 const COLUMBUS = join(ROOT, 'test/fixtures/columbus/columbus.shp');
@@ -84,6 +86,46 @@ describe('spillway fit on the Columbus neighbourhood data (Anselin 1988)', () =>
     // project rule: the readable summary carries the cautions (README, Cautions)
     expect(r.stdout).toMatch(/Plain regression/);
     expect(r.stdout).toMatch(/not proof of cause/);
+  });
+});
+
+describe('a table whose ID column is named differently from the boundary file\'s (--boundary-id)', () => {
+  // the table: the shapefile's own CRIME, INC, HOVAL read by the shapefile package (a general-purpose
+  // reader), keyed by "tract" = POLYID, in reverse order
+  const dir = mkdtempSync(join(tmpdir(), 'spillway-boundary-id-'));
+  const csv = join(dir, 'tracts.csv');
+  const ready = (async () => {
+    const rows: string[] = [];
+    const source = await openDbf(COLUMBUS.replace(/\.shp$/, '.dbf'));
+    for (let r = await source.read(); !r.done; r = await source.read()) {
+      const p = r.value as Record<string, number>;
+      rows.push(`${p.POLYID},${p.CRIME},${p.INC},${p.HOVAL}`);
+    }
+    writeFileSync(csv, ['tract,CRIME,INC,HOVAL', ...rows.reverse()].join('\n') + '\n');
+  })();
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('joins by the named property and gives the same estimates as the boundary file\'s own attributes', async () => {
+    await ready;
+    const own = runCli(['fit', '--boundary', COLUMBUS, '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--models', 'lag', '--json']);
+    const joined = runCli(['fit', '--boundary', COLUMBUS, '--data', csv, '--id', 'tract', '--boundary-id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--models', 'lag', '--json']);
+    expect(joined.stderr).toBe('');
+    const a = JSON.parse(own.stdout), b = JSON.parse(joined.stdout);
+    expect(b.question.boundaryId).toBe('POLYID');
+    expect(b.n).toBe(49);
+    // the row order differs (the table's order is kept), so the search takes another path: the
+    // estimates agree to its tolerance (about 2e-8 on ρ), not bit for bit
+    close(b.lag.rho, a.lag.rho, 7);
+    b.lag.coefficients.forEach((c: { estimate: number }, j: number) => close(c.estimate, a.lag.coefficients[j].estimate, 7));
+  });
+
+  it('without it, the message names the boundary property that holds the table\'s IDs', async () => {
+    await ready;
+    const r = runCli(['fit', '--boundary', COLUMBUS, '--data', csv, '--id', 'tract', '--y', 'CRIME', '--x', 'INC,HOVAL']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/columbus\.shp has no property "tract" to join by/);
+    expect(r.stderr).toMatch(/holds 49 of the 49 IDs in tracts\.csv's "tract": name it as the boundary file's ID/);
+    expect(r.stderr).not.toMatch(STACK_LINE);
   });
 });
 

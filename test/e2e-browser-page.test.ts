@@ -159,6 +159,17 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.locator('section[aria-labelledby="step-2-title"]').screenshot({ path: join(shots, 'browser-page-repeated-id.png') });
   });
 
+  it('finds the IDs under another name in the boundary file and says which property it took', async () => {
+    const renamed = join(out, 'districts-renamed.geojson');
+    writeFileSync(renamed, readFileSync(GEOJSON, 'utf8').replaceAll('"district_id":', '"map_code":'));
+    await page.setInputFiles('#data-file', XLSX);
+    await page.getByText(/"Districts": 150 rows/).waitFor(); // not the CSV of the test before, which also has 150
+    await page.setInputFiles('#boundary-file', renamed);
+    await page.getByText(/150 matched to rows by district_id \(called map_code in the boundary file\)/).waitFor();
+    expect(await page.inputValue('#boundary-id')).toBe('map_code');
+    await page.getByText(/Chosen by itself: the property holding the most of district_id's IDs/).waitFor();
+  });
+
   it('builds neighbours from coordinate columns (the Vell Basin villages, 5 nearest)', async () => {
     const villages = join(ROOT, 'sample-workbooks/vell-basin-villages.xlsx');
     await page.setInputFiles('#data-file', villages);

@@ -60,11 +60,24 @@ describe('joinAreas', () => {
     expect(e2.message).toMatch(/zones\.geojson: IDs appear on more than one feature: a \(features 1, 3\)/);
   });
 
-  it('refuses blank IDs on either side, naming rows and features', async () => {
+  it('refuses blank IDs in the table, naming the row; a feature with a blank ID is left out with a warning when a table is joined, refused when the features are the rows', async () => {
     const layer = await layerOf(['a', null, 'c']);
     const e = joinFailure(() => joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['  '], ['c']], firstRow: 2 }, 'zone'));
     expect(e.message).toMatch(/t\.csv: the ID is blank in row 3/);
-    expect(e.message).toMatch(/zones\.geojson: the ID is blank for feature 2/);
+    expect(e.message).not.toMatch(/blank for feature/);
+    const j = joinAreas(layer, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['c']], firstRow: 2 }, 'zone');
+    expect(j.ids).toEqual(['a', 'c']);
+    expect(j.warnings.join(' ')).toMatch(/1 feature\(s\) of zones\.geojson have a blank ID and are left out: features 2/);
+    expect(joinFailure(() => joinAreas(layer, null, 'zone')).message).toMatch(/zones\.geojson: the ID is blank for feature 2/);
+  });
+
+  it('an ID on two features stops the join only when a table row names it', async () => {
+    const twice = await layerOf(['a', 'b', 'b']);
+    const ok = joinAreas(twice, { sourceName: 't.csv', columns: ['zone'], rows: [['a']], firstRow: 2 }, 'zone');
+    expect(ok.ids).toEqual(['a']);
+    expect(ok.warnings.join(' ')).toMatch(/feature 2 \(b\), feature 3 \(b\)/);
+    const e = joinFailure(() => joinAreas(twice, { sourceName: 't.csv', columns: ['zone'], rows: [['a'], ['b']], firstRow: 2 }, 'zone'));
+    expect(e.message).toMatch(/IDs appear on more than one feature: b \(features 2, 3\)/);
   });
 
   it('refuses matched features without geometry', async () => {

@@ -96,6 +96,12 @@ describe('buildReport', () => {
     expect(get('Log-determinant method')).toBe(result.algebra.logDeterminant);
     expect(get('Engine version')).toBe(result.engineVersion);
     expect(get('Made at')).toBe(result.createdAt);
+    // the boundary file's own ID property is recorded only when it differs from the table's column
+    expect(settings.rows.some((r) => r[0] === 'ID property in the boundary file')).toBe(false);
+    const renamed = fakeResult();
+    renamed.request.boundaryId = 'ward_code';
+    const again = buildReport(renamed).sheets.at(-1)!.blocks.find((b) => b.kind === 'keyValues' && b.title === 'Settings') as Extract<Block, { kind: 'keyValues' }>;
+    expect(again.rows.find((r) => r[0] === 'ID property in the boundary file')?.[1]).toBe('ward_code');
   });
 
   it('writes impacts with one careful sentence per regressor, total = direct + indirect', () => {

@@ -12,6 +12,8 @@ export interface CheckRequest {
   data: NamedBytesLike;
   sheet?: string;
   id: string;
+  /** the boundary file's ID property, when it is named differently from the table's column */
+  boundaryId?: string;
   weights: WeightsSpec;
   transform: WeightsTransform;
   linkIslands?: boolean;
@@ -26,6 +28,8 @@ export interface CheckResult {
   join: JoinReport;
   /** when the join failed, why (the report above says where) */
   joinError?: string;
+  /** when the boundary file has no property named like the ID: its properties holding the table's IDs, best first */
+  idCandidates?: { property: string; matches: number; rows: number }[];
   neighbours?: WeightsSummary & { description: string };
   neighboursError?: EngineError;
   warnings: string[];

@@ -19,7 +19,9 @@ interface State {
   source?: TableSource;
   profile?: TableProfile;
   id?: string;
-  areas: { kind: 'file'; files: BoundaryFile[]; stored?: boolean } | { kind: 'points'; x?: string; y?: string } | null;
+  /** for a boundary file: its ID property when named differently from the table's ID column */
+  areas: { kind: 'file'; files: BoundaryFile[]; stored?: boolean; idProperty?: string; suggested?: { property: string } }
+    | { kind: 'points'; x?: string; y?: string } | null;
   check?: CheckResult;
   method: Method;
   k: number; distance: number; power: number; order: number;
@@ -115,7 +117,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   fileInput.addEventListener('change', async () => {
     const files = [...(fileInput.files ?? [])];
     if (!files.length) return;
-    s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))) };
+    const kept = s.areas?.kind === 'file' ? s.areas.idProperty : undefined;
+    s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))), idProperty: kept };
     drawAreas();
     void refreshCheck();
   });
@@ -146,6 +149,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     return [pointsLayer(s.source.table, s.id, s.areas.x, s.areas.y)];
   }
 
+  /** The boundary file's ID property when it differs from the table's ID column (points carry the table's own IDs). */
+  function boundaryId(): string | undefined {
+    return s.areas?.kind === 'file' && s.areas.idProperty && s.areas.idProperty !== s.id ? s.areas.idProperty : undefined;
+  }
+
   function weightsSpec(): WeightsSpec {
     switch (s.method) {
       case 'queen': case 'rook': return { method: s.method, order: s.order };
@@ -165,9 +173,17 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(areas.found, h('p', { class: 'hint' }, 'Matching the table to the areas…'));
     try {
       const { result } = await engine.call({ op: 'check', check: {
-        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
       } });
       if (serial !== checkSerial) return;
+      // the boundary file names the IDs otherwise: take the property holding most of the table's IDs, once
+      const best = result.idCandidates?.[0];
+      if (best && s.areas?.kind === 'file' && !s.areas.idProperty) {
+        s.areas.idProperty = best.property;
+        s.areas.suggested = best;
+        void refreshCheck();
+        return;
+      }
       s.check = result;
       drawJoin(result);
       drawNeighbours(result);
@@ -188,10 +204,23 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (j.blankRows.length) lines.push(`Rows with no ID: ${some(j.blankRows, (n) => `row ${n}`)}.`);
     if (j.withoutGeometry.length) lines.push(`Matched areas without a shape: ${some(j.withoutGeometry, (g) => `${g.id} (row ${g.row})`)}.`);
     if (j.zeroPaddingSuspects.length) lines.push(`IDs that differ only by leading zeros: ${some(j.zeroPaddingSuspects, (z) => `${z.tableId} / ${z.featureId}`)}. Make them the same in both places.`);
+    const property = boundaryId();
+    const by = property ? `${s.id} (called ${property} in the boundary file)` : s.id;
+    const idChoice: HTMLElement[] = [];
+    if (s.areas?.kind === 'file') {
+      const areasNow = s.areas;
+      const current = areasNow.idProperty ?? s.id;
+      const names = r.propertyNames.includes(current!) ? r.propertyNames : ['', ...r.propertyNames];
+      idChoice.push(select('boundary-id', 'ID in the boundary file', names.map((n) => ({ value: n, text: n || '(choose)' })), r.propertyNames.includes(current!) ? current : '',
+        (v) => { areasNow.idProperty = v || undefined; void refreshCheck(); }));
+      const chosen = areasNow.suggested;
+      if (chosen && chosen.property === areasNow.idProperty) idChoice.push(h('p', { class: 'hint' }, `Chosen by itself: the property holding the most of ${s.id}'s IDs. Change it here if another is meant.`));
+    }
     clear(areas.found,
       h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); `
-        + (r.joinError ? `the rows cannot be matched to them by ${s.id} until the problems below are fixed.` : `${r.matched} matched to rows by ${s.id}.`)),
-      lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
+        + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
+      ...idChoice,
+      lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : r.joinError ? h('span') : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
     for (const w of r.warnings) areas.found.append(message('warning', w));
@@ -265,7 +294,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function setup(): SavedSetup {
     return {
       version: 1, sheet: s.source?.table.sheet, id: s.id, y: s.y, x: [...s.x],
-      areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name) }
+      areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
@@ -287,7 +316,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const onProgress = (f: number, text: string) => { progress.value = Math.round(100 * f); stage.textContent = text; };
     try {
       const { output } = await engine.call({ op: 'run', request: {
-        boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, y: s.y!, x: [...s.x],
+        boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing,
@@ -334,6 +363,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (s.source) useTable(s.source);
     }
     const stored = await host.loadBoundary().catch(() => null);
-    if (stored && !s.areas) { s.areas = { kind: 'file', files: stored, stored: true }; drawAreas(); void refreshCheck(); }
+    if (stored && !s.areas) {
+      s.areas = { kind: 'file', files: stored, stored: true, idProperty: saved?.areas?.kind === 'file' ? saved.areas.idProperty : undefined };
+      drawAreas();
+      void refreshCheck();
+    }
   })();
 }

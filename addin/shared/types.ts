@@ -25,7 +25,7 @@ export interface SavedSetup {
   id?: string;
   y?: string;
   x?: string[];
-  areas?: { kind: 'file'; names: string[]; layer?: string } | { kind: 'points'; xColumn: string; yColumn: string };
+  areas?: { kind: 'file'; names: string[]; layer?: string; idProperty?: string } | { kind: 'points'; xColumn: string; yColumn: string };
   weights?: WeightsSpec;
   transform?: WeightsTransform;
   linkIslands?: boolean;

@@ -4,7 +4,7 @@
  */
 import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError } from '../../src/geo/index.js';
+import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights } from '../../src/weights/index.js';
@@ -42,9 +42,17 @@ async function check(c: CheckRequest): Promise<CheckResult> {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
     coordinateEvidence: layer.coordinateEvidence, warnings: [...layer.warnings],
   };
+  const idProperty = c.boundaryId ?? c.id;
+  if (!layer.propertyNames.includes(idProperty)) {
+    // the boundary file names its IDs otherwise: offer the properties that hold the table's IDs
+    return {
+      ...base, matched: 0, join: emptyJoinReport(), idCandidates: idPropertyCandidates(layer, table, c.id),
+      joinError: `${layer.sourceName} has no property "${idProperty}"; choose the property that holds the areas' IDs.`,
+    };
+  }
   let joined;
   try {
-    joined = joinAreas(layer, table, c.id);
+    joined = joinAreas(layer, table, c.id, { featureIdProperty: c.boundaryId });
   } catch (e) {
     if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
     throw e;

@@ -10,6 +10,7 @@ export interface FitArgs {
   data?: string;
   sheet?: string;
   id: string;
+  boundaryId?: string;
   y: string;
   x: string[];
   weights: WeightsSpec;
@@ -43,6 +44,7 @@ Files
 
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
+  --boundary-id NAME   the boundary file's ID property, when it is named differently from --id
   --y COLUMN           the outcome to explain
   --x COL1,COL2        explanatory columns, comma-separated
   --models LIST        any of ols,lag,error (default: ols,lag,error)
@@ -77,7 +79,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
       allowPositionals: false,
       options: {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
-        id: { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
+        id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, 'include-lower': { type: 'boolean' },
         tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
@@ -114,6 +116,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     data: v.data,
     sheet: v.sheet,
     id: need('id'),
+    boundaryId: v['boundary-id']?.trim() || undefined,
     y: need('y'),
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
     weights: parseWeightsRule(v.weights ?? 'queen', v.order, v['include-lower'] ?? false, v.tolerance),

@@ -43,6 +43,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       data: args.data ? readNamedFile(args.data, 'data') : undefined,
       sheet: args.sheet,
       id: args.id,
+      boundaryId: args.boundaryId,
       y: args.y,
       x: args.x,
       weights: args.weights,

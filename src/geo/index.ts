@@ -2,7 +2,7 @@
 export type { NamedBytes } from './named-bytes.js';
 export { readBoundary, type ReadBoundaryOptions } from './read-boundary.js';
 export { readTable, type ReadTableOptions } from './read-table.js';
-export { joinAreas, JoinError } from './join.js';
+export { joinAreas, JoinError, idPropertyCandidates, emptyJoinReport } from './join.js';
 export { numericColumn } from './numeric-column.js';
 export { subsetAreas, tableFromLayer } from './subset.js';
 export { representativePoints, greatCircleKm, planarDistance, EARTH_RADIUS_KM } from './points.js';

@@ -14,7 +14,8 @@ export class JoinError extends InputError {
   }
 }
 
-function emptyReport(): JoinReport {
+/** A join report with nothing in it (also for screens that show one before a join could run). */
+export function emptyJoinReport(): JoinReport {
   return {
     unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [],
     blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [],
@@ -29,12 +30,19 @@ export function joinAreas(
 ): JoinedAreas {
   const featureProp = opts.featureIdProperty ?? idColumn;
   if (!layer.propertyNames.includes(featureProp)) {
+    let elsewhere = '';
+    if (table && !opts.featureIdProperty) {
+      const best = idPropertyCandidates(layer, table, idColumn)[0];
+      elsewhere = best
+        ? ` Its property "${best.property}" holds ${best.matches} of the ${best.rows} IDs in ${table.sourceName}'s "${idColumn}": name it as the boundary file's ID to join by it.`
+        : ` If it holds the same IDs under another name, name that property as the boundary file's ID.`;
+    }
     throw new InputError(
-      `${layer.sourceName} has no property "${featureProp}" to join by; its properties are ${listSome(layer.propertyNames.map((n) => `"${n}"`), 30)}.`,
+      `${layer.sourceName} has no property "${featureProp}" to join by; its properties are ${listSome(layer.propertyNames.map((n) => `"${n}"`), 30)}.${elsewhere}`,
       { file: layer.sourceName, column: featureProp },
     );
   }
-  const report = emptyReport();
+  const report = emptyJoinReport();
   const areas = layer.areas;
   const featureIds = areas.map((a) => idText(a.properties[featureProp]));
   const byFeatureId = new Map<string, number[]>();
@@ -50,6 +58,8 @@ export function joinAreas(
   let rows: number[];
   let featureIndex: number[];
   let tableIndex: number[] | null = null;
+  /** the IDs the table asks for (null without a table: then every feature is a row) */
+  let tableIds: Map<string, number[]> | null = null;
   let rowWord = 'feature';
   if (table) {
     const col = table.columns.indexOf(idColumn);
@@ -68,6 +78,7 @@ export function joinAreas(
     }
     const rowNo = (i: number) => table.rowNumbers?.[i] ?? table.firstRow + i;
     const byRowId = new Map<string, number[]>();
+    tableIds = byRowId;
     table.rows.forEach((r, i) => {
       const id = idText(r[col]);
       if (id === null) report.blankRows.push(rowNo(i));
@@ -115,7 +126,7 @@ export function joinAreas(
     if (areas[f].geometry === null) report.withoutGeometry.push({ id: ids[k], row: rows[k], feature: areas[f].feature });
   });
 
-  const problems = fatalProblems(report, layer.sourceName, table?.sourceName ?? null, rowWord);
+  const problems = fatalProblems(report, layer.sourceName, table?.sourceName ?? null, rowWord, tableIds);
   if (problems.length > 0) {
     throw new JoinError(`Joining by "${idColumn}" failed:\n- ${problems.join('\n- ')}`, report, table?.sourceName ?? layer.sourceName);
   }
@@ -128,6 +139,9 @@ export function joinAreas(
     );
   }
   if (report.zeroPaddingSuspects.length > 0) warnings.push(paddingMessage(report));
+  if (table && report.blankFeatures.length > 0) {
+    warnings.push(`${report.blankFeatures.length} feature(s) of ${layer.sourceName} have a blank ID and are left out: features ${listSome(report.blankFeatures)}.`);
+  }
 
   const columnNames = table ? [...table.columns] : [];
   for (const n of layer.propertyNames) if (!columnNames.includes(n)) columnNames.push(n);
@@ -156,6 +170,24 @@ export function joinAreas(
   };
 }
 
+/**
+ * Properties of the boundary file that could hold the table's IDs: for each, how many of the
+ * table's distinct IDs in `idColumn` it holds, best first (only those holding at least one).
+ */
+export function idPropertyCandidates(layer: AreaLayer, table: DataTable, idColumn: string): { property: string; matches: number; rows: number }[] {
+  const col = table.columns.indexOf(idColumn);
+  if (col < 0) return [];
+  const wanted = new Set<string>();
+  for (const r of table.rows) { const id = idText(r[col]); if (id !== null) wanted.add(id); }
+  const out: { property: string; matches: number; rows: number }[] = [];
+  for (const property of layer.propertyNames) {
+    const held = new Set<string>();
+    for (const a of layer.areas) { const id = idText(a.properties[property]); if (id !== null && wanted.has(id)) held.add(id); }
+    if (held.size > 0) out.push({ property, matches: held.size, rows: wanted.size });
+  }
+  return out.sort((a, b) => b.matches - a.matches);
+}
+
 function paddingSuspects(rowIds: string[], featureIds: string[]): JoinReport['zeroPaddingSuspects'] {
   const byUnpadded = new Map<string, string[]>();
   for (const id of featureIds) {
@@ -178,18 +210,24 @@ function paddingMessage(report: JoinReport): string {
   );
 }
 
-function fatalProblems(report: JoinReport, layerName: string, tableName: string | null, rowWord: string): string[] {
+/**
+ * What stops the join. With a table, features the table does not ask for cannot stop it: a blank
+ * ID there, or an ID on two features that no row names, only leaves those features out (a
+ * national boundary file read for one region's table, water bodies without an ID).
+ */
+function fatalProblems(report: JoinReport, layerName: string, tableName: string | null, rowWord: string, tableIds: Map<string, number[]> | null): string[] {
   const p: string[] = [];
   const rowsOf = (list: number[]) => `${rowWord}${list.length > 1 ? 's' : ''} ${listSome(list)}`;
   if (tableName && report.blankRows.length) p.push(`${tableName}: the ID is blank in ${rowsOf(report.blankRows)}.`);
-  if (report.blankFeatures.length) {
+  if (!tableIds && report.blankFeatures.length) {
     p.push(`${layerName}: the ID is blank for feature${report.blankFeatures.length > 1 ? 's' : ''} ${listSome(report.blankFeatures)}.`);
   }
   if (tableName && report.duplicateRows.length) {
     p.push(`${tableName}: IDs appear more than once: ${listSome(report.duplicateRows.map((d) => `${d.id} (${rowsOf(d.rows)})`))}.`);
   }
-  if (report.duplicateFeatures.length) {
-    p.push(`${layerName}: IDs appear on more than one feature: ${listSome(report.duplicateFeatures.map((d) => `${d.id} (features ${d.features.join(', ')})`))}. ` +
+  const clashing = tableIds ? report.duplicateFeatures.filter((d) => tableIds.has(d.id)) : report.duplicateFeatures;
+  if (clashing.length) {
+    p.push(`${layerName}: IDs appear on more than one feature: ${listSome(clashing.map((d) => `${d.id} (features ${d.features.join(', ')})`))}. ` +
       'Merge the parts into one multipolygon per ID, or join by another column.');
   }
   if (tableName && report.unmatchedRows.length) {

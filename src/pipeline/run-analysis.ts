@@ -50,7 +50,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   }
   lap('read');
   progress(0.1, 'Joining the table to the areas');
-  const joinedAll = joinAreas(layer, table, request.id);
+  const boundaryId = request.boundaryId?.trim() || undefined;
+  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
   const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x], request.dropMissing ?? false);
   lap('join');
 
@@ -144,7 +145,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     engineVersion: ENGINE_VERSION,
     createdAt: new Date().toISOString(),
     request: {
-      id: request.id, y: request.y, x: [...request.x], sheet: request.sheet,
+      id: request.id, ...(boundaryId ? { boundaryId } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
       weights: request.edgeList ? { method: 'edge-list', source: request.edgeList.name } : request.weights,
       transform: w.transform, models: [...models] as AnalysisResult['request']['models'],
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,

@@ -11,7 +11,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     engineVersion: r.engineVersion,
     createdAt: r.createdAt,
     n: r.n,
-    question: { y: r.request.y, x: r.request.x, id: r.request.id },
+    question: { y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}) },
     coordinates: { kind: r.coordinates, evidence: r.coordinateEvidence },
     inputs: r.inputs,
     droppedRows: r.droppedRows,

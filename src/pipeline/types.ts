@@ -24,7 +24,10 @@ export interface AnalysisRequest {
   /** Data table (CSV or .xlsx); when absent the boundary file's own attributes are used. */
   data?: NamedBytesLike;
   sheet?: string;
+  /** The column identifying each area in the table (and, unless `boundaryId` says otherwise, in the boundary file). */
   id: string;
+  /** The boundary file's property holding the same IDs, when it is named differently from the table's column. */
+  boundaryId?: string;
   y: string;
   x: string[];
   weights: WeightsSpec;
@@ -59,7 +62,7 @@ export interface AnalysisResult {
   engineVersion: string;
   createdAt: string;
   request: {
-    id: string; y: string; x: string[]; sheet?: string;
+    id: string; boundaryId?: string; y: string; x: string[]; sheet?: string;
     weights: WeightsSpec | { method: 'edge-list'; source: string };
     transform: WeightsTransform | 'as given';
     models: ModelName[]; dropMissing: boolean; robust: boolean;

@@ -41,6 +41,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
       rows: [
         kv('Sheet read', r.sheet ?? '(first sheet, or not a workbook)'),
         kv('ID column', r.id),
+        ...(r.boundaryId ? [kv('ID property in the boundary file', r.boundaryId)] : []),
         kv('Outcome column', r.y),
         kv('Explanatory columns', r.x.join(', ')),
         kv('Neighbour definition asked for', describeWeightsRequest(r.weights)),

@@ -22,7 +22,7 @@ export const tableCases: BadInput[] = [
   {
     group: I, name: 'blank ID on a feature',
     files: () => ({ boundary: [gridFile('districts.geojson', (fc) => { fc.features[2].properties.code = '  '; })] }),
-    expect: ['the ID is blank for feature 3'],
+    expect: ['the ID is blank in feature 3'],
   },
   { group: I, name: 'ID repeated in the table', files: () => withTable(gridCsv('table.csv', (r) => { r[4][0] = 'D03'; })), expect: ['IDs appear more than once: D03 (rows 4, 6)'] },
   {
