@@ -68,6 +68,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
 
     await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    await page.click('#compare');
     // readable at narrow width: nothing forces sideways scrolling at 320 px
     await page.setViewportSize({ width: 320, height: 900 });
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(320);
@@ -94,6 +95,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(names.slice(0, 2)).toEqual(['Districts', 'About this data']); // the analyst's own sheets come first, unchanged
     expect(names).toContain('Summary');
     expect(names).toContain('Neighbours');
+    expect(names).toContain('Neighbour definitions compared');
     const lagSheet = wb.worksheets.find((w) => /lag/i.test(w.name));
     expect(lagSheet, names.join(', ')).toBeDefined();
     // ρ read from the lag sheet: the row whose label names ρ (rho)

@@ -27,6 +27,8 @@ interface State {
   k: number; distance: number; power: number; order: number;
   transform: WeightsTransform;
   linkIslands: boolean;
+  /** refit under the usual alternative neighbour definitions, for a comparison sheet */
+  compare: boolean;
   y?: string;
   x: Set<string>;
   lag: boolean; error: boolean; robust: boolean; dropMissing: boolean;
@@ -44,7 +46,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkIslands: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkIslands: false, compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
   };
   let saved: SavedSetup | null = null;
@@ -241,6 +243,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       ...extra,
       select('transform', 'Weights', [{ value: 'row', text: 'Each area’s weights sum to 1' }, { value: 'binary', text: 'Every link weighs 1' }], s.transform, (v) => { s.transform = v as WeightsTransform; void refreshCheck(); }),
       checkbox('link-islands', 'Link areas without neighbours to the nearest area', s.linkIslands, (v) => { s.linkIslands = v; void refreshCheck(); }),
+      checkbox('compare', 'Also fit under a few other neighbour definitions, side by side', s.compare, (v) => { s.compare = v; }),
     );
   }
   drawNeighbourControls();
@@ -296,7 +299,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       version: 1, sheet: s.source?.table.sheet, id: s.id, y: s.y, x: [...s.x],
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
-      weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+      weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands, compare: s.compare,
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
     };
   }
@@ -319,7 +322,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
-        robust: s.robust, dropMissing: s.dropMissing,
+        robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
       } }, onProgress);
       onProgress(0.94, 'Writing the results');
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
@@ -352,6 +355,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       }
       s.transform = saved.transform ?? s.transform;
       s.linkIslands = saved.linkIslands ?? false;
+      s.compare = saved.compare ?? false;
       s.lag = saved.models?.includes('lag') ?? true;
       s.error = saved.models?.includes('error') ?? false;
       s.robust = saved.robust ?? false;

@@ -29,6 +29,8 @@ export interface SavedSetup {
   weights?: WeightsSpec;
   transform?: WeightsTransform;
   linkIslands?: boolean;
+  /** also fit under the usual alternative neighbour definitions */
+  compare?: boolean;
   models?: ('lag' | 'error')[];
   robust?: boolean;
   dropMissing?: boolean;

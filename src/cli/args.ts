@@ -15,6 +15,7 @@ export interface FitArgs {
   x: string[];
   weights: WeightsSpec;
   edgeList?: string;
+  compare?: WeightsSpec[] | 'suggested';
   transform: WeightsTransform;
   linkIslands: boolean;
   models: ModelName[];
@@ -60,6 +61,8 @@ Neighbours
   --link-islands       link each area without neighbours to its nearest area
   --neighbours FILE    read neighbours from a CSV edge list (origin, neighbour, weight) instead
   --transform T        row (default) or binary
+  --compare RULES      also fit under other neighbour rules, comma-separated (e.g. rook,knn:6),
+                       or "suggested"; the results sit side by side
 
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
@@ -81,7 +84,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, 'include-lower': { type: 'boolean' },
-        tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' },
+        tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
@@ -121,6 +124,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
     weights: parseWeightsRule(v.weights ?? 'queen', v.order, v['include-lower'] ?? false, v.tolerance),
     edgeList: v.neighbours,
+    compare: parseCompare(v.compare, v.tolerance),
     transform,
     linkIslands: v['link-islands'] ?? false,
     models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
@@ -135,6 +139,22 @@ export function parseFitArgs(argv: string[]): FitArgs {
     perArea: v['per-area'] ?? false,
     out: v.out,
   };
+}
+
+/** --compare: comma-separated rules (contiguity ones take --tolerance), or "suggested". */
+function parseCompare(text: string | undefined, tolerance: string | undefined): FitArgs['compare'] {
+  if (text === undefined) return undefined;
+  if (text.trim().toLowerCase() === 'suggested') return 'suggested';
+  const rules = text.split(',').map((r) => r.trim()).filter(Boolean);
+  if (rules.length === 0) throw new InputError('--compare needs neighbour rules, e.g. --compare rook,knn:6, or "suggested".');
+  return rules.map((rule) => {
+    try {
+      return parseWeightsRule(rule, undefined, false, tolerance);
+    } catch (e) {
+      if (e instanceof InputError) throw new InputError(`--compare: ${e.message.replace(/^--weights: /, '')}`);
+      throw e;
+    }
+  });
 }
 
 /** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */

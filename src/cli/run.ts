@@ -48,6 +48,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       x: args.x,
       weights: args.weights,
       edgeList: args.edgeList ? readNamedFile(args.edgeList, 'neighbour list') : undefined,
+      compareWeights: args.compare,
       transform: args.transform,
       linkIslands: args.linkIslands,
       models: args.models,

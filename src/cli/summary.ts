@@ -38,6 +38,19 @@ export function formatSummary(r: AnalysisResult): string {
     lines.push('');
   }
   if (r.error) lines.push(...spatialBlock('Spatial error model (maximum likelihood): spatially patterned omitted causes', r.error, 'lambda'), '');
+  if (r.comparison) {
+    lines.push('The same question under other neighbour definitions');
+    const pick = (f: { parameter: number } | undefined) => (f ? fmt(f.parameter, 4) : '');
+    lines.push(...table(['definition', "Moran's I p", 'suggested', ...(r.lag ? ['ρ'] : []), ...(r.error ? ['λ'] : [])],
+      r.comparison.map((c) => [
+        `${c.description}${c.asRun ? ' (this run)' : ''}`,
+        c.failed ? 'could not be built' : p(c.moran.p),
+        c.suggestion ? SUGGESTION[c.suggestion] : '',
+        ...(r.lag ? [pick(c.lag)] : []), ...(r.error ? [pick(c.error)] : []),
+      ])));
+    for (const c of r.comparison) if (c.failed) lines.push(`  ${c.description}: ${c.failed}`);
+    lines.push('');
+  }
   lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
   if (r.warnings.length) {
     lines.push('', 'Warnings');
@@ -46,6 +59,8 @@ export function formatSummary(r: AnalysisResult): string {
   lines.push('', CAUTION);
   return lines.join('\n');
 }
+
+const SUGGESTION = { lag: 'spatial lag', error: 'spatial error', ols: 'no spatial model', either: 'either spatial model' } as const;
 
 export const CAUTION =
   'Read with care: these are associations between areas, not proof of cause; what holds for areas need not hold for the ' +

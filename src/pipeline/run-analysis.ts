@@ -2,7 +2,8 @@ import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoint
 import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
-import type { SpatialWeights } from '../weights/types.js';
+import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
+import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import {
   fitOls, fitSpatialLag, fitSpatialError, lagImpacts, recommendModel,
@@ -13,7 +14,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
-import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord } from './types.js';
+import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
 const DEFAULT_SEED = 20261201;
 export const PERMUTATION_AREA_LIMIT = 10_000;
@@ -110,6 +111,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   let lag: AnalysisResult['lag'];
   let error: AnalysisResult['error'];
   let impacts: AnalysisResult['impacts'];
+  let comparison: AnalysisResult['comparison'];
   try {
     if (models.includes('lag')) {
       progress(0.5, 'Fitting the spatial lag model');
@@ -128,6 +130,19 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     }
   } finally {
     algebra.dispose?.();
+  }
+  const asked = request.compareWeights === 'suggested'
+    ? suggestedAlternatives(w.spec, joined.geometries.some((g) => g.kind === 'polygon'))
+    : request.compareWeights ?? [];
+  const alternatives = asked.filter((spec) => w.spec.method === 'edge-list' || !sameSpec(spec, w.spec as WeightsSpec));
+  if (alternatives.length > 0) {
+    progress(0.9, 'Refitting under the other neighbour definitions');
+    comparison = compareWeights(
+      { weights: { description: w.description, summary } as AnalysisResult['weights'], ols: { ...ols, moran, lm, recommendation }, lag, error },
+      alternatives,
+      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkIslands: request.linkIslands, seed, method: request.algebra, helper: runtime.helper },
+    );
+    lap('comparison');
   }
 
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
@@ -150,6 +165,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       transform: w.transform, models: [...models] as AnalysisResult['request']['models'],
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
       seed, impactDraws, permutations,
+      ...(alternatives.length ? { compareWeights: alternatives } : {}),
     },
     inputs,
     n: joined.ids.length,
@@ -184,6 +200,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     error,
     impacts,
     moranY,
+    ...(comparison ? { comparison } : {}),
     warnings,
     timings,
   };
@@ -209,6 +226,9 @@ function validateRequest(r: AnalysisRequest): void {
   for (const c of [r.y, ...r.x]) {
     if (seen.has(c)) throw new InputError(`Column "${c}" is named twice among the outcome and explanatory columns.`, { column: c });
     seen.add(c);
+  }
+  if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
+    throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }
   for (const m of r.models) {
     if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`Unknown model "${m}": choose from ols, lag, error.`);

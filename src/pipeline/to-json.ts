@@ -1,5 +1,5 @@
 import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
-import type { AnalysisResult } from './types.js';
+import type { AnalysisResult, ComparedFit } from './types.js';
 
 /**
  * The documented JSON report of the command line (`spillway fit --json`): plain numbers only,
@@ -68,6 +68,16 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
   if (r.impacts) {
     out.impacts = r.impacts.impacts.map((i) => ({ ...i }));
     out.impactsMethod = { draws: r.impacts.draws, seed: r.impacts.seed, method: r.impacts.method };
+  }
+  if (r.comparison) {
+    const fit = (f: ComparedFit | undefined, key: 'rho' | 'lambda') => f && {
+      [key]: f.parameter, [`${key}Se`]: f.se, [`${key}P`]: f.p, logLik: f.logLik, aic: f.aic, converged: f.converged,
+    };
+    out.comparison = r.comparison.map((c) => ({
+      description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, islands: c.islands, components: c.components,
+      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
+      ...(c.failed ? { failed: c.failed } : {}),
+    }));
   }
   if (opts.perArea) {
     out.areas = r.ids.map((id, i) => ({

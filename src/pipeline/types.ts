@@ -31,6 +31,11 @@ export interface AnalysisRequest {
   y: string;
   x: string[];
   weights: WeightsSpec;
+  /**
+   * Other neighbour definitions under which to refit the residual tests and spatial models, side by
+   * side (at most 6); 'suggested' picks the usual alternatives to the run's own definition.
+   */
+  compareWeights?: WeightsSpec[] | 'suggested';
   /** An edge list that replaces `weights` when given (origin, neighbour, weight). */
   edgeList?: NamedBytesLike;
   transform: WeightsTransform;
@@ -67,6 +72,7 @@ export interface AnalysisResult {
     transform: WeightsTransform | 'as given';
     models: ModelName[]; dropMissing: boolean; robust: boolean;
     seed: number; impactDraws: number; permutations: number;
+    compareWeights?: WeightsSpec[];
   };
   inputs: InputRecord[];
   n: number;
@@ -101,8 +107,40 @@ export interface AnalysisResult {
   impacts?: ImpactsResult;
   /** Moran's I of y itself (randomisation and permutation) for the scatter plot and overview. */
   moranY: MoranTest & { permutationP?: number; permutations?: number };
+  /** the run's neighbour definition and each asked-for alternative, when alternatives were asked for */
+  comparison?: WeightsComparison[];
   warnings: string[];
   timings: Record<string, number>;
 }
 
 export type { Coefficient, Convergence, TestResult };
+
+/** A spatial model's headline figures under one neighbour definition. */
+export interface ComparedFit {
+  parameter: number;
+  se: number;
+  p: number;
+  logLik: number;
+  aic: number;
+  /** converged inside the admissible range */
+  converged: boolean;
+}
+
+/** One neighbour definition in the comparison (NaN where it could not be built; `failed` says why). */
+export interface WeightsComparison {
+  description: string;
+  /** the run's own definition (the first row) */
+  asRun: boolean;
+  links: number;
+  meanNeighbours: number;
+  islands: number;
+  components: number;
+  /** Moran's I of the plain regression's residuals under this definition */
+  moran: { I: number; z: number; p: number };
+  /** p-values of the Lagrange-multiplier tests */
+  lmP: { error: number; lag: number; robustError: number; robustLag: number };
+  suggestion?: Recommendation['choice'];
+  lag?: ComparedFit;
+  error?: ComparedFit;
+  failed?: string;
+}

@@ -12,6 +12,14 @@ export const MODEL_LABEL: Record<ModelName, string> = {
   error: 'Spatial error model',
 };
 
+/** The suggested model in words. */
+export const CHOICE_LABEL = {
+  lag: MODEL_LABEL.lag,
+  error: MODEL_LABEL.error,
+  ols: `${MODEL_LABEL.ols} (no spatial model needed)`,
+  either: 'Either spatial model (the tests do not separate them)',
+} as const;
+
 /** Our evidence marks (no star codes): defined in the note under each coefficient table. */
 export const STRONG_MARK = '●';
 export const SOME_MARK = '○';

@@ -7,6 +7,7 @@ import { diagnosticsBlocks } from './diagnostics.js';
 import { impactsBlocks } from './impacts.js';
 import { areasBlocks } from './areas.js';
 import { neighboursBlocks } from './neighbours.js';
+import { comparisonBlocks } from './comparison.js';
 import { recordBlocks } from './record.js';
 import { layoutBlocks } from './layout.js';
 import { overviewPictures } from './pictures-for-report.js';
@@ -34,6 +35,8 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
   sheets.push({ name: 'By area', role: 'areas', blocks: areasBlocks(result), freezeHeader: true });
   sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
+  const compared = comparisonBlocks(result);
+  if (compared.length) sheets.push({ name: 'Neighbour definitions compared', role: 'comparison', blocks: compared });
   sheets.push({ name: 'How this was made', role: 'record', blocks: recordBlocks(result) });
   const reminder = shortCaution(result);
   for (const sheet of sheets) {

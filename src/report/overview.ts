@@ -1,16 +1,9 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { MODEL_LABEL, num, question } from './format.js';
+import { CHOICE_LABEL, MODEL_LABEL, num, question } from './format.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
-
-const CHOICE_LABEL = {
-  lag: MODEL_LABEL.lag,
-  error: MODEL_LABEL.error,
-  ols: `${MODEL_LABEL.ols} (no spatial model needed)`,
-  either: 'Either spatial model (the tests do not separate them)',
-} as const;
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   const o = result.ols;

@@ -1,0 +1,94 @@
+import type { AnalysisResult, ComparedFit, WeightsComparison } from '../pipeline/types.js';
+import type { Block, Cell, TableColumn } from './types.js';
+import { CHOICE_LABEL, MODEL_LABEL, num, say, sayList } from './format.js';
+
+/** The run's question refitted under other neighbour definitions, side by side. */
+export function comparisonBlocks(result: AnalysisResult): Block[] {
+  const rows = result.comparison;
+  if (!rows || rows.length < 2) return [];
+  const name = (r: WeightsComparison) => (r.asRun ? `${r.description} (this run)` : r.description);
+  const built = rows.filter((r) => !r.failed);
+  const blocks: Block[] = [
+    { kind: 'title', text: 'The same question under other neighbour definitions' },
+    {
+      kind: 'paragraph', style: 'note',
+      text: 'Each row keeps the data, the explanatory columns and the weights transform of this run and changes only which areas count as neighbours. ' +
+        `The plain regression does not depend on the neighbours (its AIC is ${say(result.ols.aic)} under every definition); its residual tests and the spatial models do.`,
+    },
+    {
+      kind: 'table', title: 'Neighbours and the tests on the plain regression\'s residuals',
+      columns: [
+        { header: 'Neighbour definition', format: 'text', width: 34 },
+        { header: 'Links', format: 'integer', width: 9 },
+        { header: 'Average neighbours', format: 'decimal2', width: 11 },
+        { header: 'Areas without neighbours', format: 'integer', width: 11 },
+        { header: 'Moran\'s I of residuals', format: 'decimal4', width: 11 },
+        { header: 'Its z', format: 'decimal2', width: 9 },
+        { header: 'Its p-value', format: 'pvalue', width: 10 },
+        { header: 'LM error: p', format: 'pvalue', width: 10 },
+        { header: 'LM lag: p', format: 'pvalue', width: 10 },
+        { header: 'Robust LM error: p', format: 'pvalue', width: 10 },
+        { header: 'Robust LM lag: p', format: 'pvalue', width: 10 },
+        { header: 'Suggested model', format: 'text', width: 30 },
+      ],
+      rows: rows.map((r): Cell[] => [
+        name(r), num(r.links), num(r.meanNeighbours), num(r.islands), num(r.moran.I), num(r.moran.z), num(r.moran.p),
+        num(r.lmP.error), num(r.lmP.lag), num(r.lmP.robustError), num(r.lmP.robustLag),
+        r.failed ? 'could not be built (see below)' : r.suggestion ? CHOICE_LABEL[r.suggestion] : null,
+      ]),
+    },
+  ];
+  const hasLag = built.some((r) => r.lag), hasError = built.some((r) => r.error);
+  if (hasLag || hasError) {
+    const fitCells = (f: ComparedFit | undefined): Cell[] => (f ? [num(f.parameter), num(f.se), num(f.p), num(f.aic)] : [null, null, null, null]);
+    const columns: TableColumn[] = [{ header: 'Neighbour definition', format: 'text', width: 34 }];
+    if (hasLag) columns.push(...fitColumns('ρ'));
+    if (hasError) columns.push(...fitColumns('λ'));
+    columns.push({ header: 'Note', format: 'text', width: 30 });
+    blocks.push({
+      kind: 'table', title: 'The spatial models under each definition',
+      columns,
+      rows: rows.map((r): Cell[] => [
+        name(r), ...(hasLag ? fitCells(r.lag) : []), ...(hasError ? fitCells(r.error) : []),
+        [r.lag, r.error].some((f) => f && !f.converged) ? 'a search stopped early or at a bound' : '',
+      ]),
+      note: `ρ belongs to the ${MODEL_LABEL.lag.toLowerCase()}, λ to the ${MODEL_LABEL.error.toLowerCase()}. AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
+    });
+  }
+  blocks.push({ kind: 'paragraph', style: 'interpretation', text: reading(rows) });
+  for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${r.description}: ${r.failed}` });
+  blocks.push({
+    kind: 'paragraph', style: 'caution',
+    text: 'Choose the neighbour definition for a reason about the places — shared borders, travel, distance that matters for the outcome — and not for the result it gives. ' +
+      'Where the answers change with the definition, report that they do.',
+  });
+  return blocks;
+}
+
+function fitColumns(symbol: string): TableColumn[] {
+  return [
+    { header: symbol, format: 'decimal4', width: 10 },
+    { header: `${symbol}: standard error`, format: 'decimal4', width: 10 },
+    { header: `${symbol}: p-value`, format: 'pvalue', width: 10 },
+    { header: `AIC with ${symbol}`, format: 'decimal4', width: 11 },
+  ];
+}
+
+/** One paragraph on how much the answers move across the definitions. */
+function reading(rows: WeightsComparison[]): string {
+  const built = rows.filter((r) => !r.failed);
+  const parts: string[] = [];
+  const spread = (pick: (r: WeightsComparison) => ComparedFit | undefined, symbol: string) => {
+    const v = built.map(pick).filter((f): f is ComparedFit => !!f).map((f) => f.parameter);
+    if (v.length > 1) parts.push(`${symbol} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
+  };
+  spread((r) => r.lag, 'ρ');
+  spread((r) => r.error, 'λ');
+  const significant = built.filter((r) => r.moran.p < 0.05).length;
+  parts.push(`Moran's I of the residuals is significant at the 5% level under ${significant} of them`);
+  const suggestions = [...new Set(built.map((r) => r.suggestion).filter((s) => s !== undefined))];
+  const suggested = suggestions.length === 1
+    ? `The suggested model is the same under every definition: ${CHOICE_LABEL[suggestions[0]!].toLowerCase()}.`
+    : `The suggested model changes with the definition (${sayList(suggestions.map((s) => CHOICE_LABEL[s!].toLowerCase()))}), so the choice between the spatial models rests partly on the neighbours chosen.`;
+  return `Across the ${built.length} definitions, ${sayList(parts)}. ${suggested}`;
+}

@@ -1,0 +1,116 @@
+/**
+ * The same question under other neighbour definitions. What the checks rest on:
+ * - the independent numpy/scipy reference (test/golden/columbus.json, scripts/reference/columbus.py)
+ *   for the Columbus data (Anselin 1988) under queen and 4-nearest-neighbour weights;
+ * - the reference's note that rook contiguity by shared segment gives 200 links on Columbus;
+ * - identities: the first row is the run itself; a definition refitted alone gives the same figures.
+ */
+import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { runAnalysis } from '../src/pipeline/index.js';
+import type { AnalysisRequest } from '../src/pipeline/types.js';
+import { suggestedAlternatives } from '../src/pipeline/compare-weights.js';
+import { buildReport } from '../src/report/index.js';
+import { readWorkbook, writeResultsWorkbook } from '../src/workbook/index.js';
+import { resultToJson } from '../src/pipeline/to-json.js';
+import { readGolden } from './helpers/columbus.js';
+import { failure } from './helpers/input-error.js';
+import { ROOT, runCli, STACK_LINE } from './helpers/cli.js';
+
+const dir = join(ROOT, 'test/fixtures/columbus');
+const boundary = ['columbus.shp', 'columbus.dbf', 'columbus.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(dir, name))) }));
+// Columbus coordinates are planar units that happen to lie within longitude/latitude ranges; the
+// reference measures straight-line distances, so the run says they are projected
+const request = (extra: Partial<AnalysisRequest> = {}): AnalysisRequest => ({
+  boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+  models: ['ols', 'lag', 'error'], permutations: 0, impactDraws: 50, ...extra,
+});
+const golden = readGolden();
+const sig6 = (a: number, b: number) => expect(Math.abs(a - b) / Math.max(Math.abs(b), 1e-300), `${a} vs ${b}`).toBeLessThan(5e-6);
+
+describe('neighbour definitions compared (Columbus)', async () => {
+  const result = await runAnalysis(request({ compareWeights: [{ method: 'knn', k: 4 }, { method: 'rook' }, { method: 'queen' }] }));
+  const rows = result.comparison!;
+
+  it('the first row is the run itself; the run\'s own definition asked again is not repeated', () => {
+    expect(rows.map((r) => r.asRun)).toEqual([true, false, false]);
+    expect(rows[0].lag!.parameter).toBe(result.lag!.parameter);
+    expect(rows[0].error!.parameter).toBe(result.error!.parameter);
+    expect(rows[0].moran.I).toBe(result.ols.moran.I);
+    expect(result.request.compareWeights).toEqual([{ method: 'knn', k: 4 }, { method: 'rook' }]);
+  });
+
+  it.skipIf(!golden)('4 nearest neighbours agree with the numpy/scipy reference to 6 significant digits', () => {
+    const g = golden.knn4;
+    const r = rows[1];
+    expect(r.links).toBe(g.weights.links);
+    for (const f of ['I', 'z', 'p'] as const) sig6(r.moran[f], g.ols.moran[f]);
+    for (const f of ['error', 'lag', 'robustError', 'robustLag'] as const) sig6(r.lmP[f], g.ols.lm[f].p);
+    sig6(r.lag!.parameter, g.lag.rho); sig6(r.lag!.se, g.lag.rhoSe); sig6(r.lag!.logLik, g.lag.logLik); sig6(r.lag!.aic, g.lag.aic);
+    sig6(r.error!.parameter, g.error.lambda); sig6(r.error!.se, g.error.lambdaSe); sig6(r.error!.logLik, g.error.logLik); sig6(r.error!.aic, g.error.aic);
+  });
+
+  it('rook contiguity has the reference\'s 200 links and the figures of a run made with rook alone', async () => {
+    const alone = await runAnalysis(request({ weights: { method: 'rook' } }));
+    const r = rows[2];
+    expect(r.links).toBe(200);
+    expect(r.lag!.parameter).toBe(alone.lag!.parameter);
+    expect(r.error!.se).toBe(alone.error!.parameterSe);
+    expect(r.lmP.robustLag).toBe(alone.ols.lm.robustLag.p);
+    expect(r.suggestion).toBe(alone.ols.recommendation.choice);
+  });
+
+  it('a definition that links nothing is reported in its row, not fatal', async () => {
+    const r = await runAnalysis(request({ models: ['ols', 'lag'], compareWeights: [{ method: 'band', distance: 0.1 }] }));
+    expect(r.comparison![1].failed).toMatch(/links nothing/);
+    expect(Number.isNaN(r.comparison![1].moran.I)).toBe(true);
+    expect(r.lag).toBeDefined();
+  });
+
+  it('refuses more than six alternatives, saying how many fit', async () => {
+    const many = Array.from({ length: 7 }, (_, k) => ({ method: 'knn' as const, k: k + 2 }));
+    const e = await failure(runAnalysis(request({ compareWeights: many })));
+    expect(e.message).toMatch(/7 neighbour definitions .* at most 6/);
+  });
+
+  it('suggests the other contiguity rule and 4 and 6 nearest neighbours for polygons, 4, 6 and 8 for points', () => {
+    expect(suggestedAlternatives({ method: 'queen' }, true)).toEqual([{ method: 'rook' }, { method: 'knn', k: 4 }, { method: 'knn', k: 6 }]);
+    expect(suggestedAlternatives({ method: 'knn', k: 6 }, false)).toEqual([{ method: 'knn', k: 4 }, { method: 'knn', k: 8 }]);
+    expect(suggestedAlternatives({ method: 'edge-list' }, true)).toHaveLength(3);
+  });
+
+  it('the report gets its own sheet with both tables, a reading and the caution; the JSON carries the rows', () => {
+    const report = buildReport(result);
+    const sheet = report.sheets.find((s) => s.role === 'comparison')!;
+    expect(sheet.name).toBe('Neighbour definitions compared');
+    const titles = sheet.blocks.filter((b) => b.kind === 'table').map((b) => (b as { title: string }).title);
+    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition']);
+    const text = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
+    expect(text).toMatch(/ρ runs from 0\.423 to 0\.463/); // rook 0.4228, queen 0.4233, 4 nearest 0.4632 (reference above)
+    expect(text).toMatch(/for a reason about the places/);
+    const json = resultToJson(result) as { comparison: { asRun: boolean; lag: { rho: number } }[] };
+    expect(json.comparison).toHaveLength(3);
+    expect(json.comparison[1].lag.rho).toBe(rows[1].lag!.parameter);
+  });
+
+  it('the workbook carries the sheet: every number of the two tables reads back as written (exceljs)', async () => {
+    const report = buildReport(result);
+    const sheets = await readWorkbook(await writeResultsWorkbook(report));
+    const written = sheets.find((s) => s.name === 'Neighbour definitions compared')!;
+    const cells = new Set(written.rows.flat().filter((c): c is number => typeof c === 'number'));
+    for (const r of rows) for (const v of [r.moran.I, r.lmP.robustLag, r.lag!.parameter, r.lag!.se, r.error!.aic]) expect(cells.has(v), String(v)).toBe(true);
+  });
+
+  it('the command line takes --compare and names a bad rule in plain words', () => {
+    const base = ['fit', '--boundary', join(dir, 'columbus.shp'), '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--models', 'lag'];
+    const ok = runCli([...base, '--compare', 'suggested', '--json']);
+    expect(ok.code).toBe(0);
+    expect(JSON.parse(ok.stdout).comparison.map((c: { description: string }) => c.description.split(' (')[0].split(';')[0]))
+      .toEqual(['queen contiguity', 'rook contiguity', '4 nearest neighbours by great-circle distance between representative points', '6 nearest neighbours by great-circle distance between representative points']);
+    const bad = runCli([...base, '--compare', 'rook,hexagon']);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/--compare: .*unknown rule "hexagon"/);
+    expect(bad.stderr).not.toMatch(STACK_LINE);
+  });
+});
