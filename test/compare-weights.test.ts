@@ -89,6 +89,8 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const text = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
     expect(text).toMatch(/ρ runs from 0\.423 to 0\.463/); // rook 0.4228, queen 0.4233, 4 nearest 0.4632 (reference above)
     expect(text).toMatch(/for a reason about the places/);
+    const summary = report.sheets[0].blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
+    expect(summary).toMatch(/Under other neighbour definitions \(sheet "Neighbour definitions compared"\): Across the 3 definitions/);
     const json = resultToJson(result) as { comparison: { asRun: boolean; lag: { rho: number } }[] };
     expect(json.comparison).toHaveLength(3);
     expect(json.comparison[1].lag.rho).toBe(rows[1].lag!.parameter);

@@ -55,7 +55,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
       note: `ρ belongs to the ${MODEL_LABEL.lag.toLowerCase()}, λ to the ${MODEL_LABEL.error.toLowerCase()}. AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
     });
   }
-  blocks.push({ kind: 'paragraph', style: 'interpretation', text: reading(rows) });
+  blocks.push({ kind: 'paragraph', style: 'interpretation', text: comparisonReading(rows) });
   for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${r.description}: ${r.failed}` });
   blocks.push({
     kind: 'paragraph', style: 'caution',
@@ -75,7 +75,7 @@ function fitColumns(symbol: string): TableColumn[] {
 }
 
 /** One paragraph on how much the answers move across the definitions. */
-function reading(rows: WeightsComparison[]): string {
+export function comparisonReading(rows: WeightsComparison[]): string {
   const built = rows.filter((r) => !r.failed);
   const parts: string[] = [];
   const spread = (pick: (r: WeightsComparison) => ComparedFit | undefined, symbol: string) => {

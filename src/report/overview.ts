@@ -4,6 +4,7 @@ import { CHOICE_LABEL, MODEL_LABEL, num, question } from './format.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
+import { comparisonReading } from './comparison.js';
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   const o = result.ols;
@@ -32,6 +33,9 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
       ],
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },
+    ...(result.comparison && result.comparison.length > 1
+      ? [{ kind: 'paragraph', style: 'interpretation', text: `Under other neighbour definitions (sheet "Neighbour definitions compared"): ${comparisonReading(result.comparison)}` } as Block]
+      : []),
     {
       kind: 'table', title: 'How the models compare',
       columns: [
