@@ -33,7 +33,7 @@ const demos: Demo[] = [
     title: 'Vell Basin districts: share of workers with a long commute',
     boundary: 'vell-basin-districts.geojson', data: 'vell-basin.xlsx', sheet: 'Districts', id: 'district_id',
     truth: 'vell-basin-truth.json', out: 'vell-basin-results.xlsx', parameter: 'lag',
-    request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'] },
+    request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested' },
   },
   {
     title: 'Vell Basin villages: new small businesses per 1,000 residents',
