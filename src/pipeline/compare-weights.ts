@@ -5,14 +5,14 @@
  */
 import type { JoinedAreas } from '../geo/types.js';
 import { buildWeights, summarizeWeights, symmetricForm } from '../weights/index.js';
-import type { SpatialWeights, WeightsSpec, WeightsTransform } from '../weights/types.js';
+import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
 import { fitSpatialError, fitSpatialLag, recommendModel } from '../models/index.js';
-import type { Design, OlsFit, SpatialFit } from '../models/types.js';
+import type { Design, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { InputError } from '../errors.js';
-import type { AnalysisResult, ModelName, WeightsComparison } from './types.js';
+import type { ModelName, WeightsComparison } from './types.js';
 
 /** At most this many alternatives in one run (each is a full set of spatial fits). */
 export const MAX_ALTERNATIVES = 6;
@@ -58,9 +58,20 @@ export interface CompareContext {
   helper?: StartHelperThread;
 }
 
-/** One row per definition: the run's own first (from its result), then each alternative refitted. */
-export function compareWeights(result: Pick<AnalysisResult, 'weights' | 'ols' | 'lag' | 'error'>, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
-  const rows: WeightsComparison[] = [rowOf(result.weights.description, true, result.weights.summary, result.ols.moran, result.ols.lm, result.ols.recommendation, result.lag, result.error)];
+/** What the run found under its own definition: the comparison's first row. */
+export interface OwnFigures {
+  description: string;
+  summary: WeightsSummary;
+  moran: MoranTest;
+  lm: LmTests;
+  recommendation: Recommendation;
+  lag?: SpatialFit;
+  error?: SpatialFit;
+}
+
+/** One row per definition: the run's own first, then each alternative refitted. */
+export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
+  const rows: WeightsComparison[] = [rowOf(own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error)];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -90,8 +101,7 @@ export function compareWeights(result: Pick<AnalysisResult, 'weights' | 'ols' | 
 }
 
 function rowOf(
-  description: string, asRun: boolean, summary: { links: number; meanNeighbours: number; islands: string[]; components: number },
-  moran: { I: number; z: number; p: number }, lm: AnalysisResult['ols']['lm'], recommendation: AnalysisResult['ols']['recommendation'],
+  description: string, asRun: boolean, summary: WeightsSummary, moran: MoranTest, lm: LmTests, recommendation: Recommendation,
   lag: SpatialFit | undefined, error: SpatialFit | undefined,
 ): WeightsComparison {
   const model = (f: SpatialFit | undefined) => f && {
