@@ -85,7 +85,7 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const sheet = report.sheets.find((s) => s.role === 'comparison')!;
     expect(sheet.name).toBe('Neighbour definitions compared');
     const titles = sheet.blocks.filter((b) => b.kind === 'table').map((b) => (b as { title: string }).title);
-    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition']);
+    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition', 'The definitions in full']);
     const text = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
     expect(text).toMatch(/ρ runs from 0\.423 to 0\.463/); // rook 0.4228, queen 0.4233, 4 nearest 0.4632 (reference above)
     expect(text).toMatch(/for a reason about the places/);
@@ -108,8 +108,7 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const base = ['fit', '--boundary', join(dir, 'columbus.shp'), '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--models', 'lag'];
     const ok = runCli([...base, '--compare', 'suggested', '--json']);
     expect(ok.code).toBe(0);
-    expect(JSON.parse(ok.stdout).comparison.map((c: { description: string }) => c.description.split(' (')[0].split(';')[0]))
-      .toEqual(['queen contiguity', 'rook contiguity', '4 nearest neighbours by great-circle distance between representative points', '6 nearest neighbours by great-circle distance between representative points']);
+    expect(JSON.parse(ok.stdout).comparison.map((c: { label: string }) => c.label)).toEqual(['queen contiguity', 'rook contiguity', '4 nearest neighbours', '6 nearest neighbours']);
     const bad = runCli([...base, '--compare', 'rook,hexagon']);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--compare: .*unknown rule "hexagon"/);

@@ -43,12 +43,12 @@ export function formatSummary(r: AnalysisResult): string {
     const pick = (f: { parameter: number } | undefined) => (f ? fmt(f.parameter, 4) : '');
     lines.push(...table(['definition', "Moran's I p", 'suggested', ...(r.lag ? ['ρ'] : []), ...(r.error ? ['λ'] : [])],
       r.comparison.map((c) => [
-        `${c.description}${c.asRun ? ' (this run)' : ''}`,
+        `${c.label}${c.asRun ? ' (this run)' : ''}`,
         c.failed ? 'could not be built' : p(c.moran.p),
         c.suggestion ? SUGGESTION[c.suggestion] : '',
         ...(r.lag ? [pick(c.lag)] : []), ...(r.error ? [pick(c.error)] : []),
       ])));
-    for (const c of r.comparison) if (c.failed) lines.push(`  ${c.description}: ${c.failed}`);
+    for (const c of r.comparison) if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
     lines.push('');
   }
   lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);

@@ -60,6 +60,7 @@ export interface CompareContext {
 
 /** What the run found under its own definition: the comparison's first row. */
 export interface OwnFigures {
+  spec: WeightsSpec | { method: 'edge-list'; source: string };
   description: string;
   summary: WeightsSummary;
   moran: MoranTest;
@@ -71,7 +72,8 @@ export interface OwnFigures {
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
-  const rows: WeightsComparison[] = [rowOf(own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error)];
+  const ownLabel = own.spec.method === 'edge-list' ? `neighbour list ${own.spec.source}` : describeSpec(own.spec);
+  const rows: WeightsComparison[] = [rowOf(ownLabel, own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error)];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -92,7 +94,7 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       const lm = lmTests(ctx.ols, ctx.design, algebra);
       const lag = ctx.models.includes('lag') ? fitSpatialLag(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
       const error = ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
-      rows.push(rowOf(w.description, false, summarizeWeights(w), moran, lm, recommendModel(lm), lag, error));
+      rows.push(rowOf(describeSpec(spec), w.description, false, summarizeWeights(w), moran, lm, recommendModel(lm), lag, error));
     } finally {
       algebra.dispose?.();
     }
@@ -101,14 +103,14 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
 }
 
 function rowOf(
-  description: string, asRun: boolean, summary: WeightsSummary, moran: MoranTest, lm: LmTests, recommendation: Recommendation,
+  label: string, description: string, asRun: boolean, summary: WeightsSummary, moran: MoranTest, lm: LmTests, recommendation: Recommendation,
   lag: SpatialFit | undefined, error: SpatialFit | undefined,
 ): WeightsComparison {
   const model = (f: SpatialFit | undefined) => f && {
     parameter: f.parameter, se: f.parameterSe, p: f.parameterP, logLik: f.logLik, aic: f.aic, converged: f.convergence.converged && !f.convergence.atBound,
   };
   return {
-    description, asRun,
+    label, description, asRun,
     links: summary.links, meanNeighbours: summary.meanNeighbours, islands: summary.islands.length, components: summary.components,
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
@@ -117,19 +119,19 @@ function rowOf(
   };
 }
 
-function emptyRow(description: string): WeightsComparison {
+function emptyRow(label: string): WeightsComparison {
   return {
-    description, asRun: false, links: NaN, meanNeighbours: NaN, islands: NaN, components: NaN,
+    label, description: label, asRun: false, links: NaN, meanNeighbours: NaN, islands: NaN, components: NaN,
     moran: { I: NaN, z: NaN, p: NaN }, lmP: { error: NaN, lag: NaN, robustError: NaN, robustLag: NaN },
   };
 }
 
-/** Words for a definition that could not be built (the built ones describe themselves). */
+/** A definition in a few words, for the comparison's tables (the built weights describe themselves in full). */
 export function describeSpec(s: WeightsSpec): string {
   switch (s.method) {
-    case 'queen': case 'rook': return `${s.method} contiguity${(s.order ?? 1) > 1 ? ` of order ${s.order}` : ''}`;
+    case 'queen': case 'rook': return `${s.method} contiguity${(s.order ?? 1) > 1 ? `, order ${s.order}${s.includeLowerOrders ? ' and below' : ''}` : ''}`;
     case 'knn': return `${s.k} nearest neighbours`;
     case 'band': return `all areas within ${s.distance}`;
-    case 'idw': return `inverse distance to the power ${s.power}${s.cutoff ? ` within ${s.cutoff}` : ''}`;
+    case 'idw': return `inverse distance, power ${s.power}${s.cutoff ? `, within ${s.cutoff}` : ''}`;
   }
 }

@@ -138,7 +138,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   if (alternatives.length > 0) {
     progress(0.9, 'Refitting under the other neighbour definitions');
     comparison = compareWeights(
-      { description: w.description, summary, moran, lm, recommendation, lag, error },
+      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error },
       alternatives,
       { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkIslands: request.linkIslands, seed, method: request.algebra, helper: runtime.helper },
     );

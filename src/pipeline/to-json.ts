@@ -74,7 +74,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
       [key]: f.parameter, [`${key}Se`]: f.se, [`${key}P`]: f.p, logLik: f.logLik, aic: f.aic, converged: f.converged,
     };
     out.comparison = r.comparison.map((c) => ({
-      description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, islands: c.islands, components: c.components,
+      label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, islands: c.islands, components: c.components,
       moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
       ...(c.failed ? { failed: c.failed } : {}),
     }));

@@ -128,6 +128,9 @@ export interface ComparedFit {
 
 /** One neighbour definition in the comparison (NaN where it could not be built; `failed` says why). */
 export interface WeightsComparison {
+  /** a few words ("rook contiguity", "6 nearest neighbours") for tables */
+  label: string;
+  /** the definition in full, as the weights describe themselves */
   description: string;
   /** the run's own definition (the first row) */
   asRun: boolean;

@@ -6,7 +6,7 @@ import { CHOICE_LABEL, MODEL_LABEL, num, say, sayList } from './format.js';
 export function comparisonBlocks(result: AnalysisResult): Block[] {
   const rows = result.comparison;
   if (!rows || rows.length < 2) return [];
-  const name = (r: WeightsComparison) => (r.asRun ? `${r.description} (this run)` : r.description);
+  const name = (r: WeightsComparison) => (r.asRun ? `${r.label} (this run)` : r.label);
   const built = rows.filter((r) => !r.failed);
   const blocks: Block[] = [
     { kind: 'title', text: 'The same question under other neighbour definitions' },
@@ -18,18 +18,18 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     {
       kind: 'table', title: 'Neighbours and the tests on the plain regression\'s residuals',
       columns: [
-        { header: 'Neighbour definition', format: 'text', width: 34 },
-        { header: 'Links', format: 'integer', width: 9 },
+        { header: 'Neighbour definition', format: 'text', width: 30 },
+        { header: 'Links', format: 'integer', width: 11 },
         { header: 'Average neighbours', format: 'decimal2', width: 11 },
-        { header: 'Areas without neighbours', format: 'integer', width: 11 },
+        { header: 'Without neighbours', format: 'integer', width: 11 },
         { header: 'Moran\'s I of residuals', format: 'decimal4', width: 11 },
-        { header: 'Its z', format: 'decimal2', width: 9 },
-        { header: 'Its p-value', format: 'pvalue', width: 10 },
-        { header: 'LM error: p', format: 'pvalue', width: 10 },
-        { header: 'LM lag: p', format: 'pvalue', width: 10 },
-        { header: 'Robust LM error: p', format: 'pvalue', width: 10 },
-        { header: 'Robust LM lag: p', format: 'pvalue', width: 10 },
-        { header: 'Suggested model', format: 'text', width: 30 },
+        { header: 'Its z', format: 'decimal2', width: 11 },
+        { header: 'Its p-value', format: 'pvalue', width: 11 },
+        { header: 'LM error: p', format: 'pvalue', width: 11 },
+        { header: 'LM lag: p', format: 'pvalue', width: 11 },
+        { header: 'Robust LM error: p', format: 'pvalue', width: 11 },
+        { header: 'Robust LM lag: p', format: 'pvalue', width: 11 },
+        { header: 'Suggested model', format: 'text', width: 34 },
       ],
       rows: rows.map((r): Cell[] => [
         name(r), num(r.links), num(r.meanNeighbours), num(r.islands), num(r.moran.I), num(r.moran.z), num(r.moran.p),
@@ -41,22 +41,23 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
   const hasLag = built.some((r) => r.lag), hasError = built.some((r) => r.error);
   if (hasLag || hasError) {
     const fitCells = (f: ComparedFit | undefined): Cell[] => (f ? [num(f.parameter), num(f.se), num(f.p), num(f.aic)] : [null, null, null, null]);
-    const columns: TableColumn[] = [{ header: 'Neighbour definition', format: 'text', width: 34 }];
+    const columns: TableColumn[] = [{ header: 'Neighbour definition', format: 'text', width: 30 }];
     if (hasLag) columns.push(...fitColumns('ρ'));
     if (hasError) columns.push(...fitColumns('λ'));
-    columns.push({ header: 'Note', format: 'text', width: 30 });
     blocks.push({
       kind: 'table', title: 'The spatial models under each definition',
       columns,
-      rows: rows.map((r): Cell[] => [
-        name(r), ...(hasLag ? fitCells(r.lag) : []), ...(hasError ? fitCells(r.error) : []),
-        [r.lag, r.error].some((f) => f && !f.converged) ? 'a search stopped early or at a bound' : '',
-      ]),
+      rows: rows.map((r): Cell[] => [name(r), ...(hasLag ? fitCells(r.lag) : []), ...(hasError ? fitCells(r.error) : [])]),
       note: `ρ belongs to the ${MODEL_LABEL.lag.toLowerCase()}, λ to the ${MODEL_LABEL.error.toLowerCase()}. AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
     });
   }
   blocks.push({ kind: 'paragraph', style: 'interpretation', text: comparisonReading(rows) });
-  for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${r.description}: ${r.failed}` });
+  const unsettled = built.filter((r) => [r.lag, r.error].some((f) => f && !f.converged));
+  if (unsettled.length) {
+    blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${sayList(unsettled.map((r) => r.label))} a model's search stopped early or at an end of the admissible range; read those figures with care.` });
+  }
+  for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${r.label} could not be built: ${r.failed}` });
+  blocks.push({ kind: 'table', title: 'The definitions in full', columns: [{ header: 'Neighbour definition', format: 'text', width: 30 }, { header: 'In full', format: 'text', width: 11 }], rows: rows.map((r): Cell[] => [name(r), r.description]) });
   blocks.push({
     kind: 'paragraph', style: 'caution',
     text: 'Choose the neighbour definition for a reason about the places — shared borders, travel, distance that matters for the outcome — and not for the result it gives. ' +
@@ -67,9 +68,9 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
 
 function fitColumns(symbol: string): TableColumn[] {
   return [
-    { header: symbol, format: 'decimal4', width: 10 },
-    { header: `${symbol}: standard error`, format: 'decimal4', width: 10 },
-    { header: `${symbol}: p-value`, format: 'pvalue', width: 10 },
+    { header: symbol, format: 'decimal4', width: 11 },
+    { header: `${symbol}: standard error`, format: 'decimal4', width: 11 },
+    { header: `${symbol}: p-value`, format: 'pvalue', width: 11 },
     { header: `AIC with ${symbol}`, format: 'decimal4', width: 11 },
   ];
 }

@@ -46,7 +46,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('Explanatory columns', r.x.join(', ')),
         kv('Neighbour definition asked for', describeWeightsRequest(r.weights)),
         kv('Neighbour definition used', result.weights.description),
-        ...(result.comparison ? [kv('Also fitted, for comparison, under', result.comparison.filter((c) => !c.asRun).map((c) => c.description).join('; '))] : []),
+        ...(result.comparison ? [kv('Also fitted, for comparison, under', result.comparison.filter((c) => !c.asRun).map((c) => c.label).join('; '))] : []),
         kv('Weights transform', r.transform),
         kv('Models fitted', r.models.map((m) => MODEL_LABEL[m]).join(', ')),
         kv('Robust standard errors asked for', yesNo(r.robust)),
