@@ -59,6 +59,9 @@ describe('neighbour definitions compared (Columbus)', async () => {
     expect(r.error!.se).toBe(alone.error!.parameterSe);
     expect(r.lmP.robustLag).toBe(alone.ols.lm.robustLag.p);
     expect(r.suggestion).toBe(alone.ols.recommendation.choice);
+    // the lag model's effects with the same draws and seed as a run of its own
+    expect(r.impacts).toEqual(alone.impacts!.impacts);
+    expect(rows[0].impacts).toEqual(result.impacts!.impacts);
   });
 
   it('a definition that links nothing is reported in its row, not fatal', async () => {
@@ -85,7 +88,7 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const sheet = report.sheets.find((s) => s.role === 'comparison')!;
     expect(sheet.name).toBe('Neighbour definitions compared');
     const titles = sheet.blocks.filter((b) => b.kind === 'table').map((b) => (b as { title: string }).title);
-    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition', 'The definitions in full']);
+    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition', 'Spillover effects of the spatial lag model under each definition', 'The definitions in full']);
     const text = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
     expect(text).toMatch(/ρ runs from 0\.423 to 0\.463/); // rook 0.4228, queen 0.4233, 4 nearest 0.4632 (reference above)
     expect(text).toMatch(/for a reason about the places/);

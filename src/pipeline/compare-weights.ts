@@ -8,8 +8,8 @@ import { buildWeights, summarizeWeights, symmetricForm } from '../weights/index.
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
-import { fitSpatialError, fitSpatialLag, recommendModel } from '../models/index.js';
-import type { Design, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit } from '../models/types.js';
+import { fitSpatialError, fitSpatialLag, lagImpacts, recommendModel } from '../models/index.js';
+import type { Design, Impact, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import type { ModelName, WeightsComparison } from './types.js';
@@ -53,6 +53,8 @@ export interface CompareContext {
   transform?: WeightsTransform;
   linkIslands?: boolean;
   seed: number;
+  /** simulation draws for the lag model's effects */
+  impactDraws: number;
   /** dense or sparse algebra, as for the run's own definition */
   method?: 'auto' | 'dense' | 'sparse';
   helper?: StartHelperThread;
@@ -68,12 +70,13 @@ export interface OwnFigures {
   recommendation: Recommendation;
   lag?: SpatialFit;
   error?: SpatialFit;
+  impacts?: Impact[];
 }
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
   const ownLabel = own.spec.method === 'edge-list' ? `neighbour list ${own.spec.source}` : describeSpec(own.spec);
-  const rows: WeightsComparison[] = [rowOf(ownLabel, own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error)];
+  const rows: WeightsComparison[] = [rowOf(ownLabel, own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error, own.impacts)];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -93,8 +96,9 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       const moran = moranResidualTest(ctx.ols, ctx.design, algebra);
       const lm = lmTests(ctx.ols, ctx.design, algebra);
       const lag = ctx.models.includes('lag') ? fitSpatialLag(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
+      const impacts = lag ? lagImpacts(lag, ctx.design, algebra, { draws: ctx.impactDraws, seed: ctx.seed }).impacts : undefined;
       const error = ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
-      rows.push(rowOf(describeSpec(spec), w.description, false, summarizeWeights(w), moran, lm, recommendModel(lm), lag, error));
+      rows.push(rowOf(describeSpec(spec), w.description, false, summarizeWeights(w), moran, lm, recommendModel(lm), lag, error, impacts));
     } finally {
       algebra.dispose?.();
     }
@@ -104,7 +108,7 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
 
 function rowOf(
   label: string, description: string, asRun: boolean, summary: WeightsSummary, moran: MoranTest, lm: LmTests, recommendation: Recommendation,
-  lag: SpatialFit | undefined, error: SpatialFit | undefined,
+  lag: SpatialFit | undefined, error: SpatialFit | undefined, impacts: Impact[] | undefined,
 ): WeightsComparison {
   const model = (f: SpatialFit | undefined) => f && {
     parameter: f.parameter, se: f.parameterSe, p: f.parameterP, logLik: f.logLik, aic: f.aic, converged: f.convergence.converged && !f.convergence.atBound,
@@ -116,6 +120,7 @@ function rowOf(
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
     suggestion: recommendation.choice,
     lag: model(lag), error: model(error),
+    ...(impacts ? { impacts: impacts.map((i) => ({ ...i })) } : {}),
   };
 }
 

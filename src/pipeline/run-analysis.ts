@@ -138,9 +138,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   if (alternatives.length > 0) {
     progress(0.9, 'Refitting under the other neighbour definitions');
     comparison = compareWeights(
-      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error },
+      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error, impacts: impacts?.impacts },
       alternatives,
-      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkIslands: request.linkIslands, seed, method: request.algebra, helper: runtime.helper },
+      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkIslands: request.linkIslands, seed, impactDraws, method: request.algebra, helper: runtime.helper },
     );
     lap('comparison');
   }

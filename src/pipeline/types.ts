@@ -2,7 +2,7 @@ import type { StartHelperThread } from '../linalg/sparse/index.js';
 import type { NamedBytesLike } from './named-bytes.js';
 import type { WeightsSpec, WeightsTransform, WeightsSummary } from '../weights/types.js';
 import type {
-  Coefficient, Convergence, ImpactsResult, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit, TestResult,
+  Coefficient, Convergence, Impact, ImpactsResult, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit, TestResult,
 } from '../models/types.js';
 import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
 
@@ -145,5 +145,7 @@ export interface WeightsComparison {
   suggestion?: Recommendation['choice'];
   lag?: ComparedFit;
   error?: ComparedFit;
+  /** the lag model's direct, indirect and total effects per explanatory column (simulated SEs, same draws and seed as the run) */
+  impacts?: Impact[];
   failed?: string;
 }
