@@ -92,6 +92,19 @@ describe('contiguity special cases', () => {
     expect(row(contiguityNeighbours(geoms, 'rook'), 2)).toEqual([]);
   });
 
+  it('on longitude/latitude, areas cut at the antimeridian meet across it (180 against −180); planar coordinates do not wrap', () => {
+    // A ends at 180°, B starts at −180° along the same latitudes, C only touches A's corner across
+    // the meridian, D lies on the meridian far to the south (the globe's geometry: ±180 is one line)
+    const A = polygon(squareRing(170, 50, 10)), B = polygon(squareRing(-180, 50, 10));
+    const C = polygon(squareRing(-180, 60, 10)), D = polygon(squareRing(-180, 10, 10));
+    const geoms = [A, B, C, D];
+    expect(row(contiguityNeighbours(geoms, 'rook', undefined, true), 0)).toEqual([1]);
+    expect(row(contiguityNeighbours(geoms, 'queen', undefined, true), 0)).toEqual([1, 2]);
+    expect(row(contiguityNeighbours(geoms, 'queen', undefined, true), 3)).toEqual([]);
+    expect(row(contiguityNeighbours(geoms, 'queen'), 0)).toEqual([]);
+    assertWellFormed(contiguityNeighbours(geoms, 'queen', undefined, true));
+  });
+
   it('a tolerance bridges a thin gap that exact contiguity leaves open', () => {
     const geoms = [polygon(squareRing(0, 0)), polygon(squareRing(1.01, 0))];
     expect(contiguityNeighbours(geoms, 'rook').rowPtr[2]).toBe(0);
@@ -155,7 +168,8 @@ describe('rook contiguity of US counties against shared topology arcs', () => {
   const byArcs = neighbors(counties.geometries);
 
   it('same neighbour sets for all 3,231 counties; 16 topology self-references only', () => {
-    const rook = contiguityNeighbours(geometries, 'rook');
+    // longitude/latitude, as the pipeline reads them: the antimeridian pass adds nothing the arcs lack
+    const rook = contiguityNeighbours(geometries, 'rook', undefined, true);
     expect(rook.n).toBe(3231);
     assertWellFormed(rook);
     let selfReferences = 0;
@@ -171,8 +185,8 @@ describe('rook contiguity of US counties against shared topology arcs', () => {
   });
 
   it('queen adds only point contacts: a superset of rook', () => {
-    const rook = contiguityNeighbours(geometries, 'rook');
-    const queen = contiguityNeighbours(geometries, 'queen');
+    const rook = contiguityNeighbours(geometries, 'rook', undefined, true);
+    const queen = contiguityNeighbours(geometries, 'queen', undefined, true);
     for (let i = 0; i < rook.n; i++) {
       const q = new Set(row(queen, i));
       for (const j of row(rook, i)) expect(q.has(j)).toBe(true);

@@ -72,7 +72,7 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
     throw new InputError(`There are ${n} areas but ${input.geometries.length} geometries; every area needs its boundary.`);
   }
   const rule = spec.method;
-  let pattern = contiguityNeighbours(input.geometries, rule, spec.tolerance);
+  let pattern = contiguityNeighbours(input.geometries, rule, spec.tolerance, input.coordinates === 'geographic');
   let description =
     rule === 'queen'
       ? 'queen contiguity (areas sharing at least one boundary point)'

@@ -33,8 +33,10 @@ interface Boundary {
  *
  * tolerance: in coordinate units, to bridge slivers and gaps; default 1e-9 × the layer's extent.
  * Point geometries have no boundary: they come out as areas without neighbours.
+ * geographic: longitude/latitude, where a boundary along longitude 180 meets one along −180 (areas
+ *   cut at the antimeridian).
  */
-export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' | 'rook', tolerance?: number): CsrMatrix {
+export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' | 'rook', tolerance?: number, geographic = false): CsrMatrix {
   if (tolerance !== undefined && !(Number.isFinite(tolerance) && tolerance >= 0)) {
     throw new InputError(`The contiguity tolerance must be a number of coordinate units, 0 or more; got ${tolerance}.`);
   }
@@ -96,7 +98,34 @@ export function contiguityNeighbours(geometries: AreaGeometry[], rule: 'queen' |
       }
     }
   }
+  if (geographic) acrossAntimeridian(b, rule, tol, pairs);
   return csrFromSortedPairs(n, pairs.sortedUnique());
+}
+
+/**
+ * Areas cut at the antimeridian: latitude intervals of boundary on longitude 180 against those on
+ * −180. Rook pairs overlap by more than the tolerance; queen pairs touch (a shared end is enough),
+ * and a vertex on the meridian counts as a point interval.
+ */
+function acrossAntimeridian(b: Boundary, rule: 'queen' | 'rook', tol: number, pairs: PairKeys): void {
+  const { x, y, owner, next, count } = b;
+  const east: number[] = [], west: number[] = []; // triples: owner, low latitude, high latitude
+  const on = (v: number, side: number) => Math.abs(x[v] - side) <= tol;
+  for (let v = 0; v < count; v++) {
+    for (const [side, list] of [[180, east], [-180, west]] as const) {
+      if (!on(v, side)) continue;
+      const w = next[v];
+      if (on(w, side)) list.push(owner[v], Math.min(y[v], y[w]), Math.max(y[v], y[w]));
+      else if (rule === 'queen') list.push(owner[v], y[v], y[v]);
+    }
+  }
+  for (let i = 0; i < east.length; i += 3) {
+    for (let j = 0; j < west.length; j += 3) {
+      if (east[i] === west[j]) continue;
+      const overlap = Math.min(east[i + 2], west[j + 2]) - Math.max(east[i + 1], west[j + 1]);
+      if (rule === 'rook' ? overlap > tol : overlap >= -tol) pairs.add(east[i], west[j]);
+    }
+  }
 }
 
 /** Unordered area pairs as keys min·n + max in a growable Float64Array. */
