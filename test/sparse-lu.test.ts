@@ -68,6 +68,15 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
     }
   });
 
+  it('a factor too large to keep (over 512 MB) gives the same log-determinants and leaves the solves to the iterative route', () => {
+    const g = randomKnn(700, 6, 8);
+    const kept = new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } });
+    // the limit is a size; a small matrix stands in for a large one by being told it may not keep
+    const unkept = Object.assign(new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } }), { keepsFactor: false });
+    for (const rho of [-0.6, 0.4, 0.9]) expect(unkept.evaluate(rho)).toBe(kept.evaluate(rho));
+    expect(() => unkept.solve(0.4, new Float64Array(700))).toThrow(/too large to keep/);
+  });
+
   it('traces through the LU factor: exact ones equal the dense inverse\'s (1e-9), Hutchinson estimates lie within 4 standard errors (4σ: common practice)', () => {
     const g = randomKnn(400, 5, 12);
     const lu = new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } });

@@ -7,8 +7,9 @@
  * No pivoting is needed: for |ρ| < 1 and rows of W summing to one, I − ρW is strictly diagonally
  * dominant by rows, elimination keeps it so (every pivot is positive), and the growth factor stays
  * below 2 (Wilkinson 1961; Golub & Van Loan, Matrix Computations, §3.4.10) — so ln|I − ρW| = Σ ln u_jj.
- * The factor of the last ρ is kept, so the traces and the reduced form at an estimate found by exact
- * evaluations are solved with it (two triangular solves each) rather than iteratively.
+ * The factor of the last ρ is kept (up to 512 MB of it), so the traces and the reduced form at an
+ * estimate found by exact evaluations are solved with it (two triangular solves each) rather than
+ * iteratively.
  * Written by hand: no kept JavaScript library offers a sparse LU.
  */
 import type { CsrMatrix } from '../csr.js';
@@ -22,6 +23,9 @@ export { PivotError } from './lu-front.js';
 /** Multiply-adds of one LU evaluation above which the Monte Carlo series is used instead. */
 export const SPARSE_LU_WORK_LIMIT = 4e10;
 
+/** Doubles of factor kept for solves at most (512 MB); above, the log-determinant keeps nothing and solves are iterative. */
+export const KEPT_FACTOR_LIMIT = 6.4e7;
+
 export class SparseLuLogDet implements LogDeterminant {
   readonly method: string;
   readonly accuracy = 'exact (to rounding)';
@@ -30,6 +34,8 @@ export class SparseLuLogDet implements LogDeterminant {
   readonly work: number;
   /** doubles of the kept factor: per supernode its k rows of U (and L's multipliers left of the diagonal), then L's m − k rows below */
   readonly factorSize: number;
+  /** whether the factor of the last ρ is kept for solves (false when it would pass KEPT_FACTOR_LIMIT) */
+  readonly keepsFactor: boolean;
   readonly symbolicSeconds: number;
   /** W's values and Wᵀ's values on the pattern of W + Wᵀ */
   private readonly lower: Float64Array;
@@ -65,6 +71,7 @@ export class SparseLuLogDet implements LogDeterminant {
     }
     this.work = work;
     this.factorSize = size;
+    this.keepsFactor = size <= KEPT_FACTOR_LIMIT;
     this.front = new Float64Array(maxFront * maxFront);
     this.stack = new Float64Array(Math.max(1, stackSize));
     this.pos = new Int32Array(w.n);
@@ -80,17 +87,17 @@ export class SparseLuLogDet implements LogDeterminant {
     return this.factorAt(rho);
   }
 
-  /** Factors I − ρW (unless the kept factor is at ρ) and keeps the factor; returns ln|I − ρW|. */
+  /** Factors I − ρW (unless the factor kept is at ρ) and keeps the factor when it may; returns ln|I − ρW|. */
   factorAt(rho: number): number {
     if (rho === this.keptRho) return this.keptLogdet;
     this.keptRho = NaN; // the panels are overwritten from here on
-    this.panels ??= new Float64Array(this.factorSize);
+    if (this.keepsFactor) this.panels ??= new Float64Array(this.factorSize);
     this.keptLogdet = this.factor(rho, this.panels);
     this.keptRho = rho;
     return this.keptLogdet;
   }
 
-  /** x = (I − ρW)⁻¹ b by the factor at ρ (factored first when the kept one is at another ρ). */
+  /** x = (I − ρW)⁻¹ b by the factor at ρ (factored first when the kept one is at another ρ). Needs keepsFactor. */
   solve(rho: number, b: Float64Array): Float64Array {
     return this.solveBlock(rho, b, 1, new Float64Array(b.length));
   }
@@ -100,6 +107,7 @@ export class SparseLuLogDet implements LogDeterminant {
    * each factor entry is read once for all r columns. `work` is scratch of length n·r.
    */
   solveBlock(rho: number, b: Float64Array, r: number, x: Float64Array, work: Float64Array = new Float64Array(b.length)): Float64Array {
+    if (!this.keepsFactor) throw new Error('this sparse LU is too large to keep for solves');
     this.factorAt(rho);
     const panels = this.panels!;
     const { n, perm, superCount, superFirst, rowPtr, rows } = this.symbolic;
@@ -151,8 +159,8 @@ export class SparseLuLogDet implements LogDeterminant {
     return x;
   }
 
-  /** The numeric multifrontal LU at ρ, stored into `panels`; returns Σ ln u_jj. */
-  private factor(rho: number, panels: Float64Array): number {
+  /** The numeric multifrontal LU at ρ, stored into `panels` when given; returns Σ ln u_jj. */
+  private factor(rho: number, panels: Float64Array | null): number {
     const { superCount, superFirst, rowPtr, rows, superParent, lowPtr, lowRow, lowSource } = this.symbolic;
     const { front: F, stack, pos, map, lower, upper } = this;
     let top = 0;
@@ -190,11 +198,13 @@ export class SparseLuLogDet implements LogDeterminant {
       }
       top = base;
       logdet += eliminateFront(F, m, k, f);
-      // keep the k rows of U (with L's multipliers left of the diagonal), then L's rows below
-      const at = this.panelStart[s];
-      panels.set(F.subarray(0, k * m), at);
-      for (let i = k, to = at + k * m; i < m; i++, to += k) {
-        for (let c = 0, from = i * m; c < k; c++) panels[to + c] = F[from + c];
+      if (panels) {
+        // keep the k rows of U (with L's multipliers left of the diagonal), then L's rows below
+        const at = this.panelStart[s];
+        panels.set(F.subarray(0, k * m), at);
+        for (let i = k, to = at + k * m; i < m; i++, to += k) {
+          for (let c = 0, from = i * m; c < k; c++) panels[to + c] = F[from + c];
+        }
       }
       const r = m - k;
       if (r > 0) {

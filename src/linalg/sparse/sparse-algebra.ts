@@ -150,7 +150,8 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
   const logdet: LogDeterminant = exact ?? series;
   // above 20,000 areas 16 probes, as with the Cholesky factor (the standard errors are reported)
   const probes = opts.probes ?? (w.n > 20000 ? 16 : 48);
-  const tracer = new GeneralTraces(w, { seed, probes, ...(sparseLu ? { direct: sparseLu } : {}) });
+  const direct = sparseLu?.keepsFactor ? sparseLu : null;
+  const tracer = new GeneralTraces(w, { seed, probes, ...(direct ? { direct } : {}) });
   const powerCache = new Map<number, Float64Array>();
   const powerProbes = probes;
   return {
@@ -163,7 +164,7 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
     ...(exact ? { roughLogdet: series } : {}),
     traces: (rho: number) => tracer.traces(rho),
     // the reduced form at the estimate through the LU kept from its traces
-    ...(sparseLu ? { solve: (rho: number, b: Float64Array) => sparseLu.solve(rho, b) } : {}),
+    ...(direct ? { solve: (rho: number, b: Float64Array) => direct.solve(rho, b) } : {}),
     powerTraces(count: number): Float64Array {
       let cached = powerCache.get(count);
       if (!cached) {
