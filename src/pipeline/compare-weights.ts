@@ -4,7 +4,7 @@
  * by side. The plain regression does not depend on the neighbours and is fitted once.
  */
 import type { JoinedAreas } from '../geo/types.js';
-import { buildWeights, summarizeWeights, symmetricForm } from '../weights/index.js';
+import { buildWeights, describeRule, summarizeWeights, symmetricForm } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
@@ -60,7 +60,7 @@ export interface CompareContext {
   helper?: StartHelperThread;
 }
 
-/** What the run found under its own definition: the comparison's first row. */
+/** What a run found under one definition (its own: the comparison's first row). */
 export interface OwnFigures {
   spec: WeightsSpec | { method: 'edge-list'; source: string };
   description: string;
@@ -75,8 +75,7 @@ export interface OwnFigures {
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
-  const ownLabel = own.spec.method === 'edge-list' ? `neighbour list ${own.spec.source}` : describeSpec(own.spec);
-  const rows: WeightsComparison[] = [rowOf(ownLabel, own.description, true, own.summary, own.moran, own.lm, own.recommendation, own.lag, own.error, own.impacts)];
+  const rows: WeightsComparison[] = [rowOf(describeRule(own.spec), true, own)];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -88,17 +87,19 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       );
     } catch (e) {
       // a definition that cannot be built here (a band that links nothing...) is reported, not fatal
-      if (e instanceof InputError) { rows.push({ ...emptyRow(describeSpec(spec)), failed: e.message }); continue; }
+      if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), failed: e.message }); continue; }
       throw e;
     }
     const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: ctx.method ?? 'auto', seed: ctx.seed, helper: ctx.helper });
     try {
-      const moran = moranResidualTest(ctx.ols, ctx.design, algebra);
       const lm = lmTests(ctx.ols, ctx.design, algebra);
       const lag = ctx.models.includes('lag') ? fitSpatialLag(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
-      const impacts = lag ? lagImpacts(lag, ctx.design, algebra, { draws: ctx.impactDraws, seed: ctx.seed }).impacts : undefined;
-      const error = ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
-      rows.push(rowOf(describeSpec(spec), w.description, false, summarizeWeights(w), moran, lm, recommendModel(lm), lag, error, impacts));
+      rows.push(rowOf(describeRule(spec), false, {
+        spec, description: w.description, summary: summarizeWeights(w), moran: moranResidualTest(ctx.ols, ctx.design, algebra), lm, recommendation: recommendModel(lm),
+        lag,
+        impacts: lag ? lagImpacts(lag, ctx.design, algebra, { draws: ctx.impactDraws, seed: ctx.seed }).impacts : undefined,
+        error: ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined,
+      }));
     } finally {
       algebra.dispose?.();
     }
@@ -106,21 +107,19 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
   return rows;
 }
 
-function rowOf(
-  label: string, description: string, asRun: boolean, summary: WeightsSummary, moran: MoranTest, lm: LmTests, recommendation: Recommendation,
-  lag: SpatialFit | undefined, error: SpatialFit | undefined, impacts: Impact[] | undefined,
-): WeightsComparison {
-  const model = (f: SpatialFit | undefined) => f && {
-    parameter: f.parameter, se: f.parameterSe, p: f.parameterP, logLik: f.logLik, aic: f.aic, converged: f.convergence.converged && !f.convergence.atBound,
+function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison {
+  const model = (fit: SpatialFit | undefined) => fit && {
+    parameter: fit.parameter, se: fit.parameterSe, p: fit.parameterP, logLik: fit.logLik, aic: fit.aic, converged: fit.convergence.converged && !fit.convergence.atBound,
   };
+  const { summary, moran, lm } = f;
   return {
-    label, description, asRun,
+    label, description: f.description, asRun,
     links: summary.links, meanNeighbours: summary.meanNeighbours, islands: summary.islands.length, components: summary.components,
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
-    suggestion: recommendation.choice,
-    lag: model(lag), error: model(error),
-    ...(impacts ? { impacts: impacts.map((i) => ({ ...i })) } : {}),
+    suggestion: f.recommendation.choice,
+    lag: model(f.lag), error: model(f.error),
+    ...(f.impacts ? { impacts: f.impacts.map((i) => ({ ...i })) } : {}),
   };
 }
 
@@ -129,14 +128,4 @@ function emptyRow(label: string): WeightsComparison {
     label, description: label, asRun: false, links: NaN, meanNeighbours: NaN, islands: NaN, components: NaN,
     moran: { I: NaN, z: NaN, p: NaN }, lmP: { error: NaN, lag: NaN, robustError: NaN, robustLag: NaN },
   };
-}
-
-/** A definition in a few words, for the comparison's tables (the built weights describe themselves in full). */
-export function describeSpec(s: WeightsSpec): string {
-  switch (s.method) {
-    case 'queen': case 'rook': return `${s.method} contiguity${(s.order ?? 1) > 1 ? `, order ${s.order}${s.includeLowerOrders ? ' and below' : ''}` : ''}`;
-    case 'knn': return `${s.k} nearest neighbours`;
-    case 'band': return `all areas within ${s.distance}`;
-    case 'idw': return `inverse distance, power ${s.power}${s.cutoff ? `, within ${s.cutoff}` : ''}`;
-  }
 }

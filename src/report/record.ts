@@ -1,23 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { MODEL_LABEL, num, say, yesNo } from './format.js';
-
-/** The weights request in plain words, e.g. "queen contiguity, order 2 (with lower orders)". */
-export function describeWeightsRequest(w: AnalysisResult['request']['weights']): string {
-  switch (w.method) {
-    case 'queen':
-    case 'rook': {
-      const parts = [`${w.method} contiguity`];
-      if (w.order && w.order > 1) parts.push(`order ${w.order}${w.includeLowerOrders ? ' (with lower orders)' : ''}`);
-      if (w.tolerance !== undefined) parts.push(`snapping tolerance ${w.tolerance}`);
-      return parts.join(', ');
-    }
-    case 'knn': return `${w.k} nearest neighbours`;
-    case 'band': return `all areas within distance ${w.distance}`;
-    case 'idw': return `inverse distance to the power ${w.power}${w.cutoff !== undefined ? `, up to distance ${w.cutoff}` : ''}`;
-    case 'edge-list': return `edge list from ${w.source}`;
-  }
-}
+import { describeRule } from '../weights/index.js';
 
 /** What went in and how it was run, so the result can be reproduced and checked. */
 export function recordBlocks(result: AnalysisResult): Block[] {
@@ -44,7 +28,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         ...(r.boundaryId ? [kv('ID property in the boundary file', r.boundaryId)] : []),
         kv('Outcome column', r.y),
         kv('Explanatory columns', r.x.join(', ')),
-        kv('Neighbour definition asked for', describeWeightsRequest(r.weights)),
+        kv('Neighbour definition asked for', describeRule(r.weights)),
         kv('Neighbour definition used', result.weights.description),
         ...(result.comparison ? [kv('Also fitted, for comparison, under', result.comparison.filter((c) => !c.asRun).map((c) => c.label).join('; '))] : []),
         kv('Weights transform', r.transform),

@@ -18,8 +18,6 @@ import { coordinateDissection, graphOf, levelDissection, usableCoordinates } fro
 import { analyse, type SymbolicFactor } from './symbolic.js';
 import { eliminateFront } from './lu-front.js';
 
-export { PivotError } from './lu-front.js';
-
 /** Multiply-adds of one LU evaluation above which the Monte Carlo series is used instead. */
 export const SPARSE_LU_WORK_LIMIT = 4e10;
 
