@@ -25,10 +25,10 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
         { header: 'Moran\'s I of residuals', format: 'decimal4', width: 11 },
         { header: 'Its z', format: 'decimal2', width: 11 },
         { header: 'Its p-value', format: 'pvalue', width: 11 },
-        { header: 'LM error: p', format: 'pvalue', width: 11 },
-        { header: 'LM lag: p', format: 'pvalue', width: 11 },
-        { header: 'Robust LM error: p', format: 'pvalue', width: 11 },
-        { header: 'Robust LM lag: p', format: 'pvalue', width: 11 },
+        { header: 'Error test: p', format: 'pvalue', width: 11 },
+        { header: 'Lag test: p', format: 'pvalue', width: 11 },
+        { header: 'Robust error test: p', format: 'pvalue', width: 11 },
+        { header: 'Robust lag test: p', format: 'pvalue', width: 11 },
         { header: 'Suggested model', format: 'text', width: 34 },
       ],
       rows: rows.map((r): Cell[] => [
@@ -36,6 +36,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
         num(r.lmP.error), num(r.lmP.lag), num(r.lmP.robustError), num(r.lmP.robustLag),
         r.failed ? 'could not be built (see below)' : r.suggestion ? CHOICE_LABEL[r.suggestion] : null,
       ]),
+      note: 'The four tests are the Lagrange-multiplier tests of the plain regression for a spatial error and a spatial lag, and their forms robust to the other kind.',
     },
   ];
   const hasLag = built.some((r) => r.lag), hasError = built.some((r) => r.error);
