@@ -51,7 +51,7 @@ describe('OLS by QR', () => {
     expect(fit.f.stat).toBeCloseTo((fit.r2 / (k - 1)) / ((1 - fit.r2) / (n - k)), 9);
     expect(fit.logLik).toBeCloseTo(-n / 2 * Math.log(2 * Math.PI) - n / 2 * Math.log(ssr / n) - n / 2, 9);
     expect(fit.aic).toBeCloseTo(-2 * fit.logLik + 2 * k, 9);
-    expect(fit.schwarz).toBeCloseTo(-2 * fit.logLik + k * Math.log(n), 9);
+    expect(fit.bic).toBeCloseTo(-2 * fit.logLik + k * Math.log(n), 9);
   });
 
   it('condition number equals the ratio of singular values of the unit-length-scaled columns (ml-matrix SVD)', () => {

@@ -1,7 +1,7 @@
 // Property tests of the neighbour rules (fast-check, fixed seeds). Each property is a definition
 // or identity, not a recorded number:
 // - contiguity is a symmetric relation without self-links (if A touches B, B touches A);
-// - row standardisation divides each row by its sum, so rows sum to 1 and islands stay 0;
+// - row standardisation divides each row by its sum, so rows sum to 1 and withoutNeighbours stay 0;
 // - k-nearest gives every area exactly k neighbours, none of them itself;
 // - a distance band is symmetric (distance is).
 import { describe, expect, it } from 'vitest';
@@ -68,7 +68,7 @@ function tryBuild(f: () => SpatialWeights): SpatialWeights | null {
 }
 
 describe('property: contiguity weights', () => {
-  it('are symmetric before standardisation and have no self-links; standardised rows sum to 1 (islands 0)', () => {
+  it('are symmetric before standardisation and have no self-links; standardised rows sum to 1 (withoutNeighbours 0)', () => {
     fc.assert(
       fc.property(gridArb, ({ r, c, mask, split, rule }) => {
         const { ids, geometries } = cells(r, c, mask, split);

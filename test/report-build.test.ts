@@ -122,7 +122,7 @@ describe('buildReport', () => {
     expect(texts).toContain('vacancy_rate explained by median_rent, distance_km');
     const cmp = table(report, 'Summary', 'How the models compare');
     expect(cmp.rows.map((r) => r[0])).toEqual(['Plain regression', 'Spatial lag model', 'Spatial error model']);
-    expect(cmp.rows[1].slice(1, 10)).toEqual([result.lag!.logLik, result.lag!.aic, result.lag!.schwarz, result.lag!.lr.stat, result.lag!.lr.p,
+    expect(cmp.rows[1].slice(1, 10)).toEqual([result.lag!.logLik, result.lag!.aic, result.lag!.bic, result.lag!.lr.stat, result.lag!.lr.p,
       result.lag!.parameter, result.lag!.parameterSe, result.lag!.parameterP, result.lag!.pseudoR2]);
     const lm = table(report, 'Summary', 'Evidence of spatial dependence in the plain regression');
     expect(lm.rows.map((r) => r[1])).toEqual([result.ols.lm.error.stat, result.ols.lm.lag.stat, result.ols.lm.robustError.stat, result.ols.lm.robustLag.stat, result.ols.lm.joint.stat]);
@@ -165,11 +165,11 @@ describe('buildReport', () => {
     expect(blockHeight({ kind: 'table', title: 't', columns: [], rows: [[1], [2]], note: 'n' })).toBe(5);
   });
 
-  it('shows robust coefficients, islands, left-out rows and a given title', () => {
+  it('shows robust coefficients, withoutNeighbours, left-out rows and a given title', () => {
     const r = fakeResult();
     r.ols.robustCoefficients = r.ols.coefficients.map((c) => ({ ...c, se: c.se * 1.2 }));
-    r.weights.islands = ['W25'];
-    r.weights.summary = { ...r.weights.summary, islands: ['W25'] };
+    r.weights.withoutNeighbours = ['W25'];
+    r.weights.summary = { ...r.weights.summary, withoutNeighbours: ['W25'] };
     r.droppedRows = [{ row: 9, id: 'W99', columns: ['median_rent'] }];
     const rep = buildReport(r, { title: 'Vacancy in Lake Marrow' });
     expect(rep.sheets[0].blocks[0]).toEqual({ kind: 'title', text: 'Vacancy in Lake Marrow' });

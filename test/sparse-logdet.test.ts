@@ -75,17 +75,17 @@ describe('sparse Cholesky log-determinant', () => {
 });
 
 describe('orderings', () => {
-  it('are permutations, on grids, the irregular graph and a graph with islands', () => {
-    const islands = weightsFromNeighbours([[1], [0], [], [4], [3], [], [7], [6, 8], [7], []]);
-    const graphs = [...cases.map((c) => ({ s: c.g.s, x: c.g.x, y: c.g.y })), { s: islands.s, x: new Float64Array(10).map((_, i) => i), y: new Float64Array(10) }];
+  it('are permutations, on grids, the irregular graph and a graph with withoutNeighbours', () => {
+    const withoutNeighbours = weightsFromNeighbours([[1], [0], [], [4], [3], [], [7], [6, 8], [7], []]);
+    const graphs = [...cases.map((c) => ({ s: c.g.s, x: c.g.x, y: c.g.y })), { s: withoutNeighbours.s, x: new Float64Array(10).map((_, i) => i), y: new Float64Array(10) }];
     for (const { s, x, y } of graphs) {
       const g = graphOf(s);
       expect(isPermutation(coordinateDissection(g, x, y), s.n)).toBe(true);
       expect(isPermutation(levelDissection(g), s.n)).toBe(true);
     }
-    const ld = new SparseCholeskyLogDet(islands.s, {});
+    const ld = new SparseCholeskyLogDet(withoutNeighbours.s, {});
     expect(isPermutation(ld.symbolic.perm, 10)).toBe(true);
-    // identity: islands give ln 1 = 0; a linked pair and a 3-path (row-standardised, bipartite) have
+    // identity: withoutNeighbours give ln 1 = 0; a linked pair and a 3-path (row-standardised, bipartite) have
     // eigenvalues ±1 (and 0), so each gives ln(1 − ρ²)
     expect(ld.evaluate(0.5)).toBeCloseTo(3 * Math.log(1 - 0.25), 12);
   });

@@ -200,24 +200,24 @@ describe('rook contiguity of US counties against shared topology arcs', () => {
   });
 });
 
-describe('islands', () => {
+describe('withoutNeighbours', () => {
   const geoms = [...squareGrid(2, 2), polygon(squareRing(10, 0))];
   const input = { ids: ['n1', 'n2', 'n3', 'n4', 'far'], geometries: geoms, coordinates: 'projected' as const };
 
   it('are listed by ID, keep zero rows, and count as components of their own', () => {
     const w = buildWeights(input, { method: 'rook' });
     const s = summarizeWeights(w);
-    expect(s.islands).toEqual(['far']);
+    expect(s.withoutNeighbours).toEqual(['far']);
     expect(s.components).toBe(2);
     expect(w.rowPtr[5] - w.rowPtr[4]).toBe(0);
   });
 
   it('can be linked to their nearest area both ways, and the description says so', () => {
     const points = { x: new Float64Array([0.5, 1.5, 0.5, 1.5, 10.5]), y: new Float64Array([0.5, 0.5, 1.5, 1.5, 0.5]) };
-    const w = buildWeights({ ...input, points }, { method: 'rook' }, { linkIslands: true });
+    const w = buildWeights({ ...input, points }, { method: 'rook' }, { linkUnneighboured: true });
     expect(row(w, 4)).toEqual([1]);
     expect(row(w, 1)).toContain(4);
-    expect(w.linkedIslands).toEqual(['far']);
+    expect(w.linkedUnneighboured).toEqual(['far']);
     expect(w.description).toContain('far');
     expect(summarizeWeights(w).components).toBe(1);
     expect(summarizeWeights(w).symmetric).toBe(false); // row-standardised; the base stays symmetric

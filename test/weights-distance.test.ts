@@ -125,7 +125,7 @@ describe('distance band', () => {
     expect(w.description).toContain('km');
   });
 
-  it('rows sum to 1, islands stay 0 and are listed', () => {
+  it('rows sum to 1, withoutNeighbours stay 0 and are listed', () => {
     const x = new Float64Array([0, 1, 2, 50]), y = new Float64Array([0, 0, 0, 0]);
     const w = buildWeights(input({ x, y }, 'projected'), { method: 'band', distance: 1.5 });
     const sums = [0, 1, 2, 3].map((i) => w.values.subarray(w.rowPtr[i], w.rowPtr[i + 1]).reduce((a, b) => a + b, 0));
@@ -133,7 +133,7 @@ describe('distance band', () => {
     expect(sums[1]).toBeCloseTo(1, 15);
     expect(sums[2]).toBeCloseTo(1, 15);
     expect(sums[3]).toBe(0);
-    expect(summarizeWeights(w).islands).toEqual(['Z004']);
+    expect(summarizeWeights(w).withoutNeighbours).toEqual(['Z004']);
     expect(w.allLinkedDistance).toBe(48);
   });
 
@@ -144,12 +144,12 @@ describe('distance band', () => {
     expect(call).toThrow(/closest pair is 3 coordinate units apart; at 7 coordinate units every area/);
   });
 
-  it('islands linked on request', () => {
+  it('withoutNeighbours linked on request', () => {
     const x = new Float64Array([0, 1, 2, 50]), y = new Float64Array([0, 0, 0, 0]);
-    const w = buildWeights(input({ x, y }, 'projected'), { method: 'band', distance: 1.5 }, { linkIslands: true });
+    const w = buildWeights(input({ x, y }, 'projected'), { method: 'band', distance: 1.5 }, { linkUnneighboured: true });
     expect(row(w, 3)).toEqual([2]);
     expect(row(w, 2)).toEqual([1, 3]);
-    expect(w.linkedIslands).toEqual(['Z004']);
+    expect(w.linkedUnneighboured).toEqual(['Z004']);
   });
 });
 

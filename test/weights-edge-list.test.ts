@@ -15,12 +15,12 @@ const fixture = readFileSync('test/fixtures/weights/invented-links.csv', 'utf8')
 const message = (f: () => unknown): string => thrown(f).message;
 
 describe('reading edge lists', () => {
-  it('reads the fixture as given: links, weights, quoted IDs, an island for the unlisted area', () => {
+  it('reads the fixture as given: links, weights, quoted IDs, no neighbours for the unlisted area', () => {
     const w = readEdgeList(fixture, places, { transform: 'as given', source: 'invented-links.csv' });
     expect(row(w, 0)).toEqual([1, 2]);
     expect(Array.from(w.values.subarray(w.rowPtr[0], w.rowPtr[1]))).toEqual([0.5, 2]);
     expect(row(w, 2)).toEqual([0, 1]);
-    expect(summarizeWeights(w).islands).toEqual(['Dry Fork "Upper"']);
+    expect(summarizeWeights(w).withoutNeighbours).toEqual(['Dry Fork "Upper"']);
     expect(w.spec).toEqual({ method: 'edge-list', source: 'invented-links.csv' });
     expect(w.symmetricBase).toBeNull(); // Hollow → Marsh, East has no reverse link
   });

@@ -69,7 +69,7 @@ describe('symmetric form of row-standardised weights', () => {
     expect(symmetricForm(knn)).toBeNull();
   });
 
-  it('islands: zero rows and columns in S', () => {
+  it('withoutNeighbours: zero rows and columns in S', () => {
     const geoms = [...squareGrid(2, 2), polygon(squareRing(9, 9))];
     const wi = buildWeights({ ids: ids(5), geometries: geoms, coordinates: 'projected' }, { method: 'rook' });
     const s = dense(symmetricForm(wi)!);
@@ -100,7 +100,7 @@ describe('spatial lag and summaries', () => {
     expect(s.histogram).toEqual([[2, 4], [3, 4], [4, 1]]);
     expect([s.minNeighbours, s.medianNeighbours, s.maxNeighbours]).toEqual([2, 3, 4]);
     expect(s.meanNeighbours).toBeCloseTo(24 / 9, 15);
-    expect(s.islands).toEqual([]);
+    expect(s.withoutNeighbours).toEqual([]);
     expect(s.components).toBe(1);
     expect(s.symmetric).toBe(false); // row-standardised: corner rows weigh 1/2, side rows 1/3
   });
@@ -127,7 +127,7 @@ describe('subsets', () => {
     expect(Array.from(sub.colIdx)).toEqual(Array.from(direct.colIdx));
     for (let p = 0; p < sub.values.length; p++) expect(sub.values[p]).toBeCloseTo(direct.values[p], 15);
     expect(Array.from(sub.symmetricBase!.colIdx)).toEqual(Array.from(direct.symmetricBase!.colIdx));
-    expect(summarizeWeights(sub).islands).toEqual(['R16']);
+    expect(summarizeWeights(sub).withoutNeighbours).toEqual(['R16']);
     expect(sub.description).toContain('9 areas left out');
   });
 

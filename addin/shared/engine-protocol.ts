@@ -16,7 +16,7 @@ export interface CheckRequest {
   boundaryId?: string;
   weights: WeightsSpec;
   transform: WeightsTransform;
-  linkIslands?: boolean;
+  linkUnneighboured?: boolean;
 }
 
 export interface CheckResult {

@@ -26,7 +26,7 @@ interface State {
   method: Method;
   k: number; distance: number; power: number; order: number;
   transform: WeightsTransform;
-  linkIslands: boolean;
+  linkUnneighboured: boolean;
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
   compare: boolean;
   y?: string;
@@ -46,7 +46,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkIslands: false, compare: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkUnneighboured: false, compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
   };
   let saved: SavedSetup | null = null;
@@ -175,7 +175,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(areas.found, h('p', { class: 'hint' }, 'Matching the table to the areas…'));
     try {
       const { result } = await engine.call({ op: 'check', check: {
-        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
       } });
       if (serial !== checkSerial) return;
       // the boundary file names the IDs otherwise: take the property holding most of the table's IDs, once
@@ -242,7 +242,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       select('method', 'Who counts as a neighbour', METHODS, s.method, (v) => { s.method = v as Method; changed(); }),
       ...extra,
       select('transform', 'Weights', [{ value: 'row', text: 'Each area’s weights sum to 1' }, { value: 'binary', text: 'Every link weighs 1' }], s.transform, (v) => { s.transform = v as WeightsTransform; void refreshCheck(); }),
-      checkbox('link-islands', 'Link areas without neighbours to the nearest area', s.linkIslands, (v) => { s.linkIslands = v; void refreshCheck(); }),
+      checkbox('link-unneighboured', 'Link areas without neighbours to the nearest area', s.linkUnneighboured, (v) => { s.linkUnneighboured = v; void refreshCheck(); }),
       checkbox('compare', 'Also fit under a few other neighbour definitions, side by side', s.compare, (v) => { s.compare = v; }),
     );
   }
@@ -265,7 +265,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', { class: 'hint' }, 'Number of neighbours → number of areas'), bars,
       h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
     );
-    if (w.islands.length) nb.found.append(message('warning', `${w.islands.length} area(s) have no neighbours: ${some(w.islands, (i) => i)}.`));
+    if (w.withoutNeighbours.length) nb.found.append(message('warning', `${w.withoutNeighbours.length} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
   }
 
   // ---- 4 Model
@@ -299,7 +299,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       version: 1, sheet: s.source?.table.sheet, id: s.id, y: s.y, x: [...s.x],
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
-      weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands, compare: s.compare,
+      weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
     };
   }
@@ -320,7 +320,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     try {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
-        weights: weightsSpec(), transform: s.transform, linkIslands: s.linkIslands,
+        weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
       } }, onProgress);
@@ -354,7 +354,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
       }
       s.transform = saved.transform ?? s.transform;
-      s.linkIslands = saved.linkIslands ?? false;
+      s.linkUnneighboured = saved.linkUnneighboured ?? false;
       s.compare = saved.compare ?? false;
       s.lag = saved.models?.includes('lag') ?? true;
       s.error = saved.models?.includes('error') ?? false;

@@ -28,7 +28,7 @@ export interface SavedSetup {
   areas?: { kind: 'file'; names: string[]; layer?: string; idProperty?: string } | { kind: 'points'; xColumn: string; yColumn: string };
   weights?: WeightsSpec;
   transform?: WeightsTransform;
-  linkIslands?: boolean;
+  linkUnneighboured?: boolean;
   /** also fit under the usual alternative neighbour definitions */
   compare?: boolean;
   models?: ('lag' | 'error')[];

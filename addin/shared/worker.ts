@@ -63,7 +63,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
     const w = buildWeights(
       { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined },
       c.weights,
-      { transform: c.transform, linkIslands: c.linkIslands },
+      { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
     );
     result.neighbours = { ...summarizeWeights(w), description: w.description };
   } catch (e) {

@@ -15,7 +15,7 @@ stderr; the JSON goes to stdout.
 Conventions (the engine follows the same ones):
 - n areas, k regressors including the constant; W dense n x n, row-standardised, S0 = n.
 - sigma2 for OLS is e'e/(n-k); for the ML models it is the ML estimate e'e/n.
-- AIC = -2 logL + 2 q, Schwarz = -2 logL + q ln n with q = k (OLS) or k + 1 (ML: beta and the
+- AIC = -2 logL + 2 q, BIC = -2 logL + q ln n with q = k (OLS) or k + 1 (ML: beta and the
   spatial parameter; sigma2 is not counted).
 - p-values are two-sided: Student t with n-k df for OLS coefficients, standard normal for ML
   coefficients and Moran's z; chi-squared upper tail for the Lagrange-multiplier, likelihood-ratio, Jarque-Bera and both Breusch-Pagan statistics.
@@ -198,7 +198,7 @@ def normal_log_likelihood(ssr, n, log_jacobian=0.0):
 
 
 def information_criteria(logl, q, n):
-    """AIC = -2 logL + 2q (Akaike 1974); Schwarz = -2 logL + q ln n (Schwarz 1978)."""
+    """AIC = -2 logL + 2q (Akaike 1974); BIC = -2 logL + q ln n (Schwarz 1978)."""
     return -2 * logl + 2 * q, -2 * logl + q * math.log(n)
 
 
@@ -224,12 +224,12 @@ def ols(y, X, names):
     tss = float(((y - y.mean()) ** 2).sum())
     r2 = 1 - ssr / tss
     logl = normal_log_likelihood(ssr, n)
-    aic, schwarz = information_criteria(logl, k, n)
+    aic, bic = information_criteria(logl, k, n)
     return {
         "beta": beta, "residuals": e,
         "coefficients": coefficient_table(names, beta, se, df=n - k),
         "r2": r2, "adjR2": 1 - (1 - r2) * (n - 1) / (n - k), "sigma2": sigma2,
-        "logLik": logl, "aic": aic, "schwarz": schwarz,
+        "logLik": logl, "aic": aic, "bic": bic,
     }
 
 
@@ -268,7 +268,7 @@ def breusch_pagan(e, X):
     return chi2_test(0.5 * explained, k - 1)
 
 
-def koenker_bassett(e, X):
+def breusch_pagan_studentised(e, X):
     """Koenker (1981) studentised form: n R^2 of the regression of e^2 on X, chi-squared with k-1 df."""
     n, k = X.shape
     g = e ** 2
@@ -465,7 +465,7 @@ def spatial_lag(y, X, names, W, logdet, ols_fit):
     info, G = lag_information(X, W, beta, rho, s2)
     cov = np.linalg.inv(info)
     se = np.sqrt(np.diag(cov))
-    aic, schwarz = information_criteria(logl, k + 1, n)
+    aic, bic = information_criteria(logl, k + 1, n)
     A = np.eye(n) - rho * W
     yhat = np.linalg.solve(A, X @ beta)
 
@@ -476,7 +476,7 @@ def spatial_lag(y, X, names, W, logdet, ols_fit):
     return {
         "rho": rho, "rhoSe": se[k],
         "coefficients": coefficient_table(names, beta, se[:k]),
-        "sigma2": s2, "logLik": logl, "aic": aic, "schwarz": schwarz,
+        "sigma2": s2, "logLik": logl, "aic": aic, "bic": bic,
         "lr": chi2_test(2 * (logl - ols_fit["logLik"]), 1),
         "pseudoR2": squared_correlation(y, yhat),
         "lmRemainingError": lm_error_in_lag(e, W, G, s2, cov[k, k]),
@@ -536,7 +536,7 @@ def spatial_error(y, X, names, W, logdet, ols_fit):
                       [np.trace(H) / s2, n / (2 * s2 ** 2)]])
     var_block = np.linalg.inv(block)
     se_beta = np.sqrt(np.diag(var_beta))
-    aic, schwarz = information_criteria(logl, k + 1, n)
+    aic, bic = information_criteria(logl, k + 1, n)
 
     theta = np.concatenate([beta, [lam, s2]])
     hess = numeric_hessian(lambda t: error_log_likelihood(t, y, X, W, logdet), theta)
@@ -544,7 +544,7 @@ def spatial_error(y, X, names, W, logdet, ols_fit):
     return {
         "lambda": lam, "lambdaSe": math.sqrt(var_block[0, 0]),
         "coefficients": coefficient_table(names, beta, se_beta),
-        "sigma2": s2, "logLik": logl, "aic": aic, "schwarz": schwarz,
+        "sigma2": s2, "logLik": logl, "aic": aic, "bic": bic,
         "lr": chi2_test(2 * (logl - ols_fit["logLik"]), 1),
         "pseudoR2": squared_correlation(y, X @ beta),
         "breuschPagan": breusch_pagan(eps, X),
@@ -579,12 +579,12 @@ def analyse(y, X, names, neighbours, method):
     logdet = LogDeterminant(W)
     fit = ols(y, X, names)
     e = fit["residuals"]
-    ols_out = {k: fit[k] for k in ("coefficients", "r2", "adjR2", "sigma2", "logLik", "aic", "schwarz")}
+    ols_out = {k: fit[k] for k in ("coefficients", "r2", "adjR2", "sigma2", "logLik", "aic", "bic")}
     ols_out.update({
         "conditionNumber": condition_number(X),
         "jarqueBera": jarque_bera(e),
         "breuschPagan": breusch_pagan(e, X),
-        "koenkerBassett": koenker_bassett(e, X),
+        "breuschPaganStudentised": breusch_pagan_studentised(e, X),
         "moran": moran_residuals(e, X, W),
         "lm": lm_tests(y, X, W, fit["beta"], e),
     })
@@ -673,7 +673,7 @@ def main():
         "area-weighted ring centroids, planar distance, ties to the lower index. OLS by QR; ML lag and "
         "error concentrated in the spatial parameter, ln|I - aW| from dense eigenvalues, bounded Brent "
         "(xatol 1e-12) then root of the analytic slope; SEs from the analytic information matrix. "
-        "AIC/Schwarz count k + 1 parameters for ML models (sigma2 not counted). "
+        "AIC/BIC count k + 1 parameters for ML models (sigma2 not counted). "
         f"Floats rounded to {SIGNIFICANT_DIGITS} significant digits."
     )
     ordered = {"source": source, "weights": result["weights"], "ols": result["ols"], "lag": result["lag"],

@@ -17,7 +17,7 @@ export interface FitArgs {
   edgeList?: string;
   compare?: WeightsSpec[] | 'suggested';
   transform: WeightsTransform;
-  linkIslands: boolean;
+  linkUnneighboured: boolean;
   models: ModelName[];
   dropMissing: boolean;
   robust: boolean;
@@ -56,9 +56,9 @@ Neighbours
   --weights RULE       queen | rook | knn:K | band:DISTANCE | idw:POWER[:CUTOFF]   (default: queen)
                        distances are km on longitude/latitude, coordinate units otherwise
   --order K            contiguity of order K (neighbours of neighbours...)
-  --include-lower      with --order, keep the lower orders too
+  --cumulative         with --order K, every area up to K steps away (not only exactly K)
   --tolerance T        snapping tolerance for contiguity, in coordinate units
-  --link-islands       link each area without neighbours to its nearest area
+  --link-unneighboured link each area without neighbours to its nearest area
   --neighbours FILE    read neighbours from a CSV edge list (origin, neighbour, weight) instead
   --transform T        row (default) or binary
   --compare RULES      also fit under other neighbour rules, comma-separated (e.g. rook,knn:6),
@@ -83,8 +83,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
       options: {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
-        weights: { type: 'string' }, order: { type: 'string' }, 'include-lower': { type: 'boolean' },
-        tolerance: { type: 'string' }, 'link-islands': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
+        weights: { type: 'string' }, order: { type: 'string' }, cumulative: { type: 'boolean' },
+        tolerance: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
@@ -122,11 +122,11 @@ export function parseFitArgs(argv: string[]): FitArgs {
     boundaryId: v['boundary-id']?.trim() || undefined,
     y: need('y'),
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
-    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v['include-lower'] ?? false, v.tolerance),
+    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance),
     edgeList: v.neighbours,
     compare: parseCompare(v.compare, v.tolerance),
     transform,
-    linkIslands: v['link-islands'] ?? false,
+    linkUnneighboured: v['link-unneighboured'] ?? false,
     models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
     dropMissing: v['drop-missing'] ?? false,
     robust: v.robust ?? false,
@@ -158,7 +158,7 @@ function parseCompare(text: string | undefined, tolerance: string | undefined): 
 }
 
 /** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */
-export function parseWeightsRule(rule: string, order?: string, includeLower = false, tolerance?: string): WeightsSpec {
+export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string): WeightsSpec {
   const [name, ...params] = rule.trim().toLowerCase().split(':');
   const num = (s: string | undefined, what: string) => {
     const n = Number(s);
@@ -171,7 +171,7 @@ export function parseWeightsRule(rule: string, order?: string, includeLower = fa
       const k = num(order, '--order');
       if (!Number.isInteger(k) || k < 1) throw new InputError(`--order must be a whole number of at least 1, not "${order}".`);
       spec.order = k;
-      spec.includeLowerOrders = includeLower;
+      spec.cumulative = cumulative;
     }
     if (tolerance !== undefined) {
       const t = num(tolerance, '--tolerance');

@@ -50,7 +50,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       edgeList: args.edgeList ? readNamedFile(args.edgeList, 'neighbour list') : undefined,
       compareWeights: args.compare,
       transform: args.transform,
-      linkIslands: args.linkIslands,
+      linkUnneighboured: args.linkUnneighboured,
       models: args.models,
       dropMissing: args.dropMissing,
       robust: args.robust,

@@ -8,15 +8,15 @@ export function formatSummary(r: AnalysisResult): string {
   lines.push(`Spillway ${r.engineVersion}: ${r.request.y} explained by ${r.request.x.join(', ')} in ${r.n} areas`);
   lines.push(`Neighbours: ${w.description}.`);
   lines.push(`  ${w.links} links, ${fmt(w.summary.meanNeighbours, 3)} neighbours per area on average (fewest ${w.summary.minNeighbours}, most ${w.summary.maxNeighbours}); ` +
-    `${w.islands.length ? `${w.islands.length} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
+    `${w.withoutNeighbours.length ? `${w.withoutNeighbours.length} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
   if (r.droppedRows.length) lines.push(`  Left out for missing values: ${r.droppedRows.length} row(s).`);
   lines.push('');
 
   const o = r.ols;
   lines.push('Plain regression (least squares)');
   lines.push(...coefficientTable(o.coefficients, 't'));
-  lines.push(`  R² ${fmt(o.r2, 4)}, adjusted ${fmt(o.adjR2, 4)}; F ${fmt(o.f.stat, 4)} (p ${p(o.f.p)}); log-likelihood ${fmt(o.logLik, 6)}; AIC ${fmt(o.aic, 6)}; Schwarz ${fmt(o.schwarz, 6)}`);
-  lines.push(`  Residual checks: normality (Jarque–Bera) p ${p(o.jarqueBera.p)}; constant variance (Breusch–Pagan) p ${p(o.breuschPagan.p)}, studentised p ${p(o.koenkerBassett.p)}; condition number ${fmt(o.conditionNumber, 4)}`);
+  lines.push(`  R² ${fmt(o.r2, 4)}, adjusted ${fmt(o.adjR2, 4)}; F ${fmt(o.f.stat, 4)} (p ${p(o.f.p)}); log-likelihood ${fmt(o.logLik, 6)}; AIC ${fmt(o.aic, 6)}; BIC ${fmt(o.bic, 6)}`);
+  lines.push(`  Residual checks: normality (Jarque–Bera) p ${p(o.jarqueBera.p)}; constant variance (Breusch–Pagan) p ${p(o.breuschPagan.p)}, studentised p ${p(o.breuschPaganStudentised.p)}; condition number ${fmt(o.conditionNumber, 4)}`);
   lines.push('');
   lines.push('Spatial pattern left in the residuals');
   lines.push(`  Moran's I ${fmt(o.moran.I, 4)} (expected ${fmt(o.moran.expected, 4)} without pattern), z ${fmt(o.moran.z, 4)}, p ${p(o.moran.p)}`);
@@ -72,7 +72,7 @@ function spatialBlock(title: string, f: SpatialFit, symbol: 'rho' | 'lambda'): s
   const out = [title];
   out.push(`  ${name} ${fmt(f.parameter, 6)}, SE ${fmt(f.parameterSe, 4)}, z ${fmt(f.parameterZ, 4)}, p ${p(f.parameterP)}`);
   out.push(...coefficientTable(f.coefficients, 'z'));
-  out.push(`  log-likelihood ${fmt(f.logLik, 6)}; AIC ${fmt(f.aic, 6)}; Schwarz ${fmt(f.schwarz, 6)}; σ² ${fmt(f.sigma2, 5)}; squared correlation of observed and fitted ${fmt(f.pseudoR2, 4)}`);
+  out.push(`  log-likelihood ${fmt(f.logLik, 6)}; AIC ${fmt(f.aic, 6)}; BIC ${fmt(f.bic, 6)}; σ² ${fmt(f.sigma2, 5)}; squared correlation of observed and fitted ${fmt(f.pseudoR2, 4)}`);
   out.push(`  Likelihood-ratio test against the plain regression: ${fmt(f.lr.stat, 5)} (df ${f.lr.df}), p ${p(f.lr.p)}`);
   if (f.lmRemainingError) out.push(`  Spatial error pattern left after the lag: Lagrange multiplier ${fmt(f.lmRemainingError.stat, 4)}, p ${p(f.lmRemainingError.p)}`);
   out.push(`  Search: ${f.convergence.message}`);

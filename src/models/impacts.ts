@@ -44,13 +44,13 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     return s / n;
   };
   const rowsSumToOne = rowSumsAllOne(algebra);
-  const islands = rowsSumToOne ? 0 : unlinkedIslands(algebra);
+  const withoutNeighbours = rowsSumToOne ? 0 : unlinkedUnneighboured(algebra);
   const ones = new Float64Array(n).fill(1);
   const meanTotal = (rho: number): number => {
     if (rowsSumToOne) return 1 / (1 - rho);
     // rows summing to one except areas that link to no one and that no one links to: A⁻¹1 is
     // 1/(1 − ρ) on the others and 1 on those
-    if (islands > 0) return ((n - islands) / (1 - rho) + islands) / n;
+    if (withoutNeighbours > 0) return ((n - withoutNeighbours) / (1 - rho) + withoutNeighbours) / n;
     const { x: sol } = solveShifted(algebra.w, rho, ones);
     let s = 0;
     for (let i = 0; i < n; i++) s += sol[i];
@@ -132,7 +132,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     impacts,
     draws,
     seed,
-    method: `${draws} simulated draws of (β, ρ) from their estimated normal distribution (seed ${seed}); ${traceText}; total effect ${rowsSumToOne ? 'β/(1 − ρ), every row of W sums to one' : islands > 0 ? `β·(1 + (n − m)ρ/(n(1 − ρ))), every row of W sums to one but those of the ${islands} area(s) without neighbours` : "β·1'(I − ρW)⁻¹1/n by iterative solve"}`,
+    method: `${draws} simulated draws of (β, ρ) from their estimated normal distribution (seed ${seed}); ${traceText}; total effect ${rowsSumToOne ? 'β/(1 − ρ), every row of W sums to one' : withoutNeighbours > 0 ? `β·(1 + (n − m)ρ/(n(1 − ρ))), every row of W sums to one but those of the ${withoutNeighbours} area(s) without neighbours` : "β·1'(I − ρW)⁻¹1/n by iterative solve"}`,
   };
 }
 
@@ -145,7 +145,7 @@ function accumulate(acc: number[], v: number): void {
  * Number of areas with no neighbours and named by no other area, when every other row of W sums
  * to one; 0 when W is not of that form.
  */
-function unlinkedIslands(algebra: WeightsAlgebra): number {
+function unlinkedUnneighboured(algebra: WeightsAlgebra): number {
   const w = algebra.w;
   const named = new Uint8Array(w.n);
   for (let p = 0; p < w.rowPtr[w.n]; p++) if (w.values[p] !== 0) named[w.colIdx[p]] = 1;

@@ -22,7 +22,7 @@ import type { Design, OlsFit, SpatialFit } from './types.js';
  * Var β = σ²(X'B'BX)⁻¹, and the (λ, σ²) block is the inverse of
  *   [tr H² + tr HᵀH, tr H/σ²; tr H/σ², n/(2σ⁴)].
  *
- * Reported: AIC = −2logL + 2(k + 1), Schwarz with (k + 1) ln n (β's and λ; σ² not counted, common
+ * Reported: AIC = −2logL + 2(k + 1), BIC with (k + 1) ln n (β's and λ; σ² not counted, common
  * convention); LR against OLS, 1 df; fitted = Xβ, residuals = y − Xβ, pseudo-R² = corr(y, Xβ)²;
  * Breusch–Pagan on the filtered residuals ε = B(y − Xβ) against X.
  */
@@ -118,7 +118,7 @@ export function fitSpatialError(
     sigma2,
     logLik,
     aic: -2 * logLik + 2 * aicParameters,
-    schwarz: -2 * logLik + aicParameters * Math.log(n),
+    bic: -2 * logLik + aicParameters * Math.log(n),
     lr: { stat: lrStat, df: 1, p: chiSquareUpper(lrStat, 1) },
     pseudoR2: squaredCorrelation(y, fitted),
     residuals,

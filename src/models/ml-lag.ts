@@ -26,7 +26,7 @@ import type { Convergence, Design, OlsFit, SpatialFit } from './types.js';
  *   I_ββ = X'X/σ², I_βρ = X'GXβ/σ², I_βσ² = 0,
  *   I_ρρ = tr G² + tr GᵀG + (GXβ)'(GXβ)/σ², I_ρσ² = tr G/σ², I_σ²σ² = n/(2σ⁴).
  *
- * Reported: AIC = −2logL + 2(k + 1), Schwarz = −2logL + (k + 1) ln n — the common convention that
+ * Reported: AIC = −2logL + 2(k + 1), BIC = −2logL + (k + 1) ln n — the common convention that
  * counts the k β's and ρ but not σ²; LR = 2(logL − logL_OLS), 1 df; pseudo-R² = corr(y, ŷ)² with
  * ŷ = A⁻¹Xβ, the reduced-form prediction (fitted values are that ŷ).
  *
@@ -142,7 +142,7 @@ export function fitSpatialLag(
     sigma2,
     logLik,
     aic: -2 * logLik + 2 * aicParameters,
-    schwarz: -2 * logLik + aicParameters * Math.log(n),
+    bic: -2 * logLik + aicParameters * Math.log(n),
     lr: { stat: lrStat, df: 1, p: chiSquareUpper(lrStat, 1) },
     pseudoR2: squaredCorrelation(y, fitted),
     residuals: e,

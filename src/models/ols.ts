@@ -5,7 +5,7 @@ import {
   conditionNumber,
   fUpper,
   jarqueBera,
-  koenkerBassett,
+  breuschPaganStudentised,
   normalTwoSided,
   studentTwoSided,
 } from '../stats/index.js';
@@ -21,7 +21,7 @@ const CONDITION_WARNING = 30;
  *   β = R⁻¹Qᵀy, σ² = e'e/(n − k), Var β = σ²(X'X)⁻¹ = σ²R⁻¹R⁻ᵀ, t = β/se with n − k df;
  *   R² = 1 − e'e/Σ(y − ȳ)², adj R² = 1 − (1 − R²)(n − 1)/(n − k),
  *   F = [R²/(k − 1)] / [(1 − R²)/(n − k)] on (k − 1, n − k) df;
- *   logL = −n/2 ln(2π) − n/2 ln(e'e/n) − n/2, AIC = −2logL + 2k, Schwarz = −2logL + k ln n
+ *   logL = −n/2 ln(2π) − n/2 ln(e'e/n) − n/2, AIC = −2logL + 2k, BIC = −2logL + k ln n
  *   (k counts the β's; σ² is not counted — the convention used for the spatial models too).
  * Robust (White 1980, HC0): Var β = (X'X)⁻¹ X' diag(e²) X (X'X)⁻¹, with Student t p-values.
  */
@@ -75,11 +75,11 @@ export function fitOls(y: Float64Array, x: Design, opts: { robust?: boolean } = 
     sigma2ML: ssr / n,
     logLik,
     aic: -2 * logLik + 2 * k,
-    schwarz: -2 * logLik + k * Math.log(n),
+    bic: -2 * logLik + k * Math.log(n),
     conditionNumber: cn,
     jarqueBera: jarqueBera(residuals),
     breuschPagan: breuschPagan(residuals, x),
-    koenkerBassett: koenkerBassett(residuals, x),
+    breuschPaganStudentised: breuschPaganStudentised(residuals, x),
     warnings,
   };
   if (opts.robust) {

@@ -36,11 +36,11 @@ export interface OlsFit {
   sigma2ML: number;
   logLik: number;
   aic: number;
-  schwarz: number;
+  bic: number;
   conditionNumber: number;
   jarqueBera: TestResult;
   breuschPagan: TestResult;
-  koenkerBassett: TestResult;
+  breuschPaganStudentised: TestResult;
   warnings: string[];
 }
 
@@ -93,7 +93,7 @@ export interface SpatialFit {
   sigma2: number;
   logLik: number;
   aic: number;
-  schwarz: number;
+  bic: number;
   /** LR test against OLS, df 1 */
   lr: TestResult;
   /** squared correlation of observed and fitted */

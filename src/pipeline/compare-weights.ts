@@ -21,7 +21,7 @@ export const MAX_ALTERNATIVES = 6;
 export function sameSpec(a: WeightsSpec, b: WeightsSpec): boolean {
   const norm = (s: WeightsSpec) => {
     if (s.method === 'queen' || s.method === 'rook') {
-      return `${s.method}|${s.tolerance ?? 0}|${s.order ?? 1}|${(s.order ?? 1) > 1 && !!s.includeLowerOrders}`;
+      return `${s.method}|${s.tolerance ?? 0}|${s.order ?? 1}|${(s.order ?? 1) > 1 && !!s.cumulative}`;
     }
     if (s.method === 'knn') return `knn|${s.k}`;
     if (s.method === 'band') return `band|${s.distance}`;
@@ -51,7 +51,7 @@ export interface CompareContext {
   ols: OlsFit;
   models: ModelName[];
   transform?: WeightsTransform;
-  linkIslands?: boolean;
+  linkUnneighboured?: boolean;
   seed: number;
   /** simulation draws for the lag model's effects */
   impactDraws: number;
@@ -83,7 +83,7 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       w = buildWeights(
         { ids: ctx.joined.ids, geometries: ctx.joined.geometries, coordinates: ctx.joined.coordinates, points },
         spec,
-        { transform: ctx.transform, linkIslands: ctx.linkIslands },
+        { transform: ctx.transform, linkUnneighboured: ctx.linkUnneighboured },
       );
     } catch (e) {
       // a definition that cannot be built here (a band that links nothing...) is reported, not fatal
@@ -114,7 +114,7 @@ function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison 
   const { summary, moran, lm } = f;
   return {
     label, description: f.description, asRun,
-    links: summary.links, meanNeighbours: summary.meanNeighbours, islands: summary.islands.length, components: summary.components,
+    links: summary.links, meanNeighbours: summary.meanNeighbours, withoutNeighbours: summary.withoutNeighbours.length, components: summary.components,
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
     suggestion: f.recommendation.choice,
@@ -125,7 +125,7 @@ function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison 
 
 function emptyRow(label: string): WeightsComparison {
   return {
-    label, description: label, asRun: false, links: NaN, meanNeighbours: NaN, islands: NaN, components: NaN,
+    label, description: label, asRun: false, links: NaN, meanNeighbours: NaN, withoutNeighbours: NaN, components: NaN,
     moran: { I: NaN, z: NaN, p: NaN }, lmP: { error: NaN, lag: NaN, robustError: NaN, robustLag: NaN },
   };
 }

@@ -74,7 +74,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     w = buildWeights(
       { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? points : undefined },
       request.weights,
-      { transform: request.transform, linkIslands: request.linkIslands },
+      { transform: request.transform, linkUnneighboured: request.linkUnneighboured },
     );
   }
   const summary = summarizeWeights(w);
@@ -140,14 +140,14 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     comparison = compareWeights(
       { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error, impacts: impacts?.impacts },
       alternatives,
-      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkIslands: request.linkIslands, seed, impactDraws, method: request.algebra, helper: runtime.helper },
+      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkUnneighboured: request.linkUnneighboured, seed, impactDraws, method: request.algebra, helper: runtime.helper },
     );
     lap('comparison');
   }
 
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
-  if (summary.islands.length > 0) {
-    warnings.push(`${summary.islands.length} area(s) have no neighbours (${summary.islands.slice(0, 10).join(', ')}${summary.islands.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
+  if (summary.withoutNeighbours.length > 0) {
+    warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (request.permutations === undefined && permutations === 0) {
     warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
@@ -183,7 +183,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       description: w.description,
       transform: w.transform,
       links: w.colIdx.length,
-      islands: summary.islands,
+      withoutNeighbours: summary.withoutNeighbours,
       components: summary.components,
       summary,
       edges: edgesOf(w),

@@ -39,7 +39,7 @@ export interface AnalysisRequest {
   /** An edge list that replaces `weights` when given (origin, neighbour, weight). */
   edgeList?: NamedBytesLike;
   transform: WeightsTransform;
-  linkIslands?: boolean;
+  linkUnneighboured?: boolean;
   models: ModelName[];
   /** Drop rows with missing values (and re-build the weights on the remaining areas) instead of refusing. */
   dropMissing?: boolean;
@@ -92,7 +92,7 @@ export interface AnalysisResult {
     description: string;
     transform: WeightsTransform | 'as given';
     links: number;
-    islands: string[];
+    withoutNeighbours: string[];
     components: number;
     summary: WeightsSummary;
     /** directed edge list in row order: origin index, neighbour index, weight */
@@ -136,7 +136,7 @@ export interface WeightsComparison {
   asRun: boolean;
   links: number;
   meanNeighbours: number;
-  islands: number;
+  withoutNeighbours: number;
   components: number;
   /** Moran's I of the plain regression's residuals under this definition */
   moran: { I: number; z: number; p: number };

@@ -37,8 +37,8 @@ export function collectWarnings(result: AnalysisResult): string[] {
   if (result.ols.conditionNumber > 30) {
     out.push(`The explanatory columns are strongly related to each other (condition number ${say(result.ols.conditionNumber)}, above the usual threshold of 30): individual coefficients may be unstable.`);
   }
-  if (result.weights.islands.length) {
-    out.push(`${result.weights.islands.length} area(s) have no neighbours under this definition: ${listSome(result.weights.islands, 10)}.`);
+  if (result.weights.withoutNeighbours.length) {
+    out.push(`${result.weights.withoutNeighbours.length} area(s) have no neighbours under this definition: ${listSome(result.weights.withoutNeighbours, 10)}.`);
   }
   if (result.weights.components > 1) out.push(`The neighbour links split the areas into ${result.weights.components} separate groups.`);
   if (result.droppedRows.length) out.push(`${result.droppedRows.length} row(s) with missing values were left out; the list is on the run record sheet.`);

@@ -32,7 +32,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
         { header: 'Suggested model', format: 'text', width: 34 },
       ],
       rows: rows.map((r): Cell[] => [
-        name(r), num(r.links), num(r.meanNeighbours), num(r.islands), num(r.moran.I), num(r.moran.z), num(r.moran.p),
+        name(r), num(r.links), num(r.meanNeighbours), num(r.withoutNeighbours), num(r.moran.I), num(r.moran.z), num(r.moran.p),
         num(r.lmP.error), num(r.lmP.lag), num(r.lmP.robustError), num(r.lmP.robustLag),
         r.failed ? 'could not be built (see below)' : r.suggestion ? CHOICE_LABEL[r.suggestion] : null,
       ]),

@@ -3,12 +3,12 @@ import type { Coefficient } from '../models/types.js';
 import { MODEL_LABEL, SOME_LEVEL, say, sayList, sayP } from './format.js';
 
 /** The models that were fitted, in a fixed order, with their headline figures. */
-export function fittedModels(result: AnalysisResult): { name: ModelName; logLik: number; aic: number; schwarz: number; coefficients: Coefficient[] }[] {
-  const out: { name: ModelName; logLik: number; aic: number; schwarz: number; coefficients: Coefficient[] }[] = [
-    { name: 'ols', logLik: result.ols.logLik, aic: result.ols.aic, schwarz: result.ols.schwarz, coefficients: result.ols.coefficients },
+export function fittedModels(result: AnalysisResult): { name: ModelName; logLik: number; aic: number; bic: number; coefficients: Coefficient[] }[] {
+  const out: { name: ModelName; logLik: number; aic: number; bic: number; coefficients: Coefficient[] }[] = [
+    { name: 'ols', logLik: result.ols.logLik, aic: result.ols.aic, bic: result.ols.bic, coefficients: result.ols.coefficients },
   ];
-  if (result.lag) out.push({ name: 'lag', logLik: result.lag.logLik, aic: result.lag.aic, schwarz: result.lag.schwarz, coefficients: result.lag.coefficients });
-  if (result.error) out.push({ name: 'error', logLik: result.error.logLik, aic: result.error.aic, schwarz: result.error.schwarz, coefficients: result.error.coefficients });
+  if (result.lag) out.push({ name: 'lag', logLik: result.lag.logLik, aic: result.lag.aic, bic: result.lag.bic, coefficients: result.lag.coefficients });
+  if (result.error) out.push({ name: 'error', logLik: result.error.logLik, aic: result.error.aic, bic: result.error.bic, coefficients: result.error.coefficients });
   return out;
 }
 

@@ -43,7 +43,7 @@ export function olsBlocks(result: AnalysisResult): Block[] {
     ['Residual variance (divided by n)', num(o.sigma2ML), 'decimal4'],
     ['Log-likelihood', num(o.logLik), 'decimal4'],
     ['AIC', num(o.aic), 'decimal4'],
-    ['Schwarz criterion', num(o.schwarz), 'decimal4'],
+    ['Bayesian information criterion (BIC)', num(o.bic), 'decimal4'],
   ];
   blocks.push({ kind: 'keyValues', title: 'Fit', rows });
   return blocks;
@@ -60,7 +60,7 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
     ['Residual variance', num(fit.sigma2), 'decimal4'],
     ['Log-likelihood', num(fit.logLik), 'decimal4'],
     ['AIC', num(fit.aic), 'decimal4'],
-    ['Schwarz criterion', num(fit.schwarz), 'decimal4'],
+    ['Bayesian information criterion (BIC)', num(fit.bic), 'decimal4'],
     ['Likelihood ratio against the plain regression', num(fit.lr.stat), 'decimal4'],
     ['Its degrees of freedom', fit.lr.df, 'integer'],
     ['Its p-value', num(fit.lr.p), 'pvalue'],

@@ -22,7 +22,7 @@ export function neighboursBlocks(result: AnalysisResult): Block[] {
         ['Average number of neighbours', num(s.meanNeighbours), 'decimal2'],
         ['Median number of neighbours', num(s.medianNeighbours), 'decimal2'],
         ['Most neighbours of an area', s.maxNeighbours, 'integer'],
-        ['Areas without neighbours', s.islands.length, 'integer'],
+        ['Areas without neighbours', s.withoutNeighbours.length, 'integer'],
         ['Separate groups of linked areas', s.components, 'integer'],
         ['Links run both ways with equal weight', yesNo(s.symmetric), 'text'],
         ['Weights', w.transform === 'row' ? 'row-standardised' : w.transform, 'text'],
@@ -34,7 +34,7 @@ export function neighboursBlocks(result: AnalysisResult): Block[] {
       rows: s.histogram.map(([k, count]): Cell[] => [k, count]),
     },
   ];
-  if (s.islands.length) blocks.push({ kind: 'paragraph', style: 'caution', text: `Areas without neighbours: ${listSome(s.islands, 200)}.` });
+  if (s.withoutNeighbours.length) blocks.push({ kind: 'paragraph', style: 'caution', text: `Areas without neighbours: ${listSome(s.withoutNeighbours, 200)}.` });
   blocks.push({
     kind: 'table', title: 'Every link',
     columns: [{ header: 'Area ID', format: 'text', width: 14 }, { header: 'Neighbour ID', format: 'text', width: 14 }, { header: 'Weight', format: 'decimal4', width: 12 }],

@@ -8,10 +8,10 @@ import { comparisonReading } from './comparison.js';
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   const o = result.ols;
-  const rows: Cell[][] = [[MODEL_LABEL.ols, num(o.logLik), num(o.aic), num(o.schwarz), null, null, null, null, null, num(o.r2)]];
+  const rows: Cell[][] = [[MODEL_LABEL.ols, num(o.logLik), num(o.aic), num(o.bic), null, null, null, null, null, num(o.r2)]];
   for (const fit of [result.lag, result.error]) {
     if (!fit) continue;
-    rows.push([MODEL_LABEL[fit.model], num(fit.logLik), num(fit.aic), num(fit.schwarz), num(fit.lr.stat), num(fit.lr.p),
+    rows.push([MODEL_LABEL[fit.model], num(fit.logLik), num(fit.aic), num(fit.bic), num(fit.lr.stat), num(fit.lr.p),
       num(fit.parameter), num(fit.parameterSe), num(fit.parameterP), num(fit.pseudoR2)]);
   }
   return rows;
@@ -29,7 +29,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         ['Rows left out for missing values', result.droppedRows.length, 'integer'],
         ['Neighbour definition', result.weights.description, 'text'],
         ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],
-        ['Areas without neighbours', result.weights.islands.length, 'integer'],
+        ['Areas without neighbours', result.weights.withoutNeighbours.length, 'integer'],
       ],
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },
@@ -42,7 +42,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'Model', format: 'text', width: 26 },
         { header: 'Log-likelihood', format: 'decimal4', width: 14 },
         { header: 'AIC', format: 'decimal4', width: 12 },
-        { header: 'Schwarz criterion', format: 'decimal4', width: 12 },
+        { header: 'Bayesian information criterion (BIC)', format: 'decimal4', width: 12 },
         { header: 'Likelihood ratio against plain regression', format: 'decimal4', width: 14 },
         { header: 'p-value of the ratio', format: 'pvalue', width: 11 },
         { header: 'Spatial parameter', format: 'decimal4', width: 12 },
@@ -51,7 +51,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 12 },
       ],
       rows: comparisonRows(result),
-      note: 'Higher log-likelihood and lower AIC or Schwarz values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+      note: 'Higher log-likelihood and lower AIC or BIC values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
     },
     lmTable(result, 'Evidence of spatial dependence in the plain regression'),
     {

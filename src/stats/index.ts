@@ -5,7 +5,7 @@ export { gearyC } from './geary.js';
 export { localMoran } from './local-moran.js';
 export { jarqueBera } from './jarque-bera.js';
 export { breuschPagan } from './breusch-pagan.js';
-export { koenkerBassett } from './koenker-bassett.js';
+export { breuschPaganStudentised } from './breusch-pagan-studentised.js';
 export { conditionNumber } from './condition-number.js';
 export { seededRandom, normalSampler } from './random.js';
 export { studentTwoSided, normalTwoSided, chiSquareUpper, fUpper } from './distributions.js';

@@ -13,7 +13,7 @@ export interface BuildOptions {
   /** default 'row' */
   transform?: WeightsTransform;
   /** link every area without neighbours to its nearest area (both ways) */
-  linkIslands?: boolean;
+  linkUnneighboured?: boolean;
 }
 
 interface Built {
@@ -23,7 +23,7 @@ interface Built {
   description: string;
   greatCircle?: boolean;
   allLinkedDistance?: number;
-  linkedIslands?: string[];
+  linkedUnneighboured?: string[];
 }
 
 /** Spatial weights for the areas under one neighbour rule, then transformed (row-standardised by default). */
@@ -62,7 +62,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
   };
   if (built.greatCircle !== undefined) result.greatCircle = built.greatCircle;
   if (built.allLinkedDistance !== undefined) result.allLinkedDistance = built.allLinkedDistance;
-  if (built.linkedIslands) result.linkedIslands = built.linkedIslands;
+  if (built.linkedUnneighboured) result.linkedUnneighboured = built.linkedUnneighboured;
   return result;
 }
 
@@ -78,7 +78,7 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? 'queen contiguity (areas sharing at least one boundary point)'
       : 'rook contiguity (areas sharing a stretch of boundary)';
   if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
-  // points only matter for islands; the caller's points when given, else bounding-box centres
+  // points only matter for withoutNeighbours; the caller's points when given, else bounding-box centres
   const points = () => (input.points ? checkedPoints(input, 'contiguity') : boxCentres(input));
   if (pattern.rowPtr[n] === 0) {
     const pts = points();
@@ -91,23 +91,23 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
         `(the distance at which every area has a neighbour) or k-nearest neighbours.`,
     );
   }
-  let linkedIslands: string[] | undefined;
-  if (opts.linkIslands) {
+  let linkedUnneighboured: string[] | undefined;
+  if (opts.linkUnneighboured) {
     const linked = linkToNearest(pattern, points, input.ids, () => 1);
     if (linked.ids.length > 0) {
       pattern = linked.pattern;
-      linkedIslands = linked.ids;
-      description += `; ${islandNote(linked.ids)}${input.points ? '' : ' (nearest by bounding-box centre)'}`;
+      linkedUnneighboured = linked.ids;
+      description += `; ${unneighbouredNote(linked.ids)}${input.points ? '' : ' (nearest by bounding-box centre)'}`;
     }
   }
   const order = spec.order ?? 1;
   if (order !== 1) {
-    pattern = higherOrder(pattern, order, spec.includeLowerOrders ?? false);
-    description = spec.includeLowerOrders
+    pattern = higherOrder(pattern, order, spec.cumulative ?? false);
+    description = spec.cumulative
       ? `neighbours up to ${order} steps away by ${description}`
       : `neighbours exactly ${order} steps away by ${description}`;
   }
-  return { base: pattern, symmetric: true, description, linkedIslands };
+  return { base: pattern, symmetric: true, description, linkedUnneighboured };
 }
 
 function kNearest(input: WeightsInput, k: number): Built {
@@ -171,16 +171,16 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
       ? `distance band: areas within ${plain(reach as number)} ${unit}`
       : `inverse distance, weight = distance^(−${plain(power)})${reach === undefined ? ' between all pairs' : `, up to ${plain(reach)} ${unit}`}`;
   description += ` (${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points; every area has a neighbour from ${plain(largest)} ${unit})`;
-  let linkedIslands: string[] | undefined;
-  if (opts.linkIslands) {
+  let linkedUnneighboured: string[] | undefined;
+  if (opts.linkUnneighboured) {
     const linked = linkToNearest(base, () => pts, input.ids, (i, j) => weight(pointDistance(pts, i, j), i, j), nearest.nearest);
     if (linked.ids.length > 0) {
       base = linked.pattern;
-      linkedIslands = linked.ids;
-      description += `; ${islandNote(linked.ids)}`;
+      linkedUnneighboured = linked.ids;
+      description += `; ${unneighbouredNote(linked.ids)}`;
     }
   }
-  return { base, symmetric: true, description, greatCircle: pts.greatCircle, allLinkedDistance: largest, linkedIslands };
+  return { base, symmetric: true, description, greatCircle: pts.greatCircle, allLinkedDistance: largest, linkedUnneighboured };
 }
 
 /** Adds a link both ways between every area without neighbours and its nearest area. */
@@ -192,18 +192,18 @@ function linkToNearest(
   nearest?: Int32Array,
 ): { pattern: CsrMatrix; ids: string[] } {
   const n = pattern.n;
-  const islands: number[] = [];
-  for (let i = 0; i < n; i++) if (pattern.rowPtr[i + 1] === pattern.rowPtr[i]) islands.push(i);
-  if (islands.length === 0) return { pattern, ids: [] };
+  const withoutNeighbours: number[] = [];
+  for (let i = 0; i < n; i++) if (pattern.rowPtr[i + 1] === pattern.rowPtr[i]) withoutNeighbours.push(i);
+  if (withoutNeighbours.length === 0) return { pattern, ids: [] };
   const near = nearest ?? nearestOther(points()).nearest;
   const links = new LinkList();
   for (let i = 0; i < n; i++) {
     for (let p = pattern.rowPtr[i], pEnd = pattern.rowPtr[i + 1]; p < pEnd; p++) links.push(i, pattern.colIdx[p], pattern.values[p]);
   }
-  for (const i of islands) links.pushBoth(i, near[i], weight(i, near[i]));
-  return { pattern: csrFromLinks(n, links), ids: islands.map((i) => ids[i]) };
+  for (const i of withoutNeighbours) links.pushBoth(i, near[i], weight(i, near[i]));
+  return { pattern: csrFromLinks(n, links), ids: withoutNeighbours.map((i) => ids[i]) };
 }
 
-function islandNote(ids: string[]): string {
+function unneighbouredNote(ids: string[]): string {
   return `${ids.length} area${ids.length === 1 ? '' : 's'} without neighbours linked to the nearest area: ${listSome(ids)}`;
 }

@@ -6,7 +6,7 @@ export function describeRule(w: SpatialWeights['spec']): string {
     case 'queen':
     case 'rook': {
       const parts = [`${w.method} contiguity`];
-      if (w.order && w.order > 1) parts.push(`order ${w.order}${w.includeLowerOrders ? ' (with lower orders)' : ''}`);
+      if (w.order && w.order > 1) parts.push(w.cumulative ? `up to ${w.order} steps away` : `exactly ${w.order} steps away`);
       if (w.tolerance !== undefined) parts.push(`snapping tolerance ${w.tolerance}`);
       return parts.join(', ');
     }

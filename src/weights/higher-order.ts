@@ -5,9 +5,9 @@ import { LinkList, csrFromLinks } from './pattern.js';
 /**
  * Higher-order neighbours on a contiguity graph: area j is an order-k neighbour of i when the
  * shortest path from i to j along neighbour links has exactly k steps (breadth-first search,
- * cut at depth k). With includeLowerOrders, every j within 1..k steps. Values are 1.
+ * cut at depth k). With cumulative, every j within 1..k steps. Values are 1.
  */
-export function higherOrder(pattern: CsrMatrix, order: number, includeLowerOrders: boolean): CsrMatrix {
+export function higherOrder(pattern: CsrMatrix, order: number, cumulative: boolean): CsrMatrix {
   if (!Number.isInteger(order) || order < 1) {
     throw new InputError(`The neighbour order must be a whole number, 1 or more; got ${order}.`);
   }
@@ -33,7 +33,7 @@ export function higherOrder(pattern: CsrMatrix, order: number, includeLowerOrder
         seenBy[w] = i;
         depth[w] = du + 1;
         queue[tail++] = w;
-        if (du + 1 === order || includeLowerOrders) links.push(i, w);
+        if (du + 1 === order || cumulative) links.push(i, w);
       }
     }
   }

@@ -57,7 +57,7 @@ export function checkedPoints(input: WeightsInput, method: string): PointSet {
 }
 
 /**
- * Points for linking islands when the caller gave none: the centre of each area's bounding box
+ * Points for linking withoutNeighbours when the caller gave none: the centre of each area's bounding box
  * (a stand-in; the pipeline normally passes proper representative points).
  */
 export function boxCentres(input: WeightsInput): PointSet {

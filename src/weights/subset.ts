@@ -45,6 +45,6 @@ export function subsetWeights(w: SpatialWeights, keep: number[]): SpatialWeights
     ids: keep.map((i) => w.ids[i]),
     description: dropped > 0 ? `${w.description}; ${dropped} area${dropped === 1 ? '' : 's'} left out` : w.description,
     symmetricBase: w.symmetricBase ? cut(w.symmetricBase) : null,
-    ...(w.linkedIslands ? { linkedIslands: w.linkedIslands.filter((id) => keep.some((i) => w.ids[i] === id)) } : {}),
+    ...(w.linkedUnneighboured ? { linkedUnneighboured: w.linkedUnneighboured.filter((id) => keep.some((i) => w.ids[i] === id)) } : {}),
   };
 }

@@ -40,7 +40,7 @@ export function connectedComponents(w: CsrMatrix): { count: number; label: Int32
   return { count, label };
 }
 
-/** Counts that describe a weights matrix: links, neighbour-count distribution, islands, components. */
+/** Counts that describe a weights matrix: links, neighbour-count distribution, withoutNeighbours, components. */
 export function summarizeWeights(w: SpatialWeights): WeightsSummary {
   const n = w.n;
   const counts = new Int32Array(n);
@@ -55,9 +55,9 @@ export function summarizeWeights(w: SpatialWeights): WeightsSummary {
     histogram.push([sorted[k], e - k]);
     k = e;
   }
-  // as in the weights contract: an island is an area whose row is empty (its spatial lag is 0)
-  const islands: string[] = [];
-  for (let i = 0; i < n; i++) if (counts[i] === 0) islands.push(w.ids[i]);
+  // as in the weights contract: an area without neighbours has an empty row (its spatial lag is 0)
+  const withoutNeighbours: string[] = [];
+  for (let i = 0; i < n; i++) if (counts[i] === 0) withoutNeighbours.push(w.ids[i]);
   return {
     n,
     links,
@@ -67,7 +67,7 @@ export function summarizeWeights(w: SpatialWeights): WeightsSummary {
     medianNeighbours: median,
     maxNeighbours: n > 0 ? sorted[n - 1] : 0,
     histogram,
-    islands,
+    withoutNeighbours,
     components: connectedComponents(w).count,
     symmetric: isSymmetric(w),
   };

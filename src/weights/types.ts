@@ -1,8 +1,8 @@
 import type { CsrMatrix } from '../linalg/csr.js';
 
 export type WeightsSpec =
-  | { method: 'queen'; tolerance?: number; order?: number; includeLowerOrders?: boolean }
-  | { method: 'rook'; tolerance?: number; order?: number; includeLowerOrders?: boolean }
+  | { method: 'queen'; tolerance?: number; order?: number; cumulative?: boolean }
+  | { method: 'rook'; tolerance?: number; order?: number; cumulative?: boolean }
   | { method: 'knn'; k: number }
   | { method: 'band'; distance: number }
   | { method: 'idw'; power: number; cutoff?: number };
@@ -11,7 +11,7 @@ export type WeightsTransform = 'row' | 'binary';
 
 /**
  * Spatial weights on n areas in CSR form. Row i lists the neighbours of area i.
- * No self-links. Islands are rows with no entries.
+ * No self-links. An area without neighbours is a row with no entries.
  */
 export interface SpatialWeights extends CsrMatrix {
   ids: string[];
@@ -32,7 +32,7 @@ export interface SpatialWeights extends CsrMatrix {
    */
   allLinkedDistance?: number;
   /** IDs of areas that had no neighbour and were linked to their nearest area on request. */
-  linkedIslands?: string[];
+  linkedUnneighboured?: string[];
 }
 
 export interface WeightsSummary {
@@ -47,7 +47,7 @@ export interface WeightsSummary {
   maxNeighbours: number;
   /** [neighbour count, number of areas] ascending */
   histogram: [number, number][];
-  islands: string[];
+  withoutNeighbours: string[];
   components: number;
   symmetric: boolean;
 }

@@ -1,9 +1,9 @@
-/** Bad model setups and neighbour definitions: constant or collinear columns, n ≤ k, islands, k, bands, edge lists. */
+/** Bad model setups and neighbour definitions: constant or collinear columns, n ≤ k, withoutNeighbours, k, bands, edge lists. */
 import type { BadInput } from './case.js';
 import { csvFile, gridCodesOnly, gridCsv, gridFile, text } from './make.js';
 
 const M = 'model columns: constant, collinear, n ≤ k';
-const W = 'neighbours: islands, k, bands';
+const W = 'neighbours: withoutNeighbours, k, bands';
 const E = 'edge lists';
 
 const withTable = (data: ReturnType<typeof gridCsv>) => ({ boundary: [gridCodesOnly()], data });
@@ -34,12 +34,12 @@ export const modelCases: BadInput[] = [
   { group: M, name: 'one column named as both outcome and explanatory', request: { x: ['x1', 'y'] }, files: grid, expect: ['Column "y" is named twice'] },
   // --- neighbours
   {
-    group: W, name: 'every area an island under contiguity',
+    group: W, name: 'every area without neighbours under contiguity',
     files: () => ({ boundary: [gridFile('districts.geojson', undefined, { gap: 0.1 })] }),
     expect: ['No area has a neighbour under queen contiguity', 'distance band of at least'],
   },
   {
-    group: W, name: 'every area an island under rook contiguity (corners only touch)', request: { weights: { method: 'rook' } },
+    group: W, name: 'every area without neighbours under rook contiguity (corners only touch)', request: { weights: { method: 'rook' } },
     files: () => ({
       boundary: [gridFile('districts.geojson', (fc) => {
         // keep the black squares of a checkerboard: they meet only at corners

@@ -45,7 +45,7 @@ export interface GridOptions {
   x0?: number;
   y0?: number;
   size?: number;
-  /** gap between cells (islands when > 0) */
+  /** gap between cells (withoutNeighbours when > 0) */
   gap?: number;
   /** properties per cell (default gridRows) */
   props?: Record<string, unknown>[];

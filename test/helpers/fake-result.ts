@@ -92,7 +92,7 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     const res = residuals.map((e) => e * 0.82);
     return {
       model, parameter, parameterSe: 0.12, parameterZ: parameter / 0.12, parameterP: 0.0021,
-      coefficients: coefs(0.9, true), sigma2: 0.31, logLik: -18.4 - (model === 'error' ? 0.6 : 0), aic: 46.8, schwarz: 51.7,
+      coefficients: coefs(0.9, true), sigma2: 0.31, logLik: -18.4 - (model === 'error' ? 0.6 : 0), aic: 46.8, bic: 51.7,
       lr: { stat: 6.3, df: 1, p: 0.012 }, pseudoR2: 0.81, residuals: res, fitted: y.map((v, i) => v - res[i]),
       lmRemainingError: model === 'lag' ? { stat: 0.42, df: 1, p: 0.52 } : undefined,
       breuschPagan: { stat: 2.1, df: 2, p: 0.35 }, covariance: new Float64Array(25),
@@ -119,15 +119,15 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     join: { unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [], blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [] },
     y, xNames: ['median_rent', 'distance_km'],
     weights: {
-      method: 'rook', description: 'rook contiguity (shared edge)', transform: 'row', links: edges.from.length, islands: [], components: 1,
-      summary: { n, links: edges.from.length, density: edges.from.length / (n * n), minNeighbours: 2, meanNeighbours: edges.from.length / n, medianNeighbours: 3, maxNeighbours: 4, histogram: [[2, 4], [3, 12], [4, 9]], islands: [], components: 1, symmetric: false },
+      method: 'rook', description: 'rook contiguity (shared edge)', transform: 'row', links: edges.from.length, withoutNeighbours: [], components: 1,
+      summary: { n, links: edges.from.length, density: edges.from.length / (n * n), minNeighbours: 2, meanNeighbours: edges.from.length / n, medianNeighbours: 3, maxNeighbours: 4, histogram: [[2, 4], [3, 12], [4, 9]], withoutNeighbours: [], components: 1, symmetric: false },
       edges,
     },
     algebra: { logDeterminant: 'eigenvalues (dense)', accuracy: 'exact to rounding', traces: 'exact', range: { lower: -1, upper: 1, method: 'extreme eigenvalues' } },
     ols: {
       n, k: 3, coefficients: coefs(1, false), residuals, fitted, r2: 0.74, adjR2: 0.716, f: { stat: 31.3, df: 2, df2: 22, p: 3.4e-7 },
-      sigma2: 0.41, sigma2ML: 0.37, logLik: -21.55, aic: 49.1, schwarz: 52.76, conditionNumber: 42.7,
-      jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, koenkerBassett: { stat: 2.9, df: 2, p: 0.2346 },
+      sigma2: 0.41, sigma2ML: 0.37, logLik: -21.55, aic: 49.1, bic: 52.76, conditionNumber: 42.7,
+      jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, breuschPaganStudentised: { stat: 2.9, df: 2, p: 0.2346 },
       warnings: [],
       moran: { I: 0.231, expected: -1 / 24, variance: 0.0152, z: 2.21, p: 0.027 },
       lm: { error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 } },

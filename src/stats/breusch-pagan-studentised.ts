@@ -6,7 +6,7 @@ import { chiSquareUpper } from './distributions.js';
  * Koenker's studentised form of the Breusch–Pagan test (Koenker 1981; Koenker & Bassett 1982),
  * robust to non-normal errors: n R² of the regression of e_i² on the regressors; chi-square, k − 1 df.
  */
-export function koenkerBassett(residuals: Float64Array, x: Design): TestResult {
+export function breuschPaganStudentised(residuals: Float64Array, x: Design): TestResult {
   const n = residuals.length;
   const e2 = residuals.map((e) => e * e);
   const { explained, total } = explainedSumOfSquares(e2, x);
