@@ -27,6 +27,8 @@ export interface FitArgs {
   algebra: 'auto' | 'dense' | 'sparse';
   /** 1 or 2: a second thread for the large sparse factorisations */
   threads: 1 | 2;
+  /** local statistics (--local), of what, and how their many tests are controlled */
+  local?: { statistics: ('moran' | 'gi' | 'gistar')[]; of: string; control: { method: 'fdr' | 'bonferroni' | 'none'; level: number } };
   json: boolean;
   perArea: boolean;
   out?: string;
@@ -64,6 +66,13 @@ Neighbours
   --compare RULES      also fit under other neighbour rules, comma-separated (e.g. rook,knn:6),
                        or "suggested"; the results sit side by side
 
+Where the pattern is (local statistics)
+  --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
+  --local-of WHAT      outcome (default), residuals (of the plain regression) or a column of the table
+  --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
+  --fdr-level Q        the level of that control (default 0.05)
+                       --permutations and --seed apply to the local tests too (default 999 permutations)
+
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
   --per-area           with --json, include fitted values and residuals per area
@@ -89,6 +98,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
+        local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
       },
     });
   } catch (e) {
@@ -135,6 +145,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     permutations: optionalInteger('permutations', v.permutations, 0),
     algebra,
     threads,
+    local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -210,4 +221,24 @@ function optionalInteger(name: string, s: string | undefined, min: number): numb
   const n = Number(s);
   if (!Number.isInteger(n) || n < min) throw new InputError(`--${name} must be a whole number of at least ${min}, not "${s}".`);
   return n;
+}
+
+function parseLocal(list?: string, of?: string, control?: string, level?: string): FitArgs['local'] {
+  if (list === undefined) {
+    const stray = of !== undefined ? '--local-of' : control !== undefined ? '--multiple-testing' : level !== undefined ? '--fdr-level' : undefined;
+    if (stray) throw new InputError(`${stray} goes with --local (e.g. --local moran).`);
+    return undefined;
+  }
+  const statistics = list.split(',').map((s) => s.trim().toLowerCase()).filter(Boolean);
+  if (statistics.length === 0) throw new InputError('--local needs at least one of moran, gi, gistar.');
+  for (const s of statistics) if (!['moran', 'gi', 'gistar'].includes(s)) throw new InputError(`--local: unknown statistic "${s}"; choose from moran, gi, gistar.`);
+  const method = (control ?? 'fdr').trim().toLowerCase();
+  if (!['fdr', 'bonferroni', 'none'].includes(method)) throw new InputError(`--multiple-testing must be fdr, bonferroni or none, not "${control}".`);
+  const q = level === undefined ? 0.05 : Number(level.trim());
+  if (!(q > 0 && q < 1) || (level !== undefined && !/^\s*(0?\.\d+|\d+(\.\d+)?(e-?\d+)?)\s*$/i.test(level))) throw new InputError(`--fdr-level must be a number between 0 and 1, not "${level}".`);
+  return {
+    statistics: statistics as NonNullable<FitArgs['local']>['statistics'],
+    of: of?.trim() || 'outcome',
+    control: { method: method as 'fdr' | 'bonferroni' | 'none', level: q },
+  };
 }

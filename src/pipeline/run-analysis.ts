@@ -13,6 +13,7 @@ import type { Design } from '../models/types.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
+import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { readModelColumns } from './missing.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -53,7 +54,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   progress(0.1, 'Joining the table to the areas');
   const boundaryId = request.boundaryId?.trim() || undefined;
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
-  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x], request.dropMissing ?? false);
+  const local = request.local ? normaliseLocalRequest(request.local) : undefined;
+  const localColumn = local && local.of !== 'outcome' && local.of !== 'residuals' && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x, ...localColumn], request.dropMissing ?? false);
   lap('join');
 
   progress(0.2, 'Finding neighbours');
@@ -145,6 +148,15 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     lap('comparison');
   }
 
+  let localResult: AnalysisResult['local'];
+  if (local) {
+    progress(0.93, 'Looking for where the pattern is');
+    const of = local.of;
+    const [v, label] = of === 'outcome' ? [y, request.y] : of === 'residuals' ? [ols.residuals, 'residuals of the plain regression'] : [values.get(of)!, of];
+    localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
+    lap('local');
+  }
+
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
@@ -166,6 +178,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
       seed, impactDraws, permutations,
       ...(alternatives.length ? { compareWeights: alternatives } : {}),
+      ...(local ? { local } : {}),
     },
     inputs,
     n: joined.ids.length,
@@ -201,6 +214,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     impacts,
     moranY,
     ...(comparison ? { comparison } : {}),
+    ...(localResult ? { local: localResult } : {}),
     warnings,
     timings,
   };
