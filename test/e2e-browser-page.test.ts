@@ -69,6 +69,8 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     await page.click('#compare');
+    await page.click('#local-on');
+    await page.selectOption('#local-of', 'clinic_wait_days');
     // readable at narrow width: nothing forces sideways scrolling at 320 px
     await page.setViewportSize({ width: 320, height: 900 });
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(320);
@@ -79,6 +81,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     const saved = join(out, 'result.xlsx');
     await file.saveAs(saved);
     await page.getByText(/new sheets after your own/).waitFor();
+    expect(await page.locator('.local-maps img').count()).toBe(2); // the group map and the p-value map
     // Fluent buttons are form-associated custom elements: the browser applies :disabled to them
     expect(await page.evaluate(() => [document.querySelector('#run')!.matches(':disabled'), document.querySelector('#cancel')!.matches(':disabled')])).toEqual([false, true]);
 
@@ -96,6 +99,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(names).toContain('Summary');
     expect(names).toContain('Neighbours');
     expect(names).toContain('Neighbour definitions compared');
+    expect(names).toContain('Local patterns');
     const lagSheet = wb.worksheets.find((w) => /lag/i.test(w.name));
     expect(lagSheet, names.join(', ')).toBeDefined();
     // ρ read from the lag sheet: the row whose label names ρ (rho)

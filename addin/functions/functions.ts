@@ -118,7 +118,7 @@ export function geary(values: any[][], ids: any[][], neighbours: any[][], detail
  */
 export function localMoranCells(
   values: any[][], ids: any[][], neighbours: any[][], permutations?: number, seed?: number, level?: number, control?: string, rowStandardise?: boolean,
-): (number | string)[][] {
+): any[][] {
   return guarded(() => localMoranRows(values, ids, neighbours, { permutations, seed, level, control, rowStandardise: rowStandardise === true }));
 }
 
@@ -136,7 +136,7 @@ export function localMoranCells(
  */
 export function giStarCells(
   values: any[][], ids: any[][], neighbours: any[][], permutations?: number, seed?: number, level?: number, control?: string,
-): (number | string)[][] {
+): any[][] {
   return guarded(() => giStarRows(values, ids, neighbours, { permutations, seed, level, control }));
 }
 

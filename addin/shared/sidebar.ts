@@ -1,5 +1,5 @@
 /**
- * The sidebar: five steps top to bottom (data, areas, neighbours, model, run), each showing what it
+ * The sidebar: six steps top to bottom (data, areas, neighbours, model, where is the pattern, run), each showing what it
  * found. Shared by the Excel task pane and the browser page; the host supplies the table and
  * writes the results. The engine runs in a worker (EngineClient).
  */
@@ -32,6 +32,8 @@ interface State {
   y?: string;
   x: Set<string>;
   lag: boolean; error: boolean; robust: boolean; dropMissing: boolean;
+  /** where is the pattern? local statistics of one column */
+  local: { on: boolean; of: string; moran: boolean; gi: boolean; gistar: boolean; permutations: number; seed: number; control: 'fdr' | 'bonferroni' | 'none'; level: number };
   running: boolean;
 }
 
@@ -48,6 +50,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const s: State = {
     areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkUnneighboured: false, compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
+    local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
   let saved: SavedSetup | null = null;
 
@@ -63,7 +66,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const areas = step(2, 'Areas');
   const nb = step(3, 'Neighbours');
   const model = step(4, 'Model');
-  const run = step(5, 'Run');
+  const local = step(5, 'Where is the pattern?');
+  const run = step(6, 'Run');
 
   /** An error shown inline; for bad input with a row, names the cell (and in Excel offers to show it). */
   const showError = (where: HTMLElement, e: unknown) => {
@@ -287,7 +291,46 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
   drawModel();
 
-  // ---- 5 Run
+  // ---- 5 Where is the pattern? (local statistics)
+  function drawLocal() {
+    const l = s.local;
+    const columns = s.profile ? s.profile.numeric.filter((c) => c !== s.id) : [];
+    const controls: HTMLElement[] = [
+      checkbox('local-on', 'Find where values cluster, area by area (local statistics)', l.on, (v) => { l.on = v; drawLocal(); }),
+    ];
+    if (l.on) {
+      controls.push(
+        select('local-of', 'Of which values', [
+          { value: 'outcome', text: `The outcome${s.y ? ` (${s.y})` : ''}` },
+          { value: 'residuals', text: 'The plain regression’s residuals' },
+          ...columns.filter((c) => c !== s.y).map((c) => ({ value: c, text: c })),
+        ], l.of, (v) => { l.of = v; }),
+        h('fieldset', { class: 'local-statistics' }, h('legend', {}, 'Statistics'),
+          checkbox('local-moran', 'Local Moran’s I: clusters and areas unlike their neighbours', l.moran, (v) => { l.moran = v; }),
+          checkbox('local-gi', 'Getis–Ord Gi: the neighbours’ values, the area left out', l.gi, (v) => { l.gi = v; }),
+          checkbox('local-gistar', 'Getis–Ord Gi*: the area and its neighbours together', l.gistar, (v) => { l.gistar = v; })),
+        numberInput('local-permutations', 'Permutations per area', l.permutations, (v) => { l.permutations = v; }, { min: 0, step: 100 }),
+        numberInput('local-seed', 'Seed (fixes the random draws)', l.seed, (v) => { l.seed = v; }, { min: 0, step: 1 }),
+        select('local-control', 'Allowance for testing every area', [
+          { value: 'fdr', text: 'False discovery rate (Benjamini–Hochberg)' },
+          { value: 'bonferroni', text: 'Any false finding (Bonferroni)' },
+          { value: 'none', text: 'None: each area on its own (labelled as such)' },
+        ], l.control, (v) => { l.control = v as typeof l.control; }),
+        numberInput('local-level', 'Level', l.level, (v) => { l.level = v; }, { min: 0.001, step: 0.01 }),
+      );
+    }
+    clear(local.body, ...controls);
+  }
+  drawLocal();
+
+  function localRequest() {
+    const l = s.local;
+    if (!l.on) return undefined;
+    const statistics = [...(l.moran ? ['moran' as const] : []), ...(l.gi ? ['gi' as const] : []), ...(l.gistar ? ['gistar' as const] : [])];
+    return { statistics, of: l.of, permutations: l.permutations, control: { method: l.control, level: l.level } };
+  }
+
+  // ---- 6 Run
   const progress = h('fluent-progress-bar', { id: 'progress', max: 100, value: 0, 'aria-label': 'Progress' }) as HTMLElement & { value: number };
   const stage = h('p', { class: 'stage', role: 'status', 'aria-live': 'polite' });
   const runButton = button('Run', () => void start(), { primary: true, id: 'run' });
@@ -308,7 +351,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(run.errors); clear(run.found);
     const missing = !s.source ? 'Choose the data (step 1).' : !s.id ? 'Choose the ID column (step 1).'
       : !s.areas ? 'Open a boundary file or choose coordinate columns (step 2).' : !s.y ? 'Choose the outcome (step 4).'
-      : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).' : '';
+      : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).'
+      : s.local.on && !s.local.moran && !s.local.gi && !s.local.gistar ? 'Tick at least one local statistic (step 5), or untick the local statistics.' : '';
     if (missing) { run.errors.append(message('error', missing)); return; }
     let boundary: NamedBytesLike[] | null;
     try { boundary = boundaryFiles(); } catch (e) { showError(run.errors, e); return; }
@@ -323,6 +367,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
+        ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
       } }, onProgress);
       onProgress(0.94, 'Writing the results');
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
@@ -333,6 +378,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       run.found.append(message('success', `${output.headline}. ${outcome.message}`));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       for (const w of output.warnings) run.found.append(message('warning', w));
+      const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
+      if (maps.length) {
+        run.found.append(h('div', { class: 'local-maps' }, ...maps.map((m) =>
+          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+      }
     } catch (e) {
       if (e instanceof Cancelled) { stage.textContent = 'Stopped. Nothing was written.'; progress.value = 0; }
       else { stage.textContent = ''; showError(run.errors, e); }
