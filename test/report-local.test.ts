@@ -72,6 +72,7 @@ describe('spillway fit --local on Columbus', () => {
       [['--local', 'moran', '--fdr-level', '5'], /--fdr-level must be a number between 0 and 1/],
       [['--local-of', 'residuals'], /--local-of goes with --local/],
       [['--local', 'moran', '--local-of', 'NOPE'], /NOPE/],
+      [['--local', 'moran', '--local-of', 'residuals:error'], /spatial error model was not fitted/],
       [['--local', 'gistar', '--local-of', 'residuals'], /need values of zero or more, but residuals of the plain regression is -?[\d.]+ for area \d+ \(row \d+\).*use local Moran/],
     ] as const) {
       const r = runCli([...base, '--models', 'ols', ...args]);
@@ -79,6 +80,14 @@ describe('spillway fit --local on Columbus', () => {
       expect(r.stderr).toMatch(message);
       expect(r.stderr).not.toMatch(STACK_LINE);
     }
+  });
+});
+
+describe('local statistics of a spatial model\'s residuals', () => {
+  it('runs on the lag model\'s residuals and names them', () => {
+    const r = runCli([...base, '--models', 'ols,lag', '--local', 'moran', '--local-of', 'residuals:lag', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(JSON.parse(r.stdout).local.moran.variable).toBe('residuals of the spatial lag model');
   });
 });
 

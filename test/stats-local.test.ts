@@ -130,6 +130,14 @@ describe('local statistics, identities and rules', () => {
     expect(controlMultipleTests(p, { method: 'none', level: 0.05 }).significant.filter(Boolean).length).toBe(5);
   });
 
+  it('the bivariate form with the same column on both sides equals the univariate statistic (identity)', () => {
+    const w = csrFromNeighbours(rookNeighbours(4, 5), 'row');
+    const v = Float64Array.from({ length: 20 }, (_, i) => Math.cos(i) * 3 + i / 4);
+    const one = localMoranTest(v, w);
+    const two = localMoranTest(v, w, { neighbourValues: Float64Array.from(v) });
+    one.value.forEach((x, i) => expect(two.value[i]).toBeCloseTo(x, 12));
+  });
+
   it('an area without neighbours gets no statistic and no category', () => {
     const nb = [[1], [0, 2], [1], []];
     const w = csrFromNeighbours(nb, 'row');

@@ -68,7 +68,8 @@ Neighbours
 
 Where the pattern is (local statistics)
   --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
-  --local-of WHAT      outcome (default), residuals (of the plain regression) or a column of the table
+  --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:lag,
+                       residuals:error, or a column of the table
   --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
   --fdr-level Q        the level of that control (default 0.05)
                        --permutations and --seed apply to the local tests too (default 999 permutations)

@@ -55,7 +55,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const boundaryId = request.boundaryId?.trim() || undefined;
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
-  const localColumn = local && local.of !== 'outcome' && local.of !== 'residuals' && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x, ...localColumn], request.dropMissing ?? false);
   lap('join');
 
@@ -152,7 +152,13 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   if (local) {
     progress(0.93, 'Looking for where the pattern is');
     const of = local.of;
-    const [v, label] = of === 'outcome' ? [y, request.y] : of === 'residuals' ? [ols.residuals, 'residuals of the plain regression'] : [values.get(of)!, of];
+    const fitted = { residuals: ols, 'residuals:lag': lag, 'residuals:error': error } as const;
+    const source = of in fitted ? fitted[of as keyof typeof fitted] : undefined;
+    if (of.startsWith('residuals') && !source) {
+      throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
+    }
+    const residualWords = { residuals: 'residuals of the plain regression', 'residuals:lag': 'residuals of the spatial lag model', 'residuals:error': 'residuals of the spatial error model' } as const;
+    const [v, label] = of === 'outcome' ? [y, request.y] : source ? [source.residuals, residualWords[of as keyof typeof residualWords]] : [values.get(of)!, of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
     lap('local');
   }
