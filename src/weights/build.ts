@@ -7,7 +7,8 @@ import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointS
 import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
-import { boxCentres, checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
+import { representativePoints } from '../geo/index.js';
+import { checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
 
 export interface BuildOptions {
   /** default 'row' */
@@ -78,8 +79,10 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? 'queen contiguity (areas sharing at least one boundary point)'
       : 'rook contiguity (areas sharing a stretch of boundary)';
   if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
-  // points only matter for withoutNeighbours; the caller's points when given, else bounding-box centres
-  const points = () => (input.points ? checkedPoints(input, 'contiguity') : boxCentres(input));
+  // points only matter for areas without neighbours: the caller's points when given, else the same
+  // area-weighted centroids the distance rules use (with their ±180° handling), never box centres,
+  // whose longitude is near 0 for an area straddling the antimeridian
+  const points = () => checkedPoints(input.points ? input : { ...input, points: representativePoints(input.geometries) }, 'contiguity');
   if (pattern.rowPtr[n] === 0) {
     const pts = points();
     const { distance } = nearestOther(pts);
@@ -97,7 +100,7 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
     if (linked.ids.length > 0) {
       pattern = linked.pattern;
       linkedUnneighboured = linked.ids;
-      description += `; ${unneighbouredNote(linked.ids)}${input.points ? '' : ' (nearest by bounding-box centre)'}`;
+      description += `; ${unneighbouredNote(linked.ids)}`;
     }
   }
   const order = spec.order ?? 1;
