@@ -30,7 +30,7 @@ export interface CheckResult {
   joinError?: string;
   /** when the boundary file has no property named like the ID: its properties holding the table's IDs, best first */
   idCandidates?: { property: string; matches: number; rows: number }[];
-  neighbours?: WeightsSummary & { description: string };
+  neighbours?: WeightsSummary & { description: string; tiesWarning?: string };
   neighboursError?: EngineError;
   warnings: string[];
 }

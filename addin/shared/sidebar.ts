@@ -25,6 +25,8 @@ interface State {
   check?: CheckResult;
   method: Method;
   k: number; distance: number; power: number; order: number;
+  /** k-nearest: every area tied at the k-th distance becomes a neighbour (else the lower rows fill the places) */
+  tiesInclude: boolean;
   transform: WeightsTransform;
   linkUnneighboured: boolean;
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
@@ -46,7 +48,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkUnneighboured: false, compare: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
   };
   let saved: SavedSetup | null = null;
@@ -159,7 +161,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function weightsSpec(): WeightsSpec {
     switch (s.method) {
       case 'queen': case 'rook': return { method: s.method, order: s.order };
-      case 'knn': return { method: 'knn', k: s.k };
+      case 'knn': return s.tiesInclude ? { method: 'knn', k: s.k, ties: 'include' } : { method: 'knn', k: s.k };
       case 'band': return { method: 'band', distance: s.distance };
       case 'idw': return { method: 'idw', power: s.power };
     }
@@ -235,7 +237,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const changed = () => { drawNeighbourControls(); void refreshCheck(); };
     const extra: HTMLElement[] = [];
     if (s.method === 'queen' || s.method === 'rook') extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
-    if (s.method === 'knn') extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'knn') {
+      extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+      extra.push(checkbox('ties-include', 'Include every area tied at the last place (otherwise the lower rows are taken)', s.tiesInclude, (v) => { s.tiesInclude = v; void refreshCheck(); }));
+    }
     if (s.method === 'band') extra.push(numberInput('distance', 'Distance (in the map’s units)', s.distance, (v) => { s.distance = v; changed(); }, { min: 0 }));
     if (s.method === 'idw') extra.push(numberInput('power', 'Power of the distance', s.power, (v) => { s.power = v; changed(); }, { min: 0, step: 0.5 }));
     clear(nbControls,
@@ -265,6 +270,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', { class: 'hint' }, 'Number of neighbours → number of areas'), bars,
       h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
     );
+    if (w.tiesWarning) nb.found.append(message('warning', w.tiesWarning));
     if (w.withoutNeighbours.length) nb.found.append(message('warning', `${w.withoutNeighbours.length} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
   }
 
@@ -348,7 +354,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (saved) {
       if (saved.weights) {
         s.method = saved.weights.method;
-        if ('k' in saved.weights) s.k = saved.weights.k;
+        if ('k' in saved.weights) { s.k = saved.weights.k; s.tiesInclude = saved.weights.ties === 'include'; }
         if ('distance' in saved.weights) s.distance = saved.weights.distance;
         if ('power' in saved.weights) s.power = saved.weights.power;
         if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;

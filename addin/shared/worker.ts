@@ -7,7 +7,7 @@ import { InputError } from '../../src/errors.js';
 import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
-import { buildWeights, summarizeWeights } from '../../src/weights/index.js';
+import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import type { RunOutput, TableSnapshot } from './types.js';
@@ -65,7 +65,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
       c.weights,
       { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
     );
-    result.neighbours = { ...summarizeWeights(w), description: w.description };
+    result.neighbours = { ...summarizeWeights(w), description: w.description, ...(w.tiesDecided ? { tiesWarning: tieWarning(w.tiesDecided, w.spec) } : {}) };
   } catch (e) {
     result.neighboursError = asEngineError(e);
   }

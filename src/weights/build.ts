@@ -3,7 +3,7 @@ import { InputError, listSome } from '../errors.js';
 import type { SpatialWeights, WeightsSpec, WeightsTransform } from './types.js';
 import { contiguityNeighbours } from './contiguity.js';
 import { higherOrder } from './higher-order.js';
-import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet } from './nearest.js';
+import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet, type TieRule } from './nearest.js';
 import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
@@ -25,6 +25,7 @@ interface Built {
   greatCircle?: boolean;
   allLinkedDistance?: number;
   linkedUnneighboured?: string[];
+  tiesDecided?: number;
 }
 
 /** Spatial weights for the areas under one neighbour rule, then transformed (row-standardised by default). */
@@ -41,7 +42,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
       built = contiguity(input, spec, opts);
       break;
     case 'knn':
-      built = kNearest(input, spec.k);
+      built = kNearest(input, spec.k, spec.ties ?? 'lower-row');
       break;
     case 'band':
       built = distanceBased(input, spec.distance, null, opts);
@@ -64,6 +65,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
   if (built.greatCircle !== undefined) result.greatCircle = built.greatCircle;
   if (built.allLinkedDistance !== undefined) result.allLinkedDistance = built.allLinkedDistance;
   if (built.linkedUnneighboured) result.linkedUnneighboured = built.linkedUnneighboured;
+  if (built.tiesDecided !== undefined) result.tiesDecided = built.tiesDecided;
   return result;
 }
 
@@ -113,20 +115,22 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
   return { base: pattern, symmetric: true, description, linkedUnneighboured };
 }
 
-function kNearest(input: WeightsInput, k: number): Built {
+function kNearest(input: WeightsInput, k: number, ties: TieRule): Built {
   const n = input.ids.length;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`The number of nearest neighbours must be a whole number, 1 or more; got ${k}.`);
   if (k >= n) {
     throw new InputError(`${k} nearest neighbours need more than ${k} areas; there are ${n}. Choose k of at most ${n - 1}.`);
   }
   const pts = checkedPoints(input, 'k-nearest neighbours');
-  const { pattern } = nearestNeighbours(pts, k);
-  return {
-    base: pattern,
-    symmetric: false,
-    greatCircle: pts.greatCircle,
-    description: `${k} nearest neighbour${k === 1 ? '' : 's'} by ${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points`,
-  };
+  if (ties !== 'lower-row' && ties !== 'include') {
+    throw new InputError(`Ties among nearest neighbours are either "lower-row" or "include"; got "${String(ties)}".`);
+  }
+  const { pattern, tiesDecided } = nearestNeighbours(pts, k, undefined, ties);
+  let description = `${k} nearest neighbour${k === 1 ? '' : 's'} by ${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points`;
+  description += ties === 'include'
+    ? '; every area tied at the k-th distance included'
+    : '; ties at the k-th distance go to the lower row';
+  return { base: pattern, symmetric: false, greatCircle: pts.greatCircle, description, tiesDecided };
 }
 
 /** Distance band (power null: every link 1) or inverse distance d^(−power) within an optional cutoff. */
