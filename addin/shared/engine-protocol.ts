@@ -17,6 +17,8 @@ export interface CheckRequest {
   weights: WeightsSpec;
   transform: WeightsTransform;
   linkUnneighboured?: boolean;
+  /** the analyst's statement of the coordinates, overriding the file and the guess */
+  coordinates?: CoordinateKind;
 }
 
 export interface CheckResult {
@@ -24,6 +26,7 @@ export interface CheckResult {
   propertyNames: string[];
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  coordinatesGuessed?: boolean;
   matched: number;
   join: JoinReport;
   /** when the join failed, why (the report above says where) */

@@ -29,6 +29,8 @@ interface State {
   tiesInclude: boolean;
   transform: WeightsTransform;
   linkUnneighboured: boolean;
+  /** the analyst's statement of the coordinates ('' = as the file says, or guessed) */
+  coordinates: '' | 'geographic' | 'projected';
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
   compare: boolean;
   y?: string;
@@ -48,7 +50,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, compare: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
   };
   let saved: SavedSetup | null = null;
@@ -178,6 +180,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     try {
       const { result } = await engine.call({ op: 'check', check: {
         boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       } });
       if (serial !== checkSerial) return;
       // the boundary file names the IDs otherwise: take the property holding most of the table's IDs, once
@@ -221,9 +224,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (chosen && chosen.property === areasNow.idProperty) idChoice.push(h('p', { class: 'hint' }, `Chosen by itself: the property holding the most of ${s.id}'s IDs. Change it here if another is meant.`));
     }
     clear(areas.found,
-      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); `
+      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
         + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
       ...idChoice,
+      ...(s.areas ? [select('coordinates', 'Coordinates', [
+        { value: '', text: 'As the file says (guessed when it does not)' },
+        { value: 'geographic', text: 'Longitude/latitude degrees' },
+        { value: 'projected', text: 'Projected (planar units)' },
+      ], s.coordinates, (v) => { s.coordinates = v as State['coordinates']; void refreshCheck(); })] : []),
       lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : r.joinError ? h('span') : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
@@ -306,6 +314,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
+      ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
     };
   }
@@ -327,6 +336,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
       } }, onProgress);
@@ -361,6 +371,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       }
       s.transform = saved.transform ?? s.transform;
       s.linkUnneighboured = saved.linkUnneighboured ?? false;
+      s.coordinates = saved.coordinates ?? '';
       s.compare = saved.compare ?? false;
       s.lag = saved.models?.includes('lag') ?? true;
       s.error = saved.models?.includes('error') ?? false;

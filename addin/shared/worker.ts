@@ -36,11 +36,11 @@ async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string
 }
 
 async function check(c: CheckRequest): Promise<CheckResult> {
-  const layer = await readBoundary(c.boundary, { layer: c.layer });
+  const layer = await readBoundary(c.boundary, { layer: c.layer, coordinates: c.coordinates });
   const table = await readTable(c.data, { sheet: c.sheet });
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
-    coordinateEvidence: layer.coordinateEvidence, warnings: [...layer.warnings],
+    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings],
   };
   const idProperty = c.boundaryId ?? c.id;
   if (!layer.propertyNames.includes(idProperty)) {

@@ -80,13 +80,14 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   const converted = featuresToAreas({ type: 'FeatureCollection', features }, shp.name);
   const claim = parts.prj ? claimFromPrj(new TextDecoder('utf-8').decode(parts.prj.bytes), parts.prj.name) : null;
   if (parts.prj && !claim) warnings.push(`${parts.prj.name} was not understood; the coordinate ranges decide instead.`);
-  const decision = decideCoordinates(converted.bounds, claim, shp.name, override);
+  const decision = decideCoordinates(converted.bounds, claim, shp.name, override, converted.areas);
   return {
     sourceName: shp.name,
     areas: converted.areas,
     propertyNames: converted.propertyNames, // the package keeps the .dbf field order
     coordinates: decision.coordinates,
     coordinateEvidence: parts.prj || override ? decision.coordinateEvidence : `${shp.name} comes without a .prj file. ${decision.coordinateEvidence}`,
+    ...(decision.guessed ? { coordinatesGuessed: true } : {}),
     warnings: [...warnings, ...converted.warnings, ...decision.warnings],
   };
 }

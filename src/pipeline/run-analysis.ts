@@ -177,6 +177,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     geometries: joined.geometries,
     coordinates: joined.coordinates,
     coordinateEvidence: joined.coordinateEvidence,
+    ...(joined.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
     join: joined.report,
     y,
     xNames: [...request.x],
