@@ -60,16 +60,31 @@ export function nearestNeighbours(pts: PointSet, k: number, index = pointIndex(p
   const kthDistance = new Float64Array(n);
   const search = new TreeSearch(index, pts.greatCircle);
   let tiesDecided = 0;
+  const byDistance = new Int32Array(k + 1);
+  const dist = new Float64Array(k + 1);
   for (let i = 0; i < n; i++) {
     // one more than k: when the (k+1)-th is not tied with the k-th, the first k are the answer
-    const found = Array.from(search.nearest(pts.x[i], pts.y[i], i, k + 1));
-    const dist = found.map((j) => pointDistance(pts, i, j));
-    const order = found.map((_, a) => a).sort((a, b) => dist[a] - dist[b] || found[a] - found[b]);
-    const dk = dist[order[Math.min(k, order.length) - 1]];
+    const found = search.nearest(pts.x[i], pts.y[i], i, k + 1);
+    const m = found.length;
+    // insertion sort of the few found by (distance, row)
+    for (let a = 0; a < m; a++) {
+      const j = found[a];
+      const d = pointDistance(pts, i, j);
+      let b = a;
+      while (b > 0 && (dist[b - 1] > d || (dist[b - 1] === d && byDistance[b - 1] > j))) {
+        dist[b] = dist[b - 1];
+        byDistance[b] = byDistance[b - 1];
+        b--;
+      }
+      dist[b] = d;
+      byDistance[b] = j;
+    }
+    const dk = dist[Math.min(k, m) - 1];
     const slack = TIE_TOLERANCE * dk;
     let chosen: number[];
-    if (order.length <= k || dist[order[k]] > dk + slack) {
-      chosen = order.slice(0, k).map((a) => found[a]);
+    let far = dk;
+    if (m <= k || dist[k] > dk + slack) {
+      chosen = Array.from(byDistance.subarray(0, Math.min(k, m)));
     } else {
       // a tie reaches past the k-th place: gather every area within reach of it
       const reach = search.radiusKey((dk + slack) * (1 + 1e-5), EARTH_RADIUS_KM);
@@ -85,9 +100,9 @@ export function nearestNeighbours(pts: PointSet, k: number, index = pointIndex(p
       const places = k - closer.length;
       if (tied.length > places) tiesDecided++;
       chosen = closer.concat(ties === 'include' ? tied : tied.slice(0, places));
+      far = 0;
+      for (const j of chosen) far = Math.max(far, pointDistance(pts, i, j));
     }
-    let far = 0;
-    for (const j of chosen) far = Math.max(far, pointDistance(pts, i, j));
     kthDistance[i] = far;
     chosen.sort((a, b) => a - b);
     for (const j of chosen) cols.push(j);
