@@ -189,6 +189,35 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.getByText(/fewest 5, average 5\.0, most 5/).waitFor();
   });
 
+  it('says when the coordinates were guessed, lets them be stated, and offers the tie-inclusive k-nearest rule', async () => {
+    // a 5 × 6 lattice of 1-unit squares from (10, 40) without a crs member: guessed projected by its shapes
+    const features = [];
+    const lines = ['code,v,u'];
+    for (let r = 0; r < 5; r++) for (let c = 0; c < 6; c++) {
+      const a = 10 + c, b = 40 + r;
+      features.push({ type: 'Feature', properties: { code: `C${r}${c}` }, geometry: { type: 'Polygon', coordinates: [[[a, b], [a + 1, b], [a + 1, b + 1], [a, b + 1], [a, b]]] } });
+      lines.push(`C${r}${c},${(r * 7 + c * 3) % 5 + r},${c}`);
+    }
+    const lattice = join(out, 'lattice.geojson');
+    const table = join(out, 'lattice.csv');
+    writeFileSync(lattice, JSON.stringify({ type: 'FeatureCollection', features }));
+    writeFileSync(table, lines.join('\n') + '\n');
+    await page.goto(`${origin}/page/index.html`);
+    await page.setInputFiles('#data-file', table);
+    await page.getByText(/30 rows/).waitFor();
+    await page.selectOption('#id-column', 'code');
+    await page.setInputFiles('#boundary-file', lattice);
+    await page.getByText(/30 areas in the file \(projected coordinates, guessed: the file does not say\)/).waitFor();
+    await page.getByText(/This is a guess/).first().waitFor();
+    await page.selectOption('#coordinates', 'geographic');
+    await page.getByText(/30 areas in the file \(longitude\/latitude\); 30 matched/).waitFor();
+    await page.selectOption('#method', 'knn');
+    await page.getByText(/had more areas tied at the k-th nearest distance/).waitFor();
+    await page.click('#ties-include');
+    await page.getByText(/every area tied at the k-th distance included/).waitFor();
+    expect(await page.getByText(/had more areas tied .*lowest row were taken/).count()).toBe(0);
+  });
+
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {
     expect(foreignRequests).toEqual([]);
     expect(problems).toEqual([]);

@@ -25,8 +25,12 @@ interface State {
   check?: CheckResult;
   method: Method;
   k: number; distance: number; power: number; order: number;
+  /** k-nearest: every area tied at the k-th distance becomes a neighbour (else the lower rows fill the places) */
+  tiesInclude: boolean;
   transform: WeightsTransform;
   linkUnneighboured: boolean;
+  /** the analyst's statement of the coordinates ('' = as the file says, or guessed) */
+  coordinates: '' | 'geographic' | 'projected';
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
   compare: boolean;
   y?: string;
@@ -48,7 +52,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkUnneighboured: false, compare: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
     local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
@@ -163,7 +167,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function weightsSpec(): WeightsSpec {
     switch (s.method) {
       case 'queen': case 'rook': return { method: s.method, order: s.order };
-      case 'knn': return { method: 'knn', k: s.k };
+      case 'knn': return s.tiesInclude ? { method: 'knn', k: s.k, ties: 'include' } : { method: 'knn', k: s.k };
       case 'band': return { method: 'band', distance: s.distance };
       case 'idw': return { method: 'idw', power: s.power };
     }
@@ -180,6 +184,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     try {
       const { result } = await engine.call({ op: 'check', check: {
         boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       } });
       if (serial !== checkSerial) return;
       // the boundary file names the IDs otherwise: take the property holding most of the table's IDs, once
@@ -223,9 +228,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (chosen && chosen.property === areasNow.idProperty) idChoice.push(h('p', { class: 'hint' }, `Chosen by itself: the property holding the most of ${s.id}'s IDs. Change it here if another is meant.`));
     }
     clear(areas.found,
-      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); `
+      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
         + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
       ...idChoice,
+      ...(s.areas ? [select('coordinates', 'Coordinates', [
+        { value: '', text: 'As the file says (guessed when it does not)' },
+        { value: 'geographic', text: 'Longitude/latitude degrees' },
+        { value: 'projected', text: 'Projected (planar units)' },
+      ], s.coordinates, (v) => { s.coordinates = v as State['coordinates']; void refreshCheck(); })] : []),
       lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : r.joinError ? h('span') : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
@@ -239,7 +249,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const changed = () => { drawNeighbourControls(); void refreshCheck(); };
     const extra: HTMLElement[] = [];
     if (s.method === 'queen' || s.method === 'rook') extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
-    if (s.method === 'knn') extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'knn') {
+      extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+      extra.push(checkbox('ties-include', 'Include every area tied at the last place (otherwise the lower rows are taken)', s.tiesInclude, (v) => { s.tiesInclude = v; void refreshCheck(); }));
+    }
     if (s.method === 'band') extra.push(numberInput('distance', 'Distance (in the map’s units)', s.distance, (v) => { s.distance = v; changed(); }, { min: 0 }));
     if (s.method === 'idw') extra.push(numberInput('power', 'Power of the distance', s.power, (v) => { s.power = v; changed(); }, { min: 0, step: 0.5 }));
     clear(nbControls,
@@ -269,6 +282,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', { class: 'hint' }, 'Number of neighbours → number of areas'), bars,
       h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
     );
+    if (w.tiesWarning) nb.found.append(message('warning', w.tiesWarning));
     if (w.withoutNeighbours.length) nb.found.append(message('warning', `${w.withoutNeighbours.length} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
   }
 
@@ -343,6 +357,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
+      ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
     };
   }
@@ -365,6 +380,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
@@ -398,13 +414,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (saved) {
       if (saved.weights) {
         s.method = saved.weights.method;
-        if ('k' in saved.weights) s.k = saved.weights.k;
+        if ('k' in saved.weights) { s.k = saved.weights.k; s.tiesInclude = saved.weights.ties === 'include'; }
         if ('distance' in saved.weights) s.distance = saved.weights.distance;
         if ('power' in saved.weights) s.power = saved.weights.power;
         if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
       }
       s.transform = saved.transform ?? s.transform;
       s.linkUnneighboured = saved.linkUnneighboured ?? false;
+      s.coordinates = saved.coordinates ?? '';
       s.compare = saved.compare ?? false;
       s.lag = saved.models?.includes('lag') ?? true;
       s.error = saved.models?.includes('error') ?? false;

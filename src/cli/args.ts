@@ -61,6 +61,8 @@ Neighbours
   --cumulative         with --order K, every area up to K steps away (not only exactly K)
   --tolerance T        snapping tolerance for contiguity, in coordinate units
   --link-unneighboured link each area without neighbours to its nearest area
+  --ties RULE          knn: areas tied at the K-th distance — lower-row (default: the lowest rows
+                       fill the K places) or include (every tied area is a neighbour)
   --neighbours FILE    read neighbours from a CSV edge list (origin, neighbour, weight) instead
   --transform T        row (default) or binary
   --compare RULES      also fit under other neighbour rules, comma-separated (e.g. rook,knn:6),
@@ -94,7 +96,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, cumulative: { type: 'boolean' },
-        tolerance: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
+        tolerance: { type: 'string' }, ties: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
@@ -133,9 +135,9 @@ export function parseFitArgs(argv: string[]): FitArgs {
     boundaryId: v['boundary-id']?.trim() || undefined,
     y: need('y'),
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
-    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance),
+    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance, v.ties, !v.compare),
     edgeList: v.neighbours,
-    compare: parseCompare(v.compare, v.tolerance),
+    compare: parseCompare(v.compare, v.tolerance, v.ties),
     transform,
     linkUnneighboured: v['link-unneighboured'] ?? false,
     models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
@@ -154,14 +156,14 @@ export function parseFitArgs(argv: string[]): FitArgs {
 }
 
 /** --compare: comma-separated rules (contiguity ones take --tolerance), or "suggested". */
-function parseCompare(text: string | undefined, tolerance: string | undefined): FitArgs['compare'] {
+function parseCompare(text: string | undefined, tolerance: string | undefined, ties?: string): FitArgs['compare'] {
   if (text === undefined) return undefined;
   if (text.trim().toLowerCase() === 'suggested') return 'suggested';
   const rules = text.split(',').map((r) => r.trim()).filter(Boolean);
   if (rules.length === 0) throw new InputError('--compare needs neighbour rules, e.g. --compare rook,knn:6, or "suggested".');
   return rules.map((rule) => {
     try {
-      return parseWeightsRule(rule, undefined, false, tolerance);
+      return parseWeightsRule(rule, undefined, false, tolerance, ties, false);
     } catch (e) {
       if (e instanceof InputError) throw new InputError(`--compare: ${e.message.replace(/^--weights: /, '')}`);
       throw e;
@@ -170,8 +172,13 @@ function parseCompare(text: string | undefined, tolerance: string | undefined): 
 }
 
 /** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */
-export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string): WeightsSpec {
+export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string, ties?: string, tiesOnlyForKnn = true): WeightsSpec {
   const [name, ...params] = rule.trim().toLowerCase().split(':');
+  const tieRule = ties?.trim().toLowerCase();
+  if (tieRule !== undefined && tieRule !== 'lower-row' && tieRule !== 'include') {
+    throw new InputError(`--ties must be lower-row or include, not "${ties}".`);
+  }
+  if (tieRule !== undefined && tiesOnlyForKnn && name !== 'knn') throw new InputError('--ties applies to k-nearest neighbours (knn:K) only.');
   const num = (s: string | undefined, what: string) => {
     const n = Number(s);
     if (s === undefined || s === '' || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number.`);
@@ -196,7 +203,7 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
   if (name === 'knn') {
     const k = num(params[0], 'the number of neighbours K (knn:K)');
     if (!Number.isInteger(k) || k < 1) throw new InputError(`--weights ${rule}: K must be a whole number of at least 1.`);
-    return { method: 'knn', k };
+    return tieRule === 'include' ? { method: 'knn', k, ties: 'include' } : { method: 'knn', k };
   }
   if (name === 'band') {
     const d = num(params[0], 'the distance (band:DISTANCE)');

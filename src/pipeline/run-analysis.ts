@@ -3,6 +3,7 @@ import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
+import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import {
@@ -167,6 +168,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
+  if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
   if (request.permutations === undefined && permutations === 0) {
     warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
@@ -194,6 +196,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     geometries: joined.geometries,
     coordinates: joined.coordinates,
     coordinateEvidence: joined.coordinateEvidence,
+    ...(joined.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
     join: joined.report,
     y,
     xNames: [...request.x],

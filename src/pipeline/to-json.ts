@@ -13,7 +13,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     createdAt: r.createdAt,
     n: r.n,
     question: { y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}) },
-    coordinates: { kind: r.coordinates, evidence: r.coordinateEvidence },
+    coordinates: { kind: r.coordinates, guessed: r.coordinatesGuessed ?? false, evidence: r.coordinateEvidence },
     inputs: r.inputs,
     droppedRows: r.droppedRows,
     weights: {

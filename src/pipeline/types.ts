@@ -88,6 +88,8 @@ export interface AnalysisResult {
   geometries: AreaGeometry[];
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  /** neither the file nor the request said what the coordinates are: the kind was guessed */
+  coordinatesGuessed?: boolean;
   join: JoinReport;
   y: Float64Array;
   xNames: string[];
