@@ -1,0 +1,33 @@
+// The rates module of the pipeline: recipe parsing, units of `per`, the modelled column and the JSON
+// shape of issue #14. Smoothers themselves are checked against numpy in stats-rates-reference.test.ts.
+import { describe, expect, it } from 'vitest';
+import { computeRate, parseRateRecipe, rateToJson } from '../src/pipeline/rates.js';
+import { InputError } from '../src/errors.js';
+import { csrFromNeighbours, rookNeighbours } from './helpers/grid.js';
+
+describe('rates in the pipeline', () => {
+  it('parses NAME=EVENTS/POPULATION and checks --per', () => {
+    expect(parseRateRecipe('r = cases / births', 100000)).toEqual({ name: 'r', events: 'cases', population: 'births', per: 100000 });
+    expect(() => parseRateRecipe('cases/births')).toThrow(InputError);
+    expect(() => parseRateRecipe('r=a/b', 10)).toThrow(/--per 10/);
+  });
+  it('writes every smoothed rate in the units of per and models the chosen one', () => {
+    const w = csrFromNeighbours(rookNeighbours(3, 3), 'row');
+    const d = [1, 4, 30, 2, 8, 15, 0, 6, 40];
+    const n = [100, 400, 900, 150, 500, 800, 80, 300, 1200];
+    const ids = d.map((_, i) => `A${i}`);
+    const rows = d.map((_, i) => i + 2);
+    const r = computeRate(parseRateRecipe('r=d/n', 1000), d, n, w, { ids, rows }, { smoothing: 'local', permutations: 99, seed: 4 });
+    expect(r.areas[0].rate).toBeCloseTo(10, 12);
+    expect(Array.from(r.modelled)).toEqual(r.areas.map((a) => a.ebLocal));
+    const json = rateToJson(r) as { areas: { id: string }[]; ebMoran: { permutations: number; seed: number } };
+    expect(Object.keys(json)).toEqual(['events', 'population', 'per', 'flagRule', 'smoothing', 'ebMoran', 'areas']);
+    expect(json.areas.map((a) => a.id)).toEqual(ids);
+    expect(json.ebMoran).toMatchObject({ permutations: 99, seed: 4 });
+  });
+  it('names the row of a bad count', () => {
+    const w = csrFromNeighbours(rookNeighbours(1, 3), 'row');
+    expect(() => computeRate(parseRateRecipe('r=d/n'), [1, 5, 2], [10, 4, 10], w, { ids: ['a', 'b', 'c'], rows: [2, 3, 4] }, { smoothing: 'global', permutations: 0, seed: 1 }))
+      .toThrow(/Row 3: 5 events in "d" exceed/);
+  });
+});
