@@ -2,6 +2,7 @@ import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
 import type { ModelName } from '../pipeline/types.js';
 import { InputError } from '../errors.js';
+import { parseRateRecipe, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 
 export interface FitArgs {
   boundary: string;
@@ -29,6 +30,8 @@ export interface FitArgs {
   threads: 1 | 2;
   /** local statistics (--local), of what, and how their many tests are controlled */
   local?: { statistics: ('moran' | 'gi' | 'gistar')[]; of: string; control: { method: 'fdr' | 'bonferroni' | 'none'; level: number } };
+  /** rates built from counts (--rate, --per) and which smoothed rate is modelled (--smooth) */
+  rates?: RatesRequest;
   json: boolean;
   perArea: boolean;
   out?: string;
@@ -76,6 +79,12 @@ Where the pattern is (local statistics)
   --fdr-level Q        the level of that control (default 0.05)
                        --permutations and --seed apply to the local tests too (default 999 permutations)
 
+Rates from counts
+  --rate NAME=EVENTS/POPULATION  define a column NAME (repeatable) that --y or --x may use
+  --per N              the rate's multiplier: 1, 100, 1000 (default) or 100000
+  --smooth S           which smoothed rate is modelled: global (default), local or neighbourhood
+                       empirical Bayes; all three are computed and written
+
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
   --per-area           with --json, include fitted values and residuals per area
@@ -102,6 +111,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
+        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' },
       },
     });
   } catch (e) {
@@ -149,6 +159,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     algebra,
     threads,
     local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
+    rates: parseRates(v.rate, v.per, v.smooth),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -249,4 +260,18 @@ function parseLocal(list?: string, of?: string, control?: string, level?: string
     of: of?.trim() || 'outcome',
     control: { method: method as 'fdr' | 'bonferroni' | 'none', level: q },
   };
+}
+
+/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth. */
+function parseRates(recipes: string[] | undefined, per?: string, smooth?: string): FitArgs['rates'] {
+  if (!recipes || recipes.length === 0) {
+    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : undefined;
+    if (stray) throw new InputError(`${stray} goes with --rate (e.g. --rate cases_rate=cases/residents).`);
+    return undefined;
+  }
+  const multiplier = per === undefined ? 1000 : Number(per.trim());
+  if (smooth !== undefined && !['global', 'local', 'neighbourhood'].includes(smooth)) {
+    throw new InputError(`--smooth must be global, local or neighbourhood, not "${smooth}".`);
+  }
+  return { recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing };
 }

@@ -58,6 +58,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       impactDraws: args.draws,
       permutations: args.permutations,
       ...(args.local ? { local: { ...args.local, permutations: args.permutations } } : {}),
+      ...(args.rates ? { rates: args.rates } : {}),
       algebra: args.algebra,
     }, args.threads === 2 ? { helper: startNodeHelper } : {});
     if (args.out) {

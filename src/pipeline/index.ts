@@ -3,3 +3,4 @@ export { resultToJson } from './to-json.js';
 export type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 export type { NamedBytesLike } from './named-bytes.js';
 export { LOCAL_STATISTICS, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, describeControl, categoryCounts, type LocalPatterns, type LocalRequest, type LocalOutcome } from './local-patterns.js';
+export { parseRateRecipe, type RateResult, type RatesRequest, type RateSmoothing } from './rates.js';

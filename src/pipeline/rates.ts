@@ -91,3 +91,42 @@ export function rateToJson(r: RateResult): Record<string, unknown> {
     areas: r.areas.map((a) => ({ id: a.id, rate: a.rate, flagged: a.flagged, ebGlobal: a.ebGlobal, ebLocal: a.ebLocal, neighbourhood: a.neighbourhood })),
   };
 }
+
+/** What a request carries about rates: the recipes and which smoothed rate is modelled. */
+export interface RatesRequest {
+  recipes: RateRecipe[];
+  smoothing?: RateSmoothing;
+}
+
+/** The table columns to read: every rate NAME is replaced by its events and population columns. */
+export function columnsWithRates(columns: string[], rates: RatesRequest | undefined): string[] {
+  if (!rates || rates.recipes.length === 0) return columns;
+  const byName = new Map(rates.recipes.map((r) => [r.name, r]));
+  const out: string[] = [];
+  for (const c of columns) {
+    const r = byName.get(c);
+    for (const k of r ? [r.events, r.population] : [c]) if (!out.includes(k)) out.push(k);
+  }
+  for (const r of rates.recipes) for (const k of [r.events, r.population]) if (!out.includes(k)) out.push(k);
+  return out;
+}
+
+/** Computes every defined rate under the run's weights and puts the modelled column under its NAME. */
+export function addRates(
+  rates: RatesRequest,
+  values: Map<string, Float64Array>,
+  w: CsrMatrix,
+  where: { ids: string[]; rows: number[] },
+  opts: { permutations: number; seed: number },
+): RateResult[] {
+  const names = new Set<string>();
+  return rates.recipes.map((recipe) => {
+    if (names.has(recipe.name)) throw new InputError(`--rate ${recipe.name} is defined twice; give each rate its own name.`);
+    names.add(recipe.name);
+    const r = computeRate(recipe, values.get(recipe.events)!, values.get(recipe.population)!, w, where, {
+      smoothing: rates.smoothing ?? 'global', permutations: opts.permutations, seed: opts.seed,
+    });
+    values.set(recipe.name, r.modelled);
+    return r;
+  });
+}

@@ -15,6 +15,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
+import { addRates, columnsWithRates } from './rates.js';
 import { readModelColumns } from './missing.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -57,7 +58,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
-  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x, ...localColumn], request.dropMissing ?? false);
+  const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
   lap('join');
 
   progress(0.2, 'Finding neighbours');
@@ -83,6 +84,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   }
   const summary = summarizeWeights(w);
   lap('weights');
+  const rates = request.rates?.recipes.length
+    ? addRates(request.rates, values, w, { ids: joined.ids, rows: joined.rows }, { permutations: request.permutations ?? 999, seed })
+    : undefined;
 
   progress(0.3, 'Preparing the log-determinant');
   const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed, helper: runtime.helper });
@@ -187,6 +191,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       seed, impactDraws, permutations,
       ...(alternatives.length ? { compareWeights: alternatives } : {}),
       ...(local ? { local } : {}),
+      ...(request.rates?.recipes.length ? { rates: { recipes: request.rates.recipes, smoothing: request.rates.smoothing ?? 'global' } } : {}),
     },
     inputs,
     n: joined.ids.length,
@@ -224,6 +229,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     moranY,
     ...(comparison ? { comparison } : {}),
     ...(localResult ? { local: localResult } : {}),
+    ...(rates ? { rates } : {}),
     warnings,
     timings,
   };

@@ -1,3 +1,4 @@
+import { rateToJson } from './rates.js';
 import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
@@ -82,6 +83,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     }));
   }
   if (r.local) out.local = localToJson(r);
+  if (r.rates) out.rates = Object.fromEntries(r.rates.map((x) => [x.name, rateToJson(x)]));
   if (opts.perArea) {
     out.areas = r.ids.map((id, i) => ({
       id,

@@ -6,6 +6,7 @@ import type {
 } from '../models/types.js';
 import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
 import type { LocalPatterns, LocalRequest } from './local-patterns.js';
+import type { RateResult, RatesRequest } from './rates.js';
 
 export type ModelName = 'ols' | 'lag' | 'error';
 
@@ -50,6 +51,8 @@ export interface AnalysisRequest {
   permutations?: number;
   /** Local statistics (where the pattern is): which, of what, with which multiple-testing control. */
   local?: LocalRequest;
+  /** Rates built from counts (--rate NAME=EVENTS/POPULATION) and which smoothed rate is modelled. */
+  rates?: RatesRequest;
   /** Cap in bytes on each input file and on what a .zip or .xlsx may expand to (default 1 GiB). */
   maxBytes?: number;
   /** 'auto' chooses dense for small n, sparse above. */
@@ -77,6 +80,7 @@ export interface AnalysisResult {
     seed: number; impactDraws: number; permutations: number;
     compareWeights?: WeightsSpec[];
     local?: Required<LocalRequest>;
+    rates?: Required<RatesRequest>;
   };
   inputs: InputRecord[];
   n: number;
@@ -117,6 +121,8 @@ export interface AnalysisResult {
   comparison?: WeightsComparison[];
   /** local statistics, when asked for */
   local?: LocalPatterns;
+  /** rates built from counts, when defined */
+  rates?: RateResult[];
   warnings: string[];
   timings: Record<string, number>;
 }

@@ -1,0 +1,33 @@
+// `spillway fit --rate` end to end on the North Carolina counties (test/fixtures/sids, Debian's
+// r-cran-spdata, CC0): the JSON `rates` object of issue #14, the modelled column equal to the chosen
+// smoothed rate, and a bad recipe refused on one line. The smoothed values
+// themselves are checked against numpy in stats-rates-reference.test.ts.
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { runCli } from './helpers/cli.js';
+
+const SIDS = fileURLToPath(new URL('./fixtures/sids/sids.shp', import.meta.url));
+
+describe('spillway fit --rate', () => {
+  it('defines a rate column, models the chosen smoothed rate and writes rates in the JSON', () => {
+    const run = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'sids', '--x', 'NWBIR74', '--models', 'ols',
+      '--rate', 'sids=SID74/BIR74', '--per', '1000', '--smooth', 'local', '--permutations', '99', '--json']);
+    expect(run.code, run.stderr).toBe(0);
+    const out = JSON.parse(run.stdout);
+    const r = out.rates.sids;
+    expect(r).toMatchObject({ events: 'SID74', population: 'BIR74', per: 1000, smoothing: 'local' });
+    expect(r.flagRule).toMatch(/fewer than 20 events/);
+    expect(r.ebMoran).toMatchObject({ permutations: 99 });
+    expect(r.areas).toHaveLength(100);
+    expect(Object.keys(r.areas[0])).toEqual(['id', 'rate', 'flagged', 'ebGlobal', 'ebLocal', 'neighbourhood']);
+    expect(out.question.y).toBe("sids");
+  });
+  it('refuses a malformed recipe and a stray --smooth on one line', () => {
+    const bad = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'sids', '--x', 'NWBIR74', '--rate', 'SID74/BIR74']);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/NAME=EVENTS\/POPULATION/);
+    const stray = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'SID74', '--x', 'NWBIR74', '--smooth', 'local']);
+    expect(stray.code).toBe(2);
+    expect(stray.stderr).toMatch(/--smooth goes with --rate/);
+  });
+});
