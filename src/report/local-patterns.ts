@@ -5,6 +5,7 @@ import type { LocalCategory, LocalStatisticKind } from '../stats/index.js';
 import type { Block, Cell, PngRenderer, ReportImage, TableColumn } from './types.js';
 import { num } from './format.js';
 import { layoutBlocks, ROW_HEIGHT_PX } from './layout.js';
+import { placePictures } from './pictures-for-report.js';
 import { categoryMapSvg, type MapCategory } from './pictures/category-map.js';
 import { localMoranMapCategories, LOCAL_FILL, P_BAND_FILL } from './pictures/local-palette.js';
 import type { Picture } from './pictures/index.js';
@@ -53,16 +54,9 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
   }
   const pictures = localPictures(result);
   const headRows = layoutBlocks(head).lastRow;
-  let row = headRows + 3;
-  const images: ReportImage[] = pictures.map(({ name, pic }) => {
-    const image: ReportImage = {
-      name, svg: pic.svg, widthPx: pic.widthPx, heightPx: pic.heightPx, alt: pic.alt,
-      png: renderPng ? renderPng(pic.svg, pic.widthPx) : new Uint8Array(0),
-      anchor: { row, col: 1 },
-    };
-    row += Math.ceil(pic.heightPx / ROW_HEIGHT_PX) + 2;
-    return image;
-  });
+  const images = placePictures(pictures, headRows + 3, renderPng);
+  const last = images[images.length - 1];
+  const row = last ? last.anchor.row + Math.ceil(last.heightPx / ROW_HEIGHT_PX) + 2 : headRows + 3;
   const blocks: Block[] = [...head];
   if (images.length) blocks.push({ kind: 'space', rows: row - headRows - 2 });
   blocks.push(...areaTables(result, kinds));
