@@ -31,3 +31,21 @@ describe('rates in the pipeline', () => {
       .toThrow(/Row 3: 5 events in "d" exceed/);
   });
 });
+
+describe('a run with a rate (North Carolina counties, test/fixtures/sids, r-cran-spdata CC0)', async () => {
+  const { readFileSync } = await import('node:fs');
+  const { runAnalysis } = await import('../src/pipeline/index.js');
+  const { buildReport } = await import('../src/report/index.js');
+  const boundary = ['sids.shp', 'sids.dbf', 'sids.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(new URL(`./fixtures/sids/${name}`, import.meta.url))) }));
+  const result = await runAnalysis({
+    boundary, id: 'FIPS', y: 'sids', x: ['NWBIR74'], weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+    rates: { recipes: [parseRateRecipe('sids=SID74/BIR74', 1000)], smoothing: 'neighbourhood' },
+  });
+  it('models the chosen smoothed rate and keeps the recipe in the run record', () => {
+    const r = result.rates![0];
+    expect(Array.from(r.modelled)).toEqual(r.areas.map((a) => a.neighbourhood));
+    expect(result.request.rates).toEqual({ recipes: [{ name: 'sids', events: 'SID74', population: 'BIR74', per: 1000 }], smoothing: 'neighbourhood' });
+    const record = JSON.stringify(buildReport(result).sheets.find((s) => s.role === 'record'));
+    expect(record).toContain('SID74 / BIR74 per 1000; modelled as the neighbourhood smoothed rate');
+  });
+});

@@ -31,6 +31,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('Neighbour definition asked for', describeRule(r.weights)),
         kv('Neighbour definition used', result.weights.description),
         ...(result.comparison ? [kv('Also fitted, for comparison, under', result.comparison.filter((c) => !c.asRun).map((c) => c.label).join('; '))] : []),
+        ...(r.rates ? r.rates.recipes.map((q) => kv(`Rate ${q.name}`, `${q.events} / ${q.population} per ${q.per}; modelled as the ${r.rates!.smoothing} smoothed rate`)) : []),
         kv('Weights transform', r.transform),
         kv('Models fitted', r.models.map((m) => MODEL_LABEL[m]).join(', ')),
         kv('Robust standard errors asked for', yesNo(r.robust)),
