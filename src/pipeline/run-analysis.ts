@@ -14,6 +14,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
+import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
 const DEFAULT_SEED = 20261201;
@@ -54,6 +55,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const boundaryId = request.boundaryId?.trim() || undefined;
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
   const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x], request.dropMissing ?? false);
+  checkModelColumns(values, joined);
+  checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
   lap('join');
 
   progress(0.2, 'Finding neighbours');
@@ -77,6 +80,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       { transform: request.transform, linkUnneighboured: request.linkUnneighboured },
     );
   }
+  checkWeights(w, w.description);
   const summary = summarizeWeights(w);
   lap('weights');
 
@@ -101,6 +105,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.4, 'Fitting the plain regression');
   const ols = fitOls(y, design, { robust: request.robust });
+  if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x);
   const moran = moranResidualTest(ols, design, algebra);
   const lm = lmTests(ols, design, algebra);
   const recommendation = recommendModel(lm);
@@ -116,6 +121,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     if (models.includes('lag')) {
       progress(0.5, 'Fitting the spatial lag model');
       const fit = fitSpatialLag(y, design, algebra, ols);
+      checkFittedLikelihood('spatial lag model', fit.logLik, y.length, design.columns.length);
       lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
       lap('lag');
       progress(0.7, 'Simulating the spillover effects');
@@ -125,6 +131,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     if (models.includes('error')) {
       progress(0.8, 'Fitting the spatial error model');
       const fit = fitSpatialError(y, design, algebra, ols);
+      checkFittedLikelihood('spatial error model', fit.logLik, y.length, design.columns.length);
       error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
       lap('error');
     }
