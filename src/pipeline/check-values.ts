@@ -84,7 +84,7 @@ export function checkWeights(w: SpatialWeights, ruleWords: string): void {
     }
     if (w.rowPtr[i + 1] > w.rowPtr[i] && !(sum > 0 && Number.isFinite(sum))) {
       throw new InputError(
-        `The weights of area ${w.ids[i]} under ${ruleWords} overflow or underflow (their total is ${sum}); rescale the weights or choose a smaller power.`,
+        `The weights of area ${w.ids[i]} under ${ruleWords} overflow or underflow (after the transform they add up to ${sum}); rescale the weights or choose a smaller power.`,
       );
     }
   }
@@ -133,4 +133,18 @@ export function checkFittedLikelihood(label: string, logLik: number, n: number, 
       `The ${label} could not be estimated on these data (its log-likelihood is ${logLik}; n = ${n}, k = ${k}): the areas are too few or the neighbour links too sparse for the spatial parameter. Use more areas or run only the plain regression.`,
     );
   }
+}
+
+/**
+ * Directed links that never lead back to an area (a chain, a tree) make W nilpotent: every eigenvalue
+ * is 0, ln|I − ρW| = 0 for every ρ and the spatial parameter has no bounded range to search.
+ */
+export function checkSpatialRange(range: { lower: number; upper: number }, ruleWords: string, models: string[]): void {
+  const spatial = models.filter((m) => m === 'lag' || m === 'error');
+  if (spatial.length === 0 || (Number.isFinite(range.lower) && Number.isFinite(range.upper))) return;
+  throw new InputError(
+    `Under ${ruleWords} the links never lead back to an area they started from (no loop: every eigenvalue of the weights is 0), ` +
+    `so the spatial parameter has no bounded range and the spatial ${spatial.join(' and ')} model${spatial.length > 1 ? 's' : ''} cannot be estimated. ` +
+    `List each link in both directions, or run only the plain regression and its tests.`,
+  );
 }

@@ -14,7 +14,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
-import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
+import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
 const DEFAULT_SEED = 20261201;
@@ -86,6 +86,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.3, 'Preparing the log-determinant');
   const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed, helper: runtime.helper });
+  // A refusal after this point frees the algebra (it may hold a second thread's factor).
+  const unlessRefused = (check: () => void) => { try { check(); } catch (e) { algebra.dispose?.(); throw e; } };
+  unlessRefused(() => checkSpatialRange(algebra.range, w.description, models));
   lap('algebra');
 
   const y = values.get(request.y)!;
@@ -105,7 +108,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.4, 'Fitting the plain regression');
   const ols = fitOls(y, design, { robust: request.robust });
-  if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x);
+  unlessRefused(() => { if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x); });
   const moran = moranResidualTest(ols, design, algebra);
   const lm = lmTests(ols, design, algebra);
   const recommendation = recommendModel(lm);
