@@ -17,6 +17,7 @@ import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, columnsWithRates } from './rates.js';
 import { readModelColumns } from './missing.js';
+import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
 const DEFAULT_SEED = 20261201;
@@ -59,6 +60,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
+  checkModelColumns(values, joined);
+  checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
   lap('join');
 
   progress(0.2, 'Finding neighbours');
@@ -82,6 +85,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       { transform: request.transform, linkUnneighboured: request.linkUnneighboured },
     );
   }
+  checkWeights(w, w.description);
   const summary = summarizeWeights(w);
   lap('weights');
   const rates = request.rates?.recipes.length
@@ -90,6 +94,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.3, 'Preparing the log-determinant');
   const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed, helper: runtime.helper });
+  // A refusal after this point frees the algebra (it may hold a second thread's factor).
+  const unlessRefused = (check: () => void) => { try { check(); } catch (e) { algebra.dispose?.(); throw e; } };
+  unlessRefused(() => checkSpatialRange(algebra.range, w.description, models));
   lap('algebra');
 
   const y = values.get(request.y)!;
@@ -109,6 +116,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.4, 'Fitting the plain regression');
   const ols = fitOls(y, design, { robust: request.robust });
+  unlessRefused(() => { if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x); });
   const moran = moranResidualTest(ols, design, algebra);
   const lm = lmTests(ols, design, algebra);
   const recommendation = recommendModel(lm);
@@ -124,6 +132,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     if (models.includes('lag')) {
       progress(0.5, 'Fitting the spatial lag model');
       const fit = fitSpatialLag(y, design, algebra, ols);
+      checkFittedLikelihood('spatial lag model', fit.logLik, y.length, design.columns.length);
       lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
       lap('lag');
       progress(0.7, 'Simulating the spillover effects');
@@ -133,6 +142,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     if (models.includes('error')) {
       progress(0.8, 'Fitting the spatial error model');
       const fit = fitSpatialError(y, design, algebra, ols);
+      checkFittedLikelihood('spatial error model', fit.logLik, y.length, design.columns.length);
       error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
       lap('error');
     }

@@ -14,9 +14,10 @@ import { BASE, weightsRule, type BadInput, type CaseFiles } from './case.js';
 import { geoCases } from './cases-geo.js';
 import { tableCases } from './cases-table.js';
 import { modelCases } from './cases-model.js';
+import { valueCases } from './cases-values.js';
 import { gridFile } from './make.js';
 
-export const ALL_CASES: BadInput[] = [...geoCases, ...tableCases, ...modelCases];
+export const ALL_CASES: BadInput[] = [...geoCases, ...tableCases, ...modelCases, ...valueCases];
 
 const QUICK = { permutations: 0, impactDraws: 10 };
 let dir = '';
@@ -52,6 +53,7 @@ function cliArgs(c: BadInput, f: CaseFiles, folder: string, out?: string): strin
   if (r.layer) args.push('--layer', r.layer);
   if (r.sheet) args.push('--sheet', r.sheet);
   if (r.dropMissing) args.push('--drop-missing');
+  if ('order' in r.weights && r.weights.order !== undefined) args.push('--order', String(r.weights.order));
   if (out) args.push('--out', out);
   return args;
 }
