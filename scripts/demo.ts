@@ -33,7 +33,8 @@ const demos: Demo[] = [
     title: 'Vell Basin districts: share of workers with a long commute',
     boundary: 'vell-basin-districts.geojson', data: 'vell-basin.xlsx', sheet: 'Districts', id: 'district_id',
     truth: 'vell-basin-truth.json', out: 'vell-basin-results.xlsx', parameter: 'lag',
-    request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested' },
+    request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested',
+      local: { statistics: ['moran', 'gistar'], of: 'clinic_wait_days' } },
   },
   {
     title: 'Vell Basin villages: new small businesses per 1,000 residents',
@@ -59,6 +60,7 @@ async function runDemo(d: Demo): Promise<void> {
   console.log(`  ${result.n} areas, ${result.weights.description}, ${result.weights.links} links`);
   console.log(`  Residual Moran's I ${result.ols.moran.I.toFixed(3)} (p ${result.ols.moran.p.toPrecision(2)}); ${result.ols.recommendation.text}`);
   console.log(recovered(result, d.parameter, truth));
+  if (result.local?.results.moran && truth.planted_clusters) console.log(foundClusters(result, truth.planted_clusters));
   console.log(`  Results workbook: ${relative(process.cwd(), outPath)}`);
 }
 
@@ -69,6 +71,14 @@ function recovered(r: AnalysisResult, model: 'lag' | 'error', truth: Record<stri
   const off = Math.abs(fit.parameter - simulated) / fit.parameterSe;
   return `  Simulated ${symbol} = ${simulated}; the ${model} model recovers ${fit.parameter.toFixed(3)} ± ${fit.parameterSe.toFixed(3)} ` +
     `(${off.toFixed(1)} standard errors away${off <= 3 ? ', within 3' : ', MORE than 3'})`;
+}
+
+function foundClusters(r: AnalysisResult, planted: { column: string; long_waits: string[]; short_waits: string[] }): string {
+  const m = r.local!.results.moran!;
+  const group = new Map(r.ids.map((id, i) => [id, m.categories![i]]));
+  const high = planted.long_waits.filter((id) => group.get(id) === 'high-high').length;
+  const low = planted.short_waits.filter((id) => group.get(id) === 'low-low').length;
+  return `  Planted clusters in ${planted.column}: local Moran finds ${high} of ${planted.long_waits.length} long-wait and ${low} of ${planted.short_waits.length} short-wait districts (false discovery rate 0.05)`;
 }
 
 mkdirSync(outDir, { recursive: true });

@@ -69,6 +69,8 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     await page.click('#compare');
+    await page.click('#local-on');
+    await page.selectOption('#local-of', 'clinic_wait_days');
     // readable at narrow width: nothing forces sideways scrolling at 320 px
     await page.setViewportSize({ width: 320, height: 900 });
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(320);
@@ -79,6 +81,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     const saved = join(out, 'result.xlsx');
     await file.saveAs(saved);
     await page.getByText(/new sheets after your own/).waitFor();
+    expect(await page.locator('.local-maps img').count()).toBe(2); // the group map and the p-value map
     // Fluent buttons are form-associated custom elements: the browser applies :disabled to them
     expect(await page.evaluate(() => [document.querySelector('#run')!.matches(':disabled'), document.querySelector('#cancel')!.matches(':disabled')])).toEqual([false, true]);
 
@@ -96,6 +99,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(names).toContain('Summary');
     expect(names).toContain('Neighbours');
     expect(names).toContain('Neighbour definitions compared');
+    expect(names).toContain('Local patterns');
     const lagSheet = wb.worksheets.find((w) => /lag/i.test(w.name));
     expect(lagSheet, names.join(', ')).toBeDefined();
     // ρ read from the lag sheet: the row whose label names ρ (rho)
@@ -183,6 +187,35 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.selectOption('#method', 'knn');
     await page.getByText(/120 matched to rows by village_id/).waitFor();
     await page.getByText(/fewest 5, average 5\.0, most 5/).waitFor();
+  });
+
+  it('says when the coordinates were guessed, lets them be stated, and offers the tie-inclusive k-nearest rule', async () => {
+    // a 5 × 6 lattice of 1-unit squares from (10, 40) without a crs member: guessed projected by its shapes
+    const features = [];
+    const lines = ['code,v,u'];
+    for (let r = 0; r < 5; r++) for (let c = 0; c < 6; c++) {
+      const a = 10 + c, b = 40 + r;
+      features.push({ type: 'Feature', properties: { code: `C${r}${c}` }, geometry: { type: 'Polygon', coordinates: [[[a, b], [a + 1, b], [a + 1, b + 1], [a, b + 1], [a, b]]] } });
+      lines.push(`C${r}${c},${(r * 7 + c * 3) % 5 + r},${c}`);
+    }
+    const lattice = join(out, 'lattice.geojson');
+    const table = join(out, 'lattice.csv');
+    writeFileSync(lattice, JSON.stringify({ type: 'FeatureCollection', features }));
+    writeFileSync(table, lines.join('\n') + '\n');
+    await page.goto(`${origin}/page/index.html`);
+    await page.setInputFiles('#data-file', table);
+    await page.getByText(/30 rows/).waitFor();
+    await page.selectOption('#id-column', 'code');
+    await page.setInputFiles('#boundary-file', lattice);
+    await page.getByText(/30 areas in the file \(projected coordinates, guessed: the file does not say\)/).waitFor();
+    await page.getByText(/This is a guess/).first().waitFor();
+    await page.selectOption('#coordinates', 'geographic');
+    await page.getByText(/30 areas in the file \(longitude\/latitude\); 30 matched/).waitFor();
+    await page.selectOption('#method', 'knn');
+    await page.getByText(/had more areas tied at the k-th nearest distance/).waitFor();
+    await page.click('#ties-include');
+    await page.getByText(/every area tied at the k-th distance included/).waitFor();
+    expect(await page.getByText(/had more areas tied .*lowest row were taken/).count()).toBe(0);
   });
 
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {

@@ -3,7 +3,6 @@
 import { describe, expect, it } from 'vitest';
 import { ringSelfCrosses, ringSignedArea, ringIsClosed } from '../src/geo/ring-checks.js';
 import { jsonErrorOffset } from '../src/geo/json-error-position.js';
-import { regroupHoles } from '../src/geo/read-shapefile.js';
 
 describe('ring checks', () => {
   it('signed area: counter-clockwise positive, exact for rectangles far from the origin', () => {
@@ -38,19 +37,5 @@ describe('JSON error offset', () => {
     expect(jsonErrorOffset('{"a" 1}')).toBe(5);
     expect(jsonErrorOffset('[1, 2] x')).toBe(7);
     expect(jsonErrorOffset('{"a": [1, {"b": null}]}')).toBe(-1);
-  });
-});
-
-describe('regroupHoles (shapefile polygons)', () => {
-  const sq = (a: number, b: number) => [[a, a], [a, b], [b, b], [b, a], [a, a]];
-  it('puts a hole in the smallest outer ring that contains it', () => {
-    // Constructed case: square 0..10 with a hole 2..8; inside the hole an island 3..7 with its own hole
-    // 4..6. Both outer rings contain the inner hole's vertices; only the island is its true owner.
-    const [A, H1, B, H2] = [sq(0, 10), sq(2, 8), sq(3, 7), sq(4, 6)];
-    expect(regroupHoles([[A, H1, H2], [B]])).toEqual([[A, H1], [B, H2]]);
-  });
-  it('leaves single-part polygons and parts without holes alone', () => {
-    const one = [[sq(0, 1)]];
-    expect(regroupHoles(one)).toBe(one);
   });
 });

@@ -201,7 +201,7 @@ describe('district attributes follow the stated spatial lag process', () => {
   beforeAll(async () => ({ header, rows } = await sheetRecords(join(committed, 'vell-basin.xlsx'), 'Districts')));
 
   it('has the documented columns, one row per district, numbers as numbers', () => {
-    expect(header).toEqual(['district_id', 'district_name', 'long_commute_pct', 'broadband_pct', 'rail_km', 'rent_index', 'population']);
+    expect(header).toEqual(['district_id', 'district_name', 'long_commute_pct', 'broadband_pct', 'rail_km', 'rent_index', 'population', 'clinic_wait_days']);
     expect(rows.length).toBe(truth.n);
     rows.forEach((r, i) => {
       expect(r.district_id).toBe(gj.features[i].properties.district_id);

@@ -9,6 +9,7 @@ import { InputError } from '../../src/errors.js';
 import {
   gearyOfRange, lagOfRange, localMoranOfRange, moranOfRange, moranPermutationP,
 } from './logic.js';
+import { giStarRows, localMoranRows } from './local-logic.js';
 
 declare const CustomFunctions: {
   associate(id: string, fn: (...args: any[]) => unknown): void;
@@ -102,6 +103,43 @@ export function geary(values: any[][], ids: any[][], neighbours: any[][], detail
   return guarded(() => gearyOfRange(values, ids, neighbours, detail === true, { rowStandardise: rowStandardise === true }));
 }
 
+/**
+ * Local Moran's I per area with conditional permutation inference and multiple-testing control: where the values cluster.
+ * @customfunction LOCALMORAN
+ * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [permutations] Reshufflings per area for the p-value (default 999; 0 for the normal approximation).
+ * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
+ * @param [level] Level of the multiple-testing control (default 0.05).
+ * @param [control] "fdr" (default: false discovery rate, Benjamini–Hochberg), "bonferroni" or "none".
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
+ * @returns Four columns spilled per area, in the order of the IDs: the statistic, z, p, and the group (high among high, low among low, high among low, low among high, not significant).
+ */
+export function localMoranCells(
+  values: any[][], ids: any[][], neighbours: any[][], permutations?: number, seed?: number, level?: number, control?: string, rowStandardise?: boolean,
+): any[][] {
+  return guarded(() => localMoranRows(values, ids, neighbours, { permutations, seed, level, control, rowStandardise: rowStandardise === true }));
+}
+
+/**
+ * Getis–Ord Gi* per area (binary weights, the area itself included): clusters of high or of low values.
+ * @customfunction GISTAR
+ * @param values One number of zero or more per area, in a single column. A text first cell is read as a header.
+ * @param ids The area IDs, in the same rows as the values.
+ * @param neighbours The links between areas: origin ID, neighbour ID (weights are read as 1).
+ * @param [permutations] Reshufflings per area for the p-value (default 999; 0 for the normal approximation).
+ * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
+ * @param [level] Level of the multiple-testing control (default 0.05).
+ * @param [control] "fdr" (default: false discovery rate, Benjamini–Hochberg), "bonferroni" or "none".
+ * @returns Three columns spilled per area, in the order of the IDs: z, p, and the finding (cluster of high values, cluster of low values, not significant).
+ */
+export function giStarCells(
+  values: any[][], ids: any[][], neighbours: any[][], permutations?: number, seed?: number, level?: number, control?: string,
+): any[][] {
+  return guarded(() => giStarRows(values, ids, neighbours, { permutations, seed, level, control }));
+}
+
 /** Ties each metadata id to its function; Office.js provides CustomFunctions in the shared runtime. */
 export function registerCellFunctions(): void {
   if (typeof CustomFunctions === 'undefined') return;
@@ -110,4 +148,6 @@ export function registerCellFunctions(): void {
   CustomFunctions.associate('LAG', lag);
   CustomFunctions.associate('MORANBYAREA', localMoran);
   CustomFunctions.associate('GEARY', geary);
+  CustomFunctions.associate('LOCALMORAN', localMoranCells);
+  CustomFunctions.associate('GISTAR', giStarCells);
 }

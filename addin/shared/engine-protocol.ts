@@ -17,6 +17,8 @@ export interface CheckRequest {
   weights: WeightsSpec;
   transform: WeightsTransform;
   linkUnneighboured?: boolean;
+  /** the analyst's statement of the coordinates, overriding the file and the guess */
+  coordinates?: CoordinateKind;
 }
 
 export interface CheckResult {
@@ -24,13 +26,14 @@ export interface CheckResult {
   propertyNames: string[];
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  coordinatesGuessed?: boolean;
   matched: number;
   join: JoinReport;
   /** when the join failed, why (the report above says where) */
   joinError?: string;
   /** when the boundary file has no property named like the ID: its properties holding the table's IDs, best first */
   idCandidates?: { property: string; matches: number; rows: number }[];
-  neighbours?: WeightsSummary & { description: string };
+  neighbours?: WeightsSummary & { description: string; tiesWarning?: string };
   neighboursError?: EngineError;
   warnings: string[];
 }

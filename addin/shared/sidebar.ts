@@ -1,5 +1,5 @@
 /**
- * The sidebar: five steps top to bottom (data, areas, neighbours, model, run), each showing what it
+ * The sidebar: six steps top to bottom (data, areas, neighbours, model, where is the pattern, run), each showing what it
  * found. Shared by the Excel task pane and the browser page; the host supplies the table and
  * writes the results. The engine runs in a worker (EngineClient).
  */
@@ -25,13 +25,19 @@ interface State {
   check?: CheckResult;
   method: Method;
   k: number; distance: number; power: number; order: number;
+  /** k-nearest: every area tied at the k-th distance becomes a neighbour (else the lower rows fill the places) */
+  tiesInclude: boolean;
   transform: WeightsTransform;
   linkUnneighboured: boolean;
+  /** the analyst's statement of the coordinates ('' = as the file says, or guessed) */
+  coordinates: '' | 'geographic' | 'projected';
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
   compare: boolean;
   y?: string;
   x: Set<string>;
   lag: boolean; error: boolean; robust: boolean; dropMissing: boolean;
+  /** where is the pattern? local statistics of one column */
+  local: { on: boolean; of: string; moran: boolean; gi: boolean; gistar: boolean; permutations: number; seed: number; control: 'fdr' | 'bonferroni' | 'none'; level: number };
   running: boolean;
 }
 
@@ -46,8 +52,9 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, transform: 'row', linkUnneighboured: false, compare: false,
+    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
     x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
+    local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
   let saved: SavedSetup | null = null;
 
@@ -63,7 +70,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const areas = step(2, 'Areas');
   const nb = step(3, 'Neighbours');
   const model = step(4, 'Model');
-  const run = step(5, 'Run');
+  const local = step(5, 'Where is the pattern?');
+  const run = step(6, 'Run');
 
   /** An error shown inline; for bad input with a row, names the cell (and in Excel offers to show it). */
   const showError = (where: HTMLElement, e: unknown) => {
@@ -159,7 +167,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function weightsSpec(): WeightsSpec {
     switch (s.method) {
       case 'queen': case 'rook': return { method: s.method, order: s.order };
-      case 'knn': return { method: 'knn', k: s.k };
+      case 'knn': return s.tiesInclude ? { method: 'knn', k: s.k, ties: 'include' } : { method: 'knn', k: s.k };
       case 'band': return { method: 'band', distance: s.distance };
       case 'idw': return { method: 'idw', power: s.power };
     }
@@ -176,6 +184,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     try {
       const { result } = await engine.call({ op: 'check', check: {
         boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       } });
       if (serial !== checkSerial) return;
       // the boundary file names the IDs otherwise: take the property holding most of the table's IDs, once
@@ -219,9 +228,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (chosen && chosen.property === areasNow.idProperty) idChoice.push(h('p', { class: 'hint' }, `Chosen by itself: the property holding the most of ${s.id}'s IDs. Change it here if another is meant.`));
     }
     clear(areas.found,
-      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}); `
+      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
         + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
       ...idChoice,
+      ...(s.areas ? [select('coordinates', 'Coordinates', [
+        { value: '', text: 'As the file says (guessed when it does not)' },
+        { value: 'geographic', text: 'Longitude/latitude degrees' },
+        { value: 'projected', text: 'Projected (planar units)' },
+      ], s.coordinates, (v) => { s.coordinates = v as State['coordinates']; void refreshCheck(); })] : []),
       lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : r.joinError ? h('span') : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
@@ -235,7 +249,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const changed = () => { drawNeighbourControls(); void refreshCheck(); };
     const extra: HTMLElement[] = [];
     if (s.method === 'queen' || s.method === 'rook') extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
-    if (s.method === 'knn') extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'knn') {
+      extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+      extra.push(checkbox('ties-include', 'Include every area tied at the last place (otherwise the lower rows are taken)', s.tiesInclude, (v) => { s.tiesInclude = v; void refreshCheck(); }));
+    }
     if (s.method === 'band') extra.push(numberInput('distance', 'Distance (in the map’s units)', s.distance, (v) => { s.distance = v; changed(); }, { min: 0 }));
     if (s.method === 'idw') extra.push(numberInput('power', 'Power of the distance', s.power, (v) => { s.power = v; changed(); }, { min: 0, step: 0.5 }));
     clear(nbControls,
@@ -265,6 +282,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', { class: 'hint' }, 'Number of neighbours → number of areas'), bars,
       h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
     );
+    if (w.tiesWarning) nb.found.append(message('warning', w.tiesWarning));
     if (w.withoutNeighbours.length) nb.found.append(message('warning', `${w.withoutNeighbours.length} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
   }
 
@@ -287,7 +305,46 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
   drawModel();
 
-  // ---- 5 Run
+  // ---- 5 Where is the pattern? (local statistics)
+  function drawLocal() {
+    const l = s.local;
+    const columns = s.profile ? s.profile.numeric.filter((c) => c !== s.id) : [];
+    const controls: HTMLElement[] = [
+      checkbox('local-on', 'Find where values cluster, area by area (local statistics)', l.on, (v) => { l.on = v; drawLocal(); }),
+    ];
+    if (l.on) {
+      controls.push(
+        select('local-of', 'Of which values', [
+          { value: 'outcome', text: `The outcome${s.y ? ` (${s.y})` : ''}` },
+          { value: 'residuals', text: 'The plain regression’s residuals' },
+          ...columns.filter((c) => c !== s.y).map((c) => ({ value: c, text: c })),
+        ], l.of, (v) => { l.of = v; }),
+        h('fieldset', { class: 'local-statistics' }, h('legend', {}, 'Statistics'),
+          checkbox('local-moran', 'Local Moran’s I: clusters and areas unlike their neighbours', l.moran, (v) => { l.moran = v; }),
+          checkbox('local-gi', 'Getis–Ord Gi: the neighbours’ values, the area left out', l.gi, (v) => { l.gi = v; }),
+          checkbox('local-gistar', 'Getis–Ord Gi*: the area and its neighbours together', l.gistar, (v) => { l.gistar = v; })),
+        numberInput('local-permutations', 'Permutations per area', l.permutations, (v) => { l.permutations = v; }, { min: 0, step: 100 }),
+        numberInput('local-seed', 'Seed (fixes the random draws)', l.seed, (v) => { l.seed = v; }, { min: 0, step: 1 }),
+        select('local-control', 'Allowance for testing every area', [
+          { value: 'fdr', text: 'False discovery rate (Benjamini–Hochberg)' },
+          { value: 'bonferroni', text: 'Any false finding (Bonferroni)' },
+          { value: 'none', text: 'None: each area on its own (labelled as such)' },
+        ], l.control, (v) => { l.control = v as typeof l.control; }),
+        numberInput('local-level', 'Level', l.level, (v) => { l.level = v; }, { min: 0.001, step: 0.01 }),
+      );
+    }
+    clear(local.body, ...controls);
+  }
+  drawLocal();
+
+  function localRequest() {
+    const l = s.local;
+    if (!l.on) return undefined;
+    const statistics = [...(l.moran ? ['moran' as const] : []), ...(l.gi ? ['gi' as const] : []), ...(l.gistar ? ['gistar' as const] : [])];
+    return { statistics, of: l.of, permutations: l.permutations, control: { method: l.control, level: l.level } };
+  }
+
+  // ---- 6 Run
   const progress = h('fluent-progress-bar', { id: 'progress', max: 100, value: 0, 'aria-label': 'Progress' }) as HTMLElement & { value: number };
   const stage = h('p', { class: 'stage', role: 'status', 'aria-live': 'polite' });
   const runButton = button('Run', () => void start(), { primary: true, id: 'run' });
@@ -300,6 +357,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
+      ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
     };
   }
@@ -308,7 +366,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(run.errors); clear(run.found);
     const missing = !s.source ? 'Choose the data (step 1).' : !s.id ? 'Choose the ID column (step 1).'
       : !s.areas ? 'Open a boundary file or choose coordinate columns (step 2).' : !s.y ? 'Choose the outcome (step 4).'
-      : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).' : '';
+      : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).'
+      : s.local.on && !s.local.moran && !s.local.gi && !s.local.gistar ? 'Tick at least one local statistic (step 5), or untick the local statistics.' : '';
     if (missing) { run.errors.append(message('error', missing)); return; }
     let boundary: NamedBytesLike[] | null;
     try { boundary = boundaryFiles(); } catch (e) { showError(run.errors, e); return; }
@@ -321,8 +380,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        ...(s.coordinates ? { coordinates: s.coordinates } : {}),
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
+        ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
       } }, onProgress);
       onProgress(0.94, 'Writing the results');
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
@@ -333,6 +394,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       run.found.append(message('success', `${output.headline}. ${outcome.message}`));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       for (const w of output.warnings) run.found.append(message('warning', w));
+      const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
+      if (maps.length) {
+        run.found.append(h('div', { class: 'local-maps' }, ...maps.map((m) =>
+          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+      }
     } catch (e) {
       if (e instanceof Cancelled) { stage.textContent = 'Stopped. Nothing was written.'; progress.value = 0; }
       else { stage.textContent = ''; showError(run.errors, e); }
@@ -348,13 +414,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (saved) {
       if (saved.weights) {
         s.method = saved.weights.method;
-        if ('k' in saved.weights) s.k = saved.weights.k;
+        if ('k' in saved.weights) { s.k = saved.weights.k; s.tiesInclude = saved.weights.ties === 'include'; }
         if ('distance' in saved.weights) s.distance = saved.weights.distance;
         if ('power' in saved.weights) s.power = saved.weights.power;
         if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
       }
       s.transform = saved.transform ?? s.transform;
       s.linkUnneighboured = saved.linkUnneighboured ?? false;
+      s.coordinates = saved.coordinates ?? '';
       s.compare = saved.compare ?? false;
       s.lag = saved.models?.includes('lag') ?? true;
       s.error = saved.models?.includes('error') ?? false;

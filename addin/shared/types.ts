@@ -29,6 +29,8 @@ export interface SavedSetup {
   weights?: WeightsSpec;
   transform?: WeightsTransform;
   linkUnneighboured?: boolean;
+  /** the analyst's statement of the boundary file's coordinates */
+  coordinates?: 'geographic' | 'projected';
   /** also fit under the usual alternative neighbour definitions */
   compare?: boolean;
   models?: ('lag' | 'error')[];

@@ -7,7 +7,7 @@ import { InputError } from '../../src/errors.js';
 import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
-import { buildWeights, summarizeWeights } from '../../src/weights/index.js';
+import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import type { RunOutput, TableSnapshot } from './types.js';
@@ -36,11 +36,11 @@ async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string
 }
 
 async function check(c: CheckRequest): Promise<CheckResult> {
-  const layer = await readBoundary(c.boundary, { layer: c.layer });
+  const layer = await readBoundary(c.boundary, { layer: c.layer, coordinates: c.coordinates });
   const table = await readTable(c.data, { sheet: c.sheet });
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
-    coordinateEvidence: layer.coordinateEvidence, warnings: [...layer.warnings],
+    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings],
   };
   const idProperty = c.boundaryId ?? c.id;
   if (!layer.propertyNames.includes(idProperty)) {
@@ -65,7 +65,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
       c.weights,
       { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
     );
-    result.neighbours = { ...summarizeWeights(w), description: w.description };
+    result.neighbours = { ...summarizeWeights(w), description: w.description, ...(w.tiesDecided ? { tiesWarning: tieWarning(w.tiesDecided, w.spec) } : {}) };
   } catch (e) {
     result.neighboursError = asEngineError(e);
   }

@@ -24,7 +24,12 @@ export const DISTRICT_COLUMNS: ColumnSpec[] = [
   { name: 'rail_km', width: 10, format: '0.0', meaning: "Straight-line distance from the district's centre to the nearest passenger rail line, in kilometres." },
   { name: 'rent_index', width: 12, format: '0.0', meaning: 'Median monthly rent relative to the median district (= 100). Dearer districts sit near the jobs.' },
   { name: 'population', width: 12, format: '#,##0', meaning: 'Residents. Not part of the simulated process; there for maps and weighting.' },
+  { name: 'clinic_wait_days', width: 16, format: '0.0', meaning: 'Average wait for a routine clinic appointment, in days. Not part of the commute model: drawn on its own with one planted cluster of long waits and one of short waits, for the local-patterns example.' },
 ];
+
+/** A second, separate stream for the planted clusters, so the commute data stay as they were. */
+export const CLUSTER_SEED = 90126;
+export const CLUSTER_TRUTH = { baseline: 20, sd: 2, shift: 10 };
 
 export interface DistrictData {
   outline: Pt[];
@@ -80,7 +85,10 @@ export async function makeDistricts(): Promise<DistrictData> {
     rail_km: x.railKm,
     rent_index: x.rent,
     population: x.population,
+    clinic_wait_days: 0,
   }));
+  const planted = plantClusters(cells, nb);
+  rows.forEach((r, i) => { r.clinic_wait_days = planted.values[i]; });
   const e = stats(eps);
   const truth = {
     dataset: 'Vell Basin districts (invented)',
@@ -99,6 +107,38 @@ export async function makeDistricts(): Promise<DistrictData> {
     realised_errors: { mean: round(e.mean, 6), sd: round(e.sd, 6) },
     outline_area_m2: round(ringArea(outline), 2),
     grid_spacing_m: spacing,
+    planted_clusters: {
+      column: 'clinic_wait_days',
+      seed: CLUSTER_SEED,
+      process: `baseline ${CLUSTER_TRUTH.baseline} + N(0, ${CLUSTER_TRUTH.sd}²) days, plus ${CLUSTER_TRUTH.shift} days in the long-wait cluster and minus ${CLUSTER_TRUTH.shift} in the short-wait cluster (a centre district and its queen neighbours)`,
+      long_waits: planted.high.map((i) => rows[i].district_id),
+      short_waits: planted.low.map((i) => rows[i].district_id),
+    },
   };
   return { outline, cells, neighbours: nb, rows, truth };
+}
+
+/**
+ * Two planted clusters: the districts nearest the quarter points of the basin's bounding box (lower
+ * left, upper right), each with its queen neighbours, shifted up and down from a noisy baseline.
+ */
+function plantClusters(cells: Pt[][], nb: number[][]): { values: number[]; high: number[]; low: number[] } {
+  const rand = mulberry32(CLUSTER_SEED);
+  const c = cells.map(ringCentroid);
+  const xs = c.map((p) => p[0]);
+  const ys = c.map((p) => p[1]);
+  const at = (fx: number, fy: number): number => {
+    const tx = Math.min(...xs) + fx * (Math.max(...xs) - Math.min(...xs));
+    const ty = Math.min(...ys) + fy * (Math.max(...ys) - Math.min(...ys));
+    let best = 0;
+    c.forEach((p, i) => { if (Math.hypot(p[0] - tx, p[1] - ty) < Math.hypot(c[best][0] - tx, c[best][1] - ty)) best = i; });
+    return best;
+  };
+  const highCentre = at(0.7, 0.7);
+  const lowCentre = at(0.3, 0.3);
+  const high = [highCentre, ...nb[highCentre]].sort((a, b) => a - b);
+  const low = [lowCentre, ...nb[lowCentre]].sort((a, b) => a - b);
+  const { baseline, sd, shift } = CLUSTER_TRUTH;
+  const values = cells.map((_, i) => round(baseline + sd * normal(rand) + (high.includes(i) ? shift : low.includes(i) ? -shift : 0), 1));
+  return { values, high, low };
 }

@@ -27,6 +27,8 @@ export interface FitArgs {
   algebra: 'auto' | 'dense' | 'sparse';
   /** 1 or 2: a second thread for the large sparse factorisations */
   threads: 1 | 2;
+  /** local statistics (--local), of what, and how their many tests are controlled */
+  local?: { statistics: ('moran' | 'gi' | 'gistar')[]; of: string; control: { method: 'fdr' | 'bonferroni' | 'none'; level: number } };
   json: boolean;
   perArea: boolean;
   out?: string;
@@ -59,10 +61,20 @@ Neighbours
   --cumulative         with --order K, every area up to K steps away (not only exactly K)
   --tolerance T        snapping tolerance for contiguity, in coordinate units
   --link-unneighboured link each area without neighbours to its nearest area
+  --ties RULE          knn: areas tied at the K-th distance — lower-row (default: the lowest rows
+                       fill the K places) or include (every tied area is a neighbour)
   --neighbours FILE    read neighbours from a CSV edge list (origin, neighbour, weight) instead
   --transform T        row (default) or binary
   --compare RULES      also fit under other neighbour rules, comma-separated (e.g. rook,knn:6),
                        or "suggested"; the results sit side by side
+
+Where the pattern is (local statistics)
+  --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
+  --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:lag,
+                       residuals:error, or a column of the table
+  --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
+  --fdr-level Q        the level of that control (default 0.05)
+                       --permutations and --seed apply to the local tests too (default 999 permutations)
 
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
@@ -84,11 +96,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, cumulative: { type: 'boolean' },
-        tolerance: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
+        tolerance: { type: 'string' }, ties: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
+        local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
       },
     });
   } catch (e) {
@@ -122,9 +135,9 @@ export function parseFitArgs(argv: string[]): FitArgs {
     boundaryId: v['boundary-id']?.trim() || undefined,
     y: need('y'),
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
-    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance),
+    weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance, v.ties, !v.compare),
     edgeList: v.neighbours,
-    compare: parseCompare(v.compare, v.tolerance),
+    compare: parseCompare(v.compare, v.tolerance, v.ties),
     transform,
     linkUnneighboured: v['link-unneighboured'] ?? false,
     models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
@@ -135,6 +148,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     permutations: optionalInteger('permutations', v.permutations, 0),
     algebra,
     threads,
+    local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -142,14 +156,14 @@ export function parseFitArgs(argv: string[]): FitArgs {
 }
 
 /** --compare: comma-separated rules (contiguity ones take --tolerance), or "suggested". */
-function parseCompare(text: string | undefined, tolerance: string | undefined): FitArgs['compare'] {
+function parseCompare(text: string | undefined, tolerance: string | undefined, ties?: string): FitArgs['compare'] {
   if (text === undefined) return undefined;
   if (text.trim().toLowerCase() === 'suggested') return 'suggested';
   const rules = text.split(',').map((r) => r.trim()).filter(Boolean);
   if (rules.length === 0) throw new InputError('--compare needs neighbour rules, e.g. --compare rook,knn:6, or "suggested".');
   return rules.map((rule) => {
     try {
-      return parseWeightsRule(rule, undefined, false, tolerance);
+      return parseWeightsRule(rule, undefined, false, tolerance, ties, false);
     } catch (e) {
       if (e instanceof InputError) throw new InputError(`--compare: ${e.message.replace(/^--weights: /, '')}`);
       throw e;
@@ -158,8 +172,13 @@ function parseCompare(text: string | undefined, tolerance: string | undefined): 
 }
 
 /** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */
-export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string): WeightsSpec {
+export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string, ties?: string, tiesOnlyForKnn = true): WeightsSpec {
   const [name, ...params] = rule.trim().toLowerCase().split(':');
+  const tieRule = ties?.trim().toLowerCase();
+  if (tieRule !== undefined && tieRule !== 'lower-row' && tieRule !== 'include') {
+    throw new InputError(`--ties must be lower-row or include, not "${ties}".`);
+  }
+  if (tieRule !== undefined && tiesOnlyForKnn && name !== 'knn') throw new InputError('--ties applies to k-nearest neighbours (knn:K) only.');
   const num = (s: string | undefined, what: string) => {
     const n = Number(s);
     if (s === undefined || s === '' || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number.`);
@@ -184,7 +203,7 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
   if (name === 'knn') {
     const k = num(params[0], 'the number of neighbours K (knn:K)');
     if (!Number.isInteger(k) || k < 1) throw new InputError(`--weights ${rule}: K must be a whole number of at least 1.`);
-    return { method: 'knn', k };
+    return tieRule === 'include' ? { method: 'knn', k, ties: 'include' } : { method: 'knn', k };
   }
   if (name === 'band') {
     const d = num(params[0], 'the distance (band:DISTANCE)');
@@ -210,4 +229,24 @@ function optionalInteger(name: string, s: string | undefined, min: number): numb
   const n = Number(s);
   if (!Number.isInteger(n) || n < min) throw new InputError(`--${name} must be a whole number of at least ${min}, not "${s}".`);
   return n;
+}
+
+function parseLocal(list?: string, of?: string, control?: string, level?: string): FitArgs['local'] {
+  if (list === undefined) {
+    const stray = of !== undefined ? '--local-of' : control !== undefined ? '--multiple-testing' : level !== undefined ? '--fdr-level' : undefined;
+    if (stray) throw new InputError(`${stray} goes with --local (e.g. --local moran).`);
+    return undefined;
+  }
+  const statistics = list.split(',').map((s) => s.trim().toLowerCase()).filter(Boolean);
+  if (statistics.length === 0) throw new InputError('--local needs at least one of moran, gi, gistar.');
+  for (const s of statistics) if (!['moran', 'gi', 'gistar'].includes(s)) throw new InputError(`--local: unknown statistic "${s}"; choose from moran, gi, gistar.`);
+  const method = (control ?? 'fdr').trim().toLowerCase();
+  if (!['fdr', 'bonferroni', 'none'].includes(method)) throw new InputError(`--multiple-testing must be fdr, bonferroni or none, not "${control}".`);
+  const q = level === undefined ? 0.05 : Number(level.trim());
+  if (!(q > 0 && q < 1) || (level !== undefined && !/^\s*(0?\.\d+|\d+(\.\d+)?(e-?\d+)?)\s*$/i.test(level))) throw new InputError(`--fdr-level must be a number between 0 and 1, not "${level}".`);
+  return {
+    statistics: statistics as NonNullable<FitArgs['local']>['statistics'],
+    of: of?.trim() || 'outcome',
+    control: { method: method as 'fdr' | 'bonferroni' | 'none', level: q },
+  };
 }

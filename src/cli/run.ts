@@ -57,6 +57,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       seed: args.seed,
       impactDraws: args.draws,
       permutations: args.permutations,
+      ...(args.local ? { local: { ...args.local, permutations: args.permutations } } : {}),
       algebra: args.algebra,
     }, args.threads === 2 ? { helper: startNodeHelper } : {});
     if (args.out) {

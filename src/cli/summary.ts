@@ -1,4 +1,5 @@
-import type { AnalysisResult } from '../pipeline/index.js';
+import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult } from '../pipeline/index.js';
+import type { LocalCategory } from '../stats/index.js';
 import type { Coefficient, SpatialFit } from '../models/types.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
@@ -51,6 +52,7 @@ export function formatSummary(r: AnalysisResult): string {
     for (const c of r.comparison) if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
     lines.push('');
   }
+  if (r.local) lines.push(...localBlock(r), '');
   lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
   if (r.warnings.length) {
     lines.push('', 'Warnings');
@@ -98,4 +100,21 @@ function fmt(v: number, digits: number): string {
 function p(v: number): string {
   if (!Number.isFinite(v)) return String(v);
   return v < 0.0001 ? '< 0.0001' : v.toFixed(4);
+}
+
+function localBlock(r: AnalysisResult): string[] {
+  const l = r.local!;
+  const out = [`Where the pattern is: local statistics of ${l.variable} (${l.permutations ? `${l.permutations} permutations, seed ${l.seed}` : 'analytic p-values'}; ${describeControl(l.control)})`];
+  for (const [kind, s] of Object.entries(l.results)) {
+    const significant = s.significant.filter(Boolean).length;
+    const uncontrolled = s.significantUncontrolled.filter(Boolean).length;
+    let line = `  ${LOCAL_STATISTIC_LABEL[kind as keyof typeof LOCAL_STATISTIC_LABEL]}: ${significant} of ${s.tests} areas significant after control (${uncontrolled} without control)`;
+    if (s.categories) {
+      const counts = categoryCounts(s.categories);
+      const parts = (['high-high', 'low-low', 'high-low', 'low-high'] as LocalCategory[]).map((c) => `${counts[c]} ${LOCAL_CATEGORY_LABEL[c]}`);
+      line += `: ${parts.join(', ')}`;
+    }
+    out.push(line);
+  }
+  return out;
 }

@@ -5,6 +5,7 @@ import { buildReport } from '../report/index.js';
 import { renderPng } from '../report/render-png.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../workbook/index.js';
 import { writeWorkbookFile } from '../workbook/write-file.js';
+import { nodeDeflate } from '../workbook/node-deflate.js';
 
 /**
  * Writes the results workbook: a copy of the input workbook with the results sheets added when the
@@ -24,7 +25,7 @@ export async function writeResultsFile(result: AnalysisResult, outPath: string, 
     }
   }
   const report = buildReport(result, { renderPng });
-  const bytes = await writeResultsWorkbook(report, { base, baseName: dataPath ? basename(dataPath) : undefined });
+  const bytes = await writeResultsWorkbook(report, { base, baseName: dataPath ? basename(dataPath) : undefined, deflate: nodeDeflate });
   await writeWorkbookFile(outPath, bytes);
   return notes;
 }

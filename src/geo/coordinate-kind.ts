@@ -1,6 +1,7 @@
 /** Decides whether a layer's coordinates are longitude/latitude degrees or planar (projected) units. */
 import { InputError } from '../errors.js';
-import type { CoordinateKind } from './types.js';
+import type { Area, CoordinateKind } from './types.js';
+import { shapesLookPlanar } from './coordinate-guess.js';
 import type { Bounds } from './features-to-areas.js';
 
 /** What the file itself says about its coordinate system (.prj text or a GeoJSON `crs` member). */
@@ -13,6 +14,8 @@ export interface CoordinateClaim {
 export interface CoordinateDecision {
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  /** neither the file nor the analyst said: the kind was guessed from the ranges and shapes */
+  guessed: boolean;
   warnings: string[];
 }
 
@@ -60,12 +63,15 @@ function fmt(v: number): string {
 /**
  * Combines the file's own claim (if any) with the coordinate ranges. An explicit `override` from the
  * analyst wins but is still checked against the ranges for the impossible case (degrees beyond ±180/±90).
+ * With neither, coordinates within ±180/±90 are guessed from the ranges and the areas' shapes
+ * (coordinate-guess.ts states the rule), and a warning says it was a guess.
  */
 export function decideCoordinates(
   b: Bounds,
   claim: CoordinateClaim | null,
   file: string,
   override?: CoordinateKind,
+  areas: Area[] = [],
 ): CoordinateDecision {
   const span = `x runs ${fmt(b[0])} to ${fmt(b[2])}, y runs ${fmt(b[1])} to ${fmt(b[3])}`;
   const xIsLon = b[0] >= -180 - SLACK && b[2] <= 180 + SLACK;
@@ -93,26 +99,35 @@ export function decideCoordinates(
         { file },
       );
     }
-    return { coordinates: 'geographic', coordinateEvidence: `${stated.says}; ${span}.`, warnings };
+    return { coordinates: 'geographic', coordinateEvidence: `${stated.says}; ${span}.`, guessed: false, warnings };
   }
   if (stated?.kind === 'projected') {
     if (xIsLon && yIsLat) {
       warnings.push(`${file}: ${stated.says}, yet every coordinate lies within ±180/±90; check that this is right.`);
     }
-    return { coordinates: 'projected', coordinateEvidence: `${stated.says}; ${span}.`, warnings };
+    return { coordinates: 'projected', coordinateEvidence: `${stated.says}; ${span}.`, guessed: false, warnings };
   }
   if (xIsLon && yIsLat) {
+    const look = shapesLookPlanar(areas, b);
+    const kind = look.planar ? 'projected' : 'geographic';
+    const taken = look.planar ? 'planar (projected) units' : 'longitude/latitude degrees (distances on the sphere)';
+    const other = look.planar ? 'geographic' : 'projected';
+    warnings.push(
+      `${file}: the file does not say what its coordinates are; they were taken as ${taken}. This is a guess: ${span}, ` +
+        `all within ±180/±90, and ${look.reason}. If it is wrong, say which: --coordinates ${other} on the command line, ` +
+        'or the Coordinates choice under Areas in the sidebar.',
+    );
     return {
-      coordinates: 'geographic',
-      coordinateEvidence:
-        `No coordinate system is stated; ${span}, all within ±180/±90, so they are read as longitude/latitude degrees ` +
-        '(distances on the sphere). If they are planar units, choose projected coordinates.',
+      coordinates: kind,
+      coordinateEvidence: `Guessed, no coordinate system is stated; ${span}, all within ±180/±90, and ${look.reason}, so they are read as ${taken}.`,
+      guessed: true,
       warnings,
     };
   }
   return {
     coordinates: 'projected',
     coordinateEvidence: `No coordinate system is stated; ${span}, beyond longitude/latitude ranges, so they are read as planar units.`,
+    guessed: false,
     warnings,
   };
 }

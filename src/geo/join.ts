@@ -163,6 +163,7 @@ export function joinAreas(
     columnNames,
     coordinates: layer.coordinates,
     coordinateEvidence: layer.coordinateEvidence,
+    ...(layer.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
     report,
     warnings: [...layer.warnings, ...(table?.warnings ?? []), ...warnings],
     rowKind: rowWord === 'feature' ? 'feature' : 'row',

@@ -95,13 +95,14 @@ export function layerFromTopology(topology: Topology, file: string, layer?: stri
 
 /** The layer from converted features, with the coordinate kind decided from the claim and the bounds. */
 function layerOf(source: string, converted: ReturnType<typeof featuresToAreas>, claim: CoordinateClaim | null, override?: CoordinateKind): AreaLayer {
-  const decision = decideCoordinates(converted.bounds, claim, source, override);
+  const decision = decideCoordinates(converted.bounds, claim, source, override, converted.areas);
   return {
     sourceName: source,
     areas: converted.areas,
     propertyNames: converted.propertyNames,
     coordinates: decision.coordinates,
     coordinateEvidence: decision.coordinateEvidence,
+    ...(decision.guessed ? { coordinatesGuessed: true } : {}),
     warnings: [...converted.warnings, ...decision.warnings],
   };
 }

@@ -29,6 +29,8 @@ export interface AreaLayer {
   coordinates: CoordinateKind;
   /** Why we believe the coordinates are geographic or projected (from .prj, CRS member, or ranges). */
   coordinateEvidence: string;
+  /** True when neither the file nor the analyst stated the kind and it was guessed. */
+  coordinatesGuessed?: boolean;
   /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
   warnings: string[];
 }
@@ -77,6 +79,7 @@ export interface JoinedAreas {
   columnNames: string[];
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  coordinatesGuessed?: boolean;
   report: JoinReport;
   warnings: string[];
   /** 'feature' when `rows` holds feature numbers (no table, or the boundary file's own table). */

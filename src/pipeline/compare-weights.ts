@@ -23,7 +23,7 @@ export function sameSpec(a: WeightsSpec, b: WeightsSpec): boolean {
     if (s.method === 'queen' || s.method === 'rook') {
       return `${s.method}|${s.tolerance ?? 0}|${s.order ?? 1}|${(s.order ?? 1) > 1 && !!s.cumulative}`;
     }
-    if (s.method === 'knn') return `knn|${s.k}`;
+    if (s.method === 'knn') return `knn|${s.k}|${s.ties ?? 'lower-row'}`;
     if (s.method === 'band') return `band|${s.distance}`;
     return `idw|${s.power}|${s.cutoff ?? ''}`;
   };

@@ -2,3 +2,4 @@ export { runAnalysis } from './run-analysis.js';
 export { resultToJson } from './to-json.js';
 export type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 export type { NamedBytesLike } from './named-bytes.js';
+export { LOCAL_STATISTICS, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, describeControl, categoryCounts, type LocalPatterns, type LocalRequest, type LocalOutcome } from './local-patterns.js';

@@ -3,6 +3,7 @@ import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
+import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
 import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import {
@@ -13,6 +14,7 @@ import type { Design } from '../models/types.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
+import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { readModelColumns } from './missing.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -53,7 +55,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   progress(0.1, 'Joining the table to the areas');
   const boundaryId = request.boundaryId?.trim() || undefined;
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
-  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x], request.dropMissing ?? false);
+  const local = request.local ? normaliseLocalRequest(request.local) : undefined;
+  const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  const { joined, values, dropped } = readModelColumns(joinedAll, [request.y, ...request.x, ...localColumn], request.dropMissing ?? false);
   lap('join');
 
   progress(0.2, 'Finding neighbours');
@@ -145,10 +149,26 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     lap('comparison');
   }
 
+  let localResult: AnalysisResult['local'];
+  if (local) {
+    progress(0.93, 'Looking for where the pattern is');
+    const of = local.of;
+    const fitted = { residuals: ols, 'residuals:lag': lag, 'residuals:error': error } as const;
+    const source = of in fitted ? fitted[of as keyof typeof fitted] : undefined;
+    if (of.startsWith('residuals') && !source) {
+      throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
+    }
+    const residualWords = { residuals: 'residuals of the plain regression', 'residuals:lag': 'residuals of the spatial lag model', 'residuals:error': 'residuals of the spatial error model' } as const;
+    const [v, label] = of === 'outcome' ? [y, request.y] : source ? [source.residuals, residualWords[of as keyof typeof residualWords]] : [values.get(of)!, of];
+    localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
+    lap('local');
+  }
+
   const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
+  if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
   if (request.permutations === undefined && permutations === 0) {
     warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
@@ -166,6 +186,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
       seed, impactDraws, permutations,
       ...(alternatives.length ? { compareWeights: alternatives } : {}),
+      ...(local ? { local } : {}),
     },
     inputs,
     n: joined.ids.length,
@@ -175,6 +196,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     geometries: joined.geometries,
     coordinates: joined.coordinates,
     coordinateEvidence: joined.coordinateEvidence,
+    ...(joined.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
     join: joined.report,
     y,
     xNames: [...request.x],
@@ -201,6 +223,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     impacts,
     moranY,
     ...(comparison ? { comparison } : {}),
+    ...(localResult ? { local: localResult } : {}),
     warnings,
     timings,
   };

@@ -1,5 +1,6 @@
 import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
+import type { LocalStatisticKind } from '../stats/index.js';
 
 /**
  * The documented JSON report of the command line (`spillway fit --json`): plain numbers only,
@@ -12,7 +13,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     createdAt: r.createdAt,
     n: r.n,
     question: { y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}) },
-    coordinates: { kind: r.coordinates, evidence: r.coordinateEvidence },
+    coordinates: { kind: r.coordinates, guessed: r.coordinatesGuessed ?? false, evidence: r.coordinateEvidence },
     inputs: r.inputs,
     droppedRows: r.droppedRows,
     weights: {
@@ -80,6 +81,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
       ...(c.failed ? { failed: c.failed } : {}),
     }));
   }
+  if (r.local) out.local = localToJson(r);
   if (opts.perArea) {
     out.areas = r.ids.map((id, i) => ({
       id,
@@ -123,4 +125,36 @@ function spatial(f: SpatialFit, key: 'rho' | 'lambda') {
     convergence: f.convergence,
     warnings: f.warnings,
   };
+}
+
+/** `local`: one object per statistic (moran, gi, gistar), each with its areas in table order; NaN becomes null. */
+function localToJson(r: AnalysisResult): Record<string, unknown> {
+  const l = r.local!;
+  const out: Record<string, unknown> = {};
+  const num = (x: number) => (Number.isFinite(x) ? x : null);
+  for (const kind of Object.keys(l.results) as LocalStatisticKind[]) {
+    const s = l.results[kind]!;
+    out[kind] = {
+      variable: l.variable,
+      of: l.of,
+      permutations: l.permutations,
+      seed: l.seed,
+      permutationRule: l.permutationRule,
+      control: { method: l.control.method, level: l.control.level, tests: s.tests, decidedOn: s.decidedOn },
+      ...(kind === 'gistar' ? { weights: 'binary, each area included with weight 1' } : {}),
+      areas: r.ids.map((id, i) => ({
+        id,
+        value: num(s.value[i]),
+        expected: num(s.expected[i]),
+        variance: num(s.variance[i]),
+        z: num(s.z[i]),
+        p: num(s.p[i]),
+        pPermutation: s.pPermutation ? num(s.pPermutation[i]) : null,
+        pAdjusted: num(s.adjusted[i]),
+        significant: s.significant[i],
+        ...(s.categories ? { category: s.categories[i] } : {}),
+      })),
+    };
+  }
+  return out;
 }

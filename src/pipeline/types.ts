@@ -5,6 +5,7 @@ import type {
   Coefficient, Convergence, Impact, ImpactsResult, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit, TestResult,
 } from '../models/types.js';
 import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
+import type { LocalPatterns, LocalRequest } from './local-patterns.js';
 
 export type ModelName = 'ols' | 'lag' | 'error';
 
@@ -47,6 +48,8 @@ export interface AnalysisRequest {
   seed?: number;
   impactDraws?: number;
   permutations?: number;
+  /** Local statistics (where the pattern is): which, of what, with which multiple-testing control. */
+  local?: LocalRequest;
   /** Cap in bytes on each input file and on what a .zip or .xlsx may expand to (default 1 GiB). */
   maxBytes?: number;
   /** 'auto' chooses dense for small n, sparse above. */
@@ -73,6 +76,7 @@ export interface AnalysisResult {
     models: ModelName[]; dropMissing: boolean; robust: boolean;
     seed: number; impactDraws: number; permutations: number;
     compareWeights?: WeightsSpec[];
+    local?: Required<LocalRequest>;
   };
   inputs: InputRecord[];
   n: number;
@@ -84,6 +88,8 @@ export interface AnalysisResult {
   geometries: AreaGeometry[];
   coordinates: CoordinateKind;
   coordinateEvidence: string;
+  /** neither the file nor the request said what the coordinates are: the kind was guessed */
+  coordinatesGuessed?: boolean;
   join: JoinReport;
   y: Float64Array;
   xNames: string[];
@@ -109,6 +115,8 @@ export interface AnalysisResult {
   moranY: MoranTest & { permutationP?: number; permutations?: number };
   /** the run's neighbour definition and each asked-for alternative, when alternatives were asked for */
   comparison?: WeightsComparison[];
+  /** local statistics, when asked for */
+  local?: LocalPatterns;
   warnings: string[];
   timings: Record<string, number>;
 }

@@ -9,6 +9,7 @@ import { areasBlocks } from './areas.js';
 import { neighboursBlocks } from './neighbours.js';
 import { comparisonBlocks } from './comparison.js';
 import { recordBlocks } from './record.js';
+import { localPatternsSheet } from './local-patterns.js';
 import { layoutBlocks } from './layout.js';
 import { overviewPictures } from './pictures-for-report.js';
 import { MODEL_LABEL } from './format.js';
@@ -33,6 +34,8 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   sheets.push({ name: 'Checks on residuals', role: 'diagnostics', blocks: diagnosticsBlocks(result) });
   const impacts = impactsBlocks(result);
   if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
+  const local = localPatternsSheet(result, opts.renderPng);
+  if (local) sheets.push({ name: 'Local patterns', role: 'local', blocks: local.blocks, images: local.images, freezeHeader: false });
   sheets.push({ name: 'By area', role: 'areas', blocks: areasBlocks(result), freezeHeader: true });
   sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
   const compared = comparisonBlocks(result);

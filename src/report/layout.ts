@@ -10,6 +10,8 @@ export function blockHeight(block: Block): number {
       return 2 + block.rows.length + (block.note ? 1 : 0);
     case 'keyValues':
       return 1 + block.rows.length;
+    case 'space':
+      return block.rows;
   }
 }
 

@@ -17,6 +17,14 @@ function comparisonRows(result: AnalysisResult): Cell[][] {
   return rows;
 }
 
+/** What the coordinates were read as, and whether that was stated or guessed. */
+function coordinatesLine(result: AnalysisResult): string {
+  const kind = result.coordinates === 'geographic' ? 'longitude/latitude degrees' : 'projected (planar units)';
+  return result.coordinatesGuessed
+    ? `${kind}, guessed: the file does not say (see the warnings; --coordinates or the sidebar's Coordinates choice states it)`
+    : kind;
+}
+
 export function overviewBlocks(result: AnalysisResult, title?: string): Block[] {
   const r = result.request;
   const blocks: Block[] = [
@@ -26,6 +34,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
       rows: [
         ['Question', question(r.y, r.x), 'text'],
         ['Areas analysed', result.n, 'integer'],
+        ['Coordinates', coordinatesLine(result), 'text'],
         ['Rows left out for missing values', result.droppedRows.length, 'integer'],
         ['Neighbour definition', result.weights.description, 'text'],
         ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],

@@ -27,6 +27,11 @@ export function overviewPictures(result: AnalysisResult, firstRow: number, rende
     : `Slope of the line ${say(data.slope)} (Moran's I with the weights row-standardised; with the weights used it is ${say(result.moranY.I)})`;
   pictures.push({ name: 'Moran scatter plot', pic: moranScatterSvg(y, data, slopeLabel) });
 
+  return placePictures(pictures, firstRow, renderPng);
+}
+
+/** Pictures stacked in column A from `firstRow` down, two rows apart; rendered to PNG when a renderer is given. */
+export function placePictures(pictures: { name: string; pic: Picture }[], firstRow: number, renderPng?: PngRenderer): ReportImage[] {
   let row = firstRow;
   return pictures.map(({ name, pic }) => {
     const image: ReportImage = {

@@ -19,7 +19,9 @@ export type Block =
   | { kind: 'title'; text: string }
   | { kind: 'paragraph'; text: string; style?: 'note' | 'caution' | 'interpretation' }
   | { kind: 'table'; title: string; columns: TableColumn[]; rows: Cell[][]; note?: string }
-  | { kind: 'keyValues'; title: string; rows: [string, Cell, NumberFormat?][] };
+  | { kind: 'keyValues'; title: string; rows: [string, Cell, NumberFormat?][] }
+  /** empty rows kept free for pictures placed over them */
+  | { kind: 'space'; rows: number };
 
 export interface ReportImage {
   name: string;
@@ -33,7 +35,7 @@ export interface ReportImage {
   alt: string;
 }
 
-export type SheetRole = 'overview' | 'model' | 'diagnostics' | 'impacts' | 'areas' | 'neighbours' | 'comparison' | 'record';
+export type SheetRole = 'overview' | 'model' | 'diagnostics' | 'impacts' | 'areas' | 'neighbours' | 'comparison' | 'local' | 'record';
 
 export interface ReportSheet {
   /** base name, at most 31 characters; the writer makes it unique in the workbook */

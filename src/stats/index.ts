@@ -9,3 +9,8 @@ export { breuschPaganStudentised } from './breusch-pagan-studentised.js';
 export { conditionNumber } from './condition-number.js';
 export { seededRandom, normalSampler } from './random.js';
 export { studentTwoSided, normalTwoSided, chiSquareUpper, fUpper } from './distributions.js';
+export { localMoranTest, localMoranCategories } from './local-moran.js';
+export { getisOrd } from './getis-ord.js';
+export { controlMultipleTests } from './multiple-testing.js';
+export { PERMUTATION_RULE } from './local-types.js';
+export type { LocalStatistic, LocalStatisticKind, LocalCategory, MultipleTestingControl } from './local-types.js';

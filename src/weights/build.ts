@@ -3,11 +3,12 @@ import { InputError, listSome } from '../errors.js';
 import type { SpatialWeights, WeightsSpec, WeightsTransform } from './types.js';
 import { contiguityNeighbours } from './contiguity.js';
 import { higherOrder } from './higher-order.js';
-import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet } from './nearest.js';
+import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet, type TieRule } from './nearest.js';
 import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
-import { boxCentres, checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
+import { representativePoints } from '../geo/index.js';
+import { checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
 
 export interface BuildOptions {
   /** default 'row' */
@@ -24,6 +25,7 @@ interface Built {
   greatCircle?: boolean;
   allLinkedDistance?: number;
   linkedUnneighboured?: string[];
+  tiesDecided?: number;
 }
 
 /** Spatial weights for the areas under one neighbour rule, then transformed (row-standardised by default). */
@@ -40,7 +42,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
       built = contiguity(input, spec, opts);
       break;
     case 'knn':
-      built = kNearest(input, spec.k);
+      built = kNearest(input, spec.k, spec.ties ?? 'lower-row');
       break;
     case 'band':
       built = distanceBased(input, spec.distance, null, opts);
@@ -63,6 +65,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
   if (built.greatCircle !== undefined) result.greatCircle = built.greatCircle;
   if (built.allLinkedDistance !== undefined) result.allLinkedDistance = built.allLinkedDistance;
   if (built.linkedUnneighboured) result.linkedUnneighboured = built.linkedUnneighboured;
+  if (built.tiesDecided !== undefined) result.tiesDecided = built.tiesDecided;
   return result;
 }
 
@@ -78,8 +81,10 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? 'queen contiguity (areas sharing at least one boundary point)'
       : 'rook contiguity (areas sharing a stretch of boundary)';
   if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
-  // points only matter for withoutNeighbours; the caller's points when given, else bounding-box centres
-  const points = () => (input.points ? checkedPoints(input, 'contiguity') : boxCentres(input));
+  // points only matter for areas without neighbours: the caller's points when given, else the same
+  // area-weighted centroids the distance rules use (with their ±180° handling), never box centres,
+  // whose longitude is near 0 for an area straddling the antimeridian
+  const points = () => checkedPoints(input.points ? input : { ...input, points: representativePoints(input.geometries) }, 'contiguity');
   if (pattern.rowPtr[n] === 0) {
     const pts = points();
     const { distance } = nearestOther(pts);
@@ -97,7 +102,7 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
     if (linked.ids.length > 0) {
       pattern = linked.pattern;
       linkedUnneighboured = linked.ids;
-      description += `; ${unneighbouredNote(linked.ids)}${input.points ? '' : ' (nearest by bounding-box centre)'}`;
+      description += `; ${unneighbouredNote(linked.ids)}`;
     }
   }
   const order = spec.order ?? 1;
@@ -110,20 +115,22 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
   return { base: pattern, symmetric: true, description, linkedUnneighboured };
 }
 
-function kNearest(input: WeightsInput, k: number): Built {
+function kNearest(input: WeightsInput, k: number, ties: TieRule): Built {
   const n = input.ids.length;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`The number of nearest neighbours must be a whole number, 1 or more; got ${k}.`);
   if (k >= n) {
     throw new InputError(`${k} nearest neighbours need more than ${k} areas; there are ${n}. Choose k of at most ${n - 1}.`);
   }
   const pts = checkedPoints(input, 'k-nearest neighbours');
-  const { pattern } = nearestNeighbours(pts, k);
-  return {
-    base: pattern,
-    symmetric: false,
-    greatCircle: pts.greatCircle,
-    description: `${k} nearest neighbour${k === 1 ? '' : 's'} by ${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points`,
-  };
+  if (ties !== 'lower-row' && ties !== 'include') {
+    throw new InputError(`Ties among nearest neighbours are either "lower-row" or "include"; got "${String(ties)}".`);
+  }
+  const { pattern, tiesDecided } = nearestNeighbours(pts, k, undefined, ties);
+  let description = `${k} nearest neighbour${k === 1 ? '' : 's'} by ${pts.greatCircle ? 'great-circle' : 'straight-line'} distance between representative points`;
+  description += ties === 'include'
+    ? '; every area tied at the k-th distance included'
+    : '; ties at the k-th distance go to the lower row';
+  return { base: pattern, symmetric: false, greatCircle: pts.greatCircle, description, tiesDecided };
 }
 
 /** Distance band (power null: every link 1) or inverse distance d^(−power) within an optional cutoff. */

@@ -13,4 +13,4 @@ export { summarizeWeights, connectedComponents } from './summary.js';
 export { symmetricForm, spatialLag } from './transform.js';
 export { readEdgeList, writeEdgeList } from './edge-list.js';
 export { subsetWeights } from './subset.js';
-export { describeRule } from './describe-rule.js';
+export { describeRule, tieWarning } from './describe-rule.js';

@@ -56,36 +56,6 @@ export function checkedPoints(input: WeightsInput, method: string): PointSet {
   return { x: p.x, y: p.y, greatCircle };
 }
 
-/**
- * Points for linking withoutNeighbours when the caller gave none: the centre of each area's bounding box
- * (a stand-in; the pipeline normally passes proper representative points).
- */
-export function boxCentres(input: WeightsInput): PointSet {
-  const n = input.ids.length;
-  const x = new Float64Array(n), y = new Float64Array(n);
-  input.geometries.forEach((g, i) => {
-    if (g.kind === 'point') {
-      x[i] = g.point[0];
-      y[i] = g.point[1];
-      return;
-    }
-    let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
-    for (const polygon of g.polygons) {
-      for (const ring of polygon) {
-        for (const [px, py] of ring) {
-          if (px < x0) x0 = px;
-          if (px > x1) x1 = px;
-          if (py < y0) y0 = py;
-          if (py > y1) y1 = py;
-        }
-      }
-    }
-    x[i] = (x0 + x1) / 2;
-    y[i] = (y0 + y1) / 2;
-  });
-  return { x, y, greatCircle: input.coordinates === 'geographic' };
-}
-
 /** Plain number for messages: six significant digits, no trailing zeros. */
 export function plain(x: number): string {
   return String(Number(x.toPrecision(6)));

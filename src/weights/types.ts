@@ -3,7 +3,8 @@ import type { CsrMatrix } from '../linalg/csr.js';
 export type WeightsSpec =
   | { method: 'queen'; tolerance?: number; order?: number; cumulative?: boolean }
   | { method: 'rook'; tolerance?: number; order?: number; cumulative?: boolean }
-  | { method: 'knn'; k: number }
+  /** ties: areas tied at the k-th distance — 'lower-row' (default) keeps k, the lowest rows first; 'include' keeps them all */
+  | { method: 'knn'; k: number; ties?: 'lower-row' | 'include' }
   | { method: 'band'; distance: number }
   | { method: 'idw'; power: number; cutoff?: number };
 
@@ -31,6 +32,8 @@ export interface SpatialWeights extends CsrMatrix {
    * smallest band or cutoff that gives every area at least one neighbour (km on lon/lat).
    */
   allLinkedDistance?: number;
+  /** k-nearest: how many areas had their neighbours decided by a tie at the k-th distance */
+  tiesDecided?: number;
   /** IDs of areas that had no neighbour and were linked to their nearest area on request. */
   linkedUnneighboured?: string[];
 }

@@ -3,18 +3,24 @@ import ExcelJS from 'exceljs';
 import { InputError } from '../errors.js';
 import type { Report } from '../report/index.js';
 import { uniqueSheetName } from './sheet-names.js';
-import { writeSheet } from './write-sheet.js';
+import { writeSheet, type DeferredRows } from './write-sheet.js';
+import { STREAM_ROWS_ABOVE, streamDeferredRows, templateRowCount, type EntryDeflate } from './stream-rows.js';
 
 export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
 export { EXCEL_FORMAT } from './number-formats.js';
 export { readWorkbook, type ReadSheet } from './read-back.js';
 export { baseWorkbookRisks } from './base-risks.js';
+export type { EntryDeflate } from './stream-rows.js';
 
 export interface WriteWorkbookOptions {
   /** the input .xlsx to copy; its sheets are kept as they are and the results are added after them */
   base?: Uint8Array;
   /** the base file's name, for messages */
   baseName?: string;
+  /** tables with more rows than this are streamed into the file (stream-rows.ts); default STREAM_ROWS_ABOVE */
+  streamRowsAbove?: number;
+  /** the deflate for the rebuilt zip when long tables are streamed (default fflate's; Node: nodeDeflate) */
+  deflate?: EntryDeflate;
 }
 
 export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOptions = {}): Promise<Uint8Array> {
@@ -35,12 +41,16 @@ export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOp
     wb.creator = 'Spillway';
   }
   const taken = new Set(wb.worksheets.map((ws) => ws.name.toLowerCase()));
+  const above = opts.streamRowsAbove ?? STREAM_ROWS_ABOVE;
+  const deferred = new Map<string, DeferredRows[]>();
   for (const sheet of report.sheets) {
     const ws = wb.addWorksheet(uniqueSheetName(sheet.name, taken));
-    writeSheet(wb, ws, sheet);
+    const rest = writeSheet(wb, ws, sheet, { rowsToWrite: (b) => (b.rows.length > above ? templateRowCount(b.rows) : b.rows.length) });
+    // exceljs names each sheet's part by the worksheet's id
+    if (rest.length) deferred.set(`xl/worksheets/sheet${ws.id}.xml`, rest);
   }
-  const out = await wb.xlsx.writeBuffer();
-  return new Uint8Array(out as ArrayBuffer);
+  const out = new Uint8Array(await wb.xlsx.writeBuffer() as ArrayBuffer);
+  return deferred.size ? streamDeferredRows(out, deferred, opts.deflate) : out;
 }
 
 /** The sheet names the report would get in a workbook that already has `existing` sheets. */

@@ -48,8 +48,28 @@ function lines(text: string, widthChars: number): number {
   return Math.max(1, Math.ceil(text.length / Math.max(10, widthChars * 1.05)));
 }
 
-/** Writes one report sheet's blocks (one blank row between them), pictures and frozen header. */
-export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: ReportSheet): void {
+type TableBlock = Extract<Block, { kind: 'table' }>;
+
+/** Rows of a long table left for the caller to stream into the sheet after exceljs has written the rest. */
+export interface DeferredRows {
+  block: TableBlock;
+  /** index in block.rows of the first row not written */
+  from: number;
+  /** 1-based sheet row where block.rows[from] belongs */
+  firstRow: number;
+}
+
+export interface WriteSheetOptions {
+  /** how many of a table's rows to write here (default all); the rest are returned as deferred */
+  rowsToWrite?: (block: TableBlock) => number;
+}
+
+/**
+ * Writes one report sheet's blocks (one blank row between them), pictures and frozen header.
+ * Every block keeps its place in the shared layout even when a long table's rows are deferred.
+ */
+export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: ReportSheet, opts: WriteSheetOptions = {}): DeferredRows[] {
+  const deferred: DeferredRows[] = [];
   const widths = columnWidths(sheet.blocks);
   widths.forEach((w, i) => { ws.getColumn(i + 1).width = w; });
   let span = 0, paragraphWidth = 0;
@@ -93,10 +113,12 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
           headerLines = Math.max(headerLines, lines(col.header, widths[i] ?? DEFAULT_WIDTH));
         });
         header.height = headerLines * LINE_POINTS;
-        b.rows.forEach((cells, r) => {
+        const written = Math.min(b.rows.length, opts.rowsToWrite?.(b) ?? b.rows.length);
+        for (let r = 0; r < written; r++) {
           const row = ws.getRow(top + 2 + r);
-          cells.forEach((v, i) => put(row.getCell(i + 1), v, b.columns[i]?.format));
-        });
+          b.rows[r].forEach((v, i) => put(row.getCell(i + 1), v, b.columns[i]?.format));
+        }
+        if (written < b.rows.length) deferred.push({ block: b, from: written, firstRow: top + 2 + written });
         if (b.note) {
           const nr = top + 2 + b.rows.length;
           ws.mergeCells(nr, 1, nr, span);
@@ -132,4 +154,5 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
     const id = wb.addImage({ base64: `data:image/png;base64,${toBase64(im.png)}`, extension: 'png' });
     ws.addImage(id, { tl: { col: im.anchor.col - 1, row: im.anchor.row - 1 }, ext: { width: im.widthPx, height: im.heightPx }, editAs: 'oneCell' });
   }
+  return deferred;
 }

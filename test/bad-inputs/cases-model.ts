@@ -8,6 +8,11 @@ const E = 'edge lists';
 
 const withTable = (data: ReturnType<typeof gridCsv>) => ({ boundary: [gridCodesOnly()], data });
 const grid = () => ({ boundary: [gridFile()] });
+// The grid's cells squeezed north-south to the ground shape of squares at 48°N (cos 48° ≈ 0.67), so
+// the file, which states no coordinate system, reads as longitude/latitude by its shapes too.
+const degreeGrid = () => ({ boundary: [gridFile('districts.geojson', (fc) => {
+  for (const f of fc.features) for (const p of f.geometry.coordinates[0]) p[1] = 48 + (p[1] - 48) * 0.67;
+})] });
 const edges = (lines: string) => ({ boundary: [gridFile()], edgeList: text('links.csv', lines) });
 
 export const modelCases: BadInput[] = [
@@ -50,8 +55,8 @@ export const modelCases: BadInput[] = [
   },
   { group: W, name: 'k for k-nearest equal to n', request: { weights: { method: 'knn', k: 16 } }, files: grid, expect: ['16 nearest neighbours need more than 16 areas; there are 16', 'at most 15'] },
   { group: W, name: 'k for k-nearest above n', request: { weights: { method: 'knn', k: 40 } }, files: grid, expect: ['there are 16', 'at most 15'] },
-  { group: W, name: 'distance band that links nothing', request: { weights: { method: 'band', distance: 0.5 } }, files: grid, expect: ['No two areas are within 0.5 km', 'closest pair is'] },
-  { group: W, name: 'inverse-distance cut-off that links nothing', request: { weights: { method: 'idw', power: 1, cutoff: 1 } }, files: grid, expect: ['No two areas are within 1 km', 'inverse distance'] },
+  { group: W, name: 'distance band that links nothing', request: { weights: { method: 'band', distance: 0.5 } }, files: degreeGrid, expect: ['No two areas are within 0.5 km', 'closest pair is'] },
+  { group: W, name: 'inverse-distance cut-off that links nothing', request: { weights: { method: 'idw', power: 1, cutoff: 1 } }, files: degreeGrid, expect: ['No two areas are within 1 km', 'inverse distance'] },
   // --- edge lists
   { group: E, name: 'edge list naming an unknown ID', files: () => edges('origin,neighbour,weight\nD01,D02,1\nD02,D99,1\n'), expect: ['links.csv, line 3: the neighbour ID D99 is not one of the areas'] },
   { group: E, name: 'edge list with an unknown origin', files: () => edges('origin,neighbour,weight\nX7,D02,1\n'), expect: ['links.csv, line 2: the origin ID X7 is not one of the areas'] },

@@ -1,0 +1,179 @@
+import {
+  categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type LocalOutcome,
+} from '../pipeline/index.js';
+import type { LocalCategory, LocalStatisticKind } from '../stats/index.js';
+import type { Block, Cell, PngRenderer, ReportImage, TableColumn } from './types.js';
+import { num } from './format.js';
+import { layoutBlocks, ROW_HEIGHT_PX } from './layout.js';
+import { placePictures } from './pictures-for-report.js';
+import { categoryMapSvg, type MapCategory } from './pictures/category-map.js';
+import { localMoranMapCategories, LOCAL_FILL, P_BAND_FILL } from './pictures/local-palette.js';
+import type { Picture } from './pictures/index.js';
+
+const ORDER: LocalStatisticKind[] = ['moran', 'gi', 'gistar'];
+const CATEGORY_ORDER: LocalCategory[] = ['high-high', 'high-low', 'low-high', 'low-low', 'not-significant', 'no-neighbours'];
+
+/** The statistic the maps show: local Moran when asked for, else the first asked. */
+export function mappedStatistic(result: AnalysisResult): LocalStatisticKind | undefined {
+  const l = result.local;
+  if (!l) return undefined;
+  return ORDER.find((k) => l.results[k]);
+}
+
+/** The "Local patterns" sheet: the reading, how the tests were made, the counts, the maps, then every area. */
+export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRenderer): { blocks: Block[]; images: ReportImage[] } | undefined {
+  const l = result.local;
+  if (!l) return undefined;
+  const kinds = ORDER.filter((k) => l.results[k]);
+  const head: Block[] = [
+    { kind: 'title', text: `Where the pattern is: local statistics of ${l.variable}` },
+    { kind: 'paragraph', style: 'interpretation', text: reading(result) },
+    {
+      kind: 'keyValues', title: 'How the local tests were made',
+      rows: [
+        ['Variable', l.variable, 'text'],
+        ['Statistics', kinds.map((k) => LOCAL_STATISTIC_LABEL[k]).join('; '), 'text'],
+        ['Neighbours', result.weights.description, 'text'],
+        ...(l.results.gistar ? [['Weights for Gi*', 'each neighbour 1 and the area itself 1 (binary, area included)', 'text'] as [string, Cell, 'text']] : []),
+        ['Permutations per area', l.permutations, 'integer'],
+        ['Seed', l.seed, 'integer'],
+        ['Decisions rest on', l.permutations > 0 ? 'the permutation p-values' : 'the analytic p-values (no permutations were drawn)', 'text'],
+        ['Multiple-testing control', describeControl(l.control), 'text'],
+        ['Permutation rule', l.permutationRule, 'text'],
+      ],
+    },
+  ];
+  if (l.results.moran?.categories) {
+    const counts = categoryCounts(l.results.moran.categories);
+    head.push({
+      kind: 'table', title: "How many areas fall in each group (local Moran's I, after control)",
+      columns: [{ header: 'Group', format: 'text', width: 22 }, { header: 'Areas', format: 'integer', width: 10 }, { header: 'Share', format: 'percent', width: 10 }],
+      rows: CATEGORY_ORDER.filter((c) => c !== 'no-neighbours' || counts[c] > 0).map((c) => [LOCAL_CATEGORY_LABEL[c], counts[c], counts[c] / result.n]),
+      note: 'High among high: the area and its neighbours are above the average; low among low: both below; high among low and low among high: the area differs from its neighbours.',
+    });
+  }
+  const pictures = localPictures(result);
+  const headRows = layoutBlocks(head).lastRow;
+  const images = placePictures(pictures, headRows + 3, renderPng);
+  const last = images[images.length - 1];
+  const row = last ? last.anchor.row + Math.ceil(last.heightPx / ROW_HEIGHT_PX) + 2 : headRows + 3;
+  const blocks: Block[] = [...head];
+  if (images.length) blocks.push({ kind: 'space', rows: row - headRows - 2 });
+  blocks.push(...areaTables(result, kinds));
+  blocks.push({ kind: 'paragraph', style: 'caution', text: CAUTION });
+  return { blocks, images };
+}
+
+export const CAUTION =
+  'Read local results with care: there is one test per area, so some areas will look significant by chance (hence the control for ' +
+  'multiple testing); neighbouring tests share data and are not independent; permutation p-values depend on the seed and the number ' +
+  'of permutations; the groups depend on the neighbour definition; and the clusters are of areas, not of people.';
+
+function reading(result: AnalysisResult): string {
+  const l = result.local!;
+  const parts: string[] = [];
+  const m = l.results.moran;
+  if (m?.categories) {
+    const c = categoryCounts(m.categories);
+    const found = c['high-high'] + c['low-low'] + c['high-low'] + c['low-high'];
+    parts.push(found === 0
+      ? `No area stands out in local Moran's I once the number of tests is allowed for (${describeControl(l.control)}).`
+      : `${found} of ${m.tests} areas stand out in local Moran's I after control: ${c['high-high']} high among high, ${c['low-low']} low among low, ` +
+        `${c['high-low']} high among low and ${c['low-high']} low among high.`);
+    const loose = m.significantUncontrolled.filter(Boolean).length;
+    if (loose > found) parts.push(`Without control, ${loose} areas would pass p ≤ ${l.control.level}; the difference is what chance alone would be expected to supply among so many tests.`);
+  }
+  for (const k of ['gi', 'gistar'] as const) {
+    const g = l.results[k];
+    if (!g) continue;
+    let high = 0;
+    let low = 0;
+    g.significant.forEach((s, i) => { if (s) (g.z[i] > 0 ? high++ : low++); });
+    parts.push(`${LOCAL_STATISTIC_LABEL[k]}: ${high} area(s) in a cluster of high values and ${low} in a cluster of low values after control.`);
+  }
+  return parts.join(' ');
+}
+
+function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
+  const l = result.local!;
+  return kinds.map((k) => {
+    const s = l.results[k]!;
+    const columns: TableColumn[] = [
+      { header: 'Area ID', format: 'text', width: 14 },
+      { header: 'Table row', format: 'integer', width: 9 },
+      { header: 'Statistic', format: 'decimal4', width: 12 },
+      { header: 'Expected', format: 'decimal4', width: 12 },
+      { header: 'Variance', format: 'decimal4', width: 12 },
+      { header: 'z', format: 'decimal2', width: 9 },
+      { header: 'p (normal)', format: 'pvalue', width: 11 },
+      { header: 'p (permutation)', format: 'pvalue', width: 13 },
+      { header: 'p adjusted', format: 'pvalue', width: 11 },
+      { header: 'Significant after control', format: 'text', width: 14 },
+    ];
+    if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
+    const rows: Cell[][] = result.ids.map((id, i) => {
+      const row: Cell[] = [id, result.rows[i], num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
+        s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no'];
+      if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
+      return row;
+    });
+    return {
+      kind: 'table', title: `${LOCAL_STATISTIC_LABEL[k]}, each area in table order`, columns, rows,
+      note: `p (normal) is two-sided from z under total randomisation; p (permutation) follows the permutation rule above; p adjusted is for ${describeControl(l.control)}.`,
+    } satisfies Block;
+  });
+}
+
+/** The group map and the significance map of the mapped statistic. */
+export function localPictures(result: AnalysisResult): { name: string; pic: Picture }[] {
+  const kind = mappedStatistic(result);
+  if (!kind || result.geometries.length !== result.n) return [];
+  const s = result.local!.results[kind]!;
+  const l = result.local!;
+  const controlWords = describeControl(l.control);
+  const out: { name: string; pic: Picture }[] = [];
+  if (kind === 'moran') {
+    const cats = localMoranMapCategories({
+      hh: LOCAL_CATEGORY_LABEL['high-high'], ll: LOCAL_CATEGORY_LABEL['low-low'], hl: LOCAL_CATEGORY_LABEL['high-low'],
+      lh: LOCAL_CATEGORY_LABEL['low-high'], ns: LOCAL_CATEGORY_LABEL['not-significant'], nn: LOCAL_CATEGORY_LABEL['no-neighbours'],
+    });
+    const index: Record<LocalCategory, number> = { 'high-high': 0, 'high-low': 1, 'low-high': 2, 'low-low': 3, 'not-significant': 4, 'no-neighbours': 5 };
+    out.push({ name: 'map of local groups', pic: categoryMapSvg({
+      title: `Where ${l.variable} clusters`, legendTitle: 'Area, then its neighbours',
+      geometries: result.geometries, coordinates: result.coordinates,
+      category: s.categories!.map((c) => index[c]), categories: cats,
+      note: `Local Moran's I; ${controlWords}.`,
+    }) });
+  } else {
+    const cats: MapCategory[] = [
+      { label: 'cluster of high values', fill: { solid: LOCAL_FILL.highHigh } },
+      { label: 'cluster of low values', fill: { solid: LOCAL_FILL.lowLow } },
+      { label: 'not significant', fill: { solid: LOCAL_FILL.none } },
+      { label: 'no neighbours', fill: { solid: LOCAL_FILL.noNeighbours }, optional: true },
+    ];
+    const category = Array.from(s.z, (z, i) => (s.neighbourCount[i] === 0 ? 3 : !s.significant[i] ? 2 : z > 0 ? 0 : 1));
+    out.push({ name: 'map of local clusters', pic: categoryMapSvg({
+      title: `Where ${l.variable} clusters`, legendTitle: LOCAL_STATISTIC_LABEL[kind],
+      geometries: result.geometries, coordinates: result.coordinates, category, categories: cats,
+      note: controlWords.replace(/^./, (c) => c.toUpperCase()) + '.',
+    }) });
+  }
+  const level = l.control.level;
+  const bands: MapCategory[] = [
+    { label: 'p ≤ 0.001', fill: { solid: P_BAND_FILL[0] } },
+    { label: 'p ≤ 0.01', fill: { solid: P_BAND_FILL[1] } },
+    { label: `p ≤ ${String(level)}`, fill: { solid: P_BAND_FILL[2] } },
+    { label: `p above ${String(level)}`, fill: { solid: P_BAND_FILL[3] } },
+    { label: 'no neighbours', fill: { solid: LOCAL_FILL.noNeighbours }, optional: true },
+  ];
+  const band = Array.from(s.adjusted, (p, i) => (s.neighbourCount[i] === 0 || !Number.isFinite(p) ? 4 : p <= 0.001 ? 0 : p <= 0.01 ? 1 : p <= level ? 2 : 3));
+  out.push({ name: 'map of local p-values', pic: categoryMapSvg({
+    title: `How strong the local evidence is (${kind === 'moran' ? "local Moran's I" : LOCAL_STATISTIC_LABEL[kind]})`,
+    legendTitle: l.control.method === 'none' ? 'p, not adjusted for many tests' : 'p adjusted for many tests',
+    geometries: result.geometries, coordinates: result.coordinates, category: band, categories: bands,
+    note: `${l.permutations > 0 ? 'Permutation p-values' : 'Analytic p-values'}; ${controlWords}.`,
+  }) });
+  return out;
+}
+
+export type { LocalOutcome };
