@@ -7,9 +7,10 @@ const here = (p: string): string => fileURLToPath(new URL(p, import.meta.url));
 export const GOLDEN_PATH = here('../golden/columbus.json');
 const DBF_PATH = here('../fixtures/columbus/columbus.dbf');
 
-/** Golden figures from scripts/reference/columbus.py (numpy/scipy), or null when not yet written. */
-export function readGolden(): any | null {
-  return existsSync(GOLDEN_PATH) ? JSON.parse(readFileSync(GOLDEN_PATH, 'utf8')) : null;
+/** Golden figures from scripts/reference/columbus.py (numpy/scipy); a missing file fails the checks, never skips them. */
+export function readGolden(): any {
+  if (!existsSync(GOLDEN_PATH)) throw new Error(`Columbus golden figures not found at ${GOLDEN_PATH}; run scripts/reference/columbus.py.`);
+  return JSON.parse(readFileSync(GOLDEN_PATH, 'utf8'));
 }
 
 /** CRIME and the design [constant, INC, HOVAL] from the Columbus .dbf, in row order (shapefile library). */
