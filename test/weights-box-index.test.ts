@@ -2,18 +2,10 @@
 // (a mathematical identity: a box query returns exactly the boxes that meet the query rectangle).
 import { describe, expect, it } from 'vitest';
 import { BoxIndex } from '../src/weights/box-index.js';
+import { seededUniform } from '../src/linalg/sparse/random.js';
 
-/** Small deterministic generator (mulberry32) so the boxes are the same on every run. */
-function generator(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// the same seeded generator the engine's trace probes use, so the boxes are the same on every run
+const generator = seededUniform;
 
 function boxes(n: number, seed: number) {
   const r = generator(seed);
