@@ -88,7 +88,7 @@ function lagData(w: CsrMatrix, seed = 12345) {
     csrMultiply(w, term, next);
     for (let i = 0; i < n; i++) { term[i] = 0.5 * next[i]; y[i] += term[i]; }
   }
-  return { y, x1, x2, design: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
+  return { y, x1, x2, design: { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
 }
 
 /** The algebra with its exact log-determinant counted. */

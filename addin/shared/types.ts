@@ -33,7 +33,8 @@ export interface SavedSetup {
   coordinates?: 'geographic' | 'projected';
   /** also fit under the usual alternative neighbour definitions */
   compare?: boolean;
-  models?: ('lag' | 'error')[];
+  /** registry keys of the models ticked (the plain regression is always fitted) */
+  models?: string[];
   robust?: boolean;
   dropMissing?: boolean;
 }

@@ -4,12 +4,14 @@
  */
 import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
+import { readBoundary, readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
+import { fittedInOrder } from '../../src/models/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
+import { buildReport, moranScatterData } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import { modelChoices } from './model-choices.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
@@ -59,9 +61,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   }
   const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...base.warnings, ...joined.warnings] };
   try {
-    const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
     const w = buildWeights(
-      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined },
+      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates },
       c.weights,
       { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
     );
@@ -74,8 +75,10 @@ async function check(c: CheckRequest): Promise<CheckResult> {
 
 function headline(r: AnalysisResult): string {
   const parts = [`${r.n} areas`, `Moran's I of ${r.request.y} ${r.moranY.I.toFixed(3)}`];
-  if (r.lag) parts.push(`${MODEL_LABEL.lag}: ρ = ${r.lag.parameter.toFixed(3)}`);
-  if (r.error) parts.push(`${MODEL_LABEL.error}: λ = ${r.error.parameter.toFixed(3)}`);
+  for (const { entry, fit } of fittedInOrder(r.fits)) {
+    const { parameters } = entry.headline(fit);
+    if (parameters.length) parts.push(`${entry.label}: ${parameters.map((q) => `${q.symbol} = ${q.estimate.toFixed(3)}`).join(', ')}`);
+  }
   return parts.join(' · ');
 }
 
@@ -98,6 +101,7 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
 
 async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
   switch (job.op) {
+    case 'models': return { op: 'models', models: modelChoices() };
     case 'sheets': return { op: 'sheets', sheets: await sheetNames(job.file.bytes) };
     case 'table': return { op: 'table', table: await tableOf(job.file, job.sheet) };
     case 'check': return { op: 'check', result: await check(job.check) };

@@ -5,3 +5,7 @@ export { fitSpatialError } from './ml-error.js';
 export { lagImpacts } from './impacts.js';
 export { recommendModel } from './recommend.js';
 export { denseAlgebra } from '../linalg/dense-algebra.js';
+export { MODELS, type ModelKey, type FitOf, type FittedModels } from './registry.js';
+export { MODEL_KEYS, modelEntry, modelByCli, fittedInOrder, withBaseline, areasNeeded, fitModel } from './lookup.js';
+export { coefficientJson, testJson } from './model-entry.js';
+export type { ModelEntry, ModelFitBase, PreparedInputs, FitOptions, Fitted, Headline, ParameterName, ParameterEstimate } from './model-entry.js';

@@ -1,0 +1,63 @@
+/** Looking up the registry: by key, by command-line spelling, the fitted models in order; and fitting one model. */
+import { csrMultiply } from '../linalg/csr.js';
+import { InputError } from '../errors.js';
+import { MODELS, type FittedModels, type ModelKey } from './registry.js';
+import type { FitOptions, Fitted, ModelEntry, PreparedInputs } from './model-entry.js';
+
+/** Every key, in registry order. */
+export const MODEL_KEYS: readonly ModelKey[] = MODELS.map((m) => m.key);
+
+/** The entry of a key (undefined for a key that names no model). */
+export function modelEntry(key: string): ModelEntry | undefined {
+  return (MODELS as readonly ModelEntry[]).find((m) => m.key === key);
+}
+
+/** The entry of a command-line spelling. */
+export function modelByCli(spelling: string): ModelEntry | undefined {
+  return (MODELS as readonly ModelEntry[]).find((m) => m.cli === spelling);
+}
+
+/** The fitted models of a run in registry order, each with its entry. */
+export function fittedInOrder(fits: FittedModels): { entry: ModelEntry; fit: Fitted }[] {
+  const out: { entry: ModelEntry; fit: Fitted }[] = [];
+  for (const entry of MODELS as readonly ModelEntry[]) {
+    const fit = (fits as Record<string, Fitted | undefined>)[entry.key];
+    if (fit) out.push({ entry, fit });
+  }
+  return out;
+}
+
+/** Keys in registry order, without repeats, the plain regression first (every run fits it). */
+export function withBaseline(keys: readonly string[]): ModelKey[] {
+  const asked = new Set(keys);
+  return MODELS.filter((m) => ('baseline' in m && m.baseline) || asked.has(m.key)).map((m) => m.key);
+}
+
+/** Areas a model needs at least: the coefficients, the residual variance and each spatial parameter, plus one to spare. */
+export function areasNeeded(entry: ModelEntry, coefficients: number): number {
+  return coefficients + entry.parameters.length + 2;
+}
+
+/**
+ * Fits one model on prepared inputs: the fit, a check that it describes the data, the neighbours'
+ * average residual, and its spillover effects when the model has them (`beforeImpacts` is told
+ * when the fit is done and the effects start).
+ */
+export function fitModel(key: string, p: PreparedInputs, o: FitOptions, beforeImpacts?: () => void): Fitted {
+  const entry = modelEntry(key);
+  if (!entry) throw new InputError(`Unknown model "${key}": choose from ${MODEL_KEYS.join(', ')}.`);
+  const fit = entry.fit(p, o);
+  const { logLik } = entry.headline(fit);
+  if (logLik !== undefined && !Number.isFinite(logLik)) {
+    throw new InputError(
+      `The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${logLik}; n = ${p.y.length}, k = ${p.design.columns.length}): the areas are too few or the neighbour links too sparse for the spatial parameter. Use more areas or run only the plain regression.`,
+    );
+  }
+  const fitted: Fitted = { ...fit, residualLag: csrMultiply(p.w, fit.residuals) };
+  if (entry.impacts) {
+    beforeImpacts?.();
+    fitted.impacts = entry.impacts(fit, p, o);
+  }
+  return fitted;
+}
+
