@@ -29,11 +29,13 @@ vi.mock('../src/models/registry.js', async (importOriginal) => {
     parameters: [],
     fit: (p) => {
       const x = p.design.columns.map((c, j) => ({ c, j })).filter(({ j }) => j !== p.design.intercept);
-      return fitOls(p.y, {
+      const fit = fitOls(p.y, {
         names: [...p.design.names, ...x.map(({ j }) => `neighbours' average of ${p.design.names[j]}`)],
         columns: [...p.design.columns, ...x.map(({ c }) => csrMultiply(p.w, c))],
         intercept: p.design.intercept,
       });
+      const k = p.design.columns.length;
+      return { ...fit, coefficients: fit.coefficients.map((c, j) => (j >= k ? { ...c, lagged: true as const } : c)) };
     },
     headline: (f) => ({ parameters: [], logLik: f.logLik, aic: f.aic, bic: f.bic, r2: f.r2, sigma2: f.sigma2 }),
     json: (f) => ({ coefficients: f.coefficients.map(coefficientJson), logLik: f.logLik, aic: f.aic }),
@@ -112,7 +114,8 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
 
   it('the JSON carries its object under its key and its per-area columns; the existing models\' JSON is untouched', () => {
     const json = resultToJson(result, { perArea: true }) as Record<string, any>;
-    expect(json[EXTRA].coefficients).toHaveLength(5);
+    expect(json[EXTRA].coefficients.map((c: { lagged?: boolean }) => c.lagged ?? false)).toEqual([false, false, false, true, true]);
+    expect(json.lag.coefficients.some((c: object) => 'lagged' in c || 'intercept' in c)).toBe(false);
     expect(json[EXTRA].logLik).toBe(extra.logLik);
     expect(Object.keys(json).filter((k) => ['ols', 'lag', 'error', EXTRA, 'impacts', 'impactsMethod'].includes(k))).toEqual(['ols', 'lag', 'error', EXTRA, 'impacts', 'impactsMethod']);
     expect(json.areas[0][`${EXTRA}Fitted`]).toBe(extra.fitted[0]);

@@ -23,6 +23,8 @@ export interface Coefficient {
   p: number;
   /** set on the intercept's coefficient */
   intercept?: true;
+  /** set on a neighbours' average of an explanatory column (a WX term) */
+  lagged?: true;
 }
 
 export interface TestResult {

@@ -117,8 +117,9 @@ export function spatialHeadline(f: SpatialFit, name: ParameterName): Headline {
   };
 }
 
+/** A coefficient in the JSON report; a neighbours' average of a column (WX term) carries `lagged: true`. */
 export function coefficientJson(c: Coefficient) {
-  return { name: c.name, estimate: c.estimate, se: c.se, stat: c.stat, p: c.p };
+  return { name: c.name, estimate: c.estimate, se: c.se, stat: c.stat, p: c.p, ...(c.lagged ? { lagged: true } : {}) };
 }
 
 export function testJson(t: TestResult) {
