@@ -176,7 +176,7 @@ function spellings(): string[] {
 }
 
 /** --models: the registry's spellings, comma-separated, or "all"; the plain regression is always among them. */
-export function parseModels(text: string | undefined): ModelKey[] {
+function parseModels(text: string | undefined): ModelKey[] {
   const known = spellings();
   const asked = (text ?? 'all').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
   if (asked.length === 0) throw new InputError(`--models needs at least one of ${known.join(', ')}, or all.`);

@@ -10,7 +10,7 @@ import { ENGINE_VERSION } from '../version.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates } from './rates.js';
 import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
-import { designOf, neighboursOf, prepareAreas } from './prepare.js';
+import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
 import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime } from './types.js';
 
@@ -40,6 +40,9 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   progress(0.02, 'Reading the files');
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   const residualsOf = local ? residualSource(local.of) : undefined;
+  if (local && residualsOf && !(models as readonly string[]).includes(residualsOf.key)) {
+    throw new InputError(`--local-of ${local.of}: the ${residualsOf.label.toLowerCase()} was not fitted; add it to the models or choose residuals (of the plain regression).`);
+  }
   const localColumn = local && local.of !== 'outcome' && !residualsOf && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const areas = await prepareAreas(request, localColumn, (stage) => {
     lap(stage);
@@ -59,23 +62,14 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     : undefined;
 
   progress(0.3, 'Fitting the plain regression');
-  const y = values.get(request.y)!;
+  const base = plainRegression(request, areas);
+  const { y } = base;
   // Above PERMUTATION_AREA_LIMIT areas the randomisation p-value is accurate and 999 shuffles of n
   // values cost more than the whole model fit, so the permutation test runs only when asked for.
   const permutations = request.permutations ?? (y.length <= PERMUTATION_AREA_LIMIT ? 999 : 0);
-  if (y.length > 0 && y.every((v) => v === y[0])) {
-    throw new InputError(
-      `The outcome column "${request.y}" has the same value (${y[0]}) in every ${joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
-      { column: request.y },
-    );
-  }
-  const design = designOf(request.x, values, y.length);
-  const ols = fitOls(y, design, { robust: request.robust });
-  if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x);
   const moranY = moranColumn(y, w, { permutations, seed });
   lap('ols');
 
-  const base: BaseFit = { y, design, ols };
   const fitOptions = { seed, impactDraws, points, method: request.algebra, helper: runtime.helper };
   const own = fitUnderWeights(base, w, models, {
     ...fitOptions,
@@ -88,12 +82,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   let localResult: AnalysisResult['local'];
   if (local) {
     progress(0.93, 'Looking for where the pattern is');
-    const source = residualsOf ? { entry: residualsOf, fit: (own.fits as Record<string, { residuals: Float64Array } | undefined>)[residualsOf.key] } : undefined;
-    if (source && !source.fit) {
-      throw new InputError(`--local-of ${local.of}: the ${source.entry.label.toLowerCase()} was not fitted; add it to the models or choose residuals (of the plain regression).`);
-    }
     const [v, label] = local.of === 'outcome' ? [y, request.y]
-      : source ? [source.fit!.residuals, `residuals of the ${source.entry.label.toLowerCase()}`]
+      : residualsOf ? [(own.fits as Record<string, { residuals: Float64Array }>)[residualsOf.key].residuals, `residuals of the ${residualsOf.label.toLowerCase()}`]
       : [values.get(local.of)!, local.of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
     lap('local');
@@ -136,7 +126,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       edges: edgesOf(w),
     },
     algebra: own.algebra,
-    ols: { ...ols, moran: own.moran, lm: own.lm, recommendation: own.recommendation },
+    ols: { ...base.ols, moran: own.moran, lm: own.lm, recommendation: own.recommendation },
     fits: own.fits,
     moranY,
     ...(comparison ? { comparison: comparison.rows } : {}),
@@ -145,6 +135,21 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     warnings: runWarnings(request, { joined, dropped, w, summary, fits: own.fits, permutations, n: y.length }),
     timings,
   };
+}
+
+/** The outcome, the design and the plain regression on them, refusing an outcome that cannot be explained. */
+function plainRegression(request: AnalysisRequest, areas: PreparedAreas): BaseFit {
+  const y = areas.values.get(request.y)!;
+  if (y.length > 0 && y.every((v) => v === y[0])) {
+    throw new InputError(
+      `The outcome column "${request.y}" has the same value (${y[0]}) in every ${areas.joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
+      { column: request.y },
+    );
+  }
+  const design = designOf(request.x, areas.values, y.length);
+  const ols = fitOls(y, design, { robust: request.robust });
+  if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x);
+  return { y, design, ols };
 }
 
 /** The same question under the other neighbour definitions asked for (none: undefined). */

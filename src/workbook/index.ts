@@ -52,9 +52,3 @@ export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOp
   const out = new Uint8Array(await wb.xlsx.writeBuffer() as ArrayBuffer);
   return deferred.size ? streamDeferredRows(out, deferred, opts.deflate) : out;
 }
-
-/** The sheet names the report would get in a workbook that already has `existing` sheets. */
-export function plannedSheetNames(report: Report, existing: readonly string[] = []): string[] {
-  const taken = new Set(existing.map((s) => s.toLowerCase()));
-  return report.sheets.map((s) => uniqueSheetName(s.name, taken));
-}
