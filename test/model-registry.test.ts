@@ -12,7 +12,9 @@ import { describe, expect, it, vi } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Matrix, solve } from 'ml-matrix';
-import { columbusData } from './helpers/columbus.js';
+// @ts-ignore -- jstat ships no type declarations
+import jstatModule from 'jstat';
+import { columbusData, readGolden } from './helpers/columbus.js';
 
 vi.mock('../src/models/registry.js', async (importOriginal) => {
   const original = await importOriginal<typeof import('../src/models/registry.js')>();
@@ -38,19 +40,23 @@ vi.mock('../src/models/registry.js', async (importOriginal) => {
       return { ...fit, coefficients: fit.coefficients.map((c, j) => (j >= k ? { ...c, lagged: true as const } : c)) };
     },
     headline: (f) => ({ parameters: [], logLik: f.logLik, aic: f.aic, bic: f.bic, r2: f.r2, sigma2: f.sigma2 }),
+    // it reduces to the plain regression when every neighbours' column has coefficient 0
+    nests: [{ key: 'ols', restriction: 'θ = 0', df: (p) => p.design.columns.length - (p.design.intercept === null ? 0 : 1) }],
     json: (f) => ({ coefficients: f.coefficients.map(coefficientJson), logLik: f.logLik, aic: f.aic }),
   });
   return { ...original, MODELS: [...original.MODELS, extra] };
 });
 
 const { MODELS, MODEL_KEYS } = await import('../src/models/index.js');
-const { runAnalysis, resultToJson } = await import('../src/pipeline/index.js');
+const { runAnalysis, resultToJson, fitUnderWeights, baseFit } = await import('../src/pipeline/index.js');
+const { readEdgeList } = await import('../src/weights/index.js');
 const { buildReport, MODEL_BLOCKS } = await import('../src/report/index.js');
 const { FIT_USAGE, parseFitArgs } = await import('../src/cli/args.js');
 const { formatSummary } = await import('../src/cli/summary.js');
 const { modelChoices } = await import('../addin/shared/model-choices.js');
 const { InputError } = await import('../src/errors.js');
 
+const jStat = jstatModule as unknown as { chisquare: { cdf(x: number, df: number): number } };
 const ROOT = join(import.meta.dirname, '..');
 const dir = join(ROOT, 'test/fixtures/columbus');
 const boundary = ['columbus.shp', 'columbus.dbf', 'columbus.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(dir, name))) }));
@@ -139,7 +145,50 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
     expect(table.columns.map((c) => c.header)).toContain('AIC: model with neighbours’ columns');
   });
 
+  it('the run adds the likelihood-ratio test of the restriction it declares (θ = 0 against the plain regression; chi-square by jStat)', () => {
+    const tests = (extra as unknown as { nestedTests: { against: string; restriction: string; stat: number; df: number; p: number }[] }).nestedTests;
+    expect(tests).toHaveLength(1);
+    const [t] = tests;
+    expect([t.against, t.restriction, t.df]).toEqual(['ols', 'θ = 0', 2]);
+    expect(t.stat).toBeCloseTo(2 * (extra.logLik - result.ols.logLik), 10);
+    expect(Math.abs(t.p - (1 - jStat.chisquare.cdf(t.stat, 2)))).toBeLessThan(1e-12);
+    expect((result.fits.lag as { nestedTests?: unknown }).nestedTests).toBeUndefined();
+  });
+
   it('the readable summary prints it', () => {
     expect(formatSummary(result)).toMatch(/Model with neighbours’ columns \(least squares\): the neighbours’ averages of the explanatory columns added/);
+  });
+});
+
+describe('the registry on arrays in memory: no files, a neighbour list and columns (Columbus, numpy/scipy reference)', async () => {
+  const golden = readGolden();
+  const { y, x } = await columbusData();
+  const ids = Array.from({ length: y.length }, (_, i) => String(i + 1));
+  // the reference's own queen neighbour list (test/golden/columbus.json), as the origin,neighbour rows a sheet would hold
+  const text = (golden.weights.neighbours as number[][]).flatMap((row, i) => row.map((j) => `${ids[i]},${ids[j]}`)).join('\n');
+  const w = readEdgeList(text, ids, { source: 'neighbours in memory' });
+  const base = baseFit(y, [{ name: 'INC', values: x.columns[1] }, { name: 'HOVAL', values: x.columns[2] }]);
+  const found = fitUnderWeights(base, w, ['ols', 'lag', 'error'], { seed: 20261201, impactDraws: 50 });
+  const sig6 = (a: number, b: number) => expect(Math.abs(a - b) / Math.abs(b), `${a} vs ${b}`).toBeLessThan(5e-6);
+
+  it('fits the registry\'s models with the reference\'s figures', () => {
+    expect(w.colIdx.length).toBe(golden.weights.links);
+    sig6(found.fits.lag!.parameter, golden.lag.rho);
+    sig6(found.fits.lag!.logLik, golden.lag.logLik);
+    sig6(found.fits.error!.parameter, golden.error.lambda);
+    sig6(found.fits.error!.parameterSe, golden.error.lambdaSe);
+    found.fits.ols!.coefficients.forEach((c, j) => sig6(c.estimate, golden.ols.coefficients[j].estimate));
+    expect(found.fits.lag!.impacts!.impacts.map((i) => i.name)).toEqual(['INC', 'HOVAL']);
+  });
+
+  it('gives the same figures as a run from the files', async () => {
+    const run = await runAnalysis({
+      boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+      models: ['lag', 'error'], permutations: 0, impactDraws: 50,
+    });
+    expect(found.fits.lag!.parameter).toBe(run.fits.lag!.parameter);
+    expect(found.fits.error!.logLik).toBe(run.fits.error!.logLik);
+    expect(found.fits.lag!.impacts!.impacts).toEqual(run.fits.lag!.impacts!.impacts);
+    expect(found.lm).toEqual(run.ols.lm);
   });
 });

@@ -1,8 +1,9 @@
 /** Looking up the registry: by key, by command-line spelling, the fitted models in order; and fitting one model. */
 import { csrMultiply } from '../linalg/csr.js';
 import { InputError } from '../errors.js';
+import { chiSquareUpper } from '../stats/index.js';
 import { MODELS, type FittedModels, type ModelKey } from './registry.js';
-import type { FitOptions, Fitted, ModelEntry, PreparedInputs } from './model-entry.js';
+import type { FitOptions, Fitted, ModelEntry, NestedTest, PreparedInputs } from './model-entry.js';
 
 /** Every key, in registry order. */
 export const MODEL_KEYS: readonly ModelKey[] = MODELS.map((m) => m.key);
@@ -61,3 +62,25 @@ export function fitModel(key: string, p: PreparedInputs, o: FitOptions, beforeIm
   return fitted;
 }
 
+
+/**
+ * Likelihood-ratio tests between the fitted models that nest one another (each entry's `nests`):
+ * LR = 2(ℓ_general − ℓ_nested), chi-square on the number of restrictions. Added to the general
+ * model's fit; pairs where either has no likelihood are left out.
+ */
+export function addNestedTests(fits: FittedModels, p: PreparedInputs): void {
+  const byKey = fits as Record<string, Fitted | undefined>;
+  for (const { entry, fit } of fittedInOrder(fits)) {
+    const tests: NestedTest[] = [];
+    for (const nested of entry.nests ?? []) {
+      const other = byKey[nested.key];
+      const restricted = other && modelEntry(nested.key)!.headline(other).logLik;
+      const general = entry.headline(fit).logLik;
+      if (restricted === undefined || general === undefined) continue;
+      const stat = 2 * (general - restricted);
+      const df = nested.df(p);
+      tests.push({ against: nested.key, restriction: nested.restriction, stat, df, p: chiSquareUpper(stat, df) });
+    }
+    if (tests.length) fit.nestedTests = tests;
+  }
+}

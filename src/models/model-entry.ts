@@ -20,6 +20,8 @@ export interface PreparedInputs {
 }
 
 export interface FitOptions {
+  /** standard errors robust to unequal variance, where the estimator offers them */
+  robust?: boolean;
   /** seed of the simulated draws (spillover effects) */
   seed: number;
   /** simulated draws for the spillover effects' standard errors */
@@ -89,6 +91,12 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
   /** direct, indirect and total effects, for models that have them */
   impacts?(fit: F, p: PreparedInputs, o: FitOptions): ImpactsResult;
   /**
+   * Models this one nests (it reduces to each under a restriction): when both are fitted by maximum
+   * likelihood the run adds a likelihood-ratio test of the restriction to this model's fit. The test
+   * against the plain regression is the fit's own `lr`.
+   */
+  nests?: readonly NestedModel[];
+  /**
    * The lag model's effects sit at the top of the JSON report (`impacts`, `impactsMethod`) and at the
    * top of each comparison row, where they were first published; every other model's go inside its own object.
    */
@@ -97,11 +105,30 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
   json(fit: F): Record<string, unknown>;
 }
 
+/** A model that another nests, and the restriction that turns the general model into it. */
+export interface NestedModel {
+  /** the nested model's key */
+  key: string;
+  /** the restriction in symbols, e.g. "θ = 0" */
+  restriction: string;
+  /** the number of restrictions (the test's degrees of freedom) on these inputs */
+  df(p: PreparedInputs): number;
+}
+
+/** A likelihood-ratio test of a nested model against the general one: 2(ℓ_general − ℓ_nested) on df restrictions. */
+export interface NestedTest extends TestResult {
+  /** the nested model's key */
+  against: string;
+  restriction: string;
+}
+
 /** A fitted model as a run keeps it: the fit, its residuals' spatial lag, and its effects when it has them. */
 export type Fitted<F extends ModelFitBase = ModelFitBase> = F & {
   /** neighbours' average residual (W e) */
   residualLag: Float64Array;
   impacts?: ImpactsResult;
+  /** likelihood-ratio tests against the models it nests that were fitted too */
+  nestedTests?: NestedTest[];
 };
 
 /** Keeps an entry's key and fit types for the registry's types. */

@@ -11,6 +11,11 @@ import {
 } from '../stats/index.js';
 import type { Coefficient, Design, OlsFit } from './types.js';
 
+/** A design with an intercept first (named "constant", marked by its index 0), then the given columns in order. */
+export function designWithIntercept(names: string[], columns: Float64Array[], n = columns[0]?.length ?? 0): Design {
+  return { names: ['constant', ...names], columns: [new Float64Array(n).fill(1), ...columns], intercept: 0 };
+}
+
 /** Relative tolerance on |R_jj| / ‖x_j‖ below which a column counts as a combination of earlier ones. */
 const RANK_TOLERANCE = 1e-10;
 /** Belsley, Kuh & Welsch's rule of thumb (common practice): above 30, multicollinearity is a concern. */

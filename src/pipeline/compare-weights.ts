@@ -48,6 +48,7 @@ export interface CompareContext {
   /** the outcome, the design and the plain regression, fitted once */
   base: BaseFit;
   models: readonly ModelKey[];
+  robust?: boolean;
   transform?: WeightsTransform;
   linkUnneighboured?: boolean;
   seed: number;
@@ -88,7 +89,7 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
     }
     let found;
     try {
-      found = fitUnderWeights(ctx.base, w, ctx.models, { points, method: ctx.method, helper: ctx.helper, seed: ctx.seed, impactDraws: ctx.impactDraws });
+      found = fitUnderWeights(ctx.base, w, ctx.models, { points, method: ctx.method, helper: ctx.helper, robust: ctx.robust, seed: ctx.seed, impactDraws: ctx.impactDraws });
     } catch (e) {
       // so is one under which a model cannot be estimated (no bounded range, no finite likelihood)
       if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), description: w.description, failed: e.message }); continue; }

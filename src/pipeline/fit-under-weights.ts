@@ -8,7 +8,7 @@ import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { fitModel, modelEntry, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
+import { addNestedTests, designWithIntercept, fitModel, fitOls, modelEntry, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
 import type { Design, LmTests, MoranTest, OlsFit, Recommendation } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { checkSpatialRange } from './check-values.js';
@@ -19,6 +19,15 @@ export interface BaseFit {
   y: Float64Array;
   design: Design;
   ols: OlsFit;
+}
+
+/**
+ * The outcome, a design of an intercept and the given columns, and the plain regression on them, from
+ * arrays in memory (a cell function's ranges): what `fitUnderWeights` starts from.
+ */
+export function baseFit(y: Float64Array, x: { name: string; values: Float64Array }[], opts: { robust?: boolean } = {}): BaseFit {
+  const design = designWithIntercept(x.map((c) => c.name), x.map((c) => c.values), y.length);
+  return { y, design, ols: fitOls(y, design, opts) };
 }
 
 export interface UnderWeightsOptions extends FitOptions {
@@ -63,12 +72,13 @@ export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly
       const entry = modelEntry(key)!;
       const share = (j: number) => 0.2 + (0.8 * (i + j)) / keys.length;
       progress(share(0), `Fitting the ${entry.label.toLowerCase()}`);
-      fits[key] = fitModel(key, prepared, { seed: opts.seed, impactDraws: opts.impactDraws }, () => {
+      fits[key] = fitModel(key, prepared, { robust: opts.robust, seed: opts.seed, impactDraws: opts.impactDraws }, () => {
         done(key);
         progress(share(0.5), 'Simulating the spillover effects');
       });
       done(entry.impacts ? `${key} impacts` : key);
     });
+    addNestedTests(fits as FittedModels, prepared);
     return {
       algebra: {
         logDeterminant: algebra.logdet.method,

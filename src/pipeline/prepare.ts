@@ -7,6 +7,7 @@ import type { JoinedAreas } from '../geo/types.js';
 import { buildWeights, readEdgeList, subsetWeights } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
 import type { Design } from '../core/types.js';
+import { designWithIntercept } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
@@ -75,13 +76,9 @@ export function neighboursOf(request: AnalysisRequest, areas: PreparedAreas, poi
   return subsetWeights(readEdgeList(text, joinedAll.ids, listOpts), joined.ids.map((id) => position.get(id)!));
 }
 
-/** The design: an intercept (named "constant", marked by its index) and the explanatory columns in the order given. */
+/** The design: an intercept and the explanatory columns in the order given. */
 export function designOf(x: string[], values: Map<string, Float64Array>, n: number): Design {
-  return {
-    names: ['constant', ...x],
-    columns: [new Float64Array(n).fill(1), ...x.map((c) => values.get(c)!)],
-    intercept: 0,
-  };
+  return designWithIntercept(x, x.map((c) => values.get(c)!), n);
 }
 
 async function record(role: InputRecord['role'], f: { name: string; bytes: Uint8Array }): Promise<InputRecord> {

@@ -70,7 +70,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const moranY = moranColumn(y, w, { permutations, seed });
   lap('ols');
 
-  const fitOptions = { seed, impactDraws, points, method: request.algebra, helper: runtime.helper };
+  const fitOptions = { robust: request.robust, seed, impactDraws, points, method: request.algebra, helper: runtime.helper };
   const own = fitUnderWeights(base, w, models, {
     ...fitOptions,
     onProgress: (f, stage) => progress(0.35 + 0.5 * f, stage),
