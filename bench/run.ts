@@ -180,14 +180,14 @@ async function analysisWorkload(name: string, request: Parameters<typeof runAnal
   }
   const reportSeconds = median(runs);
   sample();
-  const r = result as unknown as { n: number; timings: Record<string, number>; lag?: { convergence: { iterations: number; message: string } }; error?: { convergence: { iterations: number } }; algebra?: { logDeterminant: string } };
+  const r = result as unknown as { n: number; timings: Record<string, number>; fits: { lag?: { convergence: { iterations: number; message: string } } }; algebra?: { logDeterminant: string } };
   return {
     workload: name,
     n: r.n,
     weightsSeconds: weightsSeconds === null ? null : round(weightsSeconds),
     reportSeconds: round(reportSeconds),
     stageSeconds: Object.fromEntries(Object.entries(r.timings).map(([k, v]) => [k, round(v)])),
-    lagSearch: r.lag?.convergence.message,
+    lagSearch: r.fits.lag?.convergence.message,
     peakRssMB: peakMB(),
     method: r.algebra?.logDeterminant,
   };

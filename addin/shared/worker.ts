@@ -4,9 +4,9 @@
  */
 import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
+import { readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { fittedInOrder } from '../../src/models/index.js';
-import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
+import { readLayerAndTable, runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, moranScatterData } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
@@ -38,8 +38,7 @@ async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string
 }
 
 async function check(c: CheckRequest): Promise<CheckResult> {
-  const layer = await readBoundary(c.boundary, { layer: c.layer, coordinates: c.coordinates });
-  const table = await readTable(c.data, { sheet: c.sheet });
+  const { layer, table } = await readLayerAndTable(c);
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
     coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings],

@@ -41,8 +41,7 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   if (request.edgeList) inputs.push(await record('edge list', request.edgeList));
 
   const maxBytes = request.maxBytes;
-  const layer = await readBoundary(request.boundary, { layer: request.layer, coordinates: request.coordinates, maxBytes });
-  const table = request.data ? await readTable(request.data, { sheet: request.sheet, maxBytes }) : tableFromLayer(layer);
+  const { layer, table } = await readLayerAndTable(request);
   if (request.edgeList && maxBytes !== undefined && request.edgeList.bytes.length > maxBytes) {
     throw new InputError(`${request.edgeList.name} is ${request.edgeList.bytes.length} bytes, over the ${maxBytes}-byte limit for neighbour lists.`, { file: request.edgeList.name });
   }
@@ -53,6 +52,13 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   checkModelColumns(values, joined);
   lap('join');
   return { inputs, ...(boundaryId ? { boundaryId } : {}), joinedAll, joined, values, dropped };
+}
+
+/** The boundary layer and the data table (the layer's own attributes when no table file is given). */
+export async function readLayerAndTable(files: Pick<AnalysisRequest, 'boundary' | 'layer' | 'coordinates' | 'data' | 'sheet' | 'maxBytes'>) {
+  const layer = await readBoundary(files.boundary, { layer: files.layer, coordinates: files.coordinates, maxBytes: files.maxBytes });
+  const table = files.data ? await readTable(files.data, { sheet: files.sheet, maxBytes: files.maxBytes }) : tableFromLayer(layer);
+  return { layer, table };
 }
 
 /**
