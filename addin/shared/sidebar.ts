@@ -321,9 +321,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       })));
   }
 
-  /** The ticked models beyond the always-fitted ones (by default every one). */
+  /** The ticked models beyond the always-fitted ones (by default every one not fitted only on request). */
   function tickedModels(choices: ModelChoice[]): Set<string> {
-    return new Set(s.models ?? choices.filter((c) => !c.baseline).map((c) => c.key));
+    return new Set(s.models ?? choices.filter((c) => !c.baseline && !c.onRequest).map((c) => c.key));
   }
 
   void engine.call({ op: 'models' }).then(({ models }) => { s.modelChoices = models; drawModel(); }, () => undefined);

@@ -86,10 +86,20 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
+  for (const t of f.nestedTests ?? []) {
+    out.push(`  Likelihood-ratio test of ${t.restriction} (the ${modelLabel(t.against)}): ${fmt(t.stat, 5)} (df ${t.df}), p ${p(t.p)}`);
+  }
+  for (const t of (f as { wald?: { against: string; restriction: string; stat: number; df: number; p: number }[] }).wald ?? []) {
+    out.push(`  Wald test of ${t.restriction} (the ${modelLabel(t.against)}): ${fmt(t.stat, 5)} (df ${t.df}), p ${p(t.p)}`);
+  }
   const remaining = (f as { lmRemainingError?: { stat: number; p: number } }).lmRemainingError;
   if (remaining) out.push(`  Spatial error pattern left after the lag: Lagrange multiplier ${fmt(remaining.stat, 4)}, p ${p(remaining.p)}`);
   if (h.convergence) out.push(`  Search: ${h.convergence.message}`);
   return out;
+}
+
+function modelLabel(key: string): string {
+  return ((MODELS as readonly ModelEntry[]).find((m) => m.key === key)?.label ?? key).toLowerCase();
 }
 
 function coefficientTable(cs: Coefficient[], stat: 't' | 'z'): string[] {

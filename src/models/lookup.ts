@@ -8,6 +8,9 @@ import type { FitOptions, Fitted, ModelEntry, NestedTest, PreparedInputs } from 
 /** Every key, in registry order. */
 export const MODEL_KEYS: readonly ModelKey[] = MODELS.map((m) => m.key);
 
+/** The models a run fits when it names none: every one but those fitted only on request. */
+export const DEFAULT_MODEL_KEYS: readonly ModelKey[] = (MODELS as readonly ModelEntry[]).filter((m) => !m.onRequest).map((m) => m.key as ModelKey);
+
 /** The entry of a key (undefined for a key that names no model). */
 export function modelEntry(key: string): ModelEntry | undefined {
   return (MODELS as readonly ModelEntry[]).find((m) => m.key === key);

@@ -6,6 +6,7 @@ import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
+import { familySummaryBlocks } from './family.js';
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   // one row per model and spatial parameter (a model with two has a second row for the second)
@@ -63,8 +64,9 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 12 },
       ],
       rows: comparisonRows(result),
-      note: 'Higher log-likelihood and lower AIC or BIC values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+      note: 'Higher log-likelihood and lower AIC or BIC values mean a better balance of fit and simplicity. The spatial parameter is ρ (the neighbours’ outcome) or λ (errors shared between neighbours); a model with both has a second row. Models estimated by instruments or moments have no likelihood, so no log-likelihood, AIC or BIC.',
     },
+    ...familySummaryBlocks(result),
     lmTable(result, 'Evidence of spatial dependence in the plain regression'),
     {
       kind: 'keyValues', title: 'Suggested model',

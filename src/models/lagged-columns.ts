@@ -1,0 +1,45 @@
+/**
+ * The neighbours' averages of the explanatory columns (the WX terms of the models with lagged
+ * columns): one per column but the intercept, named in plain words and marked `lagged`.
+ */
+import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
+import type { Coefficient, Design } from './types.js';
+
+/** How a WX term reads in tables and the JSON. */
+export function laggedName(name: string): string {
+  return `neighbours' average of ${name}`;
+}
+
+/** Where each WX term of a design with lagged columns comes from. */
+export interface LaggedDesign {
+  /** [X, WX]: the design's columns, then the neighbours' average of each but the intercept */
+  design: Design;
+  /** for each WX term, in order: the index of its own column in X */
+  source: number[];
+  /** columns of X (the WX terms start here) */
+  k: number;
+}
+
+/** X followed by WX for every column of X but the intercept (the intercept's W·1 is the intercept itself under row-standardised weights, or close to it). */
+export function withLaggedColumns(x: Design, w: CsrMatrix): LaggedDesign {
+  const source = x.columns.map((_, j) => j).filter((j) => j !== x.intercept);
+  return {
+    design: {
+      names: [...x.names, ...source.map((j) => laggedName(x.names[j]))],
+      columns: [...x.columns, ...source.map((j) => csrMultiply(w, x.columns[j]))],
+      intercept: x.intercept,
+    },
+    source,
+    k: x.columns.length,
+  };
+}
+
+/** Marks the WX terms (from index k on) of a coefficient table as lagged. */
+export function markLagged(coefficients: Coefficient[], k: number): Coefficient[] {
+  return coefficients.map((c, j) => (j >= k ? { ...c, lagged: true as const } : c));
+}
+
+/** Number of WX terms a design gives (its columns but the intercept): the restrictions of θ = 0. */
+export function laggedCount(x: Design): number {
+  return x.columns.length - (x.intercept === null ? 0 : 1);
+}
