@@ -11,7 +11,7 @@ import type { PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
-import { MODELS, type ModelEntry } from '../src/models/index.js';
+import { MODELS } from '../src/models/index.js';
 
 // The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -71,7 +71,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     // the models offered are the engine's registry, every one ticked by default (the plain regression is always fitted)
     const offered = await page.evaluate(() => [...document.querySelectorAll('fieldset.models fluent-checkbox')].map((b: any) => [b.id, b.checked]));
-    expect(offered).toEqual((MODELS as readonly ModelEntry[]).filter((m) => !m.baseline).map((m) => [`model-${m.key}`, true]));
+    expect(offered).toEqual(MODELS.filter((m) => !m.baseline).map((m) => [`model-${m.key}`, true]));
     await page.click('#compare');
     await page.click('#local-on');
     await page.selectOption('#local-of', 'clinic_wait_days');

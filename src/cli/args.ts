@@ -1,6 +1,6 @@
 import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
-import { MODELS, withBaseline, type ModelEntry, type ModelKey } from '../models/index.js';
+import { MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { parseRateRecipe, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 
@@ -167,12 +167,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
 
 /** The --models line of the help: every model of the registry. */
 function modelsHelp(): string {
-  return `any of ${spellings().join(',')}, or all (default: all; ${(MODELS as readonly ModelEntry[]).find((m) => m.baseline)!.cli} is always fitted)`;
+  return `any of ${spellings().join(',')}, or all (default: all; ${baselineModel().cli} is always fitted)`;
 }
 
 /** How --models spells each model of the registry, in registry order (a function: the help text is built at load). */
 function spellings(): string[] {
-  return (MODELS as readonly ModelEntry[]).map((m) => m.cli);
+  return MODELS.map((m) => m.cli);
 }
 
 /** --models: the registry's spellings, comma-separated, or "all"; the plain regression is always among them. */
@@ -180,9 +180,9 @@ function parseModels(text: string | undefined): ModelKey[] {
   const known = spellings();
   const asked = (text ?? 'all').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
   if (asked.length === 0) throw new InputError(`--models needs at least one of ${known.join(', ')}, or all.`);
-  if (asked.includes('all')) return withBaseline((MODELS as readonly ModelEntry[]).map((m) => m.key));
+  if (asked.includes('all')) return withBaseline(MODELS.map((m) => m.key));
   const keys = asked.map((spelling) => {
-    const entry = (MODELS as readonly ModelEntry[]).find((m) => m.cli === spelling);
+    const entry = MODELS.find((m) => m.cli === spelling);
     if (!entry) throw new InputError(`--models: unknown model "${spelling}"; choose from ${known.join(', ')}, or all.`);
     return entry.key;
   });

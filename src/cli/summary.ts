@@ -45,7 +45,7 @@ export function formatSummary(r: AnalysisResult): string {
   if (r.comparison) {
     lines.push('The same question under other neighbour definitions');
     // one column per spatial parameter of each model fitted
-    const fitted = (MODELS as readonly ModelEntry[]).filter((m) => !m.baseline && (r.request.models as readonly string[]).includes(m.key));
+    const fitted = MODELS.filter((m) => !m.baseline && (r.request.models as readonly string[]).includes(m.key));
     const columns = fitted.flatMap((m) => m.parameters.map((q) => ({
       head: q.symbol,
       pick: (c: WeightsComparison) => (c.fits as Record<string, ComparedFit | undefined>)[m.key]?.parameters.find((x) => x.key === q.key)?.estimate,

@@ -3,7 +3,7 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
+import { baselineModel, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
@@ -170,7 +170,7 @@ function compareDefinitions(
 
 /** `--local-of residuals` (the plain regression's) or `residuals:MODEL` (a model's, by its command-line spelling); undefined for a column. */
 function residualSource(of: string): ModelEntry | undefined {
-  if (of === 'residuals') return modelEntry('ols');
+  if (of === 'residuals') return baselineModel();
   if (!of.startsWith('residuals:')) return undefined;
   const spelling = of.slice('residuals:'.length);
   const entry = modelByCli(spelling);
