@@ -27,7 +27,7 @@ export function rateUse(result: AnalysisResult, r: RateResult): string {
   const as = `its ${SMOOTHING_LABEL[r.smoothing]}`;
   if (result.request.y === r.name) return `the outcome, as ${as}`;
   if (result.request.x.includes(r.name)) return `an explanatory column, as ${as}`;
-  return 'not used in the model (defined for this sheet and the local statistics)';
+  return 'not used (defined for this sheet, its tests and the local statistics)';
 }
 
 const RATE_CAUTIONS = (withheld: boolean): string[] => [
@@ -49,7 +49,7 @@ export function ratesSheet(result: AnalysisResult, renderPng?: PngRenderer): { b
     blocks.push(...headBlocks(result, r));
     const headRows = layoutBlocks(blocks).lastRow;
     const pictures = result.geometries.length === result.n ? [{ name: `maps of ${r.name}`, pic: rateMapsSvg({
-      valueName: `${r.name} ${perWords(r.per)}`,
+      valueName: r.name, units: perWords(r.per),
       geometries: result.geometries, coordinates: result.coordinates,
       raw: r.areas.map((a) => a.rate), smoothed: r.modelled, smoothedName: SMOOTHING_LABEL[r.smoothing],
       flagged: r.areas.map((a) => a.flagged), withheld: r.areas.map((a) => r.withholdFlagged && a.flagged),
@@ -118,7 +118,8 @@ function reading(result: AnalysisResult, r: RateResult): string {
     parts.push(`The rate-adjusted Moran’s I is ${say(eb.I)} (${sayP(pOf(eb))}).`);
   }
   parts.push(moranContrast(r));
-  parts.push(`In the model: ${rateUse(result, r)}.`);
+  const use = rateUse(result, r);
+  parts.push(use.startsWith('not used') ? 'The model does not use this rate.' : `The model uses it as ${use.replace(/, as its /, ': its ')}.`);
   return parts.join(' ');
 }
 

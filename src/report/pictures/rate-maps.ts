@@ -5,8 +5,10 @@ import { c1, label, svgDocument, text, wrapWords } from './svg.js';
 import type { Picture } from './choropleth.js';
 
 export interface RateMapsInput {
-  /** the rate's name and units, for the title and the legend heading ("deaths per 1,000") */
+  /** the rate's name, for the title */
   valueName: string;
+  /** its units, for the legend heading ("per 1,000") */
+  units: string;
   geometries: readonly AreaGeometry[];
   coordinates: CoordinateKind;
   raw: ArrayLike<number>;
@@ -33,8 +35,9 @@ export function rateMapsSvg(input: RateMapsInput): Picture {
   const shown = Array.from({ length: n }, (_, i) => input.raw[i]).filter((_, i) => !input.withheld[i]);
   const classes = quantileClasses(shown);
   const frame = fitFrame(input.geometries, input.coordinates, PANEL, PANEL);
-  const defs = `<defs><pattern id="flaghatch" width="6" height="6" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">` +
-    `<rect width="1.6" height="6" fill="${HATCH}"/></pattern></defs>`;
+  // black and white stripes side by side, so the hatch shows on the darkest and the palest class alike
+  const defs = `<defs><pattern id="flaghatch" width="7" height="7" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">` +
+    `<rect width="1.6" height="7" fill="${HATCH}"/><rect x="1.6" width="1.4" height="7" fill="#ffffff"/></pattern></defs>`;
   const body: string[] = [defs, text(10, 24, `${input.valueName}: raw and smoothed`, 'font-size="16" font-weight="bold"')];
   const panel = (x0: number, title: string, values: ArrayLike<number>) => {
     body.push(text(x0 + 4, TOP - 10, title, 'font-size="13" font-weight="bold"'));
@@ -61,7 +64,7 @@ export function rateMapsSvg(input: RateMapsInput): Picture {
 
   const lx = 2 * frame.width + GAP + 20;
   let yy = TOP - 6;
-  body.push(text(lx, yy + 4, input.valueName, 'font-size="13" font-weight="bold"'));
+  body.push(text(lx, yy + 4, `Rate ${input.units}`, 'font-size="13" font-weight="bold"'));
   yy += 14;
   const lines: string[] = [];
   for (let k = classes.colours.length - 1; k >= 0; k--) {
