@@ -18,9 +18,9 @@ const PER: { value: string; text: string }[] = [
 ];
 
 const SMOOTHING: { value: RateSmoothing; text: string }[] = [
-  { value: 'global', text: 'Pulled towards the overall rate (global empirical Bayes)' },
-  { value: 'local', text: 'Pulled towards the neighbourhood’s rate (local empirical Bayes)' },
-  { value: 'neighbourhood', text: 'Pooled with the neighbours’ counts (neighbourhood rate)' },
+  { value: 'global', text: 'Pulled to the overall rate' },
+  { value: 'local', text: 'Pulled to the neighbours’ rate' },
+  { value: 'neighbourhood', text: 'Pooled with the neighbours’ counts' },
 ];
 
 export function perLabel(per: number): string {
@@ -92,7 +92,7 @@ export function mountRateBuilder(columns: () => string[], onChange: () => void):
     if (c.rates.length) {
       element.append(
         select('rate-smoothing', 'The model uses the rate', SMOOTHING, c.smoothing, (v) => { c.smoothing = v as RateSmoothing; }),
-        h('p', { class: 'hint' }, 'All three smoothed rates are written to the "Rates" sheet, with the raw rate, a flag for areas with fewer than 20 events, and maps of the raw and the smoothed rate.'),
+        h('p', { class: 'hint' }, 'Each area’s rate is pulled by empirical Bayes towards the overall or the neighbours’ rate as far as its count is unreliable, or pooled with its neighbours. All three are written to the "Rates" sheet, with the raw rate, a flag for areas with fewer than 20 events, and maps of the raw and the smoothed rate.'),
         checkbox('rate-withhold', 'Leave the flagged areas’ counts and rates blank in the results (privacy)', c.withholdFlagged, (v) => { c.withholdFlagged = v; }),
       );
     }
