@@ -36,7 +36,7 @@ describe('the Rates sheet (North Carolina counties, SID74 per 1,000 BIR74)', asy
     const areas = table(sheet, /each area in table order/);
     expect(areas.rows.map((r) => r[0])).toEqual(golden.ids);
     expect(areas.columns.map((c) => c.header)).toEqual([
-      'Area ID', 'Table row', 'Events (SID74)', 'Population (BIR74)', 'Raw rate per 1,000', 'Smoothed, global empirical Bayes',
+      'Area ID', 'Table row', 'Events', 'Population', 'Raw rate per 1,000', 'Smoothed, global empirical Bayes',
       'Smoothed, local empirical Bayes', 'Smoothed, neighbourhood', 'Few events (flagged)', 'Shrinkage weight, global', 'Shrinkage weight, local',
     ]);
   });

@@ -171,8 +171,9 @@ function areaTable(result: AnalysisResult, r: RateResult): Block {
   const columns: TableColumn[] = [
     { header: 'Area ID', format: 'text', width: 14 },
     { header: 'Table row', format: 'integer', width: 9 },
-    { header: `Events (${r.events})`, format: 'integer', width: 12 },
-    { header: `Population (${r.population})`, format: 'integer', width: 14 },
+    // the column names go in the note: a long name cannot wrap inside a narrow header
+    { header: 'Events', format: 'integer', width: 10 },
+    { header: 'Population', format: 'integer', width: 12 },
     { header: `Raw rate ${units}`, format: fmt, width: 12 },
     { header: 'Smoothed, global empirical Bayes', format: fmt, width: 17 },
     { header: 'Smoothed, local empirical Bayes', format: fmt, width: 17 },
@@ -188,7 +189,7 @@ function areaTable(result: AnalysisResult, r: RateResult): Block {
   });
   return {
     kind: 'table', title: `${r.name}: each area in table order`, columns, rows,
-    note: `Rates are ${units}. The shrinkage weight is the share of the area’s own raw rate that its empirical-Bayes rate keeps ` +
+    note: `Events: ${r.events}; population: ${r.population}; rates are ${units}. The shrinkage weight is the share of the area’s own raw rate that its empirical-Bayes rate keeps ` +
       '(1: kept as counted; 0: replaced by the overall or the neighbourhood rate); the neighbourhood rate pools the events and population ' +
       `of the area and its neighbours.${r.withholdFlagged ? ' Blank cells are withheld for privacy.' : ''}`,
   };
