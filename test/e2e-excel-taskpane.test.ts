@@ -48,7 +48,11 @@ async function officeStandIn(rows: unknown[][]): Promise<string> {
     w.__excel = excel;
     w.__associated = associated;
     w.Excel = { run: excel.run };
-    w.Office = { onReady: (cb: (info: unknown) => void) => Promise.resolve().then(() => cb({ host: 'Excel', platform: 'PC' })) };
+    w.Office = {
+      onReady: (cb: (info: unknown) => void) => Promise.resolve().then(() => cb({ host: 'Excel', platform: 'PC' })),
+      // ExcelApi 1.11 is there: the pane asks Excel to hold its batches during a cell edit
+      context: { requirements: { isSetSupported: (name: string, version: string) => name === 'ExcelApi' && Number(version.split('.')[1]) <= 11 } },
+    };
     w.CustomFunctions = {
       associate: (id: string) => { associated.push(id); },
       Error: class extends Error { constructor(readonly code: string, message?: string) { super(message); } },
@@ -109,6 +113,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
         settings: [...x.settings.keys()],
         parts: x.xmlParts.length,
         active: x.active,
+        delayed: x.runOptions.every((o: any) => o.delayForCellEdit === true),
       };
     });
     expect(state.names[0]).toBe('Districts');
@@ -121,6 +126,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     expect(state.settings).toEqual(['spillway.setup']);
     expect(state.parts).toBe(1); // the boundary file, kept in the workbook
     expect(state.active).toBe('Summary');
+    expect(state.delayed).toBe(true); // every batch asked Excel to wait out a cell edit
     expect(problems).toEqual([]);
     if (process.env.SPILLWAY_SCREENSHOTS === '1') {
       await page.mouse.move(0, 0);
