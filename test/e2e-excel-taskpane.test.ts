@@ -148,4 +148,22 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
     expect(problems).toEqual([]);
   }, 60_000);
+
+  it('says plainly when the boundary file could not be kept in the workbook, after writing the results', async () => {
+    await page.evaluate(() => sessionStorage.removeItem('seed'));
+    await page.reload();
+    await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    // Excel refuses to store the custom XML part
+    await page.evaluate(() => { window.__excel.failWhen = (c: any) => c.kind === 'addXmlPart'; });
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    await page.click('#run');
+    await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    await page.getByText(/The boundary file \(vell-basin-districts\.geojson\) was not kept in this workbook: Excel refused to store it/).waitFor();
+    expect(await page.getByText(/Keep the file beside the workbook to run again/).count()).toBe(1);
+    expect(await page.evaluate(() => window.__excel.xmlParts.length)).toBe(0);
+    if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'boundary-not-kept.png'), fullPage: true });
+    expect(problems).toEqual([]);
+  }, 60_000);
 });
