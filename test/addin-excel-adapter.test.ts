@@ -214,7 +214,7 @@ describe('writing the Rates sheet through Office.js (North Carolina counties, te
     const header = grid.values.findIndex((row) => row[0] === 'Area ID');
     const flagged = r.rates![0].areas.map((a) => a.flagged);
     flagged.forEach((f, i) => {
-      const raw = written.cells.get(`${header + 1 + i},4`)?.value;
+      const raw = written.cells.get(header + 1 + i, 4)?.value;
       if (f) expect(raw ?? null).toBeNull();
       else expect(raw).toBeCloseTo(r.rates![0].areas[i].rate, 12);
     });
