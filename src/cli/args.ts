@@ -1,6 +1,6 @@
 import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
-import { DEFAULT_MODEL_KEYS, MODELS, withBaseline, type ModelEntry, type ModelKey } from '../models/index.js';
+import { DEFAULT_MODEL_KEYS, MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { parseRateRecipe, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 
@@ -76,7 +76,8 @@ Neighbours
 Where the pattern is (local statistics)
   --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
   --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:MODEL
-                       (a model's, spelt as in --models, e.g. residuals:lag), or a column of the table
+                       (a model's, spelt as in --models, e.g. residuals:lag), a column of the table,
+                       or rate:NAME (a --rate's empirical-Bayes standardised values; use with moran)
   --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
   --fdr-level Q        the level of that control (default 0.05)
                        --permutations and --seed apply to the local tests too (default 999 permutations)
@@ -86,6 +87,8 @@ Rates from counts
   --per N              the rate's multiplier: 1, 100, 1000 (default) or 100000
   --smooth S           which smoothed rate is modelled: global (default), local or neighbourhood
                        empirical Bayes; all three are computed and written
+  --withhold-flagged   leave the flagged areas' counts and rates blank in the --out workbook
+                       (for privacy; the run record and --json say which areas)
 
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
@@ -113,7 +116,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
-        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' },
+        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -160,7 +163,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     algebra,
     threads,
     local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
-    rates: parseRates(v.rate, v.per, v.smooth),
+    rates: parseRates(v.rate, v.per, v.smooth, v['withhold-flagged']),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -169,13 +172,13 @@ export function parseFitArgs(argv: string[]): FitArgs {
 
 /** The --models line of the help: every model of the registry. */
 function modelsHelp(): string {
-  const byDefault = (MODELS as readonly ModelEntry[]).filter((m) => DEFAULT_MODEL_KEYS.includes(m.key as ModelKey)).map((m) => m.cli);
-  return `any of ${spellings().join(',')}, or all (default: ${byDefault.join(',')}; ${(MODELS as readonly ModelEntry[]).find((m) => m.baseline)!.cli} is always fitted)`;
+  const byDefault = MODELS.filter((m) => DEFAULT_MODEL_KEYS.includes(m.key)).map((m) => m.cli);
+  return `any of ${spellings().join(',')}, or all (default: ${byDefault.join(',')}; ${baselineModel().cli} is always fitted)`;
 }
 
 /** How --models spells each model of the registry, in registry order (a function: the help text is built at load). */
 function spellings(): string[] {
-  return (MODELS as readonly ModelEntry[]).map((m) => m.cli);
+  return MODELS.map((m) => m.cli);
 }
 
 /** --models: the registry's spellings, comma-separated, or "all"; the plain regression is always among them. */
@@ -184,9 +187,9 @@ function parseModels(text: string | undefined): ModelKey[] {
   if (text === undefined) return withBaseline(DEFAULT_MODEL_KEYS);
   const asked = text.split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
   if (asked.length === 0) throw new InputError(`--models needs at least one of ${known.join(', ')}, or all.`);
-  if (asked.includes('all')) return withBaseline((MODELS as readonly ModelEntry[]).map((m) => m.key));
+  if (asked.includes('all')) return withBaseline(MODELS.map((m) => m.key));
   const keys = asked.map((spelling) => {
-    const entry = (MODELS as readonly ModelEntry[]).find((m) => m.cli === spelling);
+    const entry = MODELS.find((m) => m.cli === spelling);
     if (!entry) throw new InputError(`--models: unknown model "${spelling}"; choose from ${known.join(', ')}, or all.`);
     return entry.key;
   });
@@ -289,10 +292,10 @@ function parseLocal(list?: string, of?: string, control?: string, level?: string
   };
 }
 
-/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth. */
-function parseRates(recipes: string[] | undefined, per?: string, smooth?: string): FitArgs['rates'] {
+/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth, --withhold-flagged. */
+function parseRates(recipes: string[] | undefined, per?: string, smooth?: string, withhold?: boolean): FitArgs['rates'] {
   if (!recipes || recipes.length === 0) {
-    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : undefined;
+    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : withhold ? '--withhold-flagged' : undefined;
     if (stray) throw new InputError(`${stray} goes with --rate (e.g. --rate cases_rate=cases/residents).`);
     return undefined;
   }
@@ -300,5 +303,8 @@ function parseRates(recipes: string[] | undefined, per?: string, smooth?: string
   if (smooth !== undefined && !['global', 'local', 'neighbourhood'].includes(smooth)) {
     throw new InputError(`--smooth must be global, local or neighbourhood, not "${smooth}".`);
   }
-  return { recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing };
+  return {
+    recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing,
+    ...(withhold ? { withholdFlagged: true } : {}),
+  };
 }

@@ -9,22 +9,27 @@ import type { FitOptions, Fitted, ModelEntry, NestedTest, PreparedInputs } from 
 export const MODEL_KEYS: readonly ModelKey[] = MODELS.map((m) => m.key);
 
 /** The models a run fits when it names none: every one but those fitted only on request. */
-export const DEFAULT_MODEL_KEYS: readonly ModelKey[] = (MODELS as readonly ModelEntry[]).filter((m) => !m.onRequest).map((m) => m.key as ModelKey);
+export const DEFAULT_MODEL_KEYS: readonly ModelKey[] = MODELS.filter((m) => !m.onRequest).map((m) => m.key);
 
 /** The entry of a key (undefined for a key that names no model). */
 export function modelEntry(key: string): ModelEntry | undefined {
-  return (MODELS as readonly ModelEntry[]).find((m) => m.key === key);
+  return MODELS.find((m) => m.key === key);
+}
+
+/** The plain regression's entry: fitted on every run. */
+export function baselineModel(): ModelEntry {
+  return MODELS.find((m) => m.baseline)!;
 }
 
 /** The entry of a command-line spelling. */
 export function modelByCli(spelling: string): ModelEntry | undefined {
-  return (MODELS as readonly ModelEntry[]).find((m) => m.cli === spelling);
+  return MODELS.find((m) => m.cli === spelling);
 }
 
 /** The fitted models of a run in registry order, each with its entry. */
 export function fittedInOrder(fits: FittedModels): { entry: ModelEntry; fit: Fitted }[] {
   const out: { entry: ModelEntry; fit: Fitted }[] = [];
-  for (const entry of MODELS as readonly ModelEntry[]) {
+  for (const entry of MODELS) {
     const fit = (fits as Record<string, Fitted | undefined>)[entry.key];
     if (fit) out.push({ entry, fit });
   }
@@ -34,7 +39,7 @@ export function fittedInOrder(fits: FittedModels): { entry: ModelEntry; fit: Fit
 /** Keys in registry order, without repeats, the plain regression first (every run fits it). */
 export function withBaseline(keys: readonly string[]): ModelKey[] {
   const asked = new Set(keys);
-  return MODELS.filter((m) => ('baseline' in m && m.baseline) || asked.has(m.key)).map((m) => m.key);
+  return MODELS.filter((m) => m.baseline || asked.has(m.key)).map((m) => m.key);
 }
 
 /** Areas a model needs at least: the coefficients, the residual variance and each spatial parameter, plus one to spare. */

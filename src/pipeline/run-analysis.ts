@@ -3,12 +3,12 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
+import { baselineModel, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
-import { addRates } from './rates.js';
+import { addRates, checkLocalRate, localRateName, localRateValues, ratesRecord } from './rates.js';
 import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
 import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
@@ -39,11 +39,12 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
 
   progress(0.02, 'Reading the files');
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
+  checkLocalRate(local?.of, request.rates);
   const residualsOf = local ? residualSource(local.of) : undefined;
   if (local && residualsOf && !(models as readonly string[]).includes(residualsOf.key)) {
     throw new InputError(`--local-of ${local.of}: the ${residualsOf.label.toLowerCase()} was not fitted; add it to the models or choose residuals (of the plain regression).`);
   }
-  const localColumn = local && local.of !== 'outcome' && !residualsOf && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  const localColumn = local && local.of !== 'outcome' && !residualsOf && localRateName(local.of) === undefined && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const areas = await prepareAreas(request, localColumn, (stage) => {
     lap(stage);
     if (stage === 'read') progress(0.1, 'Joining the table to the areas');
@@ -82,8 +83,10 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   let localResult: AnalysisResult['local'];
   if (local) {
     progress(0.93, 'Looking for where the pattern is');
+    const rate = localRateValues(local.of, rates ?? []);
     const [v, label] = local.of === 'outcome' ? [y, request.y]
       : residualsOf ? [(own.fits as Record<string, { residuals: Float64Array }>)[residualsOf.key].residuals, `residuals of the ${residualsOf.label.toLowerCase()}`]
+      : rate ? [rate.values, rate.label]
       : [values.get(local.of)!, local.of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
     lap('local');
@@ -101,7 +104,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       seed, impactDraws, permutations,
       ...(comparison ? { compareWeights: comparison.alternatives } : {}),
       ...(local ? { local } : {}),
-      ...(request.rates?.recipes.length ? { rates: { recipes: request.rates.recipes, smoothing: request.rates.smoothing ?? 'global' } } : {}),
+      ...(request.rates?.recipes.length ? { rates: ratesRecord(request.rates) } : {}),
     },
     inputs: areas.inputs,
     n: joined.ids.length,
@@ -170,7 +173,7 @@ function compareDefinitions(
 
 /** `--local-of residuals` (the plain regression's) or `residuals:MODEL` (a model's, by its command-line spelling); undefined for a column. */
 function residualSource(of: string): ModelEntry | undefined {
-  if (of === 'residuals') return modelEntry('ols');
+  if (of === 'residuals') return baselineModel();
   if (!of.startsWith('residuals:')) return undefined;
   const spelling = of.slice('residuals:'.length);
   const entry = modelByCli(spelling);

@@ -1,5 +1,5 @@
 import { rateToJson } from './rates.js';
-import { MODELS, coefficientJson as coef, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
+import { MODELS, baselineModel, coefficientJson as coef, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
@@ -33,7 +33,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     },
     logDeterminant: r.algebra,
     ols: {
-      ...olsEntry().json(ols),
+      ...baselineModel().json(ols),
       moran: { I: ols.moran.I, expected: ols.moran.expected, variance: ols.moran.variance, z: ols.moran.z, p: ols.moran.p },
       lm: {
         error: test(ols.lm.error),
@@ -66,7 +66,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     else Object.assign(out[entry.key] as Record<string, unknown>, impacts);
   }
   if (r.comparison) {
-    const spatial = (MODELS as readonly ModelEntry[]).filter((m) => !m.baseline);
+    const spatial = MODELS.filter((m) => !m.baseline);
     const fit = (f: ComparedFit | undefined, entry: ModelEntry) => f && {
       ...Object.fromEntries(f.parameters.flatMap((q) => [[q.key, q.estimate], [`${q.key}Se`, q.se], [`${q.key}P`, q.p]])),
       logLik: f.logLik, aic: f.aic, converged: f.converged,
@@ -127,8 +127,4 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
     };
   }
   return out;
-}
-
-function olsEntry(): ModelEntry {
-  return (MODELS as readonly ModelEntry[]).find((m) => m.baseline)!;
 }

@@ -7,7 +7,7 @@ type Compared = { entry: ModelEntry; of: (r: WeightsComparison) => ComparedFit |
 
 /** The spatial models fitted under at least one of the definitions, in registry order. */
 function comparedModels(rows: WeightsComparison[]): Compared[] {
-  return (MODELS as readonly ModelEntry[])
+  return MODELS
     .filter((entry) => !entry.baseline)
     .map((entry) => ({ entry, of: (r: WeightsComparison) => (r.fits as Record<string, ComparedFit | undefined>)[entry.key] }))
     .filter((m) => rows.some((r) => !r.failed && m.of(r)));
