@@ -31,6 +31,7 @@ import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
+import { commandLineLagErrorWorkload, familyFitsWorkload } from './family.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 
@@ -309,6 +310,8 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'knn 6 of 90000 points': () => knnWorkload(90000, 6),
   'knn 6 of 20000 points': () => knnWorkload(20000, 6),
   'command line 300x300': cliWorkload,
+  'model family 300x300': () => familyFitsWorkload(300),
+  'command line 300x300 lag-and-error': commandLineLagErrorWorkload,
   'local statistics 55x55': () => localStatisticsWorkload(55),
   'local statistics 300x300': () => localStatisticsWorkload(300),
 };

@@ -39,7 +39,7 @@ export function lagErrorCrossTraces(algebra: WeightsAlgebra, rho: number, lambda
   } else {
     trGH = 0.5 * (trG(rho).trG2 + trG(lambda).trG2);
   }
-  if (isSymmetric(w)) return { trGH, trHtG: trGH, exact: true, method: 'exact (W is symmetric, so tr HᵀG = tr GH, a divided difference of tr G)' };
+  if (isSymmetric(w)) return { trGH, trHtG: trGH, exact: true, method: 'from tr G at ρ and at λ (W is symmetric, so tr HᵀG = tr GH, a divided difference of tr G)' };
 
   const solverAt = (at: number) => {
     if (algebra.solve) return (b: Float64Array) => algebra.solve!(at, b);
@@ -71,7 +71,7 @@ export function lagErrorCrossTraces(algebra: WeightsAlgebra, rho: number, lambda
   }
   let sum = 0;
   for (const s of samples) sum += s;
-  if (exact) return { trGH, trHtG: sum, exact: true, method: `exact (tr GH a divided difference of tr G; tr HᵀG from ${2 * n} solves)` };
+  if (exact) return { trGH, trHtG: sum, exact: true, method: `tr GH a divided difference of tr G at ρ and at λ; tr HᵀG exact from ${2 * n} solves` };
   const mean = sum / count;
   let ss = 0;
   for (const s of samples) ss += (s - mean) ** 2;
@@ -80,7 +80,7 @@ export function lagErrorCrossTraces(algebra: WeightsAlgebra, rho: number, lambda
     trGH,
     trHtG: mean,
     exact: false,
-    method: `tr GH exact (a divided difference of tr G); tr HᵀG estimated from ${count} random probes (Hutchinson), ${mean.toPrecision(6)} with standard error ${se.toPrecision(2)}`,
+    method: `tr GH a divided difference of tr G at ρ and at λ; tr HᵀG estimated from ${count} random probes (Hutchinson), ${mean.toPrecision(6)} with standard error ${se.toPrecision(2)}`,
   };
 }
 
