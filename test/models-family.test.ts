@@ -16,7 +16,11 @@ import { fitLagError } from '../src/models/lag-error.js';
 import { fitLagIv } from '../src/models/lag-iv.js';
 import { fitErrorGm } from '../src/models/error-gm.js';
 import { columbusData, readGolden } from './helpers/columbus.js';
-import { csrFromNeighbours } from './helpers/grid.js';
+import { csrFromNeighbours, rookGrid } from './helpers/grid.js';
+import { chooseAlgebra } from '../src/linalg/choose-algebra.js';
+import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { csrMultiply } from '../src/linalg/csr.js';
+import { normalSampler, seededRandom } from '../src/stats/index.js';
 
 const family = JSON.parse(readFileSync(new URL('./golden/family.json', import.meta.url), 'utf8'));
 const columbus = readGolden();
@@ -74,6 +78,30 @@ for (const key of ['queen', 'knn4'] as const) {
       rel(f.lr.stat, g.durbin.lr.stat, 1e-6, 'lr');
       expect(f.lr.df).toBe(3);
       rel(f.lmRemainingError!.stat, g.durbin.lmRemainingError.stat, 1e-6, 'remaining error LM');
+    });
+
+    it('spatial Durbin model’s effects: direct, indirect and total from (I − ρW)⁻¹(Iβ + Wθ) to 1e-6', () => {
+      // the standard errors are simulated; on 49 areas ρ is too uncertain for them to settle near the
+      // delta method's (draws of ρ near 1 make 1/(1 − ρ) heavy-tailed), so they are checked on a
+      // larger simulated map below
+      const f = fitModel('durbin', p, options);
+      const im = f.impacts!;
+      expect(im.impacts.map((m) => m.name)).toEqual(['INC', 'HOVAL']);
+      im.impacts.forEach((m, i) => {
+        const e = g.durbin.impacts[i];
+        for (const k of ['direct', 'indirect', 'total'] as const) rel(m[k], e[k], 1e-6, `${m.name} ${k}`);
+        for (const k of ['directSe', 'indirectSe', 'totalSe'] as const) expect(m[k]).toBeGreaterThan(0);
+      });
+      expect(im.method).toContain('θ');
+    });
+
+    it('lag model by instruments: its effects are the lag model’s formulas at its own estimates', () => {
+      const f = fitModel('lagIV', p, { seed: 1, impactDraws: 200 }) as unknown as { rho: number; coefficients: Coef[]; impacts: { impacts: { name: string; direct: number; total: number }[] } };
+      const d = algebra.traces(f.rho).trAinv / y.length;
+      f.impacts.impacts.forEach((m, i) => {
+        rel(m.direct, f.coefficients[i + 1].estimate * d, 1e-12, `${m.name} direct`);
+        rel(m.total, f.coefficients[i + 1].estimate / (1 - f.rho), 1e-12, `${m.name} total`);
+      });
     });
 
     it('spatial Durbin error model: λ, coefficients, standard errors, log-likelihood', () => {
@@ -142,6 +170,48 @@ for (const key of ['queen', 'knn4'] as const) {
     });
   });
 }
+
+describe('the spatial Durbin model’s simulated effect standard errors (invented data, 900 areas)', () => {
+  it('agree with the delta method to 5% where ρ is well determined (20,000 draws)', () => {
+    const { w, base } = rookGrid(30, 30);
+    const algebra = chooseAlgebra(w, base);
+    const n = w.n;
+    const normal = normalSampler(seededRandom(99));
+    const x1 = Float64Array.from({ length: n }, normal);
+    const wx1 = csrMultiply(w, x1);
+    // y = (I − 0.4W)⁻¹(1 + 2x1 + 1.5·Wx1 + ε)
+    const rhs = Float64Array.from({ length: n }, (_, i) => 1 + 2 * x1[i] + 1.5 * wx1[i] + normal());
+    const y = solveShifted(w, 0.4, rhs).x;
+    const design = { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1], intercept: 0 };
+    const p: PreparedInputs = { y, design, w, algebra, ols: fitOls(y, design) };
+    const f = fitModel('durbin', p, { seed: 5, impactDraws: 20000 }) as unknown as { parameter: number; covariance: Float64Array; coefficients: Coef[]; impacts: { impacts: { directSe: number; indirectSe: number; totalSe: number }[] } };
+    // delta method: the effects as functions of (β₁, θ₁, ρ), d(ρ) = tr(I − ρW)⁻¹/n exact from the algebra
+    const d = (rho: number) => algebra.traces(rho).trAinv / n;
+    const effects = ([b, t, rho]: number[]) => {
+      const direct = b * d(rho) + (t * (d(rho) - 1)) / rho;
+      const total = (b + t) / (1 - rho);
+      return [direct, total - direct, total];
+    };
+    const at = [f.coefficients[1].estimate, f.coefficients[2].estimate, f.parameter];
+    const idx = [1, 2, 3]; // β₁, θ₁, ρ in (β₀, β₁, θ₁, ρ, σ²)
+    const q = 5;
+    const jac = [0, 1, 2].map((c) => {
+      const h = 1e-6;
+      const up = [...at], down = [...at];
+      up[c] += h; down[c] -= h;
+      return effects(up).map((v, r) => (v - effects(down)[r]) / (2 * h));
+    });
+    const se = [0, 1, 2].map((r) => {
+      let v = 0;
+      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) v += jac[a][r] * jac[b][r] * f.covariance[idx[a] * q + idx[b]];
+      return Math.sqrt(v);
+    });
+    const m = f.impacts.impacts[0];
+    rel(m.directSe, se[0], 0.05, 'direct se');
+    rel(m.indirectSe, se[1], 0.05, 'indirect se');
+    rel(m.totalSe, se[2], 0.05, 'total se');
+  }, 60_000);
+});
 
 describe('identities between the models (Columbus, queen)', async () => {
   const { y, x } = await columbusData();

@@ -15,7 +15,7 @@ import { fitDurbin, fitDurbinError, type DurbinFit } from './durbin.js';
 import { fitLagError, type LagErrorFit } from './lag-error.js';
 import { fitLagIv, type LagIvFit } from './lag-iv.js';
 import { fitErrorGm, type ErrorGmFit } from './error-gm.js';
-import { laggedCount } from './lagged-columns.js';
+import { laggedCount, withLaggedColumns } from './lagged-columns.js';
 import { familyJson, parameterEstimate } from './family-json.js';
 
 const RHO: ParameterName = { key: 'rho', symbol: 'ρ', name: 'spillover of the outcome' };
@@ -116,7 +116,8 @@ const DURBIN = defineModel({
   parameters: [RHO],
   fit: (p): DurbinFit => fitDurbin(p),
   headline: (f) => spatialHeadline(f, RHO),
-  // impacts: (I − ρW)⁻¹(Iβ + Wθ), added with the simulation shared with the lag model
+  // (I − ρW)⁻¹(Iβ + Wθ), by the lag model's simulation with the WX terms drawn with β and ρ
+  impacts: (f, p, o) => lagImpacts(f, withLaggedColumns(p.design, p.w).design, p.algebra, { draws: o.impactDraws, seed: o.seed, lagged: { xColumns: f.xColumns, source: f.source } }),
   nests: [
     THETA_ZERO('lag'),
     { key: 'error', restriction: 'θ = −ρβ (common factor)', df: (p) => laggedCount(p.design) },
@@ -170,6 +171,10 @@ const LAG_IV = defineModel({
   parameters: [RHO],
   fit: (p, o): LagIvFit => fitLagIv(p, { robust: o.robust }),
   headline: (f) => ({ parameters: [parameterEstimate(RHO, f.rho, f.rhoSe)], r2: f.pseudoR2, sigma2: f.sigma2, range: f.range }),
+  // the lag model's effects from the estimates by instruments and their covariance
+  impacts: (f, p, o) => (f.rho > f.range.lower && f.rho < f.range.upper
+    ? lagImpacts({ coefficients: f.coefficients, parameter: f.rho, covariance: f.covariance, range: f.range }, p.design, p.algebra, { draws: o.impactDraws, seed: o.seed })
+    : { impacts: [], draws: 0, seed: o.seed, method: 'not given: the estimate of ρ lies outside its admissible range' }),
   json: (f) => familyJson(f, [parameterEstimate(RHO, f.rho, f.rhoSe)], {
     pseudoR2: f.pseudoR2,
     standardErrors: f.covarianceKind,
