@@ -328,7 +328,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function modelChoice(): HTMLElement {
     const choices = s.modelChoices;
     if (!choices) return h('fieldset', { class: 'models' }, h('legend', {}, 'Models'), h('p', { class: 'hint' }, 'Asking the engine which models it fits…'));
-    const always = choices.filter((c) => c.baseline).map((c) => c.label.toLowerCase());
+    const always = choices.filter((c) => c.baseline).map((c) => c.label.charAt(0).toLowerCase() + c.label.slice(1));
     const ticked = tickedModels(choices);
     return h('fieldset', { class: 'models' }, h('legend', {}, `Models (the ${always.join(' and ')} ${always.length > 1 ? 'are' : 'is'} always fitted)`),
       ...choices.filter((c) => !c.baseline).map((c) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {

@@ -1,7 +1,7 @@
 import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type ComparedFit, type WeightsComparison } from '../pipeline/index.js';
 import type { LocalCategory } from '../stats/index.js';
 import type { Coefficient } from '../models/types.js';
-import { MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
+import { inSentence, MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
 export function formatSummary(r: AnalysisResult): string {
@@ -36,7 +36,7 @@ export function formatSummary(r: AnalysisResult): string {
     if (entry.baseline) continue;
     lines.push(...modelBlock(entry, fit), '');
     if (fit.impacts) {
-      lines.push(`Spillover effects of the ${entry.label.toLowerCase()} (standard errors from ${fit.impacts.draws} simulated draws, seed ${fit.impacts.seed})`);
+      lines.push(`Spillover effects of the ${inSentence(entry.label)} (${fit.impacts.draws > 0 ? `standard errors from ${fit.impacts.draws} simulated draws, seed ${fit.impacts.seed}` : fit.impacts.method})`);
       lines.push(...table(['term', 'in the area itself', 'SE', 'in the other areas', 'SE', 'total', 'SE'],
         fit.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
       lines.push('');
@@ -89,7 +89,7 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const h = entry.headline(f);
   const out = [`${entry.label} (${entry.method}): ${entry.about}`];
   for (const q of h.parameters) out.push(`  ${q.symbol} (${q.name}) ${fmt(q.estimate, 6)}, SE ${fmt(q.se, 4)}, z ${fmt(q.z, 4)}, p ${p(q.p)}`);
-  out.push(...coefficientTable(f.coefficients, 'z'));
+  out.push(...coefficientTable(f.coefficients, entry.method === 'least squares' ? 't' : 'z'));
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
@@ -106,7 +106,7 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
 }
 
 function modelLabel(key: string): string {
-  return ((MODELS as readonly ModelEntry[]).find((m) => m.key === key)?.label ?? key).toLowerCase();
+  return inSentence((MODELS as readonly ModelEntry[]).find((m) => m.key === key)?.label ?? key);
 }
 
 function coefficientTable(cs: Coefficient[], stat: 't' | 'z'): string[] {

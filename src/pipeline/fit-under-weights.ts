@@ -8,7 +8,7 @@ import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { addNestedTests, designWithIntercept, fitModel, fitOls, modelEntry, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
+import { inSentence, addNestedTests, designWithIntercept, fitModel, fitOls, modelEntry, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
 import type { Design, LmTests, MoranTest, OlsFit, Recommendation } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { checkSpatialRange } from './check-values.js';
@@ -71,7 +71,7 @@ export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly
     keys.forEach((key, i) => {
       const entry = modelEntry(key)!;
       const share = (j: number) => 0.2 + (0.8 * (i + j)) / keys.length;
-      progress(share(0), `Fitting the ${entry.label.toLowerCase()}`);
+      progress(share(0), `Fitting the ${inSentence(entry.label)}`);
       fits[key] = fitModel(key, prepared, { robust: opts.robust, seed: opts.seed, impactDraws: opts.impactDraws }, () => {
         done(key);
         progress(share(0.5), 'Simulating the spillover effects');

@@ -5,7 +5,7 @@
  */
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, TestResult } from '../models/types.js';
-import { fittedInOrder, modelEntry, type Fitted, type ModelEntry } from '../models/index.js';
+import { inSentence, fittedInOrder, modelEntry, type Fitted, type ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { MARK_NOTE, SOME_LEVEL, evidenceMark, num, say, sayList, sayP, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
@@ -94,7 +94,7 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   const tests = testsOf(result, entry, fit);
   if (tests.length) {
     blocks.push({
-      kind: 'table', title: `Tests of the ${entry.label.toLowerCase()} against the models it contains`,
+      kind: 'table', title: `Tests of the ${inSentence(entry.label)} against the models it contains`,
       columns: [
         { header: 'Simpler model', format: 'text', width: 30 },
         { header: 'Restriction', format: 'text', width: 18 },
@@ -153,15 +153,15 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
   const y = result.request.y;
   const col = (header: string, format: 'decimal4' | 'pvalue') => ({ header, format, width: 12 });
   const how: Record<string, string> = {
-    slx: `In the ${entry.label.toLowerCase()} a change in one area's column moves that area's ${y} by its own coefficient (direct) and its neighbours' ${y} by the coefficient of the neighbours' average (indirect), with no further spread.`,
-    durbin: `In the ${entry.label.toLowerCase()} a change in one area's column moves its own ${y}, its neighbours' through their averages of the column, and then every area through the neighbour links. The figures are averaged over the areas (direct: in the area itself; indirect: all other areas together).`,
+    slx: `In the ${inSentence(entry.label)} a change in one area's column moves that area's ${y} by its own coefficient (direct) and its neighbours' ${y} by the coefficient of the neighbours' average (indirect), with no further spread.`,
+    durbin: `In the ${inSentence(entry.label)} a change in one area's column moves its own ${y}, its neighbours' through their averages of the column, and then every area through the neighbour links. The figures are averaged over the areas (direct: in the area itself; indirect: all other areas together).`,
     lagIV: `As in the lag model, a change in one area reaches the other areas through the neighbour links; the figures use the estimates by instruments.`,
   };
   return [
-    { kind: 'title', text: `Spillover effects in the ${entry.label.toLowerCase()}` },
-    { kind: 'paragraph', style: 'note', text: how[entry.key] ?? `Direct, indirect and total effects of the ${entry.label.toLowerCase()}, averaged over the areas.` },
+    { kind: 'title', text: `Spillover effects in the ${inSentence(entry.label)}` },
+    { kind: 'paragraph', style: 'note', text: how[entry.key] ?? `Direct, indirect and total effects of the ${inSentence(entry.label)}, averaged over the areas.` },
     {
-      kind: 'table', title: `Direct, indirect and total effects: ${entry.label.toLowerCase()}`,
+      kind: 'table', title: `Direct, indirect and total effects: ${inSentence(entry.label)}`,
       columns: [
         { header: 'Explanatory column', format: 'text', width: 30 },
         col('Direct', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
@@ -173,7 +173,7 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
     },
     ...im.impacts.map((m): Block => ({
       kind: 'paragraph', style: 'interpretation',
-      text: `In the ${entry.label.toLowerCase()}, a one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}). This describes how the figures move together in the model, not what a change would cause.`,
+      text: `In the ${inSentence(entry.label)}, a one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}). This describes how the figures move together in the model, not what a change would cause.`,
     })),
   ];
 }
@@ -260,7 +260,7 @@ export function familyReading(result: AnalysisResult): string {
     parts.push(`The error model by moments puts λ at ${say(gm.lambda!)} (standard error ${say(gm.lambdaSe!)}, robust to unequal variance) against ${say(ml.parameter)} (${say(ml.parameterSe!)}) by maximum likelihood; ${bp.p < SOME_LEVEL ? `the Breusch–Pagan test finds the spread of the residuals unequal (${sayP(bp.p)}), so the robust standard errors are the ones to read` : 'the Breusch–Pagan test finds no clear sign of unequal spread, so the two should agree'}.`);
   }
   const wald = testsBetweenModels(result).filter((t) => t.kind === 'Wald');
-  if (wald.length) parts.push(`By instruments or moments: ${sayList(wald.map((t) => `${t.restriction} in the ${t.general.label.toLowerCase()} ${sig(t) ? 'is rejected' : 'is not rejected'} (Wald ${say(t.stat)}, ${sayP(t.p)})`))}.`);
+  if (wald.length) parts.push(`By instruments or moments: ${sayList(wald.map((t) => `${t.restriction} in the ${inSentence(t.general.label)} ${sig(t) ? 'is rejected' : 'is not rejected'} (Wald ${say(t.stat)}, ${sayP(t.p)})`))}.`);
   parts.push('This is guidance from the tests at the 5% level; what is known about how the outcome arises should weigh more than the tests alone.');
   return parts.join(' ');
 }

@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient } from '../models/types.js';
-import { fittedInOrder } from '../models/index.js';
+import { inSentence, fittedInOrder } from '../models/index.js';
 import { SOME_LEVEL, say, sayList, sayP } from './format.js';
 
 /** The models that were fitted, in registry order, with their headline figures (AIC and the like absent for estimators without a likelihood). */
@@ -42,7 +42,7 @@ export function interpretation(result: AnalysisResult): string {
       phrases.push(`${c.name} shows no clear association with ${y} (${sayP(c.p)})`);
     }
   }
-  if (phrases.length) parts.push(`In the ${preferred.label.toLowerCase()}, ${phrases.join('; ')}.`);
+  if (phrases.length) parts.push(`In the ${inSentence(preferred.label)}, ${phrases.join('; ')}.`);
 
   if (preferred.name === 'lag' && result.fits.lag) {
     const f = result.fits.lag;
@@ -59,7 +59,7 @@ export function interpretation(result: AnalysisResult): string {
   const ranked = fitted.filter((f): f is typeof f & { aic: number } => f.aic !== undefined);
   if (ranked.length > 1) {
     const best = ranked.reduce((a, b) => (b.aic < a.aic ? b : a));
-    parts.push(`Of the models fitted, the ${best.label.toLowerCase()} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
+    parts.push(`Of the models fitted, the ${inSentence(best.label)} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
   }
   return parts.join(' ');
 }

@@ -1,0 +1,146 @@
+/**
+ * The wider family through a whole run on the Columbus shapefile (queen, as read and built by the
+ * engine): the JSON keys and their fields, the figures against the independent numpy/scipy reference
+ * (scripts/reference/family.py), the report's sheets, the Summary's tests between models and their
+ * reading, the comparison of neighbour definitions, and the command line's --models spellings.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runAnalysis, resultToJson } from '../src/pipeline/index.js';
+import { buildReport } from '../src/report/index.js';
+import { formatSummary } from '../src/cli/summary.js';
+import { MODELS } from '../src/models/index.js';
+import { runCli, ROOT, STACK_LINE } from './helpers/cli.js';
+
+const family = JSON.parse(readFileSync(join(ROOT, 'test/golden/family.json'), 'utf8'));
+const dir = join(ROOT, 'test/fixtures/columbus');
+const boundary = ['columbus.shp', 'columbus.dbf', 'columbus.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(dir, name))) }));
+const FAMILY_KEYS = ['slx', 'durbin', 'durbinError', 'lagError', 'lagIV', 'errorGM'];
+
+function rel(actual: number, expected: number, tolerance: number, what = ''): void {
+  expect(Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300), `${what}: ${actual} vs ${expected}`).toBeLessThan(tolerance);
+}
+
+describe('a run with every model on Columbus (queen)', async () => {
+  const result = await runAnalysis({
+    boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+    models: MODELS.map((m) => m.key), permutations: 0, impactDraws: 200, compareWeights: [{ method: 'rook' }],
+  });
+  const json = resultToJson(result, { perArea: true }) as Record<string, any>;
+
+  it('the JSON has each model at the top level under its key, in registry order; the lag and error objects keep their shape', () => {
+    const keys = Object.keys(json).filter((k) => MODELS.some((m) => m.key === k));
+    expect(keys).toEqual(MODELS.map((m) => m.key));
+    expect(json.lag.lrTests).toBeUndefined();
+    expect(json.error.lrTests).toBeUndefined();
+    expect(json.lag.coefficients.some((c: object) => 'lagged' in c)).toBe(false);
+    expect(json.impacts).toHaveLength(2); // the lag model's, at the top as before
+  });
+
+  it('coefficients in the order constant, X, WX; WX terms named in plain words and marked lagged', () => {
+    const withLagged = ["constant", 'INC', 'HOVAL', "neighbours' average of INC", "neighbours' average of HOVAL"];
+    for (const k of ['slx', 'durbin', 'durbinError']) {
+      expect(json[k].coefficients.map((c: { name: string }) => c.name)).toEqual(withLagged);
+      expect(json[k].coefficients.map((c: { lagged?: boolean }) => c.lagged ?? false)).toEqual([false, false, false, true, true]);
+    }
+    for (const k of ['lagError', 'lagIV', 'errorGM']) expect(json[k].coefficients.map((c: { name: string }) => c.name)).toEqual(['constant', 'INC', 'HOVAL']);
+  });
+
+  it('the spatial parameters that apply, logLik/aic/bic where defined, lr tests, impacts where defined', () => {
+    const has = (k: string, fields: string[]) => fields.forEach((f) => expect(json[k], `${k}.${f}`).toHaveProperty(f));
+    const lacks = (k: string, fields: string[]) => fields.forEach((f) => expect(json[k], `${k}.${f}`).not.toHaveProperty(f));
+    has('slx', ['logLik', 'aic', 'bic', 'lr', 'lrTests', 'impacts']);
+    lacks('slx', ['rho', 'lambda']);
+    has('durbin', ['rho', 'rhoSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'impacts', 'impactsMethod']);
+    lacks('durbin', ['lambda']);
+    has('durbinError', ['lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests']);
+    lacks('durbinError', ['rho', 'impacts']);
+    has('lagError', ['rho', 'rhoSe', 'lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'evaluations', 'convergence']);
+    has('lagIV', ['rho', 'rhoSe', 'wald', 'instruments', 'firstStage', 'impacts']);
+    lacks('lagIV', ['logLik', 'aic', 'bic', 'lambda']);
+    has('errorGM', ['lambda', 'lambdaSe', 'wald']);
+    lacks('errorGM', ['logLik', 'aic', 'bic', 'rho', 'impacts']);
+    expect(json.durbin.impacts[0]).toEqual(expect.objectContaining({ name: 'INC', direct: expect.any(Number), indirect: expect.any(Number), total: expect.any(Number), directSe: expect.any(Number), indirectSe: expect.any(Number), totalSe: expect.any(Number) }));
+    expect(json.durbin.lrTests.map((t: { against: string }) => t.against)).toEqual(['lag', 'error', 'slx']);
+    expect(json.durbin.lrTests[1].restriction).toContain('θ = −ρβ');
+    for (const k of FAMILY_KEYS) {
+      expect(json.areas[0]).toHaveProperty(`${k}Fitted`);
+      expect(json.areas[0]).toHaveProperty(`${k}Residual`);
+    }
+  });
+
+  it('a run from the files gives the reference’s figures (the engine’s own queen neighbours; numpy/scipy reference)', () => {
+    const pairs: [number, number, string][] = [];
+    for (const k of ['slx', 'durbin', 'durbinError', 'lagError']) {
+      json[k].coefficients.forEach((c: { estimate: number; se: number; name: string }, i: number) => {
+        pairs.push([c.estimate, family[k].coefficients[i].estimate, `${k} ${c.name}`], [c.se, family[k].coefficients[i].se, `${k} ${c.name} se`]);
+      });
+      pairs.push([json[k].logLik, family[k].logLik, `${k} logLik`], [json[k].aic, family[k].aic, `${k} aic`], [json[k].lr.stat, family[k].lr.stat, `${k} lr`]);
+      for (const t of json[k].lrTests) pairs.push([t.stat, family[k].lrTests[t.against].stat, `${k} against ${t.against}`]);
+    }
+    pairs.push([json.durbin.rho, family.durbin.rho, 'durbin ρ'], [json.durbinError.lambda, family.durbinError.lambda, 'durbinError λ'],
+      [json.lagError.rho, family.lagError.rho, 'lagError ρ'], [json.lagError.lambda, family.lagError.lambda, 'lagError λ'],
+      [json.lagIV.rho, family.lagIV.rho, 'lagIV ρ'], [json.errorGM.lambda, family.errorGM.lambda, 'errorGM λ'], [json.errorGM.lambdaSe, family.errorGM.lambdaSe, 'errorGM λ se']);
+    json.durbin.impacts.forEach((m: { direct: number; indirect: number; total: number }, i: number) => {
+      for (const f of ['direct', 'indirect', 'total'] as const) pairs.push([m[f], family.durbin.impacts[i][f], `durbin ${f}`]);
+    });
+    for (const [a, e, what] of pairs) rel(a, e, 1e-6, what);
+  });
+
+  it('the report gives each model its sheet, and the Summary the tests between them with a reading in the published order', () => {
+    const report = buildReport(result);
+    expect(report.sheets.filter((s) => s.role === 'model').map((s) => s.name)).toEqual(MODELS.map((m) => m.label));
+    const summary = report.sheets.find((s) => s.role === 'overview')!;
+    const tests = summary.blocks.find((b) => b.kind === 'table' && b.title === 'Tests between the models') as { rows: unknown[][] };
+    expect(tests.rows.length).toBe(json.slx.lrTests.length + json.durbin.lrTests.length + json.durbinError.lrTests.length + json.lagError.lrTests.length + 2);
+    expect(tests.rows.some((r) => r[2] === 'θ = −ρβ (common factor)' && r[3] === 'likelihood ratio')).toBe(true);
+    expect(tests.rows.filter((r) => r[3] === 'Wald')).toHaveLength(2);
+    const reading = summary.blocks.find((b) => b.kind === 'paragraph' && b.text.startsWith('How to choose among the models')) as { text: string };
+    expect(reading.text).toContain('Elhorst (2010)');
+    // on Columbus neither restriction is rejected and the Lagrange-multiplier tests point to the lag model
+    expect(reading.text).toContain('the lag model is the simpler description the data support');
+    const models = summary.blocks.find((b) => b.kind === 'table' && b.title === 'How the models compare') as { rows: unknown[][] };
+    expect(models.rows.map((r) => r[0])).toContain('Lag-and-error model: λ');
+    const spill = report.sheets.find((s) => s.role === 'impacts')!;
+    const titles = spill.blocks.filter((b) => b.kind === 'title').map((b) => (b as { text: string }).text);
+    expect(titles).toEqual(['Spillover effects in the spatial lag model', 'Spillover effects in the neighbours’ columns model', 'Spillover effects in the spatial Durbin model', 'Spillover effects in the lag model by instruments']);
+    const durbinSheet = report.sheets.find((s) => s.name === 'Spatial Durbin model')!;
+    expect(durbinSheet.blocks.some((b) => b.kind === 'table' && b.title.startsWith('Tests of the spatial Durbin model'))).toBe(true);
+    const ivSheet = report.sheets.find((s) => s.name === 'Lag model by instruments')!;
+    const fit = ivSheet.blocks.find((b) => b.kind === 'keyValues') as { rows: unknown[][] };
+    expect(fit.rows.map((r) => r[0])).toContain('Instruments');
+  });
+
+  it('the comparison of neighbour definitions refits the family under rook contiguity', () => {
+    for (const k of ['durbin', 'lagError', 'lagIV', 'errorGM']) expect(json.comparison[1][k], k).toBeTruthy();
+    expect(json.comparison[1].lagError.rho).toBeTypeOf('number');
+    expect(json.comparison[1].lagError.lambda).toBeTypeOf('number');
+    expect(json.comparison[1].errorGM.aic).toBeUndefined();
+    const compared = buildReport(result).sheets.find((s) => s.role === 'comparison')!;
+    const table = compared.blocks.find((b) => b.kind === 'table' && b.title === 'The spatial models under each definition') as { columns: { header: string }[] };
+    expect(table.columns.length).toBeGreaterThan(20);
+  });
+
+  it('the readable summary prints every model with its tests', () => {
+    const text = formatSummary(result);
+    for (const m of MODELS) if (!m.baseline) expect(text).toContain(`${m.label} (${m.method})`);
+    expect(text).toContain('Likelihood-ratio test of θ = −ρβ (common factor) (the spatial error model)');
+    expect(text).toContain('Wald test of λ = 0 (the plain regression)');
+  });
+});
+
+describe('the command line offers the family by its spellings', () => {
+  const COLUMBUS = join(ROOT, 'test/fixtures/columbus/columbus.shp');
+  it('--models takes ols,lag,error,slx,durbin,durbin-error,lag-error,lag-iv,error-gm and all; the help lists exactly those', () => {
+    expect(MODELS.map((m) => m.cli)).toEqual(['ols', 'lag', 'error', 'slx', 'durbin', 'durbin-error', 'lag-error', 'lag-iv', 'error-gm']);
+    const run = runCli(['fit', '--boundary', COLUMBUS, '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--coordinates', 'projected', '--models', 'durbin-error,lag-iv', '--json']);
+    expect(run.code).toBe(0);
+    const out = JSON.parse(run.stdout);
+    expect(Object.keys(out).filter((k) => MODELS.some((m) => m.key === k))).toEqual(['ols', 'durbinError', 'lagIV']);
+    const bad = runCli(['fit', '--boundary', COLUMBUS, '--id', 'POLYID', '--y', 'CRIME', '--x', 'INC,HOVAL', '--models', 'durbin,sarar']);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toContain('unknown model "sarar"; choose from ols, lag, error, slx, durbin, durbin-error, lag-error, lag-iv, error-gm, or all.');
+    expect(bad.stderr).not.toMatch(STACK_LINE);
+  }, 120_000);
+});
