@@ -7,7 +7,10 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runAnalysis, resultToJson } from '../src/pipeline/index.js';
+import { baseFit, fitUnderWeights, runAnalysis, resultToJson } from '../src/pipeline/index.js';
+import { readEdgeList } from '../src/weights/index.js';
+import { modelEntry } from '../src/models/index.js';
+import { columbusData, readGolden } from './helpers/columbus.js';
 import { buildReport } from '../src/report/index.js';
 import { formatSummary } from '../src/cli/summary.js';
 import { MODELS } from '../src/models/index.js';
@@ -127,6 +130,37 @@ describe('a run with every model on Columbus (queen)', async () => {
     for (const m of MODELS) if (!m.baseline) expect(text).toContain(`${m.label} (${m.method})`);
     expect(text).toContain('Likelihood-ratio test of θ = −ρβ (common factor) (the spatial error model)');
     expect(text).toContain('Wald test of λ = 0 (the plain regression)');
+  });
+});
+
+describe('the family on arrays in memory (what a cell function holds: columns and a neighbour list, no files)', async () => {
+  const golden = readGolden();
+  const { y, x } = await columbusData();
+  const ids = Array.from({ length: y.length }, (_, i) => String(i + 1));
+  const text = (golden.weights.neighbours as number[][]).flatMap((row, i) => row.map((j) => `${ids[i]},${ids[j]}`)).join('\n');
+  const w = readEdgeList(text, ids, { source: 'neighbours in memory' });
+  const base = baseFit(y, [{ name: 'INC', values: x.columns[1] }, { name: 'HOVAL', values: x.columns[2] }]);
+  const keys = MODELS.map((m) => m.key);
+  const found = fitUnderWeights(base, w, keys, { seed: 1, impactDraws: 50 });
+
+  it('every registry key fits; its headline has its spatial parameters, and a likelihood exactly when it is estimated by one', () => {
+    for (const key of keys) {
+      const entry = modelEntry(key)!;
+      const fit = (found.fits as Record<string, Parameters<typeof entry.headline>[0]>)[key];
+      const h = entry.headline(fit);
+      expect(h.parameters.map((q) => q.key), key).toEqual(entry.parameters.map((q) => q.key));
+      expect(h.logLik === undefined, key).toBe(key === 'lagIV' || key === 'errorGM');
+      h.parameters.forEach((q) => { expect(Number.isFinite(q.estimate)).toBe(true); expect(q.se).toBeGreaterThan(0); });
+    }
+  });
+
+  it('with the reference’s figures', () => {
+    const f = found.fits as Record<string, any>;
+    rel(f.durbin.parameter, family.durbin.rho, 1e-6, 'durbin ρ');
+    rel(f.lagError.lambda, family.lagError.lambda, 1e-6, 'lag-and-error λ');
+    rel(f.lagIV.rho, family.lagIV.rho, 1e-10, 'instruments ρ');
+    rel(f.errorGM.lambda, family.errorGM.lambda, 1e-7, 'moments λ');
+    f.slx.coefficients.forEach((c: { estimate: number }, j: number) => rel(c.estimate, family.slx.coefficients[j].estimate, 1e-9, 'slx'));
   });
 });
 
