@@ -330,12 +330,17 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (!choices) return h('fieldset', { class: 'models' }, h('legend', {}, 'Models'), h('p', { class: 'hint' }, 'Asking the engine which models it fits…'));
     const always = choices.filter((c) => c.baseline).map((c) => c.label.charAt(0).toLowerCase() + c.label.slice(1));
     const ticked = tickedModels(choices);
+    const box = (c: ModelChoice) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {
+      const now = tickedModels(choices);
+      if (v) now.add(c.key); else now.delete(c.key);
+      s.models = now;
+    });
+    const wider = choices.filter((c) => c.onRequest);
     return h('fieldset', { class: 'models' }, h('legend', {}, `Models (the ${always.join(' and ')} ${always.length > 1 ? 'are' : 'is'} always fitted)`),
-      ...choices.filter((c) => !c.baseline).map((c) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {
-        const now = tickedModels(choices);
-        if (v) now.add(c.key); else now.delete(c.key);
-        s.models = now;
-      })));
+      ...choices.filter((c) => !c.baseline && !c.onRequest).map(box),
+      ...(wider.length
+        ? [h('p', { class: 'hint' }, 'The wider family, for when a referee asks (the Summary then tests them against each other):'), ...wider.map(box)]
+        : []));
   }
 
   /** The ticked models beyond the always-fitted ones (by default every one not fitted only on request). */

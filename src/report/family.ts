@@ -97,7 +97,7 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
       kind: 'table', title: `Tests of the ${inSentence(entry.label)} against the models it contains`,
       columns: [
         { header: 'Simpler model', format: 'text', width: 30 },
-        { header: 'Restriction', format: 'text', width: 18 },
+        { header: 'Restriction', format: 'text', width: 26 },
         { header: 'Test', format: 'text', width: 14 },
         { header: 'Statistic', format: 'decimal4', width: 12 },
         { header: 'Degrees of freedom', format: 'integer', width: 10 },
@@ -198,7 +198,7 @@ export function familySummaryBlocks(result: AnalysisResult): Block[] {
       columns: [
         { header: 'Wider model', format: 'text', width: 26 },
         { header: 'Simpler model', format: 'text', width: 26 },
-        { header: 'Restriction', format: 'text', width: 18 },
+        { header: 'Restriction', format: 'text', width: 26 },
         { header: 'Test', format: 'text', width: 14 },
         { header: 'Statistic', format: 'decimal4', width: 12 },
         { header: 'Degrees of freedom', format: 'integer', width: 10 },
