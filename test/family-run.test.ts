@@ -178,3 +178,35 @@ describe('the command line offers the family by its spellings', () => {
     expect(bad.stderr).not.toMatch(STACK_LINE);
   }, 120_000);
 });
+
+describe('bad input for the models with neighbours’ columns', () => {
+  it('a column whose neighbours’ average is itself (a region indicator under neighbours within regions) is refused by name', async () => {
+    const { InputError } = await import('../src/errors.js');
+    const { fitModel, fitOls } = await import('../src/models/index.js');
+    const { denseAlgebra } = await import('../src/linalg/dense-algebra.js');
+    const { csrFromNeighbours, rookNeighbours } = await import('./helpers/grid.js');
+    // two 5 × 5 grids side by side with no link between them; REGION is 1 on the second
+    const one = rookNeighbours(5, 5);
+    const nb = [...one, ...one.map((row) => row.map((j) => j + 25))];
+    const w = csrFromNeighbours(nb, 'row');
+    const n = 50;
+    const region = Float64Array.from({ length: n }, (_, i) => (i >= 25 ? 1 : 0));
+    const x1 = Float64Array.from({ length: n }, (_, i) => Math.sin(i * 1.3) + 0.1 * i);
+    const y = Float64Array.from({ length: n }, (_, i) => 1 + 2 * x1[i] + region[i] + Math.cos(i * 2.1));
+    const design = { names: ['constant', 'x1', 'REGION'], columns: [new Float64Array(n).fill(1), x1, region], intercept: 0 };
+    const p = { y, design, w, algebra: denseAlgebra(w, csrFromNeighbours(nb, 'binary')), ols: fitOls(y, design) };
+    for (const key of ['slx', 'durbin', 'durbinError']) {
+      expect(() => fitModel(key, p, { seed: 1, impactDraws: 10 }), key).toThrow(InputError);
+      expect(() => fitModel(key, p, { seed: 1, impactDraws: 10 }), key).toThrow('The neighbours\' average of "REGION" is a combination of the explanatory columns');
+    }
+    expect(() => fitModel('lag', p, { seed: 1, impactDraws: 10 })).not.toThrow();
+  });
+
+  it('the models with neighbours’ columns ask for more areas: one more coefficient per explanatory column', async () => {
+    const { areasNeeded, modelEntry } = await import('../src/models/index.js');
+    expect(areasNeeded(modelEntry('lag')!, 3)).toBe(6);
+    expect(areasNeeded(modelEntry('durbin')!, 3)).toBe(8);
+    expect(areasNeeded(modelEntry('slx')!, 3)).toBe(7);
+    expect(areasNeeded(modelEntry('lagError')!, 3)).toBe(7);
+  });
+});

@@ -1,6 +1,6 @@
 import { chiSquareUpper } from '../stats/index.js';
 import type { PreparedInputs } from './model-entry.js';
-import { laggedCount, markLagged, withLaggedColumns, type LaggedDesign } from './lagged-columns.js';
+import { laggedCount, laggedDesign, markLagged, type LaggedDesign } from './lagged-columns.js';
 import { fitSpatialError } from './ml-error.js';
 import { fitSpatialLag } from './ml-lag.js';
 import type { SpatialFit } from './types.js';
@@ -23,9 +23,10 @@ export type DurbinFit = SpatialFit & {
  * count the coefficients of [X, WX] and ρ.
  */
 export function fitDurbin(p: PreparedInputs): DurbinFit {
-  const lagged = withLaggedColumns(p.design, p.w);
+  const lagged = laggedDesign(p);
   return finish(fitSpatialLag(p.y, lagged.design, p.algebra, p.ols), lagged, p);
 }
+
 
 /**
  * Spatial Durbin error model y = Xβ + WXθ + u, u = λWu + ε by maximum likelihood (LeSage & Pace
@@ -34,7 +35,7 @@ export function fitDurbin(p: PreparedInputs): DurbinFit {
  * λ = 0 and θ = 0 (1 + m degrees of freedom).
  */
 export function fitDurbinError(p: PreparedInputs): DurbinFit {
-  const lagged = withLaggedColumns(p.design, p.w);
+  const lagged = laggedDesign(p);
   return finish(fitSpatialError(p.y, lagged.design, p.algebra, p.ols), lagged, p);
 }
 

@@ -4,6 +4,8 @@
  */
 import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
 import type { Coefficient, Design } from './types.js';
+import { InputError } from '../errors.js';
+import { fitOls } from './ols.js';
 
 /** How a WX term reads in tables and the JSON. */
 export function laggedName(name: string): string {
@@ -42,4 +44,26 @@ export function markLagged(coefficients: Coefficient[], k: number): Coefficient[
 /** Number of WX terms a design gives (its columns but the intercept): the restrictions of θ = 0. */
 export function laggedCount(x: Design): number {
   return x.columns.length - (x.intercept === null ? 0 : 1);
+}
+
+/**
+ * [X, WX], refused with the column named when a neighbours' average is a combination of the columns
+ * (e.g. a region's indicator under neighbours that never cross a region's edge): the plain
+ * regression's own rank check on the wider design.
+ */
+export function laggedDesign(p: { y: Float64Array; design: Design; w: CsrMatrix }): LaggedDesign {
+  const lagged = withLaggedColumns(p.design, p.w);
+  try {
+    fitOls(p.y, lagged.design);
+  } catch (e) {
+    const column = e instanceof InputError ? e.where.column : undefined;
+    const at = column === undefined ? -1 : lagged.design.names.indexOf(column);
+    if (at < lagged.k) throw e;
+    const own = p.design.names[lagged.source[at - lagged.k]];
+    throw new InputError(
+      `The neighbours' average of "${own}" is a combination of the explanatory columns (for example every area's neighbours share its value of "${own}"), so the models with the neighbours' columns cannot separate the two. Leave "${own}" out of those models, or fit only the models without the neighbours' columns.`,
+      { column: own },
+    );
+  }
+  return lagged;
 }

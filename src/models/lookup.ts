@@ -47,9 +47,11 @@ export function withBaseline(keys: readonly string[]): ModelKey[] {
   return MODELS.filter((m) => m.baseline || asked.has(m.key)).map((m) => m.key);
 }
 
-/** Areas a model needs at least: the coefficients, the residual variance and each spatial parameter, plus one to spare. */
+/** Areas a model needs at least: the coefficients (with its WX terms), the residual variance and each spatial parameter, plus one to spare. */
 export function areasNeeded(entry: ModelEntry, coefficients: number): number {
-  return coefficients + entry.parameters.length + 2;
+  // with the neighbours' averages: one more coefficient per column but the intercept
+  const lagged = entry.lagsColumns ? coefficients - 1 : 0;
+  return coefficients + lagged + entry.parameters.length + 2;
 }
 
 /**

@@ -90,6 +90,8 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
    * plain, lag and error models that the Lagrange-multiplier rule chooses between are not.
    */
   onRequest?: true;
+  /** its design adds the neighbours' average of each explanatory column (the WX terms): more coefficients to estimate */
+  lagsColumns?: true;
   /** its spatial parameters, in order (none for the plain regression) */
   parameters: readonly ParameterName[];
   fit(p: PreparedInputs, o: FitOptions): F;

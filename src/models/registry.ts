@@ -81,6 +81,7 @@ const ONE = () => 1;
 const SLX = defineModel({
   key: 'slx',
   cli: 'slx',
+  lagsColumns: true,
   label: 'Neighbours’ columns model',
   about: 'the neighbours’ averages of the explanatory columns added, by least squares',
   method: 'least squares',
@@ -109,6 +110,7 @@ const SLX = defineModel({
 const DURBIN = defineModel({
   key: 'durbin',
   cli: 'durbin',
+  lagsColumns: true,
   label: 'Spatial Durbin model',
   about: 'the neighbours’ outcome and the neighbours’ explanatory columns both enter',
   method: 'maximum likelihood',
@@ -129,6 +131,7 @@ const DURBIN = defineModel({
 const DURBIN_ERROR = defineModel({
   key: 'durbinError',
   cli: 'durbin-error',
+  lagsColumns: true,
   label: 'Spatial Durbin error model',
   about: 'the neighbours’ explanatory columns enter and unmeasured causes are shared',
   method: 'maximum likelihood',

@@ -1,7 +1,7 @@
 import { householderQr, inverseCrossProduct } from '../linalg/dense-qr.js';
 import { chiSquareUpper, studentTwoSided } from '../stats/index.js';
 import type { PreparedInputs } from './model-entry.js';
-import { laggedCount, markLagged, withLaggedColumns } from './lagged-columns.js';
+import { laggedCount, laggedDesign, markLagged } from './lagged-columns.js';
 import { fitOls, whiteCovariance } from './ols.js';
 import type { Impact, ImpactsResult, OlsFit, TestResult } from './types.js';
 
@@ -27,7 +27,7 @@ export interface SlxFit extends OlsFit {
  * With `robust`, White's (HC0) covariance is given beside the classical one, and the effects use it.
  */
 export function fitSlx(p: PreparedInputs, o: { robust?: boolean } = {}): SlxFit {
-  const lagged = withLaggedColumns(p.design, p.w);
+  const lagged = laggedDesign(p);
   const fit = fitOls(p.y, lagged.design, { robust: o.robust });
   const k = lagged.design.columns.length;
   const qr = householderQr(lagged.design.columns);
