@@ -3,7 +3,7 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { baselineModel, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
+import { baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
@@ -35,7 +35,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const impactDraws = request.impactDraws ?? 1000;
   validateRequest(request);
   const models = withBaseline(request.models.length ? request.models : MODEL_KEYS);
-  const spatial = models.map((k) => modelEntry(k)!).filter((m) => m.parameters.length > 0);
+  const spatial = entriesOf(models).filter((m) => m.parameters.length > 0);
 
   progress(0.02, 'Reading the files');
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
