@@ -8,7 +8,7 @@ import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
+import { addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels } from '../models/index.js';
 import type { Design, LmTests, MoranTest, OlsFit, Recommendation } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { checkSpatialRange } from './check-values.js';

@@ -3,7 +3,7 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
+import { baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
@@ -177,7 +177,7 @@ function residualSource(of: string): ModelEntry | undefined {
   if (!of.startsWith('residuals:')) return undefined;
   const spelling = of.slice('residuals:'.length);
   const entry = modelByCli(spelling);
-  if (!entry) throw new InputError(`--local-of ${of}: no model is called "${spelling}"; choose residuals or residuals: followed by one of ${MODEL_KEYS.map((k) => modelEntry(k)!.cli).join(', ')}.`);
+  if (!entry) throw new InputError(`--local-of ${of}: no model is called "${spelling}"; choose residuals or residuals: followed by one of ${MODELS.filter((m) => !m.baseline).map((m) => m.cli).join(', ')}.`);
   return entry;
 }
 
@@ -220,7 +220,5 @@ function validateRequest(r: AnalysisRequest): void {
   if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
     throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }
-  for (const m of r.models) {
-    if (!modelEntry(m)) throw new InputError(`Unknown model "${m}": choose from ${MODEL_KEYS.join(', ')}.`);
-  }
+  entriesOf(r.models);
 }

@@ -1,5 +1,5 @@
 import { rateToJson } from './rates.js';
-import { MODELS, baselineModel, coefficientJson as coef, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
+import { MODELS, baselineModel, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
