@@ -33,7 +33,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     },
     logDeterminant: r.algebra,
     ols: {
-      ...baselineModel().json(ols),
+      ...baselineModel().json(r.fits.ols!),
       moran: { I: ols.moran.I, expected: ols.moran.expected, variance: ols.moran.variance, z: ols.moran.z, p: ols.moran.p },
       lm: {
         error: test(ols.lm.error),
