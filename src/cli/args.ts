@@ -35,6 +35,8 @@ export interface FitArgs {
   json: boolean;
   perArea: boolean;
   out?: string;
+  /** replace an existing --out file (never an input, never a read-only file) */
+  overwrite: boolean;
 }
 
 export const FIT_USAGE = `Usage:
@@ -46,7 +48,9 @@ Files
   --coordinates KIND   geographic (longitude/latitude) or projected, when the file does not say
   --data FILE          CSV or .xlsx table joined to the areas by --id (default: the boundary's own attributes)
   --sheet NAME         sheet of the .xlsx table (default: the first)
-  --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one)
+  --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one);
+                       never one of the input files
+  --overwrite          replace the --out file if it exists (a read-only file is never replaced)
 
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
@@ -109,7 +113,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
-        'per-area': { type: 'boolean' }, out: { type: 'string' },
+        'per-area': { type: 'boolean' }, out: { type: 'string' }, overwrite: { type: 'boolean' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
         rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' },
       },
@@ -134,7 +138,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if (v.coordinates !== undefined && v.coordinates !== 'geographic' && v.coordinates !== 'projected') {
     throw new InputError(`--coordinates must be geographic or projected, not "${v.coordinates}".`);
   }
-  if (v.out && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  if (v.out !== undefined && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  if (v.overwrite && v.out === undefined) throw new InputError('--overwrite goes with --out (the results workbook to replace).');
   return {
     boundary: need('boundary'),
     layer: v.layer,
@@ -163,6 +168,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
+    overwrite: v.overwrite ?? false,
   };
 }
 
