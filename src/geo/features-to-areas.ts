@@ -73,7 +73,10 @@ export function featuresToAreas(root: unknown, file: string, opts: ConvertOption
       throw new InputError(`${file}: feature ${number} has properties that are not an object.`, { file, feature: number });
     }
     // The GeoJSON `id` member becomes the property "id" (unless one exists) so it can serve as join key.
-    if (f.id !== undefined && f.id !== null && !('id' in properties)) properties = { id: f.id, ...properties };
+    if (f.id !== undefined && f.id !== null && !Object.hasOwn(properties, 'id')) properties = { id: f.id, ...properties };
+    // Without a prototype, a name such as "constructor" or "toString" reads as absent on a feature
+    // that lacks it, never as a function inherited from Object.
+    Object.setPrototypeOf(properties, null);
     for (const key in properties) names.add(key);
     const ctx: FeatureContext = { file, feature: number, label: featureLabel(number, properties, f.id), bounds, crossings, longRings: 0, droppedParts: 0, keepFlat: !!opts.keepFlatFeatures, flat: false, step: opts.closeWithinStep ?? null, closed: 0 };
     const geometry = convertGeometry(f.geometry, ctx);

@@ -1,4 +1,4 @@
-import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints } from '../geo/index.js';
+import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints, decodeText } from '../geo/index.js';
 import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
@@ -17,6 +17,7 @@ import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, columnsWithRates } from './rates.js';
 import { readModelColumns } from './missing.js';
+import { checkRunSettings } from './limits.js';
 import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -69,7 +70,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const points = representativePoints(joined.geometries);
   let w: SpatialWeights;
   if (request.edgeList) {
-    const text = new TextDecoder().decode(request.edgeList.bytes);
+    const text = decodeText(request.edgeList.bytes, request.edgeList.name, { kind: 'a neighbour list (CSV)', latinFallback: true }).text;
     const listOpts = { transform: request.transform, source: request.edgeList.name };
     if (dropped.length > 0) {
       // The list names the areas of the whole table: read it on all of them, then leave out the dropped rows.
@@ -168,7 +169,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     progress(0.93, 'Looking for where the pattern is');
     const of = local.of;
     const fitted = { residuals: ols, 'residuals:lag': lag, 'residuals:error': error } as const;
-    const source = of in fitted ? fitted[of as keyof typeof fitted] : undefined;
+    const source = Object.hasOwn(fitted, of) ? fitted[of as keyof typeof fitted] : undefined;
     if (of.startsWith('residuals') && !source) {
       throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
     }
@@ -266,6 +267,7 @@ function validateRequest(r: AnalysisRequest): void {
     if (seen.has(c)) throw new InputError(`Column "${c}" is named twice among the outcome and explanatory columns.`, { column: c });
     seen.add(c);
   }
+  checkRunSettings(r);
   if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
     throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }

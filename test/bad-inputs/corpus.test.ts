@@ -46,10 +46,12 @@ function cliArgs(c: BadInput, f: CaseFiles, folder: string, out?: string): strin
   const paths = f.boundary.map(put);
   const boundary = paths.find((p) => /\.shp$/i.test(p)) ?? paths[0];
   const r = { ...BASE, ...c.request };
-  const args = ['fit', '--boundary', boundary, '--id', r.id, '--y', r.y, '--x', r.x.join(','), '--weights', weightsRule(r.weights),
+  const args = ['fit', '--boundary', boundary, '--id', r.id, '--y', r.y, '--x', r.x.join(','),
     '--transform', r.transform, '--models', r.models.join(','), '--permutations', '0', '--draws', '10'];
   if (f.data) args.push('--data', put(f.data));
+  // a neighbour list replaces the rule (the command line refuses both at once)
   if (f.edgeList) args.push('--neighbours', put(f.edgeList));
+  else args.push('--weights', weightsRule(r.weights));
   if (r.layer) args.push('--layer', r.layer);
   if (r.sheet) args.push('--sheet', r.sheet);
   if (r.dropMissing) args.push('--drop-missing');
