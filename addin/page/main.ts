@@ -34,10 +34,11 @@ const host: SidebarHost = {
         status.textContent = `Opened ${f.name}.`;
         clear(sheets);
         if (isWorkbook) {
-          const { sheets: names } = await engine.call({ op: 'sheets', file: opened });
+          const { sheets: names, hidden = [] } = await engine.call({ op: 'sheets', file: opened });
           const saved = host.loadSetup && (await host.loadSetup());
-          const first = names.find((n) => n === saved?.sheet) ?? names[0];
-          sheets.append(select('sheet', 'Sheet', names.map((n) => ({ value: n, text: n })), first, (v) => { load(v).catch(fail); }));
+          // as the engine does: the first sheet the user can see, not a hidden one
+          const first = names.find((n) => n === saved?.sheet) ?? names.find((n) => !hidden.includes(n)) ?? names[0];
+          sheets.append(select('sheet', 'Sheet', names.map((n) => ({ value: n, text: hidden.includes(n) ? `${n} (hidden)` : n })), first, (v) => { load(v).catch(fail); }));
           await load(first);
         } else {
           await load();

@@ -46,7 +46,7 @@ export type EngineJob =
   | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
 
 export type EngineAnswer =
-  | { op: 'sheets'; sheets: string[] }
+  | { op: 'sheets'; sheets: string[]; /** the hidden ones among them */ hidden?: string[] }
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }
   | { op: 'run'; output: RunOutput }

@@ -2,9 +2,8 @@
  * The engine in a Web Worker, so the sidebar stays responsive and a run can be cancelled by ending
  * the worker. Pure engine calls only: files come in as bytes, plain data goes back.
  */
-import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
+import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
@@ -17,16 +16,6 @@ const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessag
 function asEngineError(e: unknown): EngineError {
   if (e instanceof InputError) return { message: e.message, input: true, where: e.where, join: e instanceof JoinError ? e.report : undefined };
   return { message: e instanceof Error ? e.message : String(e), input: false };
-}
-
-async function sheetNames(bytes: Uint8Array): Promise<string[]> {
-  const wb = new ExcelJS.Workbook();
-  try {
-    await wb.xlsx.load(bytes as unknown as ArrayBuffer);
-  } catch (e) {
-    throw new InputError(`This file could not be opened as an .xlsx workbook (${e instanceof Error ? e.message : String(e)}). Save it as .xlsx and try again.`);
-  }
-  return wb.worksheets.map((w) => w.name);
 }
 
 async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string): Promise<TableSnapshot> {
@@ -98,7 +87,10 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
 
 async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
   switch (job.op) {
-    case 'sheets': return { op: 'sheets', sheets: await sheetNames(job.file.bytes) };
+    case 'sheets': {
+      const sheets = await workbookSheets(job.file.bytes, job.file.name);
+      return { op: 'sheets', sheets: sheets.map((x) => x.name), hidden: sheets.filter((x) => x.hidden).map((x) => x.name) };
+    }
     case 'table': return { op: 'table', table: await tableOf(job.file, job.sheet) };
     case 'check': return { op: 'check', result: await check(job.check) };
     case 'run': return { op: 'run', output: await run(id, job) };

@@ -115,7 +115,8 @@ export function binaryKind(b: Uint8Array): string | null {
   if (b[0] === 0x1f && b[1] === 0x8b) return 'a gzip-compressed file';
   if (ascii('%PDF')) return 'a PDF document';
   if (b.length >= 4 && b[0] === 0 && b[1] === 0 && b[2] === 0x27 && b[3] === 0x0a) return 'the shapes part of a shapefile (.shp)';
-  if (b.length >= 32 && [0x03, 0x83, 0x8b, 0x30, 0xf5].includes(b[0]) && b[1] < 200 && b[2] >= 1 && b[2] <= 12 && b[3] >= 1 && b[3] <= 31) {
+  const dbfHeader = b.length >= 65 ? b[8] | (b[9] << 8) : 0;
+  if ([0x03, 0x83, 0x8b, 0x30, 0xf5].includes(b[0]) && dbfHeader >= 65 && (dbfHeader - 33) % 32 === 0 && dbfHeader <= b.length && b[dbfHeader - 1] === 0x0d) {
     return 'a dBASE table (the attribute part of a shapefile, .dbf)';
   }
   if (ascii('SQLite format 3')) return 'an SQLite database (a GeoPackage?)';

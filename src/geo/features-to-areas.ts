@@ -18,6 +18,9 @@ export interface ConvertResult {
   warnings: string[];
 }
 
+/** Coordinates beyond this size are no map's: areas and distances computed from them overflow. */
+const MAX_COORDINATE = 1e12;
+
 const SUPPORTED = 'only polygons (Polygon, MultiPolygon) and points (Point, or a MultiPoint of one point) are supported';
 
 interface FeatureContext {
@@ -42,6 +45,8 @@ export interface ConvertOptions {
   /** Grid step [dx, dy] of quantized TopoJSON: a ring whose ends are within one step is closed by
    *  repeating its first position, with a warning (the arcs of such files can miss by one step). */
   closeWithinStep?: [number, number];
+  /** The file's own number of each feature given (when some records were left out before), for messages. */
+  featureNumbers?: number[];
 }
 
 export function featuresToAreas(root: unknown, file: string, opts: ConvertOptions = {}): ConvertResult {
@@ -57,7 +62,7 @@ export function featuresToAreas(root: unknown, file: string, opts: ConvertOption
   let firstKind: { kind: AreaGeometry['kind']; feature: number } | null = null;
 
   for (let i = 0; i < features.length; i++) {
-    const number = i + 1;
+    const number = opts.featureNumbers?.[i] ?? i + 1;
     const f = features[i] as Record<string, unknown> | null;
     if (f === null || typeof f !== 'object' || Array.isArray(f)) {
       throw new InputError(`${file}: feature ${number} is not a GeoJSON Feature object.`, { file, feature: number });
@@ -229,6 +234,10 @@ function checkPosition(p: unknown, ctx: FeatureContext, where: string, k = -1): 
   if (typeof x !== 'number' || typeof y !== 'number' || !Number.isFinite(x) || !Number.isFinite(y)) {
     throw bad(ctx, `has a non-numeric or non-finite coordinate (${String(x)}, ${String(y)}) at ${at(where, k)}`);
   }
+  if (Math.abs(x) > MAX_COORDINATE || Math.abs(y) > MAX_COORDINATE) {
+    throw bad(ctx, `has a coordinate (${x}, ${y}) at ${at(where, k)} beyond ±1e12, larger than any map's coordinates ` +
+      '(metres around the whole Earth stay below 1e8); the file is damaged, or its numbers are not coordinates');
+  }
   const b = ctx.bounds;
   if (x < b[0]) b[0] = x;
   if (y < b[1]) b[1] = y;
@@ -267,6 +276,11 @@ function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: Feat
     last[0] = positions[0][0]; // closed within noise: make it exact so shared vertices compare equal
     last[1] = positions[0][1];
     if (isDegenerate(positions)) {
+      const extent = extentOf(positions);
+      if (extent[0] > 0 && extent[1] > 0 && extent[0] * extent[1] === 0) {
+        throw bad(ctx, `has ${where} spanning only ${extent[0]} by ${extent[1]} coordinate units, too small for its area to be computed; ` +
+          'the coordinates are in units far too large for the data (rescale them)');
+      }
       if (r === 0) return false;
       flatHoles++;
       continue;
@@ -290,6 +304,17 @@ function withinStep(ring: number[][], step: [number, number]): boolean {
   const a = ring[0];
   const z = ring[ring.length - 1];
   return Math.abs(a[0] - z[0]) <= step[0] * (1 + 1e-9) && Math.abs(a[1] - z[1]) <= step[1] * (1 + 1e-9);
+}
+
+function extentOf(ring: number[][]): [number, number] {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  for (const p of ring) {
+    if (p[0] < minX) minX = p[0];
+    if (p[0] > maxX) maxX = p[0];
+    if (p[1] < minY) minY = p[1];
+    if (p[1] > maxY) maxY = p[1];
+  }
+  return [maxX - minX, maxY - minY];
 }
 
 function isDegenerate(ring: number[][]): boolean {

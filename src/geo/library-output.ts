@@ -34,7 +34,8 @@ export async function capturingConsole(fn: () => Promise<void>): Promise<{ said:
 
 /** Library lines can quote whole sheet names or values: at most 3 lines of 200 characters. */
 function shorten(lines: string[]): string[] {
-  const out = lines.slice(0, 3).map((l) => (l.length > 200 ? `${l.slice(0, 200)}…` : l));
+  // the middle goes: the end of a library line usually says what happened ("... will be truncated")
+  const out = lines.slice(0, 3).map((l) => (l.length > 200 ? `${l.slice(0, 110)}…${l.slice(-80)}` : l));
   if (lines.length > 3) out.push(`(and ${lines.length - 3} more)`);
   return out;
 }

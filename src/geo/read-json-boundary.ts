@@ -8,8 +8,10 @@ import { jsonErrorOffset } from './json-error-position.js';
 import { decodeText } from './decode-text.js';
 import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
 
-export function parseJsonBytes(bytes: Uint8Array, file: string): unknown {
-  let { text } = decodeText(bytes, file, { kind: 'GeoJSON or TopoJSON' });
+export function parseJsonBytes(bytes: Uint8Array, file: string, notes?: string[]): unknown {
+  const decoded = decodeText(bytes, file, { kind: 'GeoJSON or TopoJSON' });
+  notes?.push(...decoded.warnings);
+  let text = decoded.text;
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.trim() === '') throw new InputError(`${file} is empty.`, { file });
   try {

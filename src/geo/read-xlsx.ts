@@ -17,8 +17,15 @@ import { shapeTable, columnLetters, type Cell, type RawRow } from './table-shape
 import { expandEntry, listZip } from './zip.js';
 import { capturingConsole } from './library-output.js';
 
-export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: string, maxBytes = 2 ** 30): Promise<DataTable> {
+/** The workbook's sheets in order, with whether each is hidden, after the same archive checks as readXlsx. */
+export async function workbookSheets(bytes: Uint8Array, sourceName: string, maxBytes = 2 ** 30): Promise<{ name: string; hidden: boolean }[]> {
   checkArchive(bytes, sourceName, maxBytes);
+  const { workbook } = await loadWorkbook(bytes, sourceName);
+  return workbook.worksheets.map((s) => ({ name: s.name, hidden: !(s.state === undefined || s.state === 'visible') }));
+}
+
+/** exceljs's workbook, with what the library printed while loading it (kept off the terminal). */
+async function loadWorkbook(bytes: Uint8Array, sourceName: string) {
   // loaded on first use: exceljs takes about a third of a second to load, which a run reading
   // only CSV or GeoJSON should not pay
   const { default: ExcelJS } = await import('exceljs');
@@ -29,13 +36,27 @@ export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: st
   });
   if (loaded.error) {
     const e = loaded.error;
+    const long = longSheetName(bytes);
+    if (long) {
+      throw new InputError(
+        `${sourceName} has a sheet name of ${long.length} characters ("${long.slice(0, 30)}…"), longer than the 31 that spreadsheets allow; ` +
+          'the spreadsheet library cannot open the workbook. Rename the sheet in a spreadsheet program, save, and try again.',
+        { file: sourceName },
+      );
+    }
     throw new InputError(
       `${sourceName} could not be opened as an .xlsx workbook (${e instanceof Error ? e.message : String(e)}). ` +
         'Older .xls files must be saved as .xlsx first.',
       { file: sourceName },
     );
   }
-  const warnings = loaded.said.map((s) => `While opening ${sourceName}, the spreadsheet library said: ${s}`);
+  return { workbook, said: loaded.said };
+}
+
+export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: string, maxBytes = 2 ** 30): Promise<DataTable> {
+  checkArchive(bytes, sourceName, maxBytes);
+  const { workbook, said } = await loadWorkbook(bytes, sourceName);
+  const warnings = said.map((s) => `While opening ${sourceName}, the spreadsheet library said: ${s}`);
   const sheets = workbook.worksheets;
   if (sheets.length === 0) throw new InputError(`${sourceName} has no worksheets.`, { file: sourceName });
   const visible = (s: (typeof sheets)[number]) => s.state === undefined || s.state === 'visible';
@@ -104,6 +125,22 @@ export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: st
     ...(warnings.length ? { warnings: [...(table.warnings ?? []), ...warnings] } : {}),
     ...(formulaCells ? { formulasWithoutResult: formulaCells } : {}),
   };
+}
+
+/** The first sheet name in xl/workbook.xml longer than Excel's 31 characters, if any (the archive was checked already). */
+function longSheetName(bytes: Uint8Array): string | null {
+  try {
+    const entry = listZip(bytes, '').find((e) => e.name === 'xl/workbook.xml');
+    if (!entry) return null;
+    const xml = new TextDecoder().decode(expandEntry(bytes, entry, ''));
+    for (const m of xml.matchAll(/<sheet\b[^>]*\bname="([^"]*)"/g)) {
+      const name = m[1].replace(/&(lt|gt|quot|apos|amp);/g, (_x, e: string) => ({ lt: '<', gt: '>', quot: '"', apos: "'", amp: '&' })[e as 'lt']);
+      if (name.length > 31) return name;
+    }
+  } catch {
+    return null;
+  }
+  return null;
 }
 
 function isFormula(v: unknown): v is Record<string, unknown> {

@@ -33,6 +33,8 @@ export interface AreaLayer {
   coordinatesGuessed?: boolean;
   /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
   warnings: string[];
+  /** The warnings about how the file was read (text encoding, code page, deleted records): added to a later refusal's message. */
+  readNotes?: string[];
 }
 
 /** A data table read from CSV or an .xlsx sheet. Cells keep their raw value; parsing to numbers happens at use. */

@@ -1,4 +1,4 @@
-import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints, decodeText } from '../geo/index.js';
+import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints, decodeText, areaShapeWarnings } from '../geo/index.js';
 import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
@@ -18,6 +18,7 @@ import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, columnsWithRates } from './rates.js';
 import { readModelColumns } from './missing.js';
 import { checkRunSettings } from './limits.js';
+import { withReadNotes } from './read-notes.js';
 import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -57,10 +58,11 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   lap('read');
   progress(0.1, 'Joining the table to the areas');
   const boundaryId = request.boundaryId?.trim() || undefined;
-  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
+  const readNotes = [...(layer.readNotes ?? []), ...(request.data ? table.warnings ?? [] : [])];
+  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId }));
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
-  const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
+  const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false));
   checkModelColumns(values, joined);
   checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
   lap('join');
@@ -179,11 +181,12 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     lap('local');
   }
 
-  const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
+  const warnings = [...joined.warnings, ...areaShapeWarnings(joined, points, layer.sourceName), ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
+  if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && permutations === 0) {
     warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
