@@ -29,7 +29,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   const table = await readTable(c.data, { sheet: c.sheet });
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
-    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings],
+    // what was noted reading both files stays in view when the join fails (an encoding guessed, a merged cell)
+    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings, ...(table.warnings ?? [])],
   };
   const idProperty = c.boundaryId ?? c.id;
   if (!layer.propertyNames.includes(idProperty)) {
@@ -46,7 +47,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
     if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
     throw e;
   }
-  const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...base.warnings, ...joined.warnings] };
+  // the joined areas carry the layer's and the table's notes already
+  const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...joined.warnings] };
   try {
     const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
     const w = buildWeights(

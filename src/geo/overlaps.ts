@@ -63,24 +63,6 @@ export function overlapWarnings(f: OverlapFindings, label: (i: number) => string
 
 // --- exact duplicates
 
-function shapeKey(g: AreaGeometry): string {
-  if (g.kind === 'point') return `p${g.point[0]},${g.point[1]}`;
-  let count = 0, sx = 0, sy = 0;
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-  for (const polygon of g.polygons) for (const ring of polygon) for (let k = 0; k < ring.length - 1; k++) {
-    const p = ring[k];
-    const x = p[0], y = p[1];
-    count++;
-    sx += x;
-    sy += y;
-    if (x < minX) minX = x;
-    if (y < minY) minY = y;
-    if (x > maxX) maxX = x;
-    if (y > maxY) maxY = y;
-  }
-  return `${count}|${minX},${minY},${maxX},${maxY}|${sx},${sy}`;
-}
-
 /** Every vertex (without the closing repeats), sorted: equal for the same shape whatever the start or winding. */
 function vertexList(g: AreaGeometry): string {
   if (g.kind === 'point') return `${g.point[0]},${g.point[1]}`;
@@ -89,45 +71,58 @@ function vertexList(g: AreaGeometry): string {
   return v.sort().join(';');
 }
 
+/**
+ * Same shapes: areas are ordered by a numeric signature (vertex count and the sums of their
+ * coordinates, which do not depend on the start or the winding), and only areas with equal
+ * signatures are compared vertex by vertex.
+ */
 function sameShapes(geometries: AreaGeometry[]): [number, number][] {
-  const byKey = new Map<string, number[]>();
+  const idx: number[] = [];
+  const count = new Float64Array(geometries.length);
+  const sx = new Float64Array(geometries.length);
+  const sy = new Float64Array(geometries.length);
   geometries.forEach((g, i) => {
     if (g.kind !== 'polygon') return; // points at one place are reported as coincident
-    const key = shapeKey(g);
-    const list = byKey.get(key);
-    if (list) list.push(i);
-    else byKey.set(key, [i]);
-  });
-  const out: [number, number][] = [];
-  for (const list of byKey.values()) {
-    if (list.length < 2) continue;
-    const full = list.map((i) => vertexList(geometries[i]));
-    for (let a = 0; a < list.length && out.length < ENOUGH; a++) {
-      for (let b = a + 1; b < list.length; b++) if (full[a] === full[b]) out.push([list[a], list[b]]);
+    let c = 0, x = 0, y = 0;
+    for (const polygon of g.polygons) for (const ring of polygon) for (let k = 0; k < ring.length - 1; k++) {
+      const p = ring[k];
+      c++;
+      x += p[0];
+      y += p[1];
     }
+    count[i] = c;
+    sx[i] = x;
+    sy[i] = y;
+    idx.push(i);
+  });
+  idx.sort((a, b) => sx[a] - sx[b] || sy[a] - sy[b] || count[a] - count[b]);
+  const out: [number, number][] = [];
+  for (let s = 0; s < idx.length && out.length < ENOUGH;) {
+    let e = s + 1;
+    while (e < idx.length && sx[idx[e]] === sx[idx[s]] && sy[idx[e]] === sy[idx[s]] && count[idx[e]] === count[idx[s]]) e++;
+    if (e - s > 1) {
+      const group = idx.slice(s, e).sort((a, b) => a - b);
+      const full = group.map((i) => vertexList(geometries[i]));
+      for (let a = 0; a < group.length && out.length < ENOUGH; a++) {
+        for (let b = a + 1; b < group.length; b++) if (full[a] === full[b]) out.push([group[a], group[b]]);
+      }
+    }
+    s = e;
   }
   return out.slice(0, ENOUGH);
 }
 
 // --- parts inside other areas
 
-type Box = [number, number, number, number];
-
-function boxOf(rings: number[][][]): Box {
-  const b: Box = [Infinity, Infinity, -Infinity, -Infinity];
-  for (const ring of rings) for (let k = 0; k < ring.length; k++) {
-    const x = ring[k][0], y = ring[k][1];
-    if (x < b[0]) b[0] = x;
-    if (y < b[1]) b[1] = y;
-    if (x > b[2]) b[2] = x;
-    if (y > b[3]) b[3] = y;
-  }
-  return b;
-}
-
 /** A point strictly inside the polygon (outer ring and holes), or null when none is found. */
 export function innerPoint(polygon: number[][][]): [number, number] | null {
-  const [, minY, , maxY] = boxOf([polygon[0]]);
+  let minY = Infinity, maxY = -Infinity;
+  const outer = polygon[0];
+  for (let k = 0; k < outer.length; k++) {
+    const y = outer[k][1];
+    if (y < minY) minY = y;
+    if (y > maxY) maxY = y;
+  }
   for (const t of [0.5, 0.37, 0.63, 0.21, 0.79]) {
     const y = minY + (maxY - minY) * t;
     const xs: number[] = [];
@@ -165,78 +160,103 @@ function inside(x: number, y: number, rings: number[][][]): boolean {
 }
 
 function partsInside(geometries: AreaGeometry[], twins: Set<string>): OverlapFindings['overlaps'] {
-  const polys: { i: number; rings: number[][][]; box: Box }[] = [];
-  geometries.forEach((g, i) => {
-    if (g.kind === 'polygon') {
-      const rings = g.polygons.flat();
-      polys.push({ i, rings, box: boxOf(g.polygons.map((p) => p[0])) });
-    }
-  });
-  if (polys.length === 0) return [];
-  // a uniform grid over the layer's box, about one cell per area
+  const areas: number[] = [];
+  geometries.forEach((g, i) => { if (g.kind === 'polygon') areas.push(i); });
+  const m = areas.length;
+  if (m === 0) return [];
+  // each area's box (of its outer rings)
+  const box = new Float64Array(4 * m);
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-  for (const p of polys) {
-    minX = Math.min(minX, p.box[0]);
-    minY = Math.min(minY, p.box[1]);
-    maxX = Math.max(maxX, p.box[2]);
-    maxY = Math.max(maxY, p.box[3]);
+  for (let a = 0; a < m; a++) {
+    const g = geometries[areas[a]] as Extract<AreaGeometry, { kind: 'polygon' }>;
+    let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
+    for (const polygon of g.polygons) {
+      const ring = polygon[0];
+      for (let k = 0; k < ring.length; k++) {
+        const x = ring[k][0], y = ring[k][1];
+        if (x < x0) x0 = x;
+        if (y < y0) y0 = y;
+        if (x > x1) x1 = x;
+        if (y > y1) y1 = y;
+      }
+    }
+    box[4 * a] = x0; box[4 * a + 1] = y0; box[4 * a + 2] = x1; box[4 * a + 3] = y1;
+    if (x0 < minX) minX = x0;
+    if (y0 < minY) minY = y0;
+    if (x1 > maxX) maxX = x1;
+    if (y1 > maxY) maxY = y1;
   }
-  const side = Math.max(1, Math.ceil(Math.sqrt(polys.length)));
+  // a uniform grid over the layer's box, about one cell per area, as lists in one typed array;
+  // boxes covering many cells (a large area among small ones) are kept aside and tried for every point
+  const side = Math.max(1, Math.ceil(Math.sqrt(m)));
   const cw = (maxX - minX) / side || 1;
   const ch = (maxY - minY) / side || 1;
-  const cell = (v: number, lo: number, size: number) => Math.min(side - 1, Math.max(0, Math.floor((v - lo) / size)));
-  const grid = new Map<number, number[]>();
-  // boxes covering many cells (a large area among small ones) are kept aside and tried for every point
+  const cellX = (v: number) => Math.min(side - 1, Math.max(0, Math.floor((v - minX) / cw)));
+  const cellY = (v: number) => Math.min(side - 1, Math.max(0, Math.floor((v - minY) / ch)));
   const large: number[] = [];
-  polys.forEach((p, k) => {
-    const x0 = cell(p.box[0], minX, cw), x1 = cell(p.box[2], minX, cw);
-    const y0 = cell(p.box[1], minY, ch), y1 = cell(p.box[3], minY, ch);
-    if ((x1 - x0 + 1) * (y1 - y0 + 1) > 64) {
-      large.push(k);
-      return;
-    }
-    for (let cx = x0; cx <= x1; cx++) for (let cy = y0; cy <= y1; cy++) {
-      const key = cy * side + cx;
-      const list = grid.get(key);
-      if (list) list.push(k);
-      else grid.set(key, [k]);
-    }
-  });
+  const start = new Int32Array(side * side + 1);
+  const spans = (a: number) => [cellX(box[4 * a]), cellX(box[4 * a + 2]), cellY(box[4 * a + 1]), cellY(box[4 * a + 3])];
+  const isLarge = new Uint8Array(m);
+  for (let a = 0; a < m; a++) {
+    const [x0, x1, y0, y1] = spans(a);
+    if ((x1 - x0 + 1) * (y1 - y0 + 1) > 64) { isLarge[a] = 1; large.push(a); continue; }
+    for (let cy = y0; cy <= y1; cy++) for (let cx = x0; cx <= x1; cx++) start[cy * side + cx + 1]++;
+  }
+  for (let c = 0; c < side * side; c++) start[c + 1] += start[c];
+  const fill = start.slice(0, side * side);
+  const members = new Int32Array(start[side * side]);
+  for (let a = 0; a < m; a++) {
+    if (isLarge[a]) continue;
+    const [x0, x1, y0, y1] = spans(a);
+    for (let cy = y0; cy <= y1; cy++) for (let cx = x0; cx <= x1; cx++) members[fill[cy * side + cx]++] = a;
+  }
+  const useLarge = large.length <= 1000 ? large : [];
+
   const out: OverlapFindings['overlaps'] = [];
   const reported = new Set<string>();
   const selfReported = new Set<number>();
-  for (const p of polys) {
-    const g = geometries[p.i] as Extract<AreaGeometry, { kind: 'polygon' }>;
+  const tryArea = (a: number, q: number, x: number, y: number, part: number): boolean => {
+    if (q === a || x < box[4 * q] || x > box[4 * q + 2] || y < box[4 * q + 1] || y > box[4 * q + 3]) return false;
+    const i = areas[a], j = areas[q];
+    const pair = i < j ? `${i}:${j}` : `${j}:${i}`;
+    if (twins.has(pair) || reported.has(pair)) return false;
+    const g = geometries[j] as Extract<AreaGeometry, { kind: 'polygon' }>;
+    if (!insideAreas(x, y, g.polygons)) return false;
+    out.push({ a: i, part: part + 1, b: j });
+    reported.add(pair);
+    return true;
+  };
+  for (let a = 0; a < m && out.length < ENOUGH; a++) {
+    const i = areas[a];
+    const g = geometries[i] as Extract<AreaGeometry, { kind: 'polygon' }>;
     for (let part = 0; part < g.polygons.length && out.length < ENOUGH; part++) {
       const pt = innerPoint(g.polygons[part]);
       if (!pt) continue;
-      const [x, y] = pt;
+      const x = pt[0], y = pt[1];
       // another part of the same area
-      if (g.polygons.length > 1 && g.polygons.length <= 200 && !selfReported.has(p.i)) {
+      if (g.polygons.length > 1 && g.polygons.length <= 200 && !selfReported.has(i)) {
         for (let other = 0; other < g.polygons.length; other++) {
           if (other !== part && inside(x, y, g.polygons[other])) {
-            out.push({ a: p.i, part: part + 1, b: p.i });
-            selfReported.add(p.i);
+            out.push({ a: i, part: part + 1, b: i });
+            selfReported.add(i);
             break;
           }
         }
       }
-      const near = grid.get(cell(y, minY, ch) * side + cell(x, minX, cw)) ?? [];
-      for (const k of large.length <= 1000 ? near.concat(large) : near) {
-        const q = polys[k];
-        if (q.i === p.i || x < q.box[0] || x > q.box[2] || y < q.box[1] || y > q.box[3]) continue;
-        const pair = p.i < q.i ? `${p.i}:${q.i}` : `${q.i}:${p.i}`;
-        if (twins.has(pair) || reported.has(pair)) continue;
-        if (inside(x, y, q.rings)) {
-          out.push({ a: p.i, part: part + 1, b: q.i });
-          reported.add(pair);
-          break;
-        }
-      }
+      const c = cellY(y) * side + cellX(x);
+      let found = false;
+      for (let p = start[c]; p < start[c + 1] && !found; p++) found = tryArea(a, members[p], x, y, part);
+      for (let k = 0; k < useLarge.length && !found; k++) found = tryArea(a, useLarge[k], x, y, part);
     }
-    if (out.length >= ENOUGH) break;
   }
   return out;
+}
+
+/** Even-odd rule over every ring of every polygon of an area. */
+function insideAreas(x: number, y: number, polygons: number[][][][]): boolean {
+  let odd = false;
+  for (const polygon of polygons) if (inside(x, y, polygon)) odd = !odd;
+  return odd;
 }
 
 // --- areas at one point
