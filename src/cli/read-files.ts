@@ -2,7 +2,11 @@ import { closeSync, constants, fstatSync, openSync, readFileSync, readdirSync, s
 import { basename, dirname, extname, join } from 'node:path';
 import { InputError } from '../errors.js';
 import type { NamedBytesLike } from '../pipeline/index.js';
+import { MAX_TEXT_BYTES } from '../geo/index.js';
 import { specialKind, whyMissing } from './paths.js';
+
+/** Files read as one text: over MAX_TEXT_BYTES they cannot be decoded at all. */
+const TEXT_FILE = /\.(geojson|json|topojson|csv|tsv|txt)$/i;
 
 /** Largest file the command line reads (the engine applies its own caps to what is inside). */
 export const MAX_FILE_BYTES = 1024 * 1024 * 1024;
@@ -34,6 +38,14 @@ export function checkInputFile(path: string, what: string): void {
     );
   }
   if (st.size > MAX_FILE_BYTES) throw new InputError(`The ${what} file "${path}" is ${(st.size / 2 ** 20).toFixed(0)} MiB, over the 1024 MiB limit.`, { file: path });
+  if (TEXT_FILE.test(path) && st.size > MAX_TEXT_BYTES) {
+    // refused before reading: the engine would refuse it after reading every byte
+    throw new InputError(
+      `The ${what} file "${path}" is ${(st.size / 2 ** 20).toFixed(0)} MiB; text files (GeoJSON, TopoJSON, CSV) can be read up to ${Math.floor(MAX_TEXT_BYTES / 2 ** 20)} MiB, ` +
+        'the longest text a JavaScript engine holds. Split the file, or for boundaries use a shapefile, which has no such limit.',
+      { file: path },
+    );
+  }
   if (st.size === 0) {
     const redirected = [1, 2].some((fd) => {
       try {
