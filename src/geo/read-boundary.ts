@@ -99,6 +99,12 @@ async function readJsonFile(chosen: NamedBytes, opts: ReadBoundaryOptions): Prom
   const notes: string[] = [];
   const root = parseJsonBytes(chosen.bytes, chosen.name, notes);
   const objectName = opts.layer !== undefined && matchesLayer(chosen.name, opts.layer) ? undefined : opts.layer;
+  if (objectName !== undefined && !isTopology(root)) {
+    throw new InputError(
+      `${chosen.name} is a single GeoJSON layer; the layer "${objectName}" names neither a TopoJSON object nor one of several files, so it cannot be chosen. Leave the layer out.`,
+      { file: chosen.name },
+    );
+  }
   const layer = isTopology(root)
     ? layerFromTopology(root, chosen.name, objectName, opts.coordinates)
     : layerFromGeoJson(root, chosen.name, opts.coordinates);
@@ -153,6 +159,9 @@ function readShapefileSet(
       `${where} ${shp.name} but no matching .dbf file with the attributes; a shapefile needs both (.shx, .prj and .cpg are optional).`,
       { file: zipName ?? shp.name },
     );
+  }
+  if (opts.layer !== undefined && !matchesLayer(shp.name, opts.layer)) {
+    throw new InputError(`${where} one shapefile, ${shp.name}; the layer "${opts.layer}" is not its name, so it cannot be chosen. Leave the layer out.`, { file: zipName ?? shp.name });
   }
   const parts: ShapefileParts = { shp, dbf, prj: partner('prj'), cpg: partner('cpg') };
   return layerFromShapefile(parts, opts.coordinates);

@@ -35,6 +35,9 @@ export async function readTable(file: NamedBytes, opts: ReadTableOptions = {}): 
     }
     throw new InputError(`${file.name} is an old-style .xls workbook; save it as .xlsx or CSV and try again.`, { file: file.name });
   }
+  if (opts.sheet !== undefined) {
+    throw new InputError(`${file.name} is a text table (CSV), which has no sheets; the sheet "${opts.sheet}" cannot be chosen in it. Leave the sheet out, or give the .xlsx workbook.`, { file: file.name });
+  }
   return readCsv(b, file.name);
 }
 

@@ -97,6 +97,21 @@ export const readingCases: BadInput[] = [
     },
     expect: ['book.xlsx has a sheet name of 300 characters ("Districts of the Vell basin of…"), longer than the 31 that spreadsheets allow', 'Rename the sheet'],
   },
+  {
+    group: W, name: 'a sheet named for a CSV table (would be ignored)', request: { sheet: 'Districts' },
+    files: () => withTable(gridCsv()),
+    expect: ['table.csv is a text table (CSV), which has no sheets; the sheet "Districts" cannot be chosen in it'],
+  },
+  {
+    group: W, name: 'a layer named for a single GeoJSON file (would be ignored)', request: { layer: 'counties' },
+    files: () => ({ boundary: [gridFile()] }),
+    expect: ['districts.geojson is a single GeoJSON layer; the layer "counties" names neither a TopoJSON object nor one of several files'],
+  },
+  {
+    group: W, name: 'a layer naming another shapefile than the one given', request: { layer: 'rivers', weights: { method: 'knn', k: 3 } },
+    files: () => ({ boundary: villages() }),
+    expect: ['one shapefile, villages.shp; the layer "rivers" is not its name'],
+  },
   // --- text
   {
     group: T, name: 'decimal-comma CSV with dot-grouped numbers (1.000, 1.005)',
