@@ -318,13 +318,7 @@ function extentOf(ring: number[][]): [number, number] {
 }
 
 function isDegenerate(ring: number[][]): boolean {
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-  for (const p of ring) {
-    if (p[0] < minX) minX = p[0];
-    if (p[0] > maxX) maxX = p[0];
-    if (p[1] < minY) minY = p[1];
-    if (p[1] > maxY) maxY = p[1];
-  }
-  const box = (maxX - minX) * (maxY - minY);
+  const [width, height] = extentOf(ring);
+  const box = width * height;
   return box === 0 || Math.abs(ringSignedArea(ring)) <= 1e-12 * box;
 }
