@@ -65,7 +65,7 @@ const host: SidebarHost = {
     await drawReportPictures(output.report);
     stage('Writing the workbook');
     const base = opened?.isWorkbook ? opened.bytes : undefined;
-    const { bytes } = await engine.call({ op: 'workbook', report: output.report, base, baseName: opened?.name });
+    const { bytes, note } = await engine.call({ op: 'workbook', report: output.report, base, baseName: opened?.name });
     const stem = (opened?.name ?? 'data').replace(/\.[^.]+$/, '');
     const fileName = `${stem} with results.xlsx`;
     const url = URL.createObjectURL(new Blob([bytes as Uint8Array<ArrayBuffer>], { type: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' }));
@@ -74,7 +74,7 @@ const host: SidebarHost = {
     a.click();
     a.remove();
     return {
-      message: `The results are in ${fileName} (${output.report.sheets.length} new sheets${base ? ' after your own' : ''}).`,
+      message: `The results are in ${fileName} (${output.report.sheets.length} new sheets${base && !note ? ' after your own' : ''}).${note ? ` ${note}` : ''}`,
       download: { url, fileName },
     };
   },

@@ -50,7 +50,7 @@ export type EngineAnswer =
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }
   | { op: 'run'; output: RunOutput }
-  | { op: 'workbook'; bytes: Uint8Array };
+  | { op: 'workbook'; bytes: Uint8Array; /** why the results went to a new workbook rather than a copy of the user's */ note?: string };
 
 export interface EngineError {
   message: string;

@@ -7,7 +7,7 @@ import { readBoundary, readTable, joinAreas, representativePoints, JoinError, id
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, MODEL_LABEL, scatterPoints } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
-import { writeResultsWorkbook } from '../../src/workbook/index.js';
+import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
@@ -96,7 +96,13 @@ async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
     case 'table': return { op: 'table', table: await tableOf(job.file, job.sheet) };
     case 'check': return { op: 'check', result: await check(job.check) };
     case 'run': return { op: 'run', output: await run(id, job) };
-    case 'workbook': return { op: 'workbook', bytes: await writeResultsWorkbook(job.report, { base: job.base, baseName: job.baseName }) };
+    case 'workbook': {
+      // as on the command line: a workbook holding parts a copy would lose is not copied
+      const risks = job.base ? baseWorkbookRisks(job.base) : [];
+      const base = risks.length ? undefined : job.base;
+      const bytes = await writeResultsWorkbook(job.report, { base, baseName: job.baseName });
+      return { op: 'workbook', bytes, ...(risks.length ? { note: `${job.baseName ?? 'Your workbook'} holds ${risks.join(', ')}, which a copy could not keep, so the results are in a new workbook of their own.` } : {}) };
+    }
   }
 }
 
