@@ -185,6 +185,10 @@ describe('the registry on arrays in memory: no files, a neighbour list and colum
     expect(found.fits.lag!.impacts!.impacts.map((i) => i.name)).toEqual(['INC', 'HOVAL']);
   });
 
+  it('refuses a key that names no model, listing the registry\'s keys', () => {
+    expect(() => fitUnderWeights(base, w, ['lag', 'durbin'], { seed: 1, impactDraws: 10 })).toThrow(`Unknown model "durbin": choose from ${MODEL_KEYS.join(', ')}.`);
+  });
+
   it('gives the same figures as a run from the files', async () => {
     const run = await runAnalysis({
       boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',

@@ -21,6 +21,15 @@ export function modelEntry(key: string): ModelEntry | undefined {
   return MODELS.find((m) => m.key === key);
 }
 
+/** The entries of some keys, refusing a key that names no model (a cell function's argument, a request's list). */
+export function entriesOf(keys: readonly string[]): ModelEntry[] {
+  return keys.map((key) => {
+    const entry = modelEntry(key);
+    if (!entry) throw new InputError(`Unknown model "${key}": choose from ${MODEL_KEYS.join(', ')}.`);
+    return entry;
+  });
+}
+
 /** The plain regression's entry: fitted on every run. */
 export function baselineModel(): ModelEntry {
   return MODELS.find((m) => m.baseline)!;
@@ -60,8 +69,7 @@ export function areasNeeded(entry: ModelEntry, coefficients: number): number {
  * when the fit is done and the effects start).
  */
 export function fitModel(key: string, p: PreparedInputs, o: FitOptions, beforeImpacts?: () => void): Fitted {
-  const entry = modelEntry(key);
-  if (!entry) throw new InputError(`Unknown model "${key}": choose from ${MODEL_KEYS.join(', ')}.`);
+  const [entry] = entriesOf([key]);
   const fit = entry.fit(p, o);
   const { logLik } = entry.headline(fit);
   if (logLik !== undefined && !Number.isFinite(logLik)) {

@@ -109,8 +109,8 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
    * top of each comparison row, where they were first published; every other model's go inside its own object.
    */
   impactsAtTop?: true;
-  /** the model's object in the JSON report */
-  json(fit: F): Record<string, unknown>;
+  /** the model's object in the JSON report (the fit as the run keeps it: with its nested tests, if any) */
+  json(fit: Fitted<F>): Record<string, unknown>;
 }
 
 /** A model that another nests, and the restriction that turns the general model into it. */

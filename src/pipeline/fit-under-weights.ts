@@ -8,7 +8,7 @@ import { chooseAlgebra } from '../linalg/choose-algebra.js';
 import type { StartHelperThread } from '../linalg/sparse/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { inSentence, addNestedTests, designWithIntercept, fitModel, fitOls, modelEntry, recommendModel, type FitOptions, type Fitted, type FittedModels, type ModelKey } from '../models/index.js';
+import { inSentence, addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels } from '../models/index.js';
 import type { Design, LmTests, MoranTest, OlsFit, Recommendation } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { checkSpatialRange } from './check-values.js';
@@ -52,14 +52,14 @@ export interface UnderWeights {
 }
 
 /** The residual tests and the asked-for models under one set of weights `w` (the plain regression is always among the fits). */
-export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly ModelKey[], opts: UnderWeightsOptions): UnderWeights {
+export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly string[], opts: UnderWeightsOptions): UnderWeights {
+  const entries = entriesOf(keys);
   const progress = opts.onProgress ?? (() => {});
   const done = opts.onStepDone ?? (() => {});
   progress(0, 'Preparing the log-determinant');
   const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: opts.points, method: opts.method ?? 'auto', seed: opts.seed, helper: opts.helper });
   try {
-    const spatial = keys.map((k) => modelEntry(k)!).filter((m) => m.parameters.length > 0);
-    checkSpatialRange(algebra.range, w.description, spatial);
+    checkSpatialRange(algebra.range, w.description, entries.filter((m) => m.parameters.length > 0));
     done('algebra');
     progress(0.1, 'Testing the residuals for a spatial pattern');
     const moran = moranResidualTest(base.ols, base.design, algebra);
@@ -68,8 +68,8 @@ export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly
     done('tests');
     const prepared = { y: base.y, design: base.design, w: algebra.w, algebra, ols: base.ols };
     const fits: Record<string, Fitted> = {};
-    keys.forEach((key, i) => {
-      const entry = modelEntry(key)!;
+    entries.forEach((entry, i) => {
+      const { key } = entry;
       const share = (j: number) => 0.2 + (0.8 * (i + j)) / keys.length;
       progress(share(0), `Fitting the ${inSentence(entry.label)}`);
       fits[key] = fitModel(key, prepared, { robust: opts.robust, seed: opts.seed, impactDraws: opts.impactDraws }, () => {

@@ -2,7 +2,7 @@
  * The steps before any model: read the files, join the table to the areas, take the model's columns
  * (leaving out rows with missing values when asked), find the neighbours, and lay out the design.
  */
-import { readBoundary, readTable, tableFromLayer, joinAreas } from '../geo/index.js';
+import { readBoundary, readTable, tableFromLayer, joinAreas, decodeText } from '../geo/index.js';
 import type { JoinedAreas } from '../geo/types.js';
 import { buildWeights, readEdgeList, subsetWeights } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
@@ -13,6 +13,7 @@ import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
 import { columnsWithRates } from './rates.js';
 import { checkModelColumns } from './check-values.js';
+import { withReadNotes } from './read-notes.js';
 import type { AnalysisRequest, InputRecord } from './types.js';
 
 export interface PreparedAreas {
@@ -20,6 +21,8 @@ export interface PreparedAreas {
   inputs: InputRecord[];
   /** the boundary file's ID property, when named differently from the table's column */
   boundaryId?: string;
+  /** the boundary file's name, for messages */
+  boundaryName: string;
   /** every joined area, before rows with missing values are left out */
   joinedAll: JoinedAreas;
   /** the areas analysed */
@@ -47,11 +50,13 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   }
   lap('read');
   const boundaryId = request.boundaryId?.trim() || undefined;
-  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
-  const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...extraColumns], request.rates), request.dropMissing ?? false);
+  // how the files were read (an encoding guessed, a code page, merged cells) often explains a refusal of the join or the columns
+  const readNotes = [...(layer.readNotes ?? []), ...(request.data ? table.warnings ?? [] : [])];
+  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId }));
+  const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...extraColumns], request.rates), request.dropMissing ?? false));
   checkModelColumns(values, joined);
   lap('join');
-  return { inputs, ...(boundaryId ? { boundaryId } : {}), joinedAll, joined, values, dropped };
+  return { inputs, ...(boundaryId ? { boundaryId } : {}), boundaryName: layer.sourceName, joinedAll, joined, values, dropped };
 }
 
 /** The boundary layer and the data table (the layer's own attributes when no table file is given). */
@@ -74,7 +79,7 @@ export function neighboursOf(request: AnalysisRequest, areas: PreparedAreas, poi
       { transform: request.transform, linkUnneighboured: request.linkUnneighboured },
     );
   }
-  const text = new TextDecoder().decode(request.edgeList.bytes);
+  const text = decodeText(request.edgeList.bytes, request.edgeList.name, { kind: 'a neighbour list (CSV)', latinFallback: true }).text;
   const listOpts = { transform: request.transform, source: request.edgeList.name };
   if (dropped.length === 0) return readEdgeList(text, joined.ids, listOpts);
   // The list names the areas of the whole table: read it on all of them, then leave out the dropped rows.

@@ -1,14 +1,15 @@
-import { representativePoints } from '../geo/index.js';
+import { representativePoints, areaShapeWarnings } from '../geo/index.js';
 import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { inSentence, baselineModel, fitOls, fittedInOrder, modelByCli, modelEntry, withBaseline, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry, } from '../models/index.js';
+import { inSentence, baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, checkLocalRate, localRateName, localRateValues, ratesRecord } from './rates.js';
+import { checkRunSettings } from './limits.js';
 import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
 import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
@@ -35,7 +36,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const impactDraws = request.impactDraws ?? 1000;
   validateRequest(request);
   const models = withBaseline(request.models.length ? request.models : DEFAULT_MODEL_KEYS);
-  const spatial = models.map((k) => modelEntry(k)!).filter((m) => m.parameters.length > 0);
+  const spatial = entriesOf(models).filter((m) => m.parameters.length > 0);
 
   progress(0.02, 'Reading the files');
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
@@ -135,7 +136,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     ...(comparison ? { comparison: comparison.rows } : {}),
     ...(localResult ? { local: localResult } : {}),
     ...(rates ? { rates } : {}),
-    warnings: runWarnings(request, { joined, dropped, w, summary, fits: own.fits, permutations, n: y.length }),
+    warnings: runWarnings(request, { joined, shapes: areaShapeWarnings(joined, points, areas.boundaryName), dropped, w, summary, fits: own.fits, permutations, n: y.length }),
     timings,
   };
 }
@@ -177,21 +178,25 @@ function residualSource(of: string): ModelEntry | undefined {
   if (!of.startsWith('residuals:')) return undefined;
   const spelling = of.slice('residuals:'.length);
   const entry = modelByCli(spelling);
-  if (!entry) throw new InputError(`--local-of ${of}: no model is called "${spelling}"; choose residuals or residuals: followed by one of ${MODEL_KEYS.map((k) => modelEntry(k)!.cli).join(', ')}.`);
+  if (!entry) throw new InputError(`--local-of ${of}: no model is called "${spelling}"; choose residuals or residuals: followed by one of ${MODELS.filter((m) => !m.baseline).map((m) => m.cli).join(', ')}.`);
   return entry;
 }
 
 /** Warnings from every stage of the run, in the order the stages ran. */
 function runWarnings(
   request: AnalysisRequest,
-  r: { joined: { warnings: string[] }; dropped: { row: number }[]; w: SpatialWeights; summary: ReturnType<typeof summarizeWeights>; fits: FittedModels; permutations: number; n: number },
+  r: {
+    joined: { warnings: string[] }; shapes: string[]; dropped: { row: number }[]; w: SpatialWeights;
+    summary: ReturnType<typeof summarizeWeights>; fits: FittedModels; permutations: number; n: number;
+  },
 ): string[] {
   const { summary, w, dropped } = r;
-  const warnings = [...r.joined.warnings, ...fittedInOrder(r.fits).flatMap(({ fit }) => fit.warnings)];
+  const warnings = [...r.joined.warnings, ...r.shapes, ...fittedInOrder(r.fits).flatMap(({ fit }) => fit.warnings)];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
+  if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && r.permutations === 0) {
     warnings.push(`With ${r.n} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
@@ -217,10 +222,9 @@ function validateRequest(r: AnalysisRequest): void {
     if (seen.has(c)) throw new InputError(`Column "${c}" is named twice among the outcome and explanatory columns.`, { column: c });
     seen.add(c);
   }
+  checkRunSettings(r);
   if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
     throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }
-  for (const m of r.models) {
-    if (!modelEntry(m)) throw new InputError(`Unknown model "${m}": choose from ${MODEL_KEYS.join(', ')}.`);
-  }
+  entriesOf(r.models);
 }

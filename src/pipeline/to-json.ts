@@ -1,5 +1,5 @@
 import { rateToJson } from './rates.js';
-import { MODELS, baselineModel, coefficientJson as coef, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
+import { MODELS, baselineModel, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
@@ -33,7 +33,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     },
     logDeterminant: r.algebra,
     ols: {
-      ...baselineModel().json(ols),
+      ...baselineModel().json(r.fits.ols!),
       moran: { I: ols.moran.I, expected: ols.moran.expected, variance: ols.moran.variance, z: ols.moran.z, p: ols.moran.p },
       lm: {
         error: test(ols.lm.error),
