@@ -186,7 +186,7 @@ describe('the registry on arrays in memory: no files, a neighbour list and colum
   });
 
   it('refuses a key that names no model, listing the registry\'s keys', () => {
-    expect(() => fitUnderWeights(base, w, ['lag', 'durbin'], { seed: 1, impactDraws: 10 })).toThrow(`Unknown model "durbin": choose from ${MODEL_KEYS.join(', ')}.`);
+    expect(() => fitUnderWeights(base, w, ['lag', 'hexagon'], { seed: 1, impactDraws: 10 })).toThrow(`Unknown model "hexagon": choose from ${MODEL_KEYS.join(', ')}.`);
   });
 
   it('gives the same figures as a run from the files', async () => {
