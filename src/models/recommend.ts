@@ -36,7 +36,7 @@ export function recommendModel(lm: LmTests, alpha = 0.05): Recommendation {
     return out(
       'either',
       `Both Lagrange-multiplier tests and both robust forms are significant at ${pct}; the larger robust statistic points to the ${lead} model, ` +
-        'and a model with both a lag and an error term is worth considering.',
+        'and a model with both a lag and an error term (the lag-and-error model) is worth considering.',
     );
   }
   return out(
