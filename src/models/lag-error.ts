@@ -102,7 +102,9 @@ export function fitLagError(p: PreparedInputs, opts: { fixedRho?: number; fixedL
   };
   const constant = -0.5 * n * (Math.log(2 * Math.PI) + 1);
   const cheap = (rho: number, lambda: number): number => constant - 0.5 * n * Math.log(ssrAt(rho, lambda) / n);
-  const g = (t: number) => algebra.logdet.evaluate(t);
+  // the same value is asked for again and again (grid lines, the outer parameter of the nested search)
+  const seen = new Map<number, number>();
+  const g = (t: number) => { let v = seen.get(t); if (v === undefined) { v = algebra.logdet.evaluate(t); seen.set(t, v); } return v; };
 
   const { lo, hi } = searchInterval(algebra.range);
   let found: Search2d;
