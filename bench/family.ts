@@ -5,20 +5,15 @@
  * command line end to end with `--models lag-error` against `--models lag` (the target: within 3×).
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import { startNodeHelper } from '../src/cli/helper-thread.js';
 import { fitModel, fitOls } from '../src/models/index.js';
 import { csrMultiply } from '../src/linalg/csr.js';
 import { rookGrid } from './grid.js';
-import { gridGeoJson } from './grid-geojson.js';
+import { withBuiltCommandLineAndGrid } from './grid-geojson.js';
 import { seededUniform } from '../src/linalg/sparse/random.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
 const seconds = (t0: number) => +((performance.now() - t0) / 1000).toFixed(3);
 const median = (v: number[]) => { const s = [...v].sort((a, b) => a - b); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
 
@@ -62,13 +57,7 @@ export function familyFitsWorkload(rows = 300): Record<string, unknown> {
 
 /** The command line with --models lag-error against --models lag on the same 300 × 300 grid GeoJSON, three runs each, alternating. */
 export function commandLineLagErrorWorkload(): Record<string, unknown> {
-  const build = spawnSync('npm', ['run', '--silent', 'build'], { cwd: ROOT, encoding: 'utf8' });
-  if (build.status !== 0) throw new Error(`the build failed: ${build.stderr.split('\n').slice(0, 3).join(' | ')}`);
-  const dir = mkdtempSync(join(tmpdir(), 'spillway-bench-'));
-  try {
-    const file = join(dir, 'grid300.geojson');
-    writeFileSync(file, gridGeoJson(300, 300));
-    const bin = join(ROOT, 'bin/spillway.mjs');
+  return withBuiltCommandLineAndGrid(300, (bin, file) => {
     const run = (model: string) => {
       const a = performance.now();
       const r = spawnSync(process.execPath, [bin, 'fit', '--boundary', file, '--id', 'id', '--y', 'y', '--x', 'x1,x2', '--models', model, '--weights', 'rook', '--json'], { encoding: 'utf8', maxBuffer: 1 << 28 });
@@ -98,7 +87,5 @@ export function commandLineLagErrorWorkload(): Record<string, unknown> {
       lambda: last.lambda,
       note: 'spillway fit ... --models lag (with its effects) and --models lag-error, three runs each alternating; the target is a ratio within 3',
     };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
-  }
+  });
 }

@@ -244,8 +244,10 @@ export function familyReading(result: AnalysisResult): string {
     else if (!sig(toError) && choice === 'error') parts.push('The Durbin model reduces to the error model and the Lagrange-multiplier tests agree: the error model is the simpler description the data support.');
     else if (!sig(toLag) && !sig(toError) && choice === 'ols') parts.push('Neither restriction is rejected and the Lagrange-multiplier tests find no spatial dependence: the spatial terms add little here.');
     else parts.push('The two steps do not point to the same simpler model, so the spatial Durbin model, which contains both, is the safer choice.');
-  } else if (fits.durbin === undefined) {
-    parts.push('The spatial Durbin model was not fitted, or the lag and error models were not fitted beside it, so the second step cannot be taken here; fit all three to follow it.');
+  } else {
+    parts.push(fits.durbin === undefined
+      ? 'The spatial Durbin model was not fitted, so the second step cannot be taken here; fit it with the lag and error models to follow it.'
+      : 'The lag and error models were not both fitted beside the spatial Durbin model, so the second step cannot be completed here; fit all three to follow it.');
   }
   const slx = nested('slx', 'ols');
   if (slx) parts.push(`The neighbours' averages of the explanatory columns on their own (the neighbours' columns model, Halleck Vega & Elhorst 2015) ${sig(slx) ? 'add to the plain regression' : 'add little to the plain regression'} (${phrase(slx)}).`);
