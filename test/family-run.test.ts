@@ -210,3 +210,17 @@ describe('bad input for the models with neighbours’ columns', () => {
     expect(areasNeeded(modelEntry('lagError')!, 3)).toBe(7);
   });
 });
+
+describe('the reading says what is missing when only part of the family is fitted', () => {
+  it('the Durbin model alone: the second step cannot be completed', async () => {
+    const result = await runAnalysis({
+      boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+      models: ['durbin'], permutations: 0, impactDraws: 20,
+    });
+    const summary = buildReport(result).sheets.find((s) => s.role === 'overview')!;
+    const reading = summary.blocks.find((b) => b.kind === 'paragraph' && b.text.startsWith('How to choose among the models')) as { text: string };
+    expect(reading.text).toContain('The lag and error models were not both fitted beside the spatial Durbin model');
+    const tests = summary.blocks.find((b) => b.kind === 'table' && b.title === 'Tests between the models');
+    expect(tests).toBeUndefined(); // nothing it nests was fitted
+  });
+});
