@@ -104,12 +104,12 @@ function ringPath(ring: Ring): string {
   return pts.length >= 3 ? `M${pts.join('L')}Z` : '';
 }
 
-/** A one-pixel square centred on the middle of a ring's box: where an area too small to draw lies. */
+/** A one-pixel square at the middle of a ring's box: where an area too small to draw lies. */
 function dotPath(ring: Ring): string {
   let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
   for (const p of ring) { x0 = Math.min(x0, p[0]); x1 = Math.max(x1, p[0]); y0 = Math.min(y0, p[1]); y1 = Math.max(y1, p[1]); }
-  const x = c1((x0 + x1) / 2 - 0.5), y = c1((y0 + y1) / 2 - 0.5);
-  return `M${x} ${y}h1v1h-1Z`;
+  // on whole pixels, so that the square is one full pixel of the area's colour
+  return `M${Math.floor((x0 + x1) / 2)} ${Math.floor((y0 + y1) / 2)}h1v1h-1Z`;
 }
 
 /** True when a ring spans less than this in both directions: it would not show, so it gets a dot. */
