@@ -149,16 +149,45 @@ function circlePath(cx: number, cy: number, r: number): string {
   return `M${c1(cx - r)} ${c1(cy)}a${r} ${r} 0 1 0 ${2 * r} 0a${r} ${r} 0 1 0 ${-2 * r} 0Z`;
 }
 
+/** Path data of every polygonal area for one frame ('' for a point), with what the drawing did. */
+interface Shapes { d: string[]; dot: Uint8Array; enlarged: number; pointsBefore: number; pointsAfter: number; tolerance: number }
+
+/**
+ * The maps of one run share their areas and frame (outcome, residuals, local maps): their paths are
+ * worked out once per geometry list and frame, and kept while the list lives.
+ */
+const SHAPES = new WeakMap<readonly AreaGeometry[], Map<string, Shapes>>();
+
+function shapesOf(geoms: readonly AreaGeometry[], frame: Frame, orient: boolean): Shapes {
+  const key = `${frame.width} ${frame.height} ${frame.scale} ${frame.x(0, 0)} ${frame.y(0, 0)} ${orient}`;
+  let byFrame = SHAPES.get(geoms);
+  const kept = byFrame?.get(key);
+  if (kept) return kept;
+  const pointsBefore = countPoints(geoms);
+  const tolerance = pointsBefore > POINT_BUDGET ? SIMPLIFY_PX : 0;
+  const count = { after: 0 };
+  let enlarged = 0;
+  const dot = new Uint8Array(geoms.length);
+  const d = geoms.map((g, i) => {
+    if (g.kind === 'point') return '';
+    const a = areaPath(g, frame, tolerance, orient, count);
+    if (a.enlarged) { enlarged++; dot[i] = 1; }
+    return a.d;
+  });
+  const shapes: Shapes = { d, dot, enlarged, pointsBefore, pointsAfter: count.after, tolerance };
+  if (!byFrame) SHAPES.set(geoms, (byFrame = new Map()));
+  byFrame.set(key, shapes);
+  return shapes;
+}
+
 /**
  * The areas' SVG, inside a group moved down by `top` pixels; `fillOf(i)` is area i's fill.
  * Returns the SVG elements and how they were drawn.
  */
 export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: number, fillOf: (i: number) => string, look: AreaLook): { body: string[]; drawing: MapDrawing } {
   const many = geoms.length > MANY_AREAS;
-  const pointsBefore = countPoints(geoms);
-  const tolerance = pointsBefore > POINT_BUDGET ? SIMPLIFY_PX : 0;
-  const count = { after: 0 };
-  let enlarged = 0;
+  const shapes = shapesOf(geoms, frame, many);
+  const { tolerance, pointsBefore, pointsAfter, enlarged } = shapes;
   const body: string[] = [];
   if (!many) {
     body.push(`<g transform="translate(0 ${top})" stroke="${look.stroke}" stroke-width="${look.strokeWidth}" stroke-linejoin="round" fill-rule="evenodd">`);
@@ -169,10 +198,9 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
         body.push(`<circle cx="${c1(frame.x(g.point[0], g.point[1]))}" cy="${c1(frame.y(g.point[0], g.point[1]))}" r="${look.pointRadius}" fill="${fill}" stroke="${look.pointStroke}"/>`);
         continue;
       }
-      const a = areaPath(g, frame, tolerance, false, count);
-      if (a.enlarged) enlarged++;
+      const d = shapes.d[i];
       // an outline would cover most of a one-pixel square
-      if (a.d) body.push(`<path d="${a.d}" fill="${fill}"${a.enlarged ? ' stroke="none"' : ''}/>`);
+      if (d) body.push(`<path d="${d}" fill="${fill}"${shapes.dot[i] ? ' stroke="none"' : ''}/>`);
     }
     body.push('</g>');
   } else {
@@ -181,15 +209,9 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
     const r = Math.max(0.6, Math.min(look.pointRadius, 0.5 * Math.sqrt((frame.width * frame.height) / geoms.length)));
     for (let i = 0; i < geoms.length; i++) {
       const g = geoms[i];
-      const fill = fillOf(i);
-      let d: string;
-      if (g.kind === 'point') d = circlePath(frame.x(g.point[0], g.point[1]), frame.y(g.point[0], g.point[1]), +r.toFixed(2));
-      else {
-        const a = areaPath(g, frame, tolerance, true, count);
-        if (a.enlarged) enlarged++;
-        d = a.d;
-      }
+      const d = g.kind === 'point' ? circlePath(frame.x(g.point[0], g.point[1]), frame.y(g.point[0], g.point[1]), +r.toFixed(2)) : shapes.d[i];
       if (!d) continue;
+      const fill = fillOf(i);
       const list = byFill.get(fill);
       if (list) list.push(d); else byFill.set(fill, [d]);
     }
@@ -202,7 +224,7 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
     drawing: {
       areas: geoms.length,
       outlines: !many,
-      simplified: tolerance ? { tolerancePx: tolerance, toleranceMapUnits: tolerance / frame.scale, pointsBefore, pointsAfter: count.after } : null,
+      simplified: tolerance ? { tolerancePx: tolerance, toleranceMapUnits: tolerance / frame.scale, pointsBefore, pointsAfter } : null,
       enlarged,
     },
   };
@@ -220,5 +242,5 @@ export function describeDrawing(d: MapDrawing, coordinates: 'geographic' | 'proj
   }
   if (d.enlarged) parts.push(`${n(d.enlarged)} area${d.enlarged === 1 ? '' : 's'} too small to show drawn as one-pixel squares`);
   if (!parts.length) return null;
-  return `How this map of ${n(d.areas)} areas was drawn: ${parts.join('; ')}. Every area is on the map, and the tables hold the exact values.`;
+  return `Maps of ${n(d.areas)} areas are drawn simplified here: ${parts.join('; ')}. Every area is on the map, and the tables hold the exact values.`;
 }
