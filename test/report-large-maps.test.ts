@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { Resvg } from '@resvg/resvg-js';
 import type { AreaGeometry } from '../src/geo/types.js';
 import { buildReport, choroplethSvg, moranScatterSvg } from '../src/report/index.js';
-import { MANY_AREAS, POINT_BUDGET, SIMPLIFY_PX, drawAreas } from '../src/report/pictures/area-shapes.js';
+import { MANY_AREAS, POINT_BUDGET, SIMPLIFY_PX, describeDrawing, drawAreas } from '../src/report/pictures/area-shapes.js';
 import { MANY_POINTS } from '../src/report/pictures/moran-scatter.js';
 import { fitFrame } from '../src/report/pictures/projection.js';
 import { fakeResult } from './helpers/fake-result.js';
@@ -62,6 +62,13 @@ describe('maps of many areas', () => {
     const seen = drawnColours(svg);
     const missing = geoms.map((_, i) => i).filter((i) => !seen.has(colour(i)));
     expect(missing).toEqual([]);
+  });
+
+  it('says so when simplifying removed nothing (squares have no point to spare)', () => {
+    const geoms = grid(Math.ceil(Math.sqrt(POINT_BUDGET / 4 + 1)));
+    const { drawing } = mapSvg(geoms, colour);
+    expect(drawing.simplified!.pointsAfter).toBe(drawing.simplified!.pointsBefore);
+    expect(describeDrawing(drawing, 'projected')).toMatch(/boundaries drawn as they are: simplifying them to within 0\.5 pixel \(about [\d.]+ map units\) would remove none of their [\d,]+ points/);
   });
 
   it('groups areas of one colour in one path without losing any', () => {

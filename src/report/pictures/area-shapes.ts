@@ -238,7 +238,9 @@ export function describeDrawing(d: MapDrawing, coordinates: 'geographic' | 'proj
   if (d.simplified) {
     const s = d.simplified;
     const units = coordinates === 'projected' ? `${n(+s.toleranceMapUnits.toPrecision(2))} map units` : `${+s.toleranceMapUnits.toPrecision(2)} degrees`;
-    parts.push(`boundaries simplified to within ${s.tolerancePx} pixel of the true line (about ${units}; Ramer–Douglas–Peucker), ${n(s.pointsAfter)} boundary points drawn of ${n(s.pointsBefore)}`);
+    parts.push(s.pointsAfter < s.pointsBefore
+      ? `boundaries simplified to within ${s.tolerancePx} pixel of the true line (about ${units}; Ramer–Douglas–Peucker), ${n(s.pointsAfter)} boundary points drawn of ${n(s.pointsBefore)}`
+      : `boundaries drawn as they are: simplifying them to within ${s.tolerancePx} pixel (about ${units}) would remove none of their ${n(s.pointsBefore)} points`);
   }
   if (d.enlarged) parts.push(`${n(d.enlarged)} area${d.enlarged === 1 ? '' : 's'} too small to show drawn as one-pixel squares`);
   if (!parts.length) return null;
