@@ -108,8 +108,8 @@ describe('Moran scatter plot of many areas', () => {
     const n = MANY_POINTS + 5000;
     const z = Float64Array.from({ length: n }, (_, i) => Math.sin(i) * 2);
     const lag = Float64Array.from(z, (v, i) => 0.4 * v + 0.3 * Math.cos(i * 7));
-    const pic = moranScatterSvg('rate', { z, lag, slope: 0.4, leftOut: 0 }, 'slope');
-    expect(pic.drawingNote).toMatch(/25,000 areas .* every area is counted/);
+    const pic = moranScatterSvg('rate', { z, lag, slope: 0.4, leftOut: 0, areas: Int32Array.from({ length: n }, (_, i) => i) }, 'slope');
+    expect(pic.drawingNote).toMatch(/25,000 areas .* each area plotted is counted in its square/);
     expect(pic.svg).not.toContain('<circle');
     // the squares' classes add up: at least one square, at most one per area
     const squares = (pic.svg.match(/h2v2h-2Z/g) ?? []).length;

@@ -181,16 +181,24 @@ function shapesOf(geoms: readonly AreaGeometry[], frame: Frame, orient: boolean)
 }
 
 /**
- * The areas' SVG, inside a group moved down by `top` pixels; `fillOf(i)` is area i's fill.
- * Returns the SVG elements and how they were drawn.
+ * Path data of each polygonal area ('' for a point) as drawAreas draws it on this frame: for
+ * overlays such as hatching drawn over chosen areas.
  */
-export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: number, fillOf: (i: number) => string, look: AreaLook): { body: string[]; drawing: MapDrawing } {
+export function areaPaths(geoms: readonly AreaGeometry[], frame: Frame): readonly string[] {
+  return shapesOf(geoms, frame, geoms.length > MANY_AREAS).d;
+}
+
+/**
+ * The areas' SVG, inside a group moved right by `left` and down by `top` pixels; `fillOf(i)` is
+ * area i's fill. Returns the SVG elements and how they were drawn.
+ */
+export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: number, fillOf: (i: number) => string, look: AreaLook, left = 0): { body: string[]; drawing: MapDrawing } {
   const many = geoms.length > MANY_AREAS;
   const shapes = shapesOf(geoms, frame, many);
   const { tolerance, pointsBefore, pointsAfter, enlarged } = shapes;
   const body: string[] = [];
   if (!many) {
-    body.push(`<g transform="translate(0 ${top})" stroke="${look.stroke}" stroke-width="${look.strokeWidth}" stroke-linejoin="round" fill-rule="evenodd">`);
+    body.push(`<g transform="translate(${left} ${top})" stroke="${look.stroke}" stroke-width="${look.strokeWidth}" stroke-linejoin="round" fill-rule="evenodd">`);
     for (let i = 0; i < geoms.length; i++) {
       const g = geoms[i];
       const fill = fillOf(i);
@@ -215,7 +223,7 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
       const list = byFill.get(fill);
       if (list) list.push(d); else byFill.set(fill, [d]);
     }
-    body.push(`<g transform="translate(0 ${top})" stroke="none" fill-rule="nonzero">`);
+    body.push(`<g transform="translate(${left} ${top})" stroke="none" fill-rule="nonzero">`);
     for (const [fill, ds] of byFill) body.push(`<path d="${ds.join('')}" fill="${fill}"/>`);
     body.push('</g>');
   }

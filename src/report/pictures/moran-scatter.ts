@@ -15,6 +15,8 @@ export interface ScatterData {
   /** least-squares slope of lag on z through the origin: Moran's I under row-standardised weights */
   slope: number;
   leftOut: number;
+  /** the area (index in table order) of each point */
+  areas: Int32Array;
 }
 
 /**
@@ -41,7 +43,7 @@ export function moranScatterData(values: ArrayLike<number>, edges: Edges): Scatt
   const lk = Float64Array.from(keep, (i) => sum[i] / wsum[i]);
   let num = 0, den = 0;
   for (let i = 0; i < zk.length; i++) { num += zk[i] * lk[i]; den += zk[i] * zk[i]; }
-  return { z: zk, lag: lk, slope: den > 0 ? num / den : 0, leftOut: n - keep.length };
+  return { z: zk, lag: lk, slope: den > 0 ? num / den : 0, leftOut: n - keep.length, areas: Int32Array.from(keep) };
 }
 
 const SIZE = 460, M = { left: 62, right: 20, top: 44, bottom: 70 };
@@ -106,7 +108,7 @@ export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel
     const d = densitySquares(data, sx, sy);
     body.push(...d.body);
     const n = data.z.length.toLocaleString('en-US');
-    drawingNote = `With ${n} areas the plot shows how many areas fall in each ${BIN_PX}-pixel square (${d.squares.toLocaleString('en-US')} squares) instead of one dot per area; every area is counted.`;
+    drawingNote = `With ${n} areas the plot shows how many areas fall in each ${BIN_PX}-pixel square (${d.squares.toLocaleString('en-US')} squares) instead of one dot per area; each area plotted is counted in its square.`;
     // the key: one swatch per class, under the axis label
     let x = M.left;
     const y = M.top + SIZE + 52;
