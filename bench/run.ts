@@ -9,7 +9,9 @@
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
  *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
  *  - the results workbook (--out) against --json on the same grid, back to back (bench/results-workbook.ts);
- *    at 500×500 only with --with-large (several minutes).
+ *    at 500×500 only with --with-large (several minutes);
+ *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
+ *    (bench/input-checks.ts).
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
  */
 import { spawnSync } from 'node:child_process';
@@ -34,6 +36,7 @@ import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
 import { resultsWorkbookWorkload } from './results-workbook.js';
+import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 
@@ -316,6 +319,8 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'local statistics 300x300': () => localStatisticsWorkload(300),
   'results workbook 300x300': () => resultsWorkbookWorkload(300, 3),
   'results workbook 500x500': () => resultsWorkbookWorkload(500, 1),
+  'zip understating its size': understatedZipWorkload,
+  'overlap checks': overlapChecksWorkload,
 };
 
 /** Workloads left out of a full run unless asked for with --with-large. */
