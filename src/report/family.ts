@@ -56,7 +56,7 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     { kind: 'paragraph', style: 'note', text: `${capital(entry.about)}. ${modelInWords(entry.key)}` },
     {
-      kind: 'table', title: extra.covarianceKind && extra.covarianceKind !== 'classical' ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
+      kind: 'table', title: extra.covarianceKind && extra.covarianceKind !== 'classical' && !extra.robustCoefficients ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
       columns, rows: [...coefficientRows(fit.coefficients), ...paramRows],
       note: `${lagged ? 'A “neighbours’ average of” term is that column averaged over each area’s neighbours under the weights used. ' : ''}${MARK_NOTE}`,
     },
