@@ -1,7 +1,10 @@
 /**
  * Builds and serves the add-in (task pane + cell functions) and the no-install browser page.
  *   npm run build:addin   → dist-addin/
- *   npm run serve         → https://localhost:3000 (office-addin-dev-certs); SPILLWAY_HTTP=1 for plain http
+ *   npm run serve         → http://localhost:3000 (the browser page: no certificate, no sudo)
+ *   npm run serve:excel   → https://localhost:3000 with the Office development certificate (mode "excel"; Excel
+ *                           needs https, and the first time office-addin-dev-certs installs its certificate
+ *                           authority, which may ask for an administrator's password)
  * Output paths the manifest names (taskpane/index.html, functions.js, functions.json, assets/icon-*.png)
  * carry no content hash so the manifest can point at them.
  */
@@ -111,16 +114,32 @@ function noDynamicCode(): Plugin {
   };
 }
 
-export default defineConfig(async ({ command }): Promise<UserConfig> => {
-  let https: { key: Buffer; cert: Buffer; ca: Buffer } | undefined;
-  if (command === 'serve' && process.env.SPILLWAY_HTTP !== '1') {
-    try {
-      const certs = await import('office-addin-dev-certs');
-      https = (await certs.getHttpsServerOptions()) as typeof https;
-    } catch (e) {
-      console.warn(`Could not set up the development certificate (${e instanceof Error ? e.message : String(e)}); serving plain http. Excel needs https.`);
-    }
+/**
+ * Pre-bundled at the dev server's start: every library the page, the task pane, the cell functions and
+ * the engine worker import. Listed (and the worker named as an entry) so that none is found late,
+ * which would make the server re-bundle and reload the page, losing the file the analyst just chose.
+ */
+export const PREBUNDLED = [
+  '@fluentui/web-components', '@fluentui/web-components/button.js', '@fluentui/web-components/progress-bar.js',
+  '@fluentui/web-components/message-bar.js', '@fluentui/tokens',
+  'exceljs', 'papaparse', 'fflate', 'jstat', 'ml-matrix', 'kdbush', 'geokdbush', 'shapefile', 'topojson-client',
+  '@turf/boolean-point-in-polygon',
+];
+const SCANNED_ENTRIES = ['page/index.html', 'taskpane/index.html', 'help/index.html', 'functions/register.ts', 'shared/worker.ts'];
+
+/** https with the Office development certificate, only when asked for (the Excel route); the page needs none. */
+async function officeCertificate(): Promise<{ key: Buffer; cert: Buffer; ca: Buffer }> {
+  try {
+    const certs = await import('office-addin-dev-certs');
+    return (await certs.getHttpsServerOptions()) as { key: Buffer; cert: Buffer; ca: Buffer };
+  } catch (e) {
+    throw new Error(`Could not set up the Office development certificate (${e instanceof Error ? e.message : String(e)}). ` +
+      'Excel needs it; the browser page does not: `npm run serve` serves the page over plain http.');
   }
+}
+
+export default defineConfig(async ({ command, mode }): Promise<UserConfig> => {
+  const https = command === 'serve' && mode === 'excel' ? await officeCertificate() : undefined;
   return {
     root: ROOT,
     base: '/',
@@ -130,6 +149,7 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
       alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
     },
     plugins: [cellFunctionMetadata(), securityHeaders(), noDynamicCode()],
+    optimizeDeps: { entries: SCANNED_ENTRIES, include: PREBUNDLED },
     worker: {
       format: 'es',
       plugins: () => [noDynamicCode()],

@@ -6,10 +6,12 @@ import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
 import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
-import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
+import { buildReport, moranScatterData } from '../../src/report/index.js';
+import type { WeightsSpec } from '../../src/weights/index.js';
+import { buildWeights, suggestBandDistance, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import { runSummary, summaryLines } from './run-summary.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
@@ -60,23 +62,21 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...base.warnings, ...joined.warnings] };
   try {
     const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
-    const w = buildWeights(
-      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined },
-      c.weights,
-      { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
-    );
+    const input = { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined };
+    let spec = c.weights;
+    if (spec.method === 'band') {
+      result.bandSuggestion = suggestBandDistance(input);
+      if (spec.distance === undefined) {
+        if (!result.bandSuggestion) throw new InputError('Every area shares its location with another, so no distance can be suggested; give the band distance yourself.');
+        spec = { method: 'band', distance: result.bandSuggestion.distance };
+      }
+    }
+    const w = buildWeights(input, spec as WeightsSpec, { transform: c.transform, linkUnneighboured: c.linkUnneighboured });
     result.neighbours = { ...summarizeWeights(w), description: w.description, ...(w.tiesDecided ? { tiesWarning: tieWarning(w.tiesDecided, w.spec) } : {}) };
   } catch (e) {
     result.neighboursError = asEngineError(e);
   }
   return result;
-}
-
-function headline(r: AnalysisResult): string {
-  const parts = [`${r.n} areas`, `Moran's I of ${r.request.y} ${r.moranY.I.toFixed(3)}`];
-  if (r.lag) parts.push(`${MODEL_LABEL.lag}: ρ = ${r.lag.parameter.toFixed(3)}`);
-  if (r.error) parts.push(`${MODEL_LABEL.error}: λ = ${r.error.parameter.toFixed(3)}`);
-  return parts.join(' · ');
 }
 
 async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunOutput> {
@@ -88,10 +88,12 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
   // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
   const report = buildReport(result);
   const d = moranScatterData(result.y, result.weights.edges);
+  const summary = runSummary(result);
   return {
     report,
     scatter: { valueName: result.request.y, z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope },
-    headline: headline(result),
+    summary,
+    headline: summaryLines(summary).join(' '),
     warnings: result.warnings,
   };
 }

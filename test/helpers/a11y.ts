@@ -1,0 +1,38 @@
+/**
+ * Accessibility checks for the browser tests: axe-core (the open rules engine, injected from its
+ * npm package) run against the WCAG 2.0/2.1 level A and AA rules, and the screen-reader tree of a
+ * control read with playwright's aria snapshot.
+ */
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import type { Page } from 'playwright-core';
+
+const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+/** WCAG 2.1 level AA includes the level A rules and those of 2.0. */
+export const WCAG_21_AA = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'];
+
+export interface AxeFinding {
+  rule: string;
+  impact: string | null;
+  help: string;
+  targets: string[];
+}
+
+/**
+ * axe-core's findings on the page as it stands, WCAG 2.1 AA only. The source goes in through the
+ * debugging protocol (page.evaluate), not a script tag, so the page's Content-Security-Policy stays
+ * as strict as users get it.
+ */
+export async function axeFindings(page: Page): Promise<AxeFinding[]> {
+  const has = await page.evaluate('typeof window.axe === "object"');
+  if (!has) await page.evaluate(AXE_SOURCE);
+  const result = (await page.evaluate(`window.axe.run(document, { runOnly: { type: 'tag', values: ${JSON.stringify(WCAG_21_AA)} }, resultTypes: ['violations'] })`)) as {
+    violations: { id: string; impact: string | null; help: string; nodes: { target: unknown[] }[] }[];
+  };
+  return result.violations.map((v) => ({ rule: v.id, impact: v.impact, help: v.help, targets: v.nodes.map((n) => n.target.map(String).join(' ')) }));
+}
+
+/** A one-line-per-finding text for an assertion message. */
+export function describeFindings(findings: AxeFinding[]): string {
+  return findings.map((f) => `${f.rule} (${f.impact}): ${f.help} — ${f.targets.slice(0, 4).join(', ')}`).join('\n');
+}
