@@ -346,12 +346,12 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
 
   // ---- 4 Model
   function drawModel() {
-    clear(model.body);
     const p = s.profile;
-    if (!p) { model.body.append(h('p', { class: 'hint' }, 'Choose the data first.')); return; }
+    if (!p) { clear(model.body, h('p', { class: 'hint' }, 'Choose the data first.')); return; }
     const candidates = p.numeric.filter((c) => c !== s.id);
     const outcomes = [{ value: '', text: '(choose the outcome)' }, ...candidates.map((c) => ({ value: c, text: c }))];
-    model.body.append(
+    // one replacement, so the control that had the focus gets it back (dom.ts clear)
+    clear(model.body,
       select('y-column', 'Outcome to explain', outcomes, s.y ?? '', (v) => { s.y = v || undefined; if (v) s.x.delete(v); drawModel(); drawLocal(); }),
       h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
         ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, c, s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); drawRateParts(); }))),

@@ -36,3 +36,39 @@ export async function axeFindings(page: Page): Promise<AxeFinding[]> {
 export function describeFindings(findings: AxeFinding[]): string {
   return findings.map((f) => `${f.rule} (${f.impact}): ${f.help} — ${f.targets.slice(0, 4).join(', ')}`).join('\n');
 }
+
+/** ids used by more than one element (a label or a focus jump would go to the wrong control). */
+export async function repeatedIds(page: Page): Promise<string[]> {
+  return (await page.evaluate(`(() => {
+    const seen = new Map();
+    for (const el of document.querySelectorAll('[id]')) seen.set(el.id, (seen.get(el.id) ?? 0) + 1);
+    return [...seen].filter(([, n]) => n > 1).map(([id]) => id);
+  })()`)) as string[];
+}
+
+/** Everything the browser tests check about accessibility at one step: axe's WCAG 2.1 AA rules and unique ids. */
+export async function accessibilityProblems(page: Page): Promise<string> {
+  const findings = await axeFindings(page);
+  const ids = await repeatedIds(page);
+  return [describeFindings(findings), ids.length ? `ids used more than once: ${ids.join(', ')}` : ''].filter(Boolean).join('\n');
+}
+
+/**
+ * The focused element as a screen reader gets it: role and accessible name from Chromium's own
+ * accessibility tree (through the debugging protocol), not from the DOM.
+ */
+export async function focusedAsRead(page: Page): Promise<{ role: string; name: string; tag: string; id: string }> {
+  const cdp = await page.context().newCDPSession(page);
+  try {
+    const { result } = (await cdp.send('Runtime.evaluate', { expression: 'document.activeElement' })) as { result: { objectId?: string } };
+    const tagAndId = (await page.evaluate('[document.activeElement?.tagName ?? "", document.activeElement?.id ?? ""]')) as [string, string];
+    if (!result.objectId) return { role: '', name: '', tag: tagAndId[0], id: tagAndId[1] };
+    const { nodes } = (await cdp.send('Accessibility.getPartialAXTree', { objectId: result.objectId, fetchRelatives: false })) as {
+      nodes: { ignored?: boolean; role?: { value?: string }; name?: { value?: string } }[];
+    };
+    const node = nodes.find((n) => !n.ignored) ?? nodes[0];
+    return { role: String(node?.role?.value ?? ''), name: String(node?.name?.value ?? ''), tag: tagAndId[0], id: tagAndId[1] };
+  } finally {
+    await cdp.detach();
+  }
+}
