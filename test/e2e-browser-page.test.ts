@@ -20,6 +20,7 @@ import { suggestBandDistance } from '../src/weights/index.js';
 // The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const document: any;
+declare const localStorage: any;
 type HTMLElement = any;
 
 const XLSX = join(ROOT, 'sample-workbooks/vell-basin.xlsx');
@@ -190,10 +191,15 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
       }
       throw new Error(`Tab never reached #${id}; stops: ${stops.map((st) => st.id || st.tag).join(' ')}`);
     };
+    // the file dialog answered by the test; listened for from the start, so the browser is told to hand
+    // it over before the first key press (a listener added just before could lose that race)
+    const files: string[] = [];
+    const onChooser = (chooser: { setFiles(f: string): Promise<void> }) => { void chooser.setFiles(files.shift()!); };
+    page.on('filechooser', onChooser);
+    await page.waitForTimeout(100);
     const openWith = async (file: string) => {
-      const chooser = page.waitForEvent('filechooser');
+      files.push(file);
       await page.keyboard.press('Enter');
-      await (await chooser).setFiles(file);
     };
     await tabTo('open-data');
     await openWith(XLSX);
@@ -225,6 +231,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(stops.filter((st) => st.tag === 'INPUT' && /file/.test(st.id))).toEqual([]);
     expect(stops.some((st) => st.role === 'checkbox' && st.name === 'rail_km')).toBe(true);
     expect(stops.some((st) => st.role === 'combobox' && st.name === 'Outcome to explain')).toBe(true);
+    page.off('filechooser', onChooser);
   }, 60_000);
 
   it('offers to re-run with the suggested model when it was not fitted, and the re-run fits it', async () => {

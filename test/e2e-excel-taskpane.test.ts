@@ -165,6 +165,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.evaluate(() => { window.__excel.failWhen = (c: any) => c.kind === 'addXmlPart'; });
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
