@@ -89,8 +89,5 @@ export function message(intent: 'error' | 'warning' | 'info' | 'success', text: 
   return bar;
 }
 
-/** "a; b; c; and 4 more" */
-export function some<T>(items: readonly T[], show: (t: T) => string, max = 8): string {
-  const shown = items.slice(0, max).map(show).join('; ');
-  return items.length > max ? `${shown}; and ${items.length - max} more` : shown;
-}
+// lists in sentences live in a DOM-free module so pure helpers can use them too
+export { some } from './text.js';

@@ -3,7 +3,6 @@
  * found. Shared by the Excel task pane and the browser page; the host supplies the table and
  * writes the results. The engine runs in a worker (EngineClient).
  */
-import type { JoinReport } from '../../src/geo/index.js';
 import type { NamedBytesLike } from '../../src/pipeline/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
 import { button, checkbox, clear, h, message, numberInput, select, setDisabled, some } from './dom.js';
@@ -11,6 +10,7 @@ import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckRequest, CheckResult, EngineError } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
+import { joinProblemLines } from './join-lines.js';
 import { rateParts } from './rate-parts.js';
 import { modelWords, summaryLines, type RunSummary, type SpatialModel } from './run-summary.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
@@ -232,18 +232,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
 
   function drawJoin(r: CheckResult) {
-    const j: JoinReport = r.join;
-    const lines: string[] = [];
-    // a failed join's red box names every problem that stops it; the list keeps only what it leaves out
-    if (r.joinError) {
-      if (j.unmatchedFeatures.length) lines.push(`Also, areas with no row (not a problem by itself): ${some(j.unmatchedFeatures, (u) => `${u.id} (feature ${u.feature})`)}.`);
-    } else if (j.unmatchedRows.length) lines.push(`Rows with no matching area: ${some(j.unmatchedRows, (u) => `row ${u.row} (${u.id})`)}.`);
-    if (j.unmatchedFeatures.length) lines.push(`Areas with no row: ${some(j.unmatchedFeatures, (u) => `${u.id} (feature ${u.feature})`)}.`);
-    if (j.duplicateRows.length) lines.push(`IDs on more than one row: ${some(j.duplicateRows, (d) => `${d.id} on rows ${d.rows.join(', ')}`)}.`);
-    if (j.duplicateFeatures.length) lines.push(`IDs on more than one area: ${some(j.duplicateFeatures, (d) => `${d.id} (features ${d.features.join(', ')})`)}.`);
-    if (j.blankRows.length) lines.push(`Rows with no ID: ${some(j.blankRows, (n) => `row ${n}`)}.`);
-    if (j.withoutGeometry.length) lines.push(`Matched areas without a shape: ${some(j.withoutGeometry, (g) => `${g.id} (row ${g.row})`)}.`);
-    if (j.zeroPaddingSuspects.length) lines.push(`IDs that differ only by leading zeros: ${some(j.zeroPaddingSuspects, (z) => `${z.tableId} / ${z.featureId}`)}. Make them the same in both places.`);
+    const lines = joinProblemLines(r.join, Boolean(r.joinError));
     const property = boundaryId();
     const by = property ? `${s.id} (called ${property} in the boundary file)` : s.id;
     const idChoice: HTMLElement[] = [];
