@@ -50,11 +50,11 @@ export function runSummary(r: AnalysisResult): RunSummary {
 const MODEL_WORDS: Record<SpatialModel, string> = { lag: 'spatial lag model', error: 'spatial error model' };
 const SYMBOL: Record<SpatialModel, string> = { lag: 'ρ', error: 'λ' };
 
-/** "p < 0.001", "p = 0.023", "p = 0.41" */
+/** Two significant figures, so a p near a threshold shows which side it is on: "p < 0.001", "p = 0.0045", "p = 0.053", "p = 0.41". */
 export function pText(p: number): string {
   if (!Number.isFinite(p)) return 'p not available';
   if (p < 0.001) return 'p < 0.001';
-  return `p = ${p < 0.01 ? p.toFixed(3) : p.toFixed(2)}`;
+  return `p = ${Number(p.toPrecision(2))}`;
 }
 
 export function modelWords(models: SpatialModel[]): string {

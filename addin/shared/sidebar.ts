@@ -112,6 +112,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     s.y = keep(saved?.y) ?? keep(s.y);
     if (s.y === s.id) s.y = undefined;
     s.x = new Set((saved?.x ?? [...s.x]).filter((c) => p.numeric.includes(c) && c !== s.y && c !== s.id));
+    newPlaces(); // other rows may match other areas
     drawData();
     drawAreas();
     drawModel();
