@@ -20,6 +20,8 @@ export interface RunSummary {
     models: SpatialModel[];
     /** of those, the ones this run did not fit */
     notFitted: SpatialModel[];
+    /** the call turns on p-values close to the significance level: both models should be reported */
+    borderline: boolean;
   };
   /** the spatial models fitted, with their spatial parameter */
   fitted: { model: SpatialModel; parameter: number }[];
@@ -32,17 +34,27 @@ export function suggestedModels(choice: string): SpatialModel[] {
   return [];
 }
 
+/**
+ * What a recommendation may say beyond its choice: the models it asks to be reported, whether the
+ * call is borderline, and which of them this run did not fit. Read when the engine gives them;
+ * otherwise derived from the choice and the models fitted.
+ */
+type RecommendationDetail = { models?: readonly string[]; notFitted?: readonly string[]; borderline?: boolean };
+const isSpatial = (m: string): m is SpatialModel => m === 'lag' || m === 'error';
+
 export function runSummary(r: AnalysisResult): RunSummary {
   const rec = r.ols.recommendation;
-  const models = suggestedModels(rec.choice);
+  const detail = rec as typeof rec & RecommendationDetail;
+  const models = detail.models ? detail.models.filter(isSpatial) : suggestedModels(rec.choice);
   const fitted: RunSummary['fitted'] = [];
   if (r.lag) fitted.push({ model: 'lag', parameter: r.lag.parameter });
   if (r.error) fitted.push({ model: 'error', parameter: r.error.parameter });
+  const notFitted = detail.notFitted ? detail.notFitted.filter(isSpatial) : models.filter((m) => !fitted.some((f) => f.model === m));
   return {
     n: r.n,
     outcome: r.request.y,
     residualMoran: { I: r.ols.moran.I, p: r.ols.moran.p },
-    suggestion: { choice: rec.choice, text: rec.text, models, notFitted: models.filter((m) => !fitted.some((f) => f.model === m)) },
+    suggestion: { choice: rec.choice, text: rec.text, models, notFitted, borderline: detail.borderline ?? false },
     fitted,
   };
 }
@@ -68,7 +80,9 @@ export function summaryLines(s: RunSummary): string[] {
   if (models.length === 0) {
     lines.push('Suggested model: the plain regression (the Lagrange-multiplier tests give no reason for a spatial model).');
   } else {
-    const which = models.length === 2 ? 'both spatial models (the tests do not separate them)' : `the ${modelWords(models)}`;
+    const which = models.length === 2
+      ? `both spatial models (${s.suggestion.borderline ? 'a borderline call' : 'the tests do not separate them'})`
+      : `the ${modelWords(models)}${s.suggestion.borderline ? ' (a borderline call)' : ''}`;
     const state = notFitted.length === 0 ? 'fitted in this run' : notFitted.length === models.length ? 'not fitted in this run' : `the ${modelWords(notFitted)} was not fitted in this run`;
     lines.push(`Suggested by the Lagrange-multiplier tests: ${which}; ${state}.`);
   }
