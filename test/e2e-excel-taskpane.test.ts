@@ -99,7 +99,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
     expect(await accessibilityProblems(page), 'the sheet read').toBe('');
     expect(await page.inputValue('#y-column')).toBe(''); // the outcome is the analyst's to choose
-    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR']);
+    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR', 'RATEGLOBAL', 'RATELOCAL', 'RATEMORAN']);
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();

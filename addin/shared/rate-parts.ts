@@ -134,3 +134,11 @@ function byNames(outcome: string, column: string, values: number[]): RatePart | 
   if (!shared) return undefined;
   return { column, role: 'either', evidence: `${outcome} is named as a rate and ${column} is a count of the same thing ("${shared}")` };
 }
+
+/** For a rate built in the sidebar from two columns, the ticked columns that are its own counts: known, not guessed. */
+export function builtRateParts(recipe: { name: string; events: string; population: string; per: number }, ticked: string[]): RatePart[] {
+  const made = `${recipe.name} is built above as ${recipe.events} per ${recipe.per.toLocaleString('en-GB')} ${recipe.population}`;
+  return ticked.flatMap((c): RatePart[] =>
+    c === recipe.events ? [{ column: c, role: 'numerator', evidence: made }]
+      : c === recipe.population ? [{ column: c, role: 'denominator', evidence: made }] : []);
+}

@@ -11,8 +11,9 @@ import type { CheckRequest, CheckResult, EngineError } from './engine-protocol.j
 import type { SidebarHost, TableSource } from './host.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import { joinProblemLines } from './join-lines.js';
-import { rateParts } from './rate-parts.js';
+import { builtRateParts, rateParts } from './rate-parts.js';
 import { modelWords, summaryLines, type RunSummary, type SpatialModel } from './run-summary.js';
+import { mountRateBuilder } from './rate-builder.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
 type Method = WeightsSpec['method'];
@@ -80,6 +81,17 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const model = step(4, 'Model');
   const local = step(5, 'Where is the pattern?');
   const run = step(6, 'Run');
+  // "Build a rate from two columns" sits at the top of the model step; its rates join the column lists
+  const rateBuilder = mountRateBuilder(() => (s.profile ? s.profile.numeric.filter((c) => c !== s.id) : []), () => {
+    const names = modelColumns();
+    if (s.y && !names.includes(s.y)) s.y = undefined; // never a guess: the analyst chooses again
+    for (const c of [...s.x]) if (!names.includes(c)) s.x.delete(c);
+    if (s.local.of.startsWith('rate:') && !rateBuilder.names().includes(s.local.of.slice(5))) s.local.of = 'outcome';
+    drawModel();
+    drawLocal();
+  });
+  /** the columns a model may use: the table's numeric columns (not the ID) and the rates built here */
+  const modelColumns = () => [...(s.profile ? s.profile.numeric.filter((c) => c !== s.id) : []), ...rateBuilder.names()];
 
   /** An error shown inline; for bad input with a row, names the cell (and in Excel offers to show it). */
   const showError = (where: HTMLElement, e: unknown) => {
@@ -108,10 +120,12 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const p = s.profile;
     const keep = (c?: string) => (c && source.table.headers.includes(c) ? c : undefined);
     s.id = keep(saved?.id) ?? keep(s.id) ?? p.suggestedId;
+    rateBuilder.refresh();
+    const rate = (c?: string) => (c && rateBuilder.names().includes(c) ? c : undefined);
     // the outcome is the analyst's choice: kept from the last setup when the column is there, never guessed
-    s.y = keep(saved?.y) ?? keep(s.y);
+    s.y = keep(saved?.y) ?? rate(saved?.y) ?? keep(s.y) ?? rate(s.y);
     if (s.y === s.id) s.y = undefined;
-    s.x = new Set((saved?.x ?? [...s.x]).filter((c) => p.numeric.includes(c) && c !== s.y && c !== s.id));
+    s.x = new Set((saved?.x ?? [...s.x]).filter((c) => (p.numeric.includes(c) || rateBuilder.names().includes(c)) && c !== s.y && c !== s.id));
     newPlaces(); // other rows may match other areas
     drawData();
     drawAreas();
@@ -338,13 +352,16 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function drawModel() {
     const p = s.profile;
     if (!p) { clear(model.body, h('p', { class: 'hint' }, 'Choose the data first.')); return; }
-    const candidates = p.numeric.filter((c) => c !== s.id);
-    const outcomes = [{ value: '', text: '(choose the outcome)' }, ...candidates.map((c) => ({ value: c, text: c }))];
+    const candidates = modelColumns();
+    const rates = rateBuilder.names();
+    const shown = (c: string) => (rates.includes(c) ? `${c} (rate built above)` : c);
+    const outcomes = [{ value: '', text: '(choose the outcome)' }, ...candidates.map((c) => ({ value: c, text: shown(c) }))];
     // one replacement, so the control that had the focus gets it back (dom.ts clear)
     clear(model.body,
+      rateBuilder.element,
       select('y-column', 'Outcome to explain', outcomes, s.y ?? '', (v) => { s.y = v || undefined; if (v) s.x.delete(v); drawModel(); drawLocal(); }),
       h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
-        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, c, s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); drawRateParts(); }))),
+        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, shown(c), s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); drawRateParts(); }))),
       rateWarnings,
       h('fieldset', { class: 'models' }, h('legend', {}, 'Models (the plain regression is always fitted)'),
         checkbox('model-lag', 'Spatial lag: the outcome depends on the neighbours’ outcome', s.lag, (v) => { s.lag = v; }),
@@ -361,7 +378,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   function drawRateParts() {
     const t = s.source?.table;
     const ticked = [...s.x];
-    const found = t && s.y && ticked.length ? rateParts(t, s.y, ticked, s.profile!.numeric) : [];
+    const built = rateBuilder.request()?.recipes.find((r) => r.name === s.y);
+    const found = !t || !s.y || !ticked.length ? [] : built ? builtRateParts(built, ticked) : rateParts(t, s.y, ticked, s.profile!.numeric);
     clear(rateWarnings, ...found.map((f) => message('warning',
       `${f.column} looks like ${f.role === 'numerator' ? 'the numerator of' : f.role === 'denominator' ? 'the denominator of' : 'the numerator or denominator of'} the rate ${s.y} (${f.evidence}). ` +
       `Explaining a rate by its own counts explains it by construction, not by anything about the areas; untick ${f.column} unless that is what you mean.`)));
@@ -379,6 +397,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         select('local-of', 'Of which values', [
           { value: 'outcome', text: `The outcome${s.y ? ` (${s.y})` : ''}` },
           { value: 'residuals', text: 'The plain regression’s residuals' },
+          ...rateBuilder.names().map((c) => ({ value: `rate:${c}`, text: `${c}, standardised (fair to small areas)` })),
           ...columns.filter((c) => c !== s.y).map((c) => ({ value: c, text: c })),
         ], l.of, (v) => { l.of = v; }),
         h('fieldset', { class: 'local-statistics' }, h('legend', {}, 'Statistics'),
@@ -441,6 +460,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       ...(s.method === 'band' && s.distanceFromData ? { bandFromData: true } : {}),
       ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
+      ...(rateBuilder.names().length ? { rates: rateBuilder.choices() } : {}),
     };
   }
 
@@ -467,6 +487,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
+        ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),
       } }, onProgress);
       onProgress(0.94, 'Writing the results');
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
@@ -482,6 +503,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (notKept) run.found.append(message('warning', notKept));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       for (const w of output.warnings) run.found.append(message('warning', w));
+      const rateMaps = output.report.sheets.find((sheet) => sheet.role === 'rates')?.images ?? [];
+      if (rateMaps.length) {
+        run.found.append(h('div', { class: 'rate-maps' }, ...rateMaps.map((m) =>
+          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+      }
       const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
       if (maps.length) {
         run.found.append(h('div', { class: 'local-maps' }, ...maps.map((m) =>
@@ -532,6 +558,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       s.robust = saved.robust ?? false;
       s.dropMissing = saved.dropMissing ?? false;
       if (saved.areas?.kind === 'points') s.areas = { kind: 'points', x: saved.areas.xColumn, y: saved.areas.yColumn };
+      rateBuilder.restore(saved.rates);
       drawNeighbourControls();
       drawModel();
       // the table may have arrived before the setup did

@@ -24,6 +24,8 @@ export interface AxeFinding {
  * as strict as users get it.
  */
 export async function axeFindings(page: Page): Promise<AxeFinding[]> {
+  // colours are measured as they rest, not half-way through a transition (a button just enabled fades in)
+  await page.evaluate('Promise.all(document.getAnimations().map((a) => a.finished.catch(() => undefined)))');
   const has = await page.evaluate('typeof window.axe === "object"');
   if (!has) await page.evaluate(AXE_SOURCE);
   const result = (await page.evaluate(`window.axe.run(document, { runOnly: { type: 'tag', values: ${JSON.stringify(WCAG_21_AA)} }, resultTypes: ['violations'] })`)) as {
