@@ -1,9 +1,10 @@
 /**
  * End to end in a real browser (Debian's Chromium driven by playwright-core): the no-install page
- * opens the Vell Basin workbook and district boundaries, runs a spatial lag model in its worker,
- * and downloads the result workbook, which is read back with exceljs. At every step the page is
- * checked against the WCAG 2.1 AA rules of axe-core (test/helpers/a11y.ts), and one run of the whole
- * job uses the keyboard only, reading each stop's name from Chromium's accessibility tree.
+ * opens the Vell Basin workbook and district boundaries, runs the plain regression and every spatial
+ * model (the default) in its worker, and downloads the result workbook, which is read back with
+ * exceljs. At every step the page is checked against the WCAG 2.1 AA rules of axe-core
+ * (test/helpers/a11y.ts), and one run of the whole job uses the keyboard only, reading each stop's
+ * name from Chromium's accessibility tree.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -16,6 +17,7 @@ import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from 
 import { accessibilityProblems, focusedAsRead } from './helpers/a11y.js';
 import { readBoundary, representativePoints } from '../src/geo/index.js';
 import { suggestBandDistance } from '../src/weights/index.js';
+import { MODELS } from '../src/models/index.js';
 
 // The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -93,7 +95,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(csp).not.toContain('unsafe-eval');
   });
 
-  it('opens the workbook and the boundaries, runs a spatial lag model, and downloads a workbook with the results', async () => {
+  it('opens the workbook and the boundaries, runs the models (all ticked by default), and downloads a workbook with the results', async () => {
     await page.goto(`${origin}/page/index.html`);
     await expectAccessible('the empty page');
     await picture('browser-page-start');
@@ -112,6 +114,9 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
 
     await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    // the models offered are the engine's registry, every one ticked by default (the plain regression is always fitted)
+    const offered = await page.evaluate(() => [...document.querySelectorAll('fieldset.models input[type=checkbox]')].map((b: any) => [b.id, b.checked]));
+    expect(offered).toEqual(MODELS.filter((m) => !m.baseline).map((m) => [`model-${m.key}`, true]));
     await page.click('#compare');
     await page.click('#local-on');
     await page.selectOption('#local-of', 'clinic_wait_days');

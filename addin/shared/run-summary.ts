@@ -47,8 +47,8 @@ export function runSummary(r: AnalysisResult): RunSummary {
   const detail = rec as typeof rec & RecommendationDetail;
   const models = detail.models ? detail.models.filter(isSpatial) : suggestedModels(rec.choice);
   const fitted: RunSummary['fitted'] = [];
-  if (r.lag) fitted.push({ model: 'lag', parameter: r.lag.parameter });
-  if (r.error) fitted.push({ model: 'error', parameter: r.error.parameter });
+  if (r.fits.lag) fitted.push({ model: 'lag', parameter: r.fits.lag.parameter });
+  if (r.fits.error) fitted.push({ model: 'error', parameter: r.fits.error.parameter });
   const notFitted = detail.notFitted ? detail.notFitted.filter(isSpatial) : models.filter((m) => !fitted.some((f) => f.model === m));
   return {
     n: r.n,

@@ -3,13 +3,14 @@
  * the worker. Pure engine calls only: files come in as bytes, plain data goes back.
  */
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
-import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
+import { readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
+import { readLayerAndTable, runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, scatterPoints } from '../../src/report/index.js';
 import type { WeightsSpec } from '../../src/weights/index.js';
 import { buildWeights, suggestBandDistance, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import { modelChoices } from './model-choices.js';
 import { runSummary, summaryLines } from './run-summary.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
@@ -27,8 +28,7 @@ async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string
 }
 
 async function check(c: CheckRequest): Promise<CheckResult> {
-  const layer = await readBoundary(c.boundary, { layer: c.layer, coordinates: c.coordinates });
-  const table = await readTable(c.data, { sheet: c.sheet });
+  const { layer, table } = await readLayerAndTable(c);
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
     // what was noted reading both files stays in view when the join fails (an encoding guessed, a merged cell)
@@ -52,8 +52,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   // the joined areas carry the layer's and the table's notes already
   const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...joined.warnings] };
   try {
-    const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
-    const input = { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined };
+    const input = { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates };
     let spec = c.weights;
     if (spec.method === 'band') {
       result.bandSuggestion = suggestBandDistance(input);
@@ -91,6 +90,7 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
 
 async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
   switch (job.op) {
+    case 'models': return { op: 'models', models: modelChoices() };
     case 'sheets': {
       const sheets = await workbookSheets(job.file.bytes, job.file.name);
       return { op: 'sheets', sheets: sheets.map((x) => x.name), hidden: sheets.filter((x) => x.hidden).map((x) => x.name) };
