@@ -30,6 +30,7 @@ export function formatSummary(r: AnalysisResult): string {
     ['for both together', fmt(lm.joint.stat, 5), String(lm.joint.df), p(lm.joint.p)],
   ]));
   lines.push(`  Guidance: ${o.recommendation.text}`);
+  if (!o.recommendation.fitted) lines.push(`  To fit ${o.recommendation.notFitted.length === 2 ? 'them' : 'it'}: run again with --models ${modelsWith(r.request.models, o.recommendation.notFitted)}`);
   lines.push('');
   if (r.lag) lines.push(...spatialBlock('Spatial lag model (maximum likelihood): the outcome spills over', r.lag, 'rho'), '');
   if (r.impacts) {
@@ -117,4 +118,9 @@ function localBlock(r: AnalysisResult): string[] {
     out.push(line);
   }
   return out;
+}
+
+/** The --models value that adds the missing models to the ones this run fitted, in the usual order. */
+export function modelsWith(fitted: readonly string[], add: readonly string[]): string {
+  return ['ols', 'lag', 'error'].filter((m) => m === 'ols' || fitted.includes(m) || add.includes(m)).join(',');
 }

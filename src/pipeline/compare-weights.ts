@@ -95,7 +95,7 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       const lm = lmTests(ctx.ols, ctx.design, algebra);
       const lag = ctx.models.includes('lag') ? fitSpatialLag(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
       rows.push(rowOf(describeRule(spec), false, {
-        spec, description: w.description, summary: summarizeWeights(w), moran: moranResidualTest(ctx.ols, ctx.design, algebra), lm, recommendation: recommendModel(lm),
+        spec, description: w.description, summary: summarizeWeights(w), moran: moranResidualTest(ctx.ols, ctx.design, algebra), lm, recommendation: recommendModel(lm, { fitted: ctx.models }),
         lag,
         impacts: lag ? lagImpacts(lag, ctx.design, algebra, { draws: ctx.impactDraws, seed: ctx.seed }).impacts : undefined,
         error: ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined,
@@ -118,6 +118,7 @@ function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison 
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
     suggestion: f.recommendation.choice,
+    ...(f.recommendation.borderline ? { borderline: true } : {}),
     lag: model(f.lag), error: model(f.error),
     ...(f.impacts ? { impacts: f.impacts.map((i) => ({ ...i })) } : {}),
   };

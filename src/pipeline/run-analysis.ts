@@ -119,7 +119,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   unlessRefused(() => { if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x); });
   const moran = moranResidualTest(ols, design, algebra);
   const lm = lmTests(ols, design, algebra);
-  const recommendation = recommendModel(lm);
+  const recommendation = recommendModel(lm, { fitted: models });
   const olsResidualLag = spatialLag(w, ols.residuals);
   const moranY = moranColumn(y, w, { permutations, seed });
   lap('ols');

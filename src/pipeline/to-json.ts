@@ -1,5 +1,5 @@
 import { rateToJson } from './rates.js';
-import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
+import type { Coefficient, Recommendation, SpatialFit, TestResult } from '../models/types.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
@@ -54,9 +54,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
         robustLag: test(ols.lm.robustLag),
         joint: test(ols.lm.joint),
       },
-      recommendation: ols.recommendation.text,
-      recommendationRule: ols.recommendation.rule,
-      recommendationChoice: ols.recommendation.choice,
+      recommendation: recommendationJson(ols.recommendation),
     },
     moranOfY: {
       I: r.moranY.I, expected: r.moranY.expected, variance: r.moranY.variance, z: r.moranY.z, p: r.moranY.p,
@@ -77,7 +75,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     };
     out.comparison = r.comparison.map((c) => ({
       label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
-      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
+      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, ...(c.borderline ? { borderline: true } : {}), lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
       ...(c.impacts ? { impacts: c.impacts.map((i) => ({ ...i })) } : {}),
       ...(c.failed ? { failed: c.failed } : {}),
     }));
@@ -159,4 +157,14 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
     };
   }
   return out;
+}
+
+/** The suggestion with what a script (or the sidebar's "fit it" button) needs: which models, which were not fitted. */
+function recommendationJson(r: Recommendation) {
+  return {
+    choice: r.choice, models: r.models, borderline: r.borderline, bothKinds: r.bothKinds,
+    fitted: r.fitted, notFitted: r.notFitted,
+    significant: r.significant, alpha: r.alpha, close: r.close,
+    text: r.text, rule: r.rule,
+  };
 }

@@ -157,6 +157,8 @@ export interface WeightsComparison {
   /** p-values of the Lagrange-multiplier tests */
   lmP: { error: number; lag: number; robustError: number; robustLag: number };
   suggestion?: Recommendation['choice'];
+  /** the suggestion turns on p-values close to the level (see Recommendation.borderline) */
+  borderline?: boolean;
   lag?: ComparedFit;
   error?: ComparedFit;
   /** the lag model's direct, indirect and total effects per explanatory column (simulated SEs, same draws and seed as the run) */

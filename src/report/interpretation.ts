@@ -12,6 +12,8 @@ export function fittedModels(result: AnalysisResult): { name: ModelName; logLik:
   return out;
 }
 
+const label = (m: ModelName): string => MODEL_LABEL[m].toLowerCase();
+
 function pattern(I: number, p: number): string {
   if (!(p < SOME_LEVEL)) return 'shows no clear spatial pattern';
   return I > 0 ? 'is clustered: neighbouring areas tend to have similar values' : 'alternates: neighbouring areas tend to have unlike values';
@@ -29,11 +31,25 @@ export function interpretation(result: AnalysisResult): string {
     ? `After taking ${sayList(result.xNames)} into account, the plain regression's residuals still show a spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}), so the plain regression's standard errors and tests are not fully trustworthy.`
     : `After taking ${sayList(result.xNames)} into account, the plain regression's residuals show no clear spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}).`);
 
-  parts.push(result.ols.recommendation.text);
+  const rec = result.ols.recommendation;
+  parts.push(rec.text);
 
-  const choice = result.ols.recommendation.choice;
+  // Whose estimates to describe: the suggested model when it was fitted; of several to report, the
+  // one with the lower AIC (said as such); otherwise the plain regression, saying why.
   const fitted = fittedModels(result);
-  const preferred = fitted.find((f) => f.name === choice) ?? fitted[0];
+  const candidates = fitted.filter((f) => rec.models.includes(f.name));
+  let preferred = candidates[0] ?? fitted[0];
+  let lead: string;
+  let comparedByAic: ModelName[] = [];
+  if (candidates.length > 1) {
+    preferred = candidates.reduce((a, b) => (b.aic < a.aic ? b : a));
+    comparedByAic = candidates.map((c) => c.name);
+    lead = `Of the models to report, the ${label(preferred.name)} has the lower AIC (${say(preferred.aic)} against ${sayList(candidates.filter((c) => c !== preferred).map((c) => say(c.aic)))}); in it,`;
+  } else if (candidates.length === 1) {
+    lead = `In the ${label(preferred.name)},`;
+  } else {
+    lead = `In the ${label(preferred.name)} (the suggested model was not fitted),`;
+  }
   const phrases: string[] = [];
   for (const c of preferred.coefficients) {
     if (c.name === 'constant') continue;
@@ -43,7 +59,7 @@ export function interpretation(result: AnalysisResult): string {
       phrases.push(`${c.name} shows no clear association with ${y} (${sayP(c.p)})`);
     }
   }
-  if (phrases.length) parts.push(`In the ${MODEL_LABEL[preferred.name].toLowerCase()}, ${phrases.join('; ')}.`);
+  if (phrases.length) parts.push(`${lead} ${phrases.join('; ')}.`);
 
   if (preferred.name === 'lag' && result.lag) {
     const f = result.lag;
@@ -59,7 +75,8 @@ export function interpretation(result: AnalysisResult): string {
   }
   if (fitted.length > 1) {
     const best = fitted.reduce((a, b) => (b.aic < a.aic ? b : a));
-    parts.push(`Of the models fitted, the ${MODEL_LABEL[best.name].toLowerCase()} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
+    const already = comparedByAic.length === fitted.length;
+    if (!already) parts.push(`Among all the models fitted in this run, the ${label(best.name)} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
   }
   return parts.join(' ');
 }

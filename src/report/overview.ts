@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { CHOICE_LABEL, MODEL_LABEL, num, question } from './format.js';
+import { MODEL_LABEL, num, question, suggestionLabel } from './format.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
@@ -27,6 +27,7 @@ function coordinatesLine(result: AnalysisResult): string {
 
 export function overviewBlocks(result: AnalysisResult, title?: string): Block[] {
   const r = result.request;
+  const rec = result.ols.recommendation;
   const blocks: Block[] = [
     { kind: 'title', text: title ?? `Spatial regression: ${question(r.y, r.x)}` },
     {
@@ -66,10 +67,13 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
     {
       kind: 'keyValues', title: 'Suggested model',
       rows: [
-        ['Suggestion', CHOICE_LABEL[result.ols.recommendation.choice], 'text'],
-        ['Why', result.ols.recommendation.text, 'text'],
-        ['Rule applied', result.ols.recommendation.rule, 'text'],
-        ['Significance level used', result.ols.recommendation.alpha, 'decimal2'],
+        ['Suggestion', suggestionLabel(rec), 'text'],
+        ['Why', rec.text, 'text'],
+        ['Borderline call', rec.borderline ? 'yes: a p-value it turns on is close to the level, so report every model named' : 'no', 'text'],
+        ['Fitted in this run', rec.fitted ? 'yes' : `no: ${rec.notFitted.map((m) => MODEL_LABEL[m].toLowerCase()).join(' and ')} still to fit`, 'text'],
+        ['Significance level used', rec.alpha, 'decimal2'],
+        ['Close to the level means', `a p-value from ${rec.close.lower} to ${rec.close.upper}`, 'text'],
+        ['Rule applied', rec.rule, 'text'],
       ],
     },
     { kind: 'title', text: 'Before drawing conclusions' },

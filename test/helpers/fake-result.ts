@@ -8,7 +8,8 @@ import { createHash } from 'node:crypto';
 import { Matrix, solve } from 'ml-matrix';
 import type { AnalysisResult, ModelName } from '../../src/pipeline/types.js';
 import type { AreaGeometry } from '../../src/geo/types.js';
-import type { Coefficient, SpatialFit } from '../../src/models/types.js';
+import type { Coefficient, LmTests, SpatialFit } from '../../src/models/types.js';
+import { recommendModel } from '../../src/models/recommend.js';
 
 export const GRID = 5;
 
@@ -59,6 +60,9 @@ export const FAKE_DATA_BYTES = new TextEncoder().encode('ward,vacancy_rate,media
 export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
   const coordinates = opts.coordinates ?? 'projected';
   const models = opts.models ?? ['ols', 'lag', 'error'];
+  const lm: LmTests = {
+    error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 },
+  };
   const n = GRID * GRID;
   const ids = Array.from({ length: n }, (_, i) => `W${String(i + 1).padStart(2, '0')}`);
   const rent = new Float64Array(n), dist = new Float64Array(n), y = new Float64Array(n);
@@ -130,8 +134,8 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
       jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, breuschPaganStudentised: { stat: 2.9, df: 2, p: 0.2346 },
       warnings: [],
       moran: { I: 0.231, expected: -1 / 24, variance: 0.0152, z: 2.21, p: 0.027 },
-      lm: { error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 } },
-      recommendation: { choice: 'lag', text: 'Only the robust lag test is significant, so the spatial lag model is suggested.', rule: 'LM decision rule (plain tests first, robust tests to break ties)', alpha: 0.05 },
+      lm,
+      recommendation: recommendModel(lm, { fitted: models }),
     },
     olsResidualLag: spatialLag(edges, residuals),
     moranY: { I: moranIY, expected: -1 / 24, variance: 0.0152, z: (moranIY + 1 / 24) / Math.sqrt(0.0152), p: 0.0001, permutationP: 0.001, permutations: 999 },
