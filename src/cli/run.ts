@@ -44,6 +44,8 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       sheet: args.sheet,
       id: args.id,
       boundaryId: args.boundaryId,
+      idsIgnoreLeadingZeros: args.idsIgnoreLeadingZeros,
+      ...(args.label ? { label: args.label } : {}),
       y: args.y,
       x: args.x,
       weights: args.weights,

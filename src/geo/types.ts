@@ -66,6 +66,8 @@ export interface JoinReport {
   withoutGeometry: { id: string; row: number; feature: number }[];
   /** IDs that would match if leading zeros were ignored (e.g. 01001 vs 1001): reported, never guessed. */
   zeroPaddingSuspects: { tableId: string; featureId: string }[];
+  /** IDs matched although their leading zeros differ, because the analyst asked for it (table ID with feature ID). */
+  matchedIgnoringZeros: { tableId: string; featureId: string }[];
 }
 
 /** The analysis set: one entry per table row, in the table's row order. */

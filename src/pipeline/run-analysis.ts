@@ -56,11 +56,14 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   lap('read');
   progress(0.1, 'Joining the table to the areas');
   const boundaryId = request.boundaryId?.trim() || undefined;
-  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
+  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId, ignoreLeadingZeros: request.idsIgnoreLeadingZeros ?? false });
+  const labelColumn = request.label?.trim() || undefined;
+  if (labelColumn) joinedAll.column(labelColumn); // an unknown label column is refused before any work
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
   checkModelColumns(values, joined);
+  const labels = labelColumn ? joined.column(labelColumn).map((c) => (c === null ? '' : String(c).trim())) : undefined;
   checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
   lap('join');
 
@@ -194,7 +197,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     engineVersion: ENGINE_VERSION,
     createdAt: new Date().toISOString(),
     request: {
-      id: request.id, ...(boundaryId ? { boundaryId } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
+      id: request.id, ...(boundaryId ? { boundaryId } : {}), idsIgnoreLeadingZeros: request.idsIgnoreLeadingZeros ?? false,
+      ...(labelColumn ? { label: labelColumn } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
       weights: request.edgeList ? { method: 'edge-list', source: request.edgeList.name } : request.weights,
       transform: w.transform, models: [...models] as AnalysisResult['request']['models'],
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
@@ -206,6 +210,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     inputs,
     n: joined.ids.length,
     ids: joined.ids,
+    ...(labels ? { labels } : {}),
     rows: joined.rows,
     droppedRows: dropped,
     geometries: joined.geometries,

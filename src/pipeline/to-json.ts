@@ -13,7 +13,10 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     engineVersion: r.engineVersion,
     createdAt: r.createdAt,
     n: r.n,
-    question: { y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}) },
+    question: {
+      y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}),
+      idsIgnoreLeadingZeros: r.request.idsIgnoreLeadingZeros ?? false, ...(r.request.label ? { label: r.request.label } : {}),
+    },
     coordinates: { kind: r.coordinates, guessed: r.coordinatesGuessed ?? false, evidence: r.coordinateEvidence },
     inputs: r.inputs,
     droppedRows: r.droppedRows,
@@ -85,6 +88,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
   if (opts.perArea) {
     out.areas = r.ids.map((id, i) => ({
       id,
+      ...(r.labels ? { label: r.labels[i] } : {}),
       row: r.rows[i],
       observed: r.y[i],
       olsFitted: r.ols.fitted[i],
@@ -144,6 +148,7 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
       ...(kind === 'gistar' ? { weights: 'binary, each area included with weight 1' } : {}),
       areas: r.ids.map((id, i) => ({
         id,
+        ...(r.labels ? { label: r.labels[i] } : {}),
         value: num(s.value[i]),
         expected: num(s.expected[i]),
         variance: num(s.variance[i]),

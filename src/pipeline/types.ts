@@ -30,6 +30,10 @@ export interface AnalysisRequest {
   id: string;
   /** The boundary file's property holding the same IDs, when it is named differently from the table's column. */
   boundaryId?: string;
+  /** Match all-digit IDs that differ only by leading zeros ("005" with "5"); off by default, recorded when on. */
+  idsIgnoreLeadingZeros?: boolean;
+  /** A column of names (or other labels) shown beside the IDs on the per-area sheets and in the JSON. */
+  label?: string;
   y: string;
   x: string[];
   weights: WeightsSpec;
@@ -73,7 +77,7 @@ export interface AnalysisResult {
   engineVersion: string;
   createdAt: string;
   request: {
-    id: string; boundaryId?: string; y: string; x: string[]; sheet?: string;
+    id: string; boundaryId?: string; idsIgnoreLeadingZeros?: boolean; label?: string; y: string; x: string[]; sheet?: string;
     weights: WeightsSpec | { method: 'edge-list'; source: string };
     transform: WeightsTransform | 'as given';
     models: ModelName[]; dropMissing: boolean; robust: boolean;
@@ -85,6 +89,8 @@ export interface AnalysisResult {
   inputs: InputRecord[];
   n: number;
   ids: string[];
+  /** the label column's text per area (when a label column was asked for), in the same order */
+  labels?: string[];
   /** user-visible table rows of the areas, in table order */
   rows: number[];
   droppedRows: { row: number; id: string; columns: string[] }[];

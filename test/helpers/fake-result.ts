@@ -120,7 +120,7 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     n, ids, rows: ids.map((_, i) => i + 2), droppedRows: [],
     geometries: squares(coordinates), coordinates,
     coordinateEvidence: coordinates === 'projected' ? 'coordinates far outside longitude/latitude ranges' : 'all coordinates within longitude/latitude ranges',
-    join: { unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [], blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [] },
+    join: { unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [], blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [], matchedIgnoringZeros: [] },
     y, xNames: ['median_rent', 'distance_km'],
     weights: {
       method: 'rook', description: 'rook contiguity (shared edge)', transform: 'row', links: edges.from.length, withoutNeighbours: [], components: 1,
