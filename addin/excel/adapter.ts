@@ -20,6 +20,7 @@ const STYLE: Record<CellStyle, { bold?: boolean; italic?: boolean; size?: number
   title: { bold: true, size: 14, color: '#1B4470' },
   blockTitle: { bold: true },
   header: { bold: true, fill: '#E6EDF4', wrap: true },
+  group: { bold: true, wrap: true },
   note: { italic: true, color: '#555555' },
   caution: { color: '#8A3F0A' },
 };
@@ -199,6 +200,12 @@ export function writeGrid(ws: WorksheetLike, grid: SheetGrid): void {
     range.merge(false);
     range.format.wrapText = true;
     range.format.verticalAlignment = 'Top';
+  }
+  for (const w of grid.wraps) ws.getRangeByIndexes(w.row, w.col, w.rows, w.cols).format.wrapText = true;
+  for (const a of grid.aligns) {
+    const f = ws.getRangeByIndexes(a.row, a.col, a.rows, a.cols).format;
+    f.horizontalAlignment = a.horizontal;
+    if (a.indent) f.indentLevel = a.indent;
   }
   for (const s of grid.styles) {
     const style = STYLE[s.style];

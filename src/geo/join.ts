@@ -194,6 +194,7 @@ export function joinAreas(
     coordinates: layer.coordinates,
     coordinateEvidence: layer.coordinateEvidence,
     ...(layer.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
+    ...(layer.coordinateUnit ? { coordinateUnit: layer.coordinateUnit } : {}),
     report,
     warnings: [...layer.warnings, ...(table?.warnings ?? []), ...warnings],
     rowKind: rowWord === 'feature' ? 'feature' : 'row',

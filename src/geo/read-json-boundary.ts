@@ -5,7 +5,7 @@ import { InputError } from '../errors.js';
 import type { AreaLayer, CoordinateKind } from './types.js';
 import { featuresToAreas } from './features-to-areas.js';
 import { jsonErrorOffset } from './json-error-position.js';
-import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
+import { claimFromGeoJsonCrs, claimFromOwnMember, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
 
 export function parseJsonBytes(bytes: Uint8Array, file: string): unknown {
   // TextDecoder drops a leading UTF-8 byte-order mark.
@@ -46,7 +46,7 @@ export function isTopology(root: unknown): root is Topology {
 
 export function layerFromGeoJson(root: unknown, file: string, override?: CoordinateKind): AreaLayer {
   const converted = featuresToAreas(root, file);
-  const claim = claimFromGeoJsonCrs(root, file);
+  const claim = claimFromGeoJsonCrs(root, file) ?? claimFromOwnMember(root, file);
   return layerOf(file, converted, claim, override);
 }
 
@@ -103,6 +103,7 @@ function layerOf(source: string, converted: ReturnType<typeof featuresToAreas>, 
     coordinates: decision.coordinates,
     coordinateEvidence: decision.coordinateEvidence,
     ...(decision.guessed ? { coordinatesGuessed: true } : {}),
+    ...(decision.unit ? { coordinateUnit: decision.unit } : {}),
     warnings: [...converted.warnings, ...decision.warnings],
   };
 }

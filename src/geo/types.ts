@@ -31,6 +31,8 @@ export interface AreaLayer {
   coordinateEvidence: string;
   /** True when neither the file nor the analyst stated the kind and it was guessed. */
   coordinatesGuessed?: boolean;
+  /** Projected coordinates: their length unit when the file states it (metres, feet). */
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
   warnings: string[];
 }
@@ -82,6 +84,7 @@ export interface JoinedAreas {
   coordinates: CoordinateKind;
   coordinateEvidence: string;
   coordinatesGuessed?: boolean;
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   report: JoinReport;
   warnings: string[];
   /** 'feature' when `rows` holds feature numbers (no table, or the boundary file's own table). */

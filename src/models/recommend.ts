@@ -66,8 +66,8 @@ export interface RecommendOptions {
  * Rey (2014, Modern Spatial Econometrics in Practice, ch. 5). It says no more than the rule: when
  * neither robust test is significant the tests do not separate the models. This tool adds one rule of
  * its own: the call is borderline when it would change had the level been halved or doubled (a
- * p-value it turns on lies between α/2 and 2α); then every model the call could go to should be
- * reported. It is guidance, not a verdict: theory about the process should weigh more than the tests.
+ * p-value it turns on lies between α/2 and 2α) so as to ask for another model; then every model the
+ * call could go to should be reported. It is guidance, not a verdict: theory about the process should weigh more than the tests.
  */
 export function recommendModel(lm: LmTests, options: RecommendOptions | number = {}): Recommendation {
   const opts = typeof options === 'number' ? { alpha: options } : options;
@@ -76,9 +76,10 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
   const close = { lower: alpha / CLOSE_FACTOR, upper: Math.min(1, alpha * CLOSE_FACTOR) };
   const s = significance(lm, alpha);
   const choice = branch(lm, alpha);
+  // borderline: at half or twice the level the rule would ask for a model it does not ask for now
   const calls = [branch(lm, close.lower), choice, branch(lm, close.upper)];
-  const borderline = calls.some((c) => c !== choice);
-  const models = ORDER.filter((m) => calls.some((c) => MODELS_OF[c].includes(m)) && (borderline || MODELS_OF[choice].includes(m)));
+  const models = ORDER.filter((m) => calls.some((c) => MODELS_OF[c].includes(m)));
+  const borderline = models.length > MODELS_OF[choice].length;
   const notFitted = models.filter((m): m is SpatialModelName => m !== 'ols' && !fitted.has(m));
   const bothKinds = s.robustError && s.robustLag && s.error && s.lag;
   const at = percent(alpha);
@@ -111,12 +112,7 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
   }
   if (borderline) {
     const near = (Object.keys(TEST) as (keyof typeof TEST)[]).filter((k) => lm[k].p >= close.lower && lm[k].p < close.upper);
-    if (choice === 'either') {
-      sentences.push(
-        `${near.length === 1 ? 'One p-value is' : 'Some p-values are'} close to the ${at} level (${ps(lm, near)}; close means between ${percent(close.lower)} and ${percent(close.upper)}), ` +
-          'which makes the call borderline but does not change it: report both.',
-      );
-    } else sentences.push(
+    sentences.push(
       `The call is borderline: it turns on ${near.length === 1 ? 'a p-value' : 'p-values'} close to the ${at} level (${ps(lm, near)}; close means between ${percent(close.lower)} and ${percent(close.upper)}, ` +
         `where halving or doubling the level would change the call), so report ${models.length === 2 ? 'both ' : ''}${and(models.map((m) => NAME[m]))}.`,
     );
@@ -130,8 +126,8 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
     choice, models, borderline, close, significant: s, bothKinds,
     fitted: notFitted.length === 0, notFitted,
     text: sentences.join(' '),
-    rule: `${PUBLISHED_RULE} A call is reported as borderline when it would change had the level been halved or doubled (${percent(close.lower)} or ${percent(close.upper)} here); ` +
-      'both models are then to be reported.',
+    rule: `${PUBLISHED_RULE} A call is reported as borderline when, had the level been halved or doubled (${percent(close.lower)} or ${percent(close.upper)} here), ` +
+      'the rule would ask for a model it does not ask for now; every model either call names is then to be reported.',
     alpha,
   };
 }

@@ -71,11 +71,26 @@ export interface OwnFigures {
   lag?: SpatialFit;
   error?: SpatialFit;
   impacts?: Impact[];
+  /** the run's weights, so that an alternative linking the same neighbours is recognised */
+  weights?: Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
+}
+
+type Links = Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
+
+/** The same links with the same weights (the same areas in the same order are assumed). */
+function sameLinks(a: Links, b: Links): boolean {
+  const eq = (x: ArrayLike<number>, y: ArrayLike<number>) => {
+    if (x.length !== y.length) return false;
+    for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) return false;
+    return true;
+  };
+  return eq(a.rowPtr, b.rowPtr) && eq(a.colIdx, b.colIdx) && eq(a.values, b.values);
 }
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
   const rows: WeightsComparison[] = [rowOf(describeRule(own.spec), true, own)];
+  const built: { links: Links; row: number }[] = own.weights ? [{ links: own.weights, row: 0 }] : [];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -90,6 +105,14 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), failed: e.message }); continue; }
       throw e;
     }
+    // a rule that links exactly the same neighbours (queen and rook on a grid of irregular areas often do) gives the same figures
+    const twin = built.find((b) => sameLinks(b.links, w));
+    if (twin) {
+      const first = rows[twin.row];
+      rows.push({ ...first, label: describeRule(spec), description: w.description, asRun: false, sameAs: first.label });
+      continue;
+    }
+    built.push({ links: w, row: rows.length });
     const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: ctx.method ?? 'auto', seed: ctx.seed, helper: ctx.helper });
     try {
       const lm = lmTests(ctx.ols, ctx.design, algebra);

@@ -159,7 +159,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   if (alternatives.length > 0) {
     progress(0.9, 'Refitting under the other neighbour definitions');
     comparison = compareWeights(
-      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error, impacts: impacts?.impacts },
+      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error, impacts: impacts?.impacts, weights: w },
       alternatives,
       { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkUnneighboured: request.linkUnneighboured, seed, impactDraws, method: request.algebra, helper: runtime.helper },
     );
@@ -217,6 +217,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     coordinates: joined.coordinates,
     coordinateEvidence: joined.coordinateEvidence,
     ...(joined.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
+    ...(joined.coordinateUnit ? { coordinateUnit: joined.coordinateUnit } : {}),
     join: joined.report,
     y,
     xNames: [...request.x],

@@ -78,7 +78,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     };
     out.comparison = r.comparison.map((c) => ({
       label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
-      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, ...(c.borderline ? { borderline: true } : {}), lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
+      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, ...(c.borderline ? { borderline: true } : {}), ...(c.sameAs ? { sameAs: c.sameAs } : {}), lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
       ...(c.impacts ? { impacts: c.impacts.map((i) => ({ ...i })) } : {}),
       ...(c.failed ? { failed: c.failed } : {}),
     }));

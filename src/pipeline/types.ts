@@ -100,6 +100,8 @@ export interface AnalysisResult {
   coordinateEvidence: string;
   /** neither the file nor the request said what the coordinates are: the kind was guessed */
   coordinatesGuessed?: boolean;
+  /** projected coordinates: their length unit when the boundary file states it (for scale bars) */
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   join: JoinReport;
   y: Float64Array;
   xNames: string[];
@@ -165,6 +167,8 @@ export interface WeightsComparison {
   suggestion?: Recommendation['choice'];
   /** the suggestion turns on p-values close to the level (see Recommendation.borderline) */
   borderline?: boolean;
+  /** this definition links exactly the same neighbours as the earlier one named here: its figures are that one's */
+  sameAs?: string;
   lag?: ComparedFit;
   error?: ComparedFit;
   /** the lag model's direct, indirect and total effects per explanatory column (simulated SEs, same draws and seed as the run) */

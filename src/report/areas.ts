@@ -2,7 +2,21 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num } from './format.js';
 
-/** One row per area, keyed by ID, in the table's row order. */
+/** The leading columns of every per-area table: the ID, the label column when one was chosen, the table row. */
+export function areaKeyColumns(result: AnalysisResult): TableColumn[] {
+  return [
+    { header: 'Area ID', format: 'text', width: 10 },
+    ...(result.labels ? [{ header: result.request.label ?? 'Name', format: 'text', width: 14 } satisfies TableColumn] : []),
+    { header: 'Table row', format: 'integer', width: 7 },
+  ];
+}
+
+/** The cells of those columns for area i. */
+export function areaKeyCells(result: AnalysisResult, i: number): Cell[] {
+  return [result.ids[i], ...(result.labels ? [result.labels[i]] : []), result.rows[i]];
+}
+
+/** One row per area, keyed by ID (and label), in the table's row order; each model's figures under its name. */
 export function areasBlocks(result: AnalysisResult): Block[] {
   const y = result.request.y;
   const fits: { label: string; fitted: Float64Array; residuals: Float64Array; lag: Float64Array }[] = [
@@ -10,20 +24,16 @@ export function areasBlocks(result: AnalysisResult): Block[] {
   ];
   if (result.lag) fits.push({ label: MODEL_LABEL.lag, fitted: result.lag.fitted, residuals: result.lag.residuals, lag: result.lag.residualLag });
   if (result.error) fits.push({ label: MODEL_LABEL.error, fitted: result.error.fitted, residuals: result.error.residuals, lag: result.error.residualLag });
-  const columns: TableColumn[] = [
-    { header: 'Area ID', format: 'text', width: 14 },
-    { header: 'Table row', format: 'integer', width: 9 },
-    { header: `Observed ${y}`, format: 'decimal4', width: 14 },
-  ];
+  const columns: TableColumn[] = [...areaKeyColumns(result), { header: `Observed ${y}`, format: 'decimal4', width: 11 }];
   for (const f of fits) {
     columns.push(
-      { header: `${f.label}: fitted`, format: 'decimal4', width: 14 },
-      { header: `${f.label}: residual`, format: 'decimal4', width: 14 },
-      { header: `${f.label}: neighbours' average residual`, format: 'decimal4', width: 16 },
+      { header: 'Fitted', format: 'decimal4', width: 10, group: f.label },
+      { header: 'Residual', format: 'decimal4', width: 10, group: f.label },
+      { header: "Neighbours' average residual", format: 'decimal4', width: 11, group: f.label },
     );
   }
-  const rows: Cell[][] = result.ids.map((id, i) => {
-    const row: Cell[] = [id, result.rows[i], num(result.y[i])];
+  const rows: Cell[][] = result.ids.map((_, i) => {
+    const row: Cell[] = [...areaKeyCells(result, i), num(result.y[i])];
     for (const f of fits) row.push(num(f.fitted[i]), num(f.residuals[i]), num(f.lag[i]));
     return row;
   });

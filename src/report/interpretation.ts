@@ -75,8 +75,8 @@ export function interpretation(result: AnalysisResult): string {
   }
   if (fitted.length > 1) {
     const best = fitted.reduce((a, b) => (b.aic < a.aic ? b : a));
-    const already = comparedByAic.length === fitted.length;
-    if (!already) parts.push(`Among all the models fitted in this run, the ${label(best.name)} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
+    // said already when the models to report were compared by AIC and the best of all is among them
+    if (!comparedByAic.includes(best.name)) parts.push(`Among all the models fitted in this run, the ${label(best.name)} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
   }
   return parts.join(' ');
 }

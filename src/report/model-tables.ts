@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, SpatialFit } from '../models/types.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, yesNo } from './format.js';
+import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, say, yesNo } from './format.js';
 
 function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
   return {
@@ -31,21 +31,35 @@ export function olsBlocks(result: AnalysisResult): Block[] {
   if (o.robustCoefficients) {
     blocks.push(coefficientTable('Coefficients with standard errors robust to unequal variance', 't-value', o.robustCoefficients));
   }
-  const rows: [string, Cell, NumberFormat?][] = [
-    ['Areas', o.n, 'integer'],
-    ['Terms (with the constant)', o.k, 'integer'],
-    ['R²', num(o.r2), 'decimal4'],
-    ['Adjusted R²', num(o.adjR2), 'decimal4'],
-    ['F statistic', num(o.f.stat), 'decimal4'],
-    ['F degrees of freedom', `${o.f.df} and ${o.f.df2}`, 'text'],
-    ['p-value of F', num(o.f.p), 'pvalue'],
-    ['Residual variance (divided by n − k)', num(o.sigma2), 'decimal4'],
-    ['Residual variance (divided by n)', num(o.sigma2ML), 'decimal4'],
-    ['Log-likelihood', num(o.logLik), 'decimal4'],
-    ['AIC', num(o.aic), 'decimal4'],
-    ['Bayesian information criterion (BIC)', num(o.bic), 'decimal4'],
-  ];
-  blocks.push({ kind: 'keyValues', title: 'Fit', rows });
+  blocks.push(
+    {
+      kind: 'keyValues', title: 'How well it fits',
+      rows: [
+        ['Areas', o.n, 'integer'],
+        ['Terms (with the constant)', o.k, 'integer'],
+        ['R²: share of the variation explained', num(o.r2), 'decimal4'],
+        ['R² adjusted for the number of terms', num(o.adjR2), 'decimal4'],
+        ['Residual variance (divided by n − k)', num(o.sigma2), 'decimal4'],
+        ['F statistic: do the columns explain anything together?', num(o.f.stat), 'decimal4'],
+        ['Its degrees of freedom', `${o.f.df} and ${o.f.df2}`, 'text'],
+        ['Its p-value', num(o.f.p), 'pvalue'],
+      ],
+    },
+    {
+      kind: 'keyValues', title: 'For comparing models',
+      rows: [
+        ['Log-likelihood', num(o.logLik), 'decimal4'],
+        ['AIC', num(o.aic), 'decimal4'],
+        ['Bayesian information criterion (BIC)', num(o.bic), 'decimal4'],
+      ],
+    },
+    {
+      kind: 'paragraph', style: 'note',
+      text: `The residual variance above divides the sum of squared residuals by n − k = ${o.n - o.k}, which leaves it unbiased. ` +
+        `The maximum-likelihood estimate divides by n = ${o.n} instead: ${say(o.sigma2ML)}. That is the one inside the log-likelihood, AIC and BIC, ` +
+        'and the one to set beside the spatial models\' residual variance.',
+    },
+  );
   return blocks;
 }
 
@@ -54,16 +68,20 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
   const paramName = lag ? `ρ: neighbours' average ${result.request.y}` : 'λ: spatial error';
   const paramRow: Cell[] = [paramName, num(fit.parameter), num(fit.parameterSe), num(fit.parameterZ), num(fit.parameterP), evidenceMark(fit.parameterP)];
   const c = fit.convergence;
-  const rows: [string, Cell, NumberFormat?][] = [
+  const fits: [string, Cell, NumberFormat?][] = [
     ['Areas', result.n, 'integer'],
-    ['Pseudo R² (squared correlation of observed and fitted)', num(fit.pseudoR2), 'decimal4'],
-    ['Residual variance', num(fit.sigma2), 'decimal4'],
+    ['Pseudo R²: squared correlation of observed and fitted', num(fit.pseudoR2), 'decimal4'],
+    ['Residual variance (maximum likelihood, divided by n)', num(fit.sigma2), 'decimal4'],
+  ];
+  const comparing: [string, Cell, NumberFormat?][] = [
     ['Log-likelihood', num(fit.logLik), 'decimal4'],
     ['AIC', num(fit.aic), 'decimal4'],
     ['Bayesian information criterion (BIC)', num(fit.bic), 'decimal4'],
     ['Likelihood ratio against the plain regression', num(fit.lr.stat), 'decimal4'],
     ['Its degrees of freedom', fit.lr.df, 'integer'],
     ['Its p-value', num(fit.lr.p), 'pvalue'],
+  ];
+  const search: [string, Cell, NumberFormat?][] = [
     ['Lowest admissible spatial parameter', num(fit.range.lower), 'decimal4'],
     ['Highest admissible spatial parameter', num(fit.range.upper), 'decimal4'],
     ['Log-determinant method', fit.logDeterminantMethod, 'text'],
@@ -75,6 +93,8 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
   return [
     { kind: 'title', text: `${MODEL_LABEL[fit.model]}: ${result.request.y} by maximum likelihood` },
     coefficientTable('Coefficients', 'z-value', fit.coefficients, [paramRow]),
-    { kind: 'keyValues', title: 'Fit', rows },
+    { kind: 'keyValues', title: 'How well it fits', rows: fits },
+    { kind: 'keyValues', title: 'For comparing models', rows: comparing },
+    { kind: 'keyValues', title: 'How the estimate was found', rows: search },
   ];
 }

@@ -44,24 +44,24 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },
     ...(result.comparison && result.comparison.length > 1
-      ? [{ kind: 'paragraph', style: 'interpretation', text: `Under other neighbour definitions (sheet "Neighbour definitions compared"): ${comparisonReading(result.comparison)}` } as Block]
+      ? [{ kind: 'paragraph', style: 'interpretation', text: `Other neighbour definitions, on the sheet "Neighbour definitions compared": ${comparisonReading(result.comparison).replace(/^A/, 'a')}` } as Block]
       : []),
     {
       kind: 'table', title: 'How the models compare',
       columns: [
-        { header: 'Model', format: 'text', width: 26 },
-        { header: 'Log-likelihood', format: 'decimal4', width: 14 },
-        { header: 'AIC', format: 'decimal4', width: 12 },
-        { header: 'Bayesian information criterion (BIC)', format: 'decimal4', width: 12 },
-        { header: 'Likelihood ratio against plain regression', format: 'decimal4', width: 14 },
-        { header: 'p-value of the ratio', format: 'pvalue', width: 11 },
-        { header: 'Spatial parameter', format: 'decimal4', width: 12 },
-        { header: 'Its standard error', format: 'decimal4', width: 12 },
-        { header: 'Its p-value', format: 'pvalue', width: 11 },
-        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 12 },
+        { header: 'Model', format: 'text', width: 20 },
+        { header: 'Log-likelihood', format: 'decimal4', width: 11, group: 'For comparing models' },
+        { header: 'AIC', format: 'decimal4', width: 10, group: 'For comparing models' },
+        { header: 'BIC', format: 'decimal4', width: 10, group: 'For comparing models' },
+        { header: 'Likelihood ratio', format: 'decimal4', width: 10, group: 'Against the plain regression' },
+        { header: 'p-value', format: 'pvalue', width: 9, group: 'Against the plain regression' },
+        { header: 'Estimate', format: 'decimal4', width: 9, group: 'Spatial parameter' },
+        { header: 'Standard error', format: 'decimal4', width: 9, group: 'Spatial parameter' },
+        { header: 'p-value', format: 'pvalue', width: 9, group: 'Spatial parameter' },
+        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 10, group: 'How well it fits' },
       ],
       rows: comparisonRows(result),
-      note: 'Higher log-likelihood and lower AIC or BIC values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+      note: 'Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
     },
     lmTable(result, 'Evidence of spatial dependence in the plain regression'),
     {

@@ -17,7 +17,7 @@ export class FakeOfficeError extends Error {
   }
 }
 
-export interface FakeCell { value: any; format: any; bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean }
+export interface FakeCell { value: any; format: any; bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean; align?: string }
 export interface FakeSheet {
   name: string;
   cells: Map<string, FakeCell>;
@@ -296,6 +296,8 @@ class RangeProxy extends ClientObject {
     this.format = Object.defineProperties({ font, fill }, {
       wrapText: style('wrap'),
       verticalAlignment: { set: () => ctx.enqueue('format', () => {}, sheetName()) },
+      horizontalAlignment: { set: (v: string) => ctx.enqueue('format', each((c) => { c.align = v; }), sheetName()) },
+      indentLevel: { set: () => ctx.enqueue('format', () => {}, sheetName()) },
       columnWidth: { set: (w: number) => ctx.enqueue('format', () => { const r = this.rect(); for (let j = 0; j < r.cols; j++) r.sheet.columnWidths.set(r.col + j, w); }, sheetName()) },
       rowHeight: { set: (h: number) => ctx.enqueue('format', () => { const r = this.rect(); for (let i = 0; i < r.rows; i++) r.sheet.rowHeights.set(r.row + i, h); }, sheetName()) },
     });

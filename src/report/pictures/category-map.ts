@@ -1,6 +1,7 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { fitFrame, pathOf } from './projection.js';
 import { c1, svgDocument, text, wrapWords } from './svg.js';
+import { scaleBar } from './scale-bar.js';
 import type { Picture } from './choropleth.js';
 
 /** One class of a category map: its legend words and how it is filled. */
@@ -20,6 +21,8 @@ export interface CategoryMapInput {
   category: ArrayLike<number>;
   categories: MapCategory[];
   coordinates: CoordinateKind;
+  /** projected coordinates: their stated length unit, for the scale bar */
+  unit?: 'metre' | 'foot' | 'us-foot';
   /** a line under the legend (how the categories were decided) */
   note?: string;
 }
@@ -56,6 +59,7 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
   }
   body.push('</g>');
   body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
+  body.push(...scaleBar(frame, input.coordinates, input.unit, 12, TOP + frame.height + 18));
   const lx = Math.max(frame.width, 200) + 20;
   let yy = TOP + 8;
   body.push(text(lx, yy, input.legendTitle, 'font-size="13" font-weight="bold"'));
@@ -74,7 +78,7 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
     for (const l of wrapWords(input.note, 36)) { body.push(text(lx, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
   }
   const width = lx + LEGEND_W;
-  const height = Math.ceil(Math.max(TOP + frame.height, yy) + 12);
+  const height = Math.ceil(Math.max(TOP + frame.height + 28, yy) + 12);
   const alt = `${input.title}. ${input.legendTitle}: ${lines.join('; ')}.`;
   return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt };
 }
