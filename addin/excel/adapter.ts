@@ -247,6 +247,7 @@ export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: 
     const f = ws.getRangeByIndexes(a.row, a.col, a.rows, a.cols).format;
     f.horizontalAlignment = a.horizontal;
     if (a.indent) f.indentLevel = a.indent;
+    if (a.top) f.verticalAlignment = 'Top';
   }
   for (const s of grid.styles) {
     const style = STYLE[s.style];

@@ -32,7 +32,7 @@ export interface SheetGrid {
   /** cells whose text wraps without being merged */
   wraps: Rect[];
   /** cells aligned other than by default */
-  aligns: (Rect & { horizontal: 'Left' | 'Right' | 'Center'; indent?: number })[];
+  aligns: (Rect & { horizontal: 'Left' | 'Right' | 'Center'; indent?: number; top?: boolean })[];
   /** 0-based row → height in points, for wrapped rows */
   rowHeights: Map<number, number>;
   /** width of each column in characters */
@@ -103,7 +103,11 @@ export function sheetGrid(sheet: ReportSheet): SheetGrid {
       b.rows.forEach((cells, r) => cells.forEach((v, i) => put(p.firstRow - 1 + r, i, v, b.columns[i]?.format)));
       b.columns.forEach((_, i) => {
         const indent = i > 0 && p.align[i] === 'left' && p.align[i - 1] === 'right' ? { indent: 1 } : {};
-        aligns.push({ row: h, col: i, rows: 1 + b.rows.length, cols: 1, horizontal: CASE[p.align[i]], ...indent });
+        if (p.wrap.some(Boolean) && b.rows.length) {
+          // with wrapped text in the table, every cell starts at the top of its row; the header stays at the bottom
+          aligns.push({ row: h, col: i, rows: 1, cols: 1, horizontal: CASE[p.align[i]], ...indent });
+          aligns.push({ row: h + 1, col: i, rows: b.rows.length, cols: 1, horizontal: CASE[p.align[i]], ...indent, top: true });
+        } else aligns.push({ row: h, col: i, rows: 1 + b.rows.length, cols: 1, horizontal: CASE[p.align[i]], ...indent });
         if (p.wrap[i] && b.rows.length) wraps.push({ row: p.firstRow - 1, col: i, rows: b.rows.length, cols: 1 });
       });
       if (b.note) spanned(p.noteRow! - 1, b.note, 'note');

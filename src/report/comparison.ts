@@ -94,7 +94,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${sayList(unsettled.map((r) => r.label))} a model's search stopped early or at an end of the admissible range; read those figures with care.` });
   }
   for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${capital(r.label)} could not be built: ${r.failed}` });
-  blocks.push({ kind: 'table', title: 'The definitions in full', columns: [DEFINITION, { header: 'In full', format: 'text', width: 60 }], rows: all.map((r): Cell[] => [name(r), r.description]) });
+  blocks.push({ kind: 'keyValues', title: 'The definitions in full', rows: all.map((r): [string, Cell, 'text'] => [name(r), r.description, 'text']) });
   blocks.push({
     kind: 'paragraph', style: 'caution',
     text: 'Choose the neighbour definition for a reason about the places — shared borders, travel, distance that matters for the outcome — and not for the result it gives. ' +

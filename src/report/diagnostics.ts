@@ -4,11 +4,11 @@ import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num } from './format.js';
 
 const TEST_COLUMNS: TableColumn[] = [
-  { header: 'Check', format: 'text', width: 44 },
+  { header: 'Check', format: 'text', width: 36 },
   { header: 'Statistic', format: 'decimal4', width: 12 },
   { header: 'Degrees of freedom', format: 'integer', width: 10 },
   { header: 'p-value', format: 'pvalue', width: 11 },
-  { header: 'What it asks', format: 'text', width: 24 },
+  { header: 'What it asks', format: 'text', width: 40 },
 ];
 
 function testRow(label: string, t: TestResult | undefined, meaning: string): Cell[] {
@@ -27,8 +27,13 @@ export function lmTestRows(result: AnalysisResult): Cell[][] {
   ];
 }
 
-export function lmTable(result: AnalysisResult, title: string): Block {
-  return { kind: 'table', title, columns: TEST_COLUMNS, rows: lmTestRows(result), note: 'Small p-values are evidence of the dependence the test asks about.' };
+/** The tests as a table; without the questions (the Summary) it stays as narrow as the tables around it. */
+export function lmTable(result: AnalysisResult, title: string, withQuestions = true): Block {
+  if (withQuestions) return { kind: 'table', title, columns: TEST_COLUMNS, rows: lmTestRows(result), note: 'Small p-values are evidence of the dependence the test asks about.' };
+  return {
+    kind: 'table', title, columns: TEST_COLUMNS.slice(0, 4).map((c, i) => (i === 0 ? { ...c, width: 40 } : c)), rows: lmTestRows(result).map((r) => r.slice(0, 4)),
+    note: 'Small p-values are evidence of the dependence the test asks about; the sheet "Checks on residuals" says what each test asks.',
+  };
 }
 
 export function diagnosticsBlocks(result: AnalysisResult): Block[] {
@@ -49,13 +54,14 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
     {
       kind: 'table', title: "Moran's I of the residuals",
       columns: [
+        { header: 'Residuals of', format: 'text', width: 36 },
         { header: "Moran's I", format: 'decimal4', width: 12 },
         { header: 'Expected if no pattern', format: 'decimal4', width: 12 },
-        { header: 'Variance', format: 'scientific', width: 12 },
+        { header: 'Variance', format: 'scientific', width: 11 },
         { header: 'z-value', format: 'decimal4', width: 10 },
         { header: 'p-value', format: 'pvalue', width: 11 },
       ],
-      rows: [[num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
+      rows: [[MODEL_LABEL.ols.toLowerCase(), num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
       note: 'Are residuals of neighbouring areas more alike (positive I) or less alike (negative I) than chance would give? The p-value is two-sided, from the normal approximation.',
     },
     lmTable(result, 'Lagrange-multiplier tests for spatial dependence'),

@@ -48,17 +48,19 @@ export const POINTS_PER_CHAR = 5.25;
 /** Paragraphs, titles and notes are merged across columns to about this width: a comfortable line. */
 const PARAGRAPH_MIN = 80;
 const PARAGRAPH_MAX = 120;
-/** Text columns widen to their content up to this many units, then wrap. */
+/** Text columns widen to their longest word up to this many units (longer text wraps). */
 const TEXT_COLUMN_MAX = 40;
 /** Labels of key-value blocks wrap beyond this width. */
-const LABEL_MAX = 44;
+const LABEL_MAX = 36;
+/** The narrowest column a table may ask for. */
+const MIN_WIDTH = 4;
 /** A long text value of a key-value block is merged across columns up to about this width, then wraps. */
 const VALUE_MAX = 90;
 /** Tables longer than this repeat their header on every printed page and may break across pages. */
 export const LONG_TABLE_ROWS = 40;
 
 /** Printable area of an A4 or Letter page (whichever is smaller) with half-inch side margins, in points. */
-const PAGE = { portrait: { width: 523, height: 690 }, landscape: { width: 720, height: 490 } } as const;
+const PAGE = { portrait: { width: 523, height: 720 }, landscape: { width: 720, height: 505 } } as const;
 
 export type Align = 'left' | 'right';
 
@@ -136,7 +138,8 @@ export function pictureCaption(im: { png: Uint8Array; alt: string }): string {
 export function planSheet(sheet: ReportSheet): SheetPlan {
   const { starts, lastRow } = layoutBlocks(sheet.blocks);
   const widths: number[] = [];
-  const want = (col: number, w: number) => { widths[col] = Math.max(widths[col] ?? DEFAULT_WIDTH, Math.ceil(w)); };
+  // a declared width is honoured (it is at least what the column's header words and numbers need)
+  const want = (col: number, w: number) => { widths[col] = Math.max(widths[col] ?? MIN_WIDTH, Math.ceil(w)); };
 
   // columns: declared width, the header's longest word, every number, text up to a cap
   for (const b of sheet.blocks) {
@@ -144,8 +147,13 @@ export function planSheet(sheet: ReportSheet): SheetPlan {
       b.columns.forEach((c, i) => {
         want(i, c.width ?? Math.min(TEXT_COLUMN_MAX, Math.max(DEFAULT_WIDTH, textWidth(c.header, 'bold'))));
         want(i, longestWordWidth(c.header, 'bold'));
+        // numbers must show whole; text needs room for its longest word (longer text wraps), so that
+        // one long sentence does not widen a column that other blocks on the sheet share
         let content = 0;
-        for (const row of b.rows) content = Math.max(content, cellWidth(row[i] ?? null, c.format));
+        for (const row of b.rows) {
+          const v = row[i] ?? null;
+          content = Math.max(content, typeof v === 'string' ? longestWordWidth(v) : cellWidth(v, c.format));
+        }
         want(i, Math.min(content, Math.max(TEXT_COLUMN_MAX, c.width ?? 0)));
       });
     } else if (b.kind === 'keyValues') {
@@ -241,7 +249,9 @@ function planKeyValues(b: Extract<Block, { kind: 'keyValues' }>, top: number, wi
       const text = typeof value === 'string' ? value : '';
       const need = text ? textWidth(text) : 0;
       let valueCols = 1;
-      while (need > sum(widths, 1, valueCols) && sum(widths, 1, valueCols + 1) <= valueRoom) valueCols++;
+      // merged across the value columns up to a comfortable line; past it only while the merge is still narrow
+      const fits = (k: number) => sum(widths, 1, k) <= valueRoom || sum(widths, 1, k - 1) < valueRoom / 2;
+      while (need > sum(widths, 1, valueCols) && valueCols + 1 < widths.length && fits(valueCols + 1)) valueCols++;
       const wrapValue = need > sum(widths, 1, valueCols);
       const wrapLabel = textWidth(label) > widths[0];
       const lines = Math.max(wrapValue ? wrappedLines(text, sum(widths, 1, valueCols)) : 1, wrapLabel ? wrappedLines(label, widths[0]) : 1);
@@ -255,14 +265,14 @@ function planKeyValues(b: Extract<Block, { kind: 'keyValues' }>, top: number, wi
  * Orientation from the sheet's width; the first long table's headings repeat on every page; and a
  * page break before any picture or short block that would otherwise be cut by the page's end. The
  * closing caution is kept with the block before it. Page heights are estimates (the host decides the
- * real breaks), so each page is filled to 90 % of its estimated height.
+ * real breaks), so each page is filled to 95 % of its estimated height.
  */
 function planPage(sheet: ReportSheet, widths: number[], starts: number[], heights: Map<number, number>, blocks: BlockPlan[]): PagePlan {
   const used = Math.max(1, ...sheet.blocks.map((b) => (b.kind === 'table' ? b.columns.length : b.kind === 'keyValues' ? 2 : 1)));
   const widthPoints = sum(widths, 0, Math.max(used, 1)) * POINTS_PER_CHAR;
   const orientation = widthPoints <= PAGE.portrait.width * 1.05 ? 'portrait' : 'landscape';
   const scale = Math.min(1, PAGE[orientation].width / widthPoints);
-  const pageHeight = (PAGE[orientation].height / scale) * 0.9;
+  const pageHeight = (PAGE[orientation].height / scale) * 0.95;
 
   let titleRows: PagePlan['titleRows'];
   sheet.blocks.forEach((b, i) => {
@@ -271,19 +281,22 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   });
 
   // units that must not be split: [first row, last row, extra points below the last row]
-  const units: { first: number; last: number; below: number }[] = [];
+  // picture: its caption and the picture itself, which must never be cut
+  const units: { first: number; last: number; below: number; picture?: boolean }[] = [];
   sheet.blocks.forEach((b, i) => {
     const first = starts[i];
     if (b.kind === 'space') return;
     const last = first + blockHeight(b) - 1;
     const p = blocks[i];
-    // a long table may break anywhere past its headings and first rows
-    if (b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && p.kind === 'table') units.push({ first, last: p.firstRow + 2, below: 0 });
-    else units.push({ first, last, below: 0 });
+    // a long table may break anywhere past its headings and first rows, and before its last rows
+    if (b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && p.kind === 'table') {
+      units.push({ first, last: p.firstRow + 2, below: 0 });
+      units.push({ first: p.firstRow + b.rows.length - 3, last, below: 0 });
+    } else units.push({ first, last, below: 0 });
   });
   for (const im of sheet.images ?? []) {
     const first = Math.max(1, im.anchor.row - 1);
-    units.push({ first, last: im.anchor.row - 1, below: im.heightPx * 0.75 });
+    units.push({ first, last: im.anchor.row - 1, below: im.heightPx * 0.75, picture: true });
   }
   units.sort((a, b) => a.first - b.first);
   // the closing paragraphs (the cautions) go with the block just before them
@@ -315,10 +328,20 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   for (const u of units) {
     const top = topOf(u.first);
     const bottom = topOf(u.last + 1) + u.below;
-    while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
-    if (bottom - pageTop > pageHeight && top > pageTop && bottom - top <= pageHeight) {
-      breaksBefore.push(u.first);
-      pageTop = top;
+    if (u.picture) {
+      // a picture starts a page unless it fits, with all since the last page start, on one page: where
+      // the host breaks inside the estimated rows before it is not known exactly, so it is not relied on
+      if (bottom - pageTop > pageHeight && top > pageTop) {
+        breaksBefore.push(u.first);
+        pageTop = top;
+      }
+    } else {
+      while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
+      // row heights are estimated on the generous side: a block overrunning by two lines or less most likely fits
+      if (bottom - pageTop - pageHeight > 2 * LINE_POINTS && top > pageTop && bottom - top <= pageHeight) {
+        breaksBefore.push(u.first);
+        pageTop = top;
+      }
     }
     while (bottom - pageTop > pageHeight) pageTop += pageHeight;
   }

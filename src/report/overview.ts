@@ -58,12 +58,12 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'Estimate', format: 'decimal4', width: 9, group: 'Spatial parameter' },
         { header: 'Standard error', format: 'decimal4', width: 9, group: 'Spatial parameter' },
         { header: 'p-value', format: 'pvalue', width: 9, group: 'Spatial parameter' },
-        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 10, group: 'How well it fits' },
+        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 13, group: 'How well it fits' },
       ],
       rows: comparisonRows(result),
       note: 'Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
     },
-    lmTable(result, 'Evidence of spatial dependence in the plain regression'),
+    lmTable(result, 'Evidence of spatial dependence in the plain regression', false),
     {
       kind: 'keyValues', title: 'Suggested model',
       rows: [

@@ -7,10 +7,10 @@ import type { Cell, NumberFormat } from './types.js';
 
 /**
  * Width of one character of ordinary text, of bold text and of a 14-point bold title, in width units:
- * measured on mixed text rendered by LibreOffice with its stand-in for the default font (about 0.83
- * units a character, bold 0.95), rounded up; the default font itself is narrower.
+ * measured on English text rendered by LibreOffice with its stand-in for the default font (0.77 to
+ * 0.83 units a character, bold 0.9), rounded up; the default font itself is narrower.
  */
-export const CHAR = { text: 0.9, bold: 1, title: 1.3 } as const;
+export const CHAR = { text: 0.85, bold: 0.95, title: 1.25 } as const;
 export type TextWeight = keyof typeof CHAR;
 
 /** Room a cell keeps free around its text (the cell's own padding), in width units. */

@@ -83,12 +83,17 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
         c.border = { bottom: { style: 'thin', color: { argb: 'FF8899AA' } } };
       });
       const written = Math.min(b.rows.length, opts.rowsToWrite?.(b) ?? b.rows.length);
+      // in a table with wrapped text every cell starts at the top of its row, beside the first line
+      const wraps = p.wrap.some(Boolean);
       for (let r = 0; r < written; r++) {
         const row = ws.getRow(p.firstRow + r);
         b.rows[r].forEach((v, i) => {
           const c = row.getCell(i + 1);
           put(c, v, b.columns[i]?.format);
-          if (typeof v === 'string' && (p.wrap[i] || indented(p, i))) c.alignment = { vertical: 'top', ...(p.wrap[i] ? { wrapText: true } : {}), ...(indented(p, i) ? { indent: 1 } : {}) };
+          const text = typeof v === 'string';
+          if (wraps || (text && indented(p, i))) {
+            c.alignment = { vertical: 'top', ...(text && p.wrap[i] ? { wrapText: true } : {}), ...(text && indented(p, i) ? { indent: 1 } : {}) };
+          }
         });
       }
       if (written < b.rows.length) {
