@@ -124,6 +124,14 @@ export interface SheetPlan {
 
 const isNumberFormat = (f: NumberFormat | undefined) => f !== undefined && f !== 'text';
 
+/**
+ * Text that may not fit on one line of a column `width` units wide: longer in characters than the
+ * width (the unit is one character of the default font), or estimated so. Such a cell wraps.
+ */
+function overflows(text: string, width: number): boolean {
+  return text.length > width || textWidth(text) > width;
+}
+
 /** The caption written above a picture. */
 export function pictureCaption(im: { png: Uint8Array; alt: string }): string {
   return im.png.length ? `Picture: ${im.alt}` : `Picture not drawn here (no PNG renderer): ${im.alt}`;
@@ -224,7 +232,7 @@ function planTable(b: TableBlock, top: number, widths: number[], spanned: Spanne
   });
   if (grouped) tall(top + 1, Math.max(1, ...groups.map((g) => wrappedLines(g.text, sum(widths, g.col, g.cols), 'bold'))));
   tall(headerRow, Math.max(1, ...b.columns.map((c, i) => wrappedLines(c.header, widths[i], 'bold'))));
-  const wrap = b.columns.map((c, i) => !isNumberFormat(c.format) && b.rows.some((r) => typeof r[i] === 'string' && textWidth(r[i] as string) > widths[i]));
+  const wrap = b.columns.map((_, i) => b.rows.some((r) => typeof r[i] === 'string' && overflows(r[i] as string, widths[i])));
   if (wrap.some(Boolean)) {
     b.rows.forEach((r, k) => {
       let lines = 1;
@@ -252,8 +260,8 @@ function planKeyValues(b: Extract<Block, { kind: 'keyValues' }>, top: number, wi
       // merged across the value columns up to a comfortable line; past it only while the merge is still narrow
       const fits = (k: number) => sum(widths, 1, k) <= valueRoom || sum(widths, 1, k - 1) < valueRoom / 2;
       while (need > sum(widths, 1, valueCols) && valueCols + 1 < widths.length && fits(valueCols + 1)) valueCols++;
-      const wrapValue = need > sum(widths, 1, valueCols);
-      const wrapLabel = textWidth(label) > widths[0];
+      const wrapValue = overflows(text, sum(widths, 1, valueCols));
+      const wrapLabel = overflows(label, widths[0]);
       const lines = Math.max(wrapValue ? wrappedLines(text, sum(widths, 1, valueCols)) : 1, wrapLabel ? wrappedLines(label, widths[0]) : 1);
       tall(row, lines);
       return { row, valueCols, wrapValue, wrapLabel, align: figures && typeof value === 'number' && isNumberFormat(format) ? 'right' : 'left' };
