@@ -92,7 +92,8 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
           put(c, v, b.columns[i]?.format);
           const text = typeof v === 'string';
           if (wraps || (text && indented(p, i))) {
-            c.alignment = { vertical: 'top', ...(text && p.wrap[i] ? { wrapText: true } : {}), ...(text && indented(p, i) ? { indent: 1 } : {}) };
+            // an indent shows only on a cell aligned to a side
+            c.alignment = { vertical: 'top', ...(text && p.wrap[i] ? { wrapText: true } : {}), ...(text && indented(p, i) ? { horizontal: 'left', indent: 1 } : {}) };
           }
         });
       }
