@@ -95,7 +95,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
     await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
-    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR']);
+    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR', 'RATEGLOBAL', 'RATELOCAL', 'RATEMORAN']);
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
