@@ -44,7 +44,8 @@ export function joinAreas(
   const featureProp = opts.featureIdProperty ?? idColumn;
   // with the option, an all-digit ID is compared without its leading zeros
   const key = (id: string): string => (opts.ignoreLeadingZeros ? unpadded(id) ?? id : id);
-  if (table && table.columns.indexOf(idColumn) < 0) {
+  // a separate table is checked first; the boundary file's own attributes are checked as its properties below
+  if (table && !table.rowsAreFeatures && table.columns.indexOf(idColumn) < 0) {
     const near = nearestName(idColumn, table.columns);
     throw new InputError(
       `${table.sourceName} has no column "${idColumn}" to join by${near ? `; did you mean "${near}"? Its` : '; its'} columns are ${listSome(table.columns.map((n) => `"${n}"`), 30)}.`,
