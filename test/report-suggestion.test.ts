@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { Matrix, solve } from 'ml-matrix';
 import { recommendModel } from '../src/models/index.js';
 import type { LmTests, Recommendation } from '../src/models/types.js';
-import { runAnalysis, resultToJson, type AnalysisResult, type ModelName } from '../src/pipeline/index.js';
+import { runAnalysis, resultToJson, type AnalysisResult, type ModelKey } from '../src/pipeline/index.js';
 import { buildReport, interpretation } from '../src/report/index.js';
 import { formatSummary } from '../src/cli/summary.js';
 import { normalSampler, seededRandom } from '../src/stats/random.js';
@@ -157,7 +157,7 @@ function simulate(kind: 'lag' | 'error' | 'none', parameter: number, seed: numbe
   return squares({ y: Float64Array.from(y), x });
 }
 
-async function fit(bytes: Uint8Array, models: ModelName[]): Promise<AnalysisResult> {
+async function fit(bytes: Uint8Array, models: ModelKey[]): Promise<AnalysisResult> {
   return runAnalysis({
     boundary: [{ name: 'grid.geojson', bytes }], id: 'cell', y: 'y', x: ['x'],
     weights: { method: 'rook' }, transform: 'row', models, permutations: 0, impactDraws: 50,
@@ -220,7 +220,7 @@ describe('the invented villages sample (simulated from a spatial error process)'
     const rec = r.ols.recommendation;
     expect(rec.choice).not.toBe('lag');
     expect(rec.models).toContain('error');
-    expect(r.error!.aic).toBeLessThan(r.lag!.aic);
+    expect(r.fits.error!.aic).toBeLessThan(r.fits.lag!.aic);
     const reading = interpretation(r);
     expect(reading).not.toMatch(/points[^.]*lag model|suggested model[^.]*lag|lag model is the suggested/);
     expect(reading).toMatch(/Of the models to report, the spatial error model has the lower AIC/);

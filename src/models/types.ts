@@ -1,32 +1,11 @@
-/** Regressors: column vectors, the intercept first and named "constant". */
-export interface Design {
-  names: string[];
-  columns: Float64Array[];
-}
+import type { Coefficient, RegressionResiduals, TestResult } from '../core/types.js';
 
-export interface Coefficient {
-  name: string;
-  estimate: number;
-  se: number;
-  /** t for OLS, z for ML models */
-  stat: number;
-  p: number;
-}
+export type { Coefficient, Design, LmTests, MoranTest, RegressionResiduals, TestResult } from '../core/types.js';
 
-export interface TestResult {
-  stat: number;
-  df: number;
-  p: number;
-}
-
-export interface OlsFit {
-  n: number;
-  k: number;
+export interface OlsFit extends RegressionResiduals {
   coefficients: Coefficient[];
   /** heteroskedasticity-robust (White, HC0) coefficients when asked for */
   robustCoefficients?: Coefficient[];
-  residuals: Float64Array;
-  fitted: Float64Array;
   r2: number;
   adjR2: number;
   f: TestResult & { df2: number };
@@ -44,24 +23,10 @@ export interface OlsFit {
   warnings: string[];
 }
 
-export interface MoranTest {
-  I: number;
-  expected: number;
-  variance: number;
-  z: number;
-  /** two-sided normal p */
-  p: number;
-}
-
-export interface LmTests {
-  error: TestResult;
-  lag: TestResult;
-  robustError: TestResult;
-  robustLag: TestResult;
-  joint: TestResult;
-}
-
-/** A spatial model the decision rule can point to. */
+/**
+ * A spatial model the Lagrange-multiplier decision rule can point to: the registry keys of the two
+ * models its tests speak for (the tests are for a spatial lag and for a spatial error).
+ */
 export type SpatialModelName = 'lag' | 'error';
 
 export interface Recommendation {

@@ -1,14 +1,26 @@
 import type { AnalysisResult, ComparedFit, WeightsComparison } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num, say, sayList } from './format.js';
+import { MODELS, type ModelEntry, type ParameterEstimate } from '../models/index.js';
 
 const name = (r: WeightsComparison) => (r.asRun ? `${r.label} (this run)` : r.label);
 const DEFINITION: TableColumn = { header: 'Neighbour definition', format: 'text', width: 24 };
 
 /** The suggestion under one definition, in words without brackets (they sit inside sentences and cells). */
 function suggestionWords(r: WeightsComparison): string {
-  const words = { lag: 'spatial lag model', error: 'spatial error model', ols: 'plain regression', either: 'not separated by the tests' } as const;
-  return r.suggestion ? `${words[r.suggestion]}${r.borderline ? ', borderline' : ''}` : '';
+  if (!r.suggestion) return '';
+  const words = r.suggestion === 'either' ? 'not separated by the tests' : MODEL_LABEL[r.suggestion].toLowerCase();
+  return `${words}${r.borderline ? ', borderline' : ''}`;
+}
+
+type Compared = { entry: ModelEntry; of: (r: WeightsComparison) => ComparedFit | undefined };
+
+/** The spatial models fitted under at least one of the definitions, in registry order. */
+function comparedModels(rows: WeightsComparison[]): Compared[] {
+  return MODELS
+    .filter((entry) => !entry.baseline)
+    .map((entry) => ({ entry, of: (r: WeightsComparison) => (r.fits as Record<string, ComparedFit | undefined>)[entry.key] }))
+    .filter((m) => rows.some((r) => !r.failed && m.of(r)));
 }
 
 /** The run's question refitted under other neighbour definitions, side by side. */
@@ -55,41 +67,49 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     note: 'The four tests are the Lagrange-multiplier tests of the plain regression for a spatial error and a spatial lag, and their forms robust to the other kind. ' +
       '"Borderline" marks a suggestion that turns on a p-value close to the 5% level (between 2.5% and 10%): report both models there.',
   });
-  const hasLag = built.some((r) => r.lag), hasError = built.some((r) => r.error);
-  if (hasLag || hasError) {
-    const fitCells = (f: ComparedFit | undefined): Cell[] => (f ? [num(f.parameter), num(f.se), num(f.p), num(f.aic)] : [null, null, null, null]);
+  const models = comparedModels(built);
+  if (models.length) {
+    const fitCells = (m: Compared, f: ComparedFit | undefined): Cell[] => [
+      ...m.entry.parameters.flatMap((q): Cell[] => {
+        const e = f?.parameters.find((x) => x.key === q.key);
+        return [num(e?.estimate), num(e?.se), num(e?.p)];
+      }),
+      num(f?.aic),
+    ];
     const columns: TableColumn[] = [DEFINITION];
-    if (hasLag) columns.push(...fitColumns(MODEL_LABEL.lag, 'ρ'));
-    if (hasError) columns.push(...fitColumns(MODEL_LABEL.error, 'λ'));
+    for (const m of models) columns.push(...fitColumns(m.entry));
+    const belongs = models.filter((m) => m.entry.parameters.length)
+      .map((m, i) => `${sayList(m.entry.parameters.map((q) => q.symbol))}${i === 0 ? ' belongs' : ''} to the ${m.entry.label.toLowerCase()}`);
     blocks.push({
       kind: 'table', title: 'The spatial models under each definition',
       columns,
-      rows: rows.map((r): Cell[] => [name(r), ...(hasLag ? fitCells(r.lag) : []), ...(hasError ? fitCells(r.error) : [])]),
-      note: `ρ belongs to the ${MODEL_LABEL.lag.toLowerCase()}, λ to the ${MODEL_LABEL.error.toLowerCase()}. AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
+      rows: rows.map((r): Cell[] => [name(r), ...models.flatMap((m) => fitCells(m, m.of(r)))]),
+      note: `${belongs.length ? `${belongs.join(', ')}. ` : ''}AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
     });
   }
-  const withEffects = built.filter((r) => r.impacts?.length);
-  if (withEffects.length) {
-    const effect = (group: string, withP: boolean): TableColumn[] => [
-      { header: 'Effect', format: 'decimal4', width: 9, group },
-      { header: 'Standard error', format: 'decimal4', width: 9, group },
-      ...(withP ? [{ header: 'p-value', format: 'pvalue', width: 9, group } satisfies TableColumn] : []),
-    ];
+  const effect = (group: string, withP: boolean): TableColumn[] => [
+    { header: 'Effect', format: 'decimal4', width: 9, group },
+    { header: 'Standard error', format: 'decimal4', width: 9, group },
+    ...(withP ? [{ header: 'p-value', format: 'pvalue', width: 9, group } satisfies TableColumn] : []),
+  ];
+  for (const m of models) {
+    const withEffects = built.filter((r) => m.of(r)?.impacts?.length);
+    if (!withEffects.length) continue;
     blocks.push({
-      kind: 'table', title: `Spillover effects of the ${MODEL_LABEL.lag.toLowerCase()} under each definition`,
+      kind: 'table', title: `Spillover effects of the ${m.entry.label.toLowerCase()} under each definition`,
       columns: [
         DEFINITION,
         { header: 'Explanatory column', format: 'text', width: 14 },
         ...effect('In the area itself', false), ...effect('In other areas (spillover)', true), ...effect('Total', false),
       ],
-      rows: withEffects.flatMap((r) => r.impacts!.map((i): Cell[] => [
+      rows: withEffects.flatMap((r) => m.of(r)!.impacts!.map((i): Cell[] => [
         name(r), i.name, num(i.direct), num(i.directSe), num(i.indirect), num(i.indirectSe), num(i.indirectP), num(i.total), num(i.totalSe),
       ])),
       note: 'The part in other areas is the spillover: the effect that a change in one area\'s column has, through the outcome, on all the other areas together, averaged over the areas where the change could start. Standard errors are simulated with the same draws and seed under every definition.',
     });
   }
   blocks.push({ kind: 'paragraph', style: 'interpretation', text: comparisonReading(all) });
-  const unsettled = built.filter((r) => [r.lag, r.error].some((f) => f && !f.converged));
+  const unsettled = built.filter((r) => models.some((m) => m.of(r)?.converged === false));
   if (unsettled.length) {
     blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${sayList(unsettled.map((r) => r.label))} a model's search stopped early or at an end of the admissible range; read those figures with care.` });
   }
@@ -103,12 +123,19 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
   return blocks;
 }
 
-function fitColumns(model: string, symbol: string): TableColumn[] {
+/** A model's columns, grouped under its label: each spatial parameter with its standard error and p-value, then its AIC. */
+function fitColumns(entry: ModelEntry): TableColumn[] {
+  const group = entry.label;
+  const symbols = entry.parameters.map((q) => q.symbol);
+  // with one parameter the group heading says whose; with several each column names its parameter
+  const of = (header: string, symbol: string) => (symbols.length > 1 ? `${symbol}: ${header.toLowerCase()}` : header);
   return [
-    { header: symbol, format: 'decimal4', width: 9, group: model },
-    { header: 'Standard error', format: 'decimal4', width: 9, group: model },
-    { header: 'p-value', format: 'pvalue', width: 9, group: model },
-    { header: 'AIC', format: 'decimal4', width: 10, group: model },
+    ...symbols.flatMap((symbol): TableColumn[] => [
+      { header: symbol, format: 'decimal4', width: 9, group },
+      { header: of('Standard error', symbol), format: 'decimal4', width: 9, group },
+      { header: of('p-value', symbol), format: 'pvalue', width: 9, group },
+    ]),
+    { header: 'AIC', format: 'decimal4', width: 10, group },
   ];
 }
 
@@ -121,12 +148,15 @@ export function comparisonReading(all: WeightsComparison[]): string {
   const built = all.filter((r) => !r.failed && !r.sameAs);
   const sentences: string[] = [];
   const parts: string[] = [];
-  const spread = (pick: (r: WeightsComparison) => ComparedFit | undefined, symbol: string) => {
-    const v = built.map(pick).filter((f): f is ComparedFit => !!f).map((f) => f.parameter);
-    if (v.length > 1) parts.push(`${symbol} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
-  };
-  spread((r) => r.lag, 'ρ');
-  spread((r) => r.error, 'λ');
+  const models = comparedModels(built);
+  for (const m of models) {
+    for (const q of m.entry.parameters) {
+      const v = built.map((r) => m.of(r)?.parameters.find((x) => x.key === q.key)).filter((x): x is ParameterEstimate => !!x).map((x) => x.estimate);
+      // a symbol shared by several models is named with its model
+      const shared = models.filter((o) => o.entry.parameters.some((x) => x.symbol === q.symbol)).length > 1;
+      if (v.length > 1) parts.push(`${q.symbol}${shared ? ` (${m.entry.label.toLowerCase()})` : ''} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
+    }
+  }
   const significant = built.filter((r) => r.moran.p < 0.05).length;
   parts.push(`Moran's I of the residuals is significant at the 5% level under ${significant === built.length ? 'every one' : `${significant} of them`}`);
   const twins = all.filter((r) => r.sameAs).length;

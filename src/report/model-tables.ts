@@ -1,7 +1,9 @@
 import type { AnalysisResult } from '../pipeline/types.js';
-import type { Coefficient, SpatialFit } from '../models/types.js';
+import type { Coefficient, OlsFit, SpatialFit } from '../models/types.js';
+import type { Fitted, ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, say, yesNo } from './format.js';
+import { MARK_NOTE, evidenceMark, num, say, yesNo } from './format.js';
+import { testRow } from './test-rows.js';
 
 function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
   return {
@@ -22,10 +24,11 @@ function coefficientTable(title: string, statName: string, coefs: Coefficient[],
   };
 }
 
-export function olsBlocks(result: AnalysisResult): Block[] {
-  const o = result.ols;
+/** The plain regression's sheet. */
+export function olsBlocks(result: AnalysisResult, _fit: Fitted<OlsFit>, entry: ModelEntry): Block[] {
+  const o = result.ols; // the plain regression with its residual tests, as the run keeps it
   const blocks: Block[] = [
-    { kind: 'title', text: `${MODEL_LABEL.ols}: ${result.request.y} by least squares` },
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     coefficientTable('Coefficients', 't-value', o.coefficients),
   ];
   if (o.robustCoefficients) {
@@ -63,7 +66,8 @@ export function olsBlocks(result: AnalysisResult): Block[] {
   return blocks;
 }
 
-export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] {
+/** The sheet of a model fitted by maximum likelihood with one spatial parameter (the lag and error models). */
+export function spatialBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>, entry: ModelEntry): Block[] {
   const lag = fit.model === 'lag';
   const paramName = lag ? `ρ: neighbours' average ${result.request.y}` : 'λ: spatial error';
   const paramRow: Cell[] = [paramName, num(fit.parameter), num(fit.parameterSe), num(fit.parameterZ), num(fit.parameterP), evidenceMark(fit.parameterP)];
@@ -91,10 +95,44 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
     ['Search note', c.atBound ? `${c.message} (ended at the ${c.atBound} bound)` : c.message, 'text'],
   ];
   return [
-    { kind: 'title', text: `${MODEL_LABEL[fit.model]}: ${result.request.y} by maximum likelihood` },
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     coefficientTable('Coefficients', 'z-value', fit.coefficients, [paramRow]),
     { kind: 'keyValues', title: 'How well it fits', rows: fits },
     { kind: 'keyValues', title: 'For comparing models', rows: comparing },
     { kind: 'keyValues', title: 'How the estimate was found', rows: search },
+  ];
+}
+
+/** The lag and error models' rows on the checks sheet. */
+export function spatialChecks(fit: SpatialFit): Cell[][] {
+  const rows: Cell[][] = [
+    testRow('Breusch–Pagan test of constant variance', fit.breuschPagan, 'Does the spread of the residuals change with the explanatory columns?'),
+  ];
+  if (fit.lmRemainingError) rows.push(testRow('Lagrange multiplier: remaining error dependence', fit.lmRemainingError, 'Is error dependence left over after the spatial lag is modelled?'));
+  if (fit.lmRemainingLag) rows.push(testRow('Lagrange multiplier: remaining lag dependence', fit.lmRemainingLag, 'Is lag dependence left over after the spatial error is modelled?'));
+  return rows;
+}
+
+/** Any model's sheet from its registry headline: coefficients, spatial parameters and fit figures. */
+export function headlineBlocks(result: AnalysisResult, fit: Fitted, entry: ModelEntry): Block[] {
+  const h = entry.headline(fit);
+  const paramRows = h.parameters.map((q): Cell[] => [`${q.symbol}: ${q.name}`, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
+  const fits: [string, Cell, NumberFormat?][] = [
+    ['Areas', result.n, 'integer'],
+    ['R² or squared correlation of observed and fitted', num(h.r2), 'decimal4'],
+    ['Residual variance', num(h.sigma2), 'decimal4'],
+  ];
+  const comparing: [string, Cell, NumberFormat?][] = [];
+  if (h.logLik !== undefined) comparing.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
+  if (h.lr) comparing.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
+  const search: [string, Cell, NumberFormat?][] = [];
+  if (h.range) search.push(['Lowest admissible spatial parameter', num(h.range.lower), 'decimal4'], ['Highest admissible spatial parameter', num(h.range.upper), 'decimal4']);
+  if (h.convergence) search.push(['Search converged', yesNo(h.convergence.converged), 'text'], ['Search note', h.convergence.message, 'text']);
+  return [
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
+    coefficientTable('Coefficients', 'z-value', fit.coefficients, paramRows),
+    { kind: 'keyValues', title: 'How well it fits', rows: fits },
+    ...(comparing.length ? [{ kind: 'keyValues', title: 'For comparing models', rows: comparing } satisfies Block] : []),
+    ...(search.length ? [{ kind: 'keyValues', title: 'How the estimate was found', rows: search } satisfies Block] : []),
   ];
 }

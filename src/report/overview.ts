@@ -1,21 +1,29 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { MODEL_LABEL, num, question, suggestionLabel } from './format.js';
+import { MODEL_LABEL, num, question, sayList, suggestionLabel } from './format.js';
+import { MODELS, fittedInOrder } from '../models/index.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
 import { rateUse, recipeWords } from './rates.js';
 
+/** "ρ for the spatial lag model and λ for the spatial error model": each spatial parameter, from the registry. */
+function parameterWords(): string {
+  return sayList(MODELS.filter((m) => m.parameters.length).map((m) => `${sayList(m.parameters.map((q) => q.symbol))} for the ${m.label.toLowerCase()}`));
+}
+
 function comparisonRows(result: AnalysisResult): Cell[][] {
-  const o = result.ols;
-  const rows: Cell[][] = [[MODEL_LABEL.ols, num(o.logLik), num(o.aic), num(o.bic), null, null, null, null, null, num(o.r2)]];
-  for (const fit of [result.lag, result.error]) {
-    if (!fit) continue;
-    rows.push([MODEL_LABEL[fit.model], num(fit.logLik), num(fit.aic), num(fit.bic), num(fit.lr.stat), num(fit.lr.p),
-      num(fit.parameter), num(fit.parameterSe), num(fit.parameterP), num(fit.pseudoR2)]);
-  }
-  return rows;
+  // one row per model and spatial parameter (a model with two has a second row for the second)
+  return fittedInOrder(result.fits).flatMap(({ entry, fit }) => {
+    const h = entry.headline(fit);
+    const [first, ...more] = h.parameters;
+    const parameter = (q: typeof first | undefined): Cell[] => (q ? [num(q.estimate), num(q.se), num(q.p)] : [null, null, null]);
+    return [
+      [entry.label, num(h.logLik), num(h.aic), num(h.bic), num(h.lr?.stat), num(h.lr?.p), ...parameter(first), num(h.r2)],
+      ...more.map((q): Cell[] => [`${entry.label}: ${q.symbol}`, null, null, null, null, null, ...parameter(q), null]),
+    ];
+  });
 }
 
 /** What the coordinates were read as, and whether that was stated or guessed. */
@@ -64,7 +72,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 13, group: 'How well it fits' },
       ],
       rows: comparisonRows(result),
-      note: 'Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+      note: `Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ${parameterWords()}.`,
     },
     lmTable(result, 'Evidence of spatial dependence in the plain regression', false),
     {
