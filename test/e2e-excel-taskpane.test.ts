@@ -3,7 +3,8 @@
  * (test/helpers/fake-excel.ts, bundled for the browser): the pane reads the active sheet, runs the
  * job in its worker, draws the maps to PNG, and writes the result sheets, pictures and chart through
  * the adapter; the cell functions register in the same runtime. The request for Office.js is
- * answered by the test (page.route), so nothing leaves the machine.
+ * answered by the test (page.route), so nothing leaves the machine. At each step the pane is checked
+ * against the WCAG 2.1 AA rules of axe-core (test/helpers/a11y.ts).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -13,6 +14,7 @@ import { build, type PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
+import { accessibilityProblems } from './helpers/a11y.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const window: any;
@@ -95,13 +97,19 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
     await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    expect(await accessibilityProblems(page), 'the sheet read').toBe('');
+    expect(await page.inputValue('#y-column')).toBe(''); // the outcome is the analyst's to choose
     expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR', 'RATEGLOBAL', 'RATELOCAL', 'RATEMORAN']);
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    expect(await accessibilityProblems(page), 'the areas matched and the model chosen').toBe('');
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    await page.getByText(/Moran's I of the plain regression's residuals: -?\d\.\d{3} \(p/).waitFor();
+    expect(await accessibilityProblems(page), 'the run done').toBe('');
 
     const state = await page.evaluate(() => {
       const x = window.__excel;
@@ -157,6 +165,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.evaluate(() => { window.__excel.failWhen = (c: any) => c.kind === 'addXmlPart'; });
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
