@@ -222,6 +222,9 @@ export function familySummaryBlocks(result: AnalysisResult): Block[] {
  *  - θ = 0 not rejected and the LM tests point to the lag model: the lag model;
  *  - θ = −ρβ not rejected and the LM tests point to the error model: the error model;
  *  - otherwise (the two steps disagree): the Durbin model, which contains both.
+ * Where the LM tests do not separate the lag and error models (both plain tests significant, neither
+ * robust one), the restrictions alone speak: the one that holds names the simpler model, and when
+ * both hold both simpler models are reported beside the Durbin model (our reading of the sequence).
  * The neighbours' columns model against the plain regression (Halleck Vega & Elhorst 2015) and the
  * lag-and-error model against the lag and error models are read beside it. Guidance, at 5% (common
  * practice), never a verdict.
@@ -236,13 +239,15 @@ export function familyReading(result: AnalysisResult): string {
   parts.push('How to choose among the models, following Elhorst (2010): from specific to general with the Lagrange-multiplier tests on the plain regression, then from general to specific with the spatial Durbin model, which contains the lag and the error models.');
   const toLag = nested('durbin', 'lag');
   const toError = nested('durbin', 'error');
-  const lmPoints = choice === 'lag' ? 'the lag model' : choice === 'error' ? 'the error model' : choice === 'either' ? 'both spatial models' : 'no spatial model';
+  const lmPoints = choice === 'lag' ? 'point to the lag model' : choice === 'error' ? 'point to the error model' : choice === 'either' ? 'do not separate the lag model from the error model' : 'find no spatial dependence';
   if (toLag && toError) {
-    parts.push(`Against the spatial Durbin model, leaving out the neighbours' columns (θ = 0, the lag model) ${sig(toLag) ? 'is rejected' : 'is not rejected'} (${phrase(toLag)}), and the common-factor restriction (θ = −ρβ, the error model) ${sig(toError) ? 'is rejected' : 'is not rejected'} (${phrase(toError)}); the Lagrange-multiplier tests point to ${lmPoints}.`);
+    parts.push(`Against the spatial Durbin model, leaving out the neighbours' columns (θ = 0, the lag model) ${sig(toLag) ? 'is rejected' : 'is not rejected'} (${phrase(toLag)}), and the common-factor restriction (θ = −ρβ, the error model) ${sig(toError) ? 'is rejected' : 'is not rejected'} (${phrase(toError)}); the Lagrange-multiplier tests ${lmPoints}.`);
     if (sig(toLag) && sig(toError)) parts.push('Both restrictions are rejected, so the spatial Durbin model is the one these data support.');
     else if (!sig(toLag) && choice === 'lag') parts.push('The Durbin model reduces to the lag model and the Lagrange-multiplier tests agree: the lag model is the simpler description the data support.');
     else if (!sig(toError) && choice === 'error') parts.push('The Durbin model reduces to the error model and the Lagrange-multiplier tests agree: the error model is the simpler description the data support.');
     else if (!sig(toLag) && !sig(toError) && choice === 'ols') parts.push('Neither restriction is rejected and the Lagrange-multiplier tests find no spatial dependence: the spatial terms add little here.');
+    else if (!sig(toLag) && !sig(toError) && choice === 'either') parts.push('Neither restriction is rejected and the Lagrange-multiplier tests do not choose: the lag and the error model each describe the data about as well as the spatial Durbin model, so report both beside it, or keep the Durbin model, which contains both.');
+    else if (choice === 'either') parts.push(`Only ${sig(toLag) ? 'the common-factor restriction' : 'θ = 0'} holds, so the ${sig(toLag) ? 'error' : 'lag'} model is the simpler description the data support.`);
     else parts.push('The two steps do not point to the same simpler model, so the spatial Durbin model, which contains both, is the safer choice.');
   } else {
     parts.push(fits.durbin === undefined
@@ -253,7 +258,7 @@ export function familyReading(result: AnalysisResult): string {
   if (slx) parts.push(`The neighbours' averages of the explanatory columns on their own (the neighbours' columns model, Halleck Vega & Elhorst 2015) ${sig(slx) ? 'add to the plain regression' : 'add little to the plain regression'} (${phrase(slx)}).`);
   const both = [nested('lagError', 'lag'), nested('lagError', 'error')];
   if (both[0] && both[1]) {
-    parts.push(`In the lag-and-error model, dropping the shared error (λ = 0) ${sig(both[0]) ? 'is rejected' : 'is not rejected'} (${phrase(both[0])}) and dropping the outcome spillover (ρ = 0) ${sig(both[1]) ? 'is rejected' : 'is not rejected'} (${phrase(both[1])})${choice === 'either' ? '; the Lagrange-multiplier rule names this model as the next step when both robust tests are significant, as here' : ''}.`);
+    parts.push(`In the lag-and-error model, dropping the shared error (λ = 0) ${sig(both[0]) ? 'is rejected' : 'is not rejected'} (${phrase(both[0])}) and dropping the outcome spillover (ρ = 0) ${sig(both[1]) ? 'is rejected' : 'is not rejected'} (${phrase(both[1])})${result.ols.recommendation.bothKinds ? '; the Lagrange-multiplier rule names this model as worth considering when both robust tests are significant, as here' : ''}.`);
   }
   const ml = fits.error as (Fitted & { parameter?: number; parameterSe?: number }) | undefined;
   const gm = fits.errorGM as (Fitted & { lambda?: number; lambdaSe?: number }) | undefined;
