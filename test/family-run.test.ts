@@ -101,8 +101,12 @@ describe('a run with every model on Columbus (queen)', async () => {
     expect(tests.rows.filter((r) => r[3] === 'Wald')).toHaveLength(2);
     const reading = summary.blocks.find((b) => b.kind === 'paragraph' && b.text.startsWith('How to choose among the models')) as { text: string };
     expect(reading.text).toContain('Elhorst (2010)');
-    // on Columbus neither restriction is rejected and the Lagrange-multiplier tests point to the lag model
-    expect(reading.text).toContain('the lag model is the simpler description the data support');
+    // on Columbus neither restriction is rejected (θ = 0: p = 0.355; θ = −ρβ: p = 0.121, the reference's
+    // figures) and the Lagrange-multiplier tests do not separate the lag from the error model (robust
+    // lag p = 0.053, robust error p = 0.834)
+    expect(result.ols.recommendation.choice).toBe('either');
+    expect(reading.text).toContain('the Lagrange-multiplier tests do not separate the lag model from the error model');
+    expect(reading.text).toContain('report both beside it');
     const models = summary.blocks.find((b) => b.kind === 'table' && b.title === 'How the models compare') as { rows: unknown[][] };
     expect(models.rows.map((r) => r[0])).toContain('Lag-and-error model: λ');
     const spill = report.sheets.find((s) => s.role === 'impacts')!;
