@@ -115,7 +115,7 @@ describe('a run with every model on Columbus (queen)', async () => {
     const durbinSheet = report.sheets.find((s) => s.name === 'Spatial Durbin model')!;
     expect(durbinSheet.blocks.some((b) => b.kind === 'table' && b.title.startsWith('Tests of the spatial Durbin model'))).toBe(true);
     const ivSheet = report.sheets.find((s) => s.name === 'Lag model by instruments')!;
-    const fit = ivSheet.blocks.find((b) => b.kind === 'keyValues') as { rows: unknown[][] };
+    const fit = ivSheet.blocks.find((b) => b.kind === 'keyValues' && b.title === 'How the estimate was found') as { rows: unknown[][] };
     expect(fit.rows.map((r) => r[0])).toContain('Instruments');
   });
 

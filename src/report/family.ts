@@ -64,33 +64,37 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   if (extra.robustCoefficients) {
     blocks.push({ kind: 'table', title: 'Coefficients with standard errors robust to unequal variance', columns, rows: coefficientRows(extra.robustCoefficients), note: MARK_NOTE });
   }
-  const rows: [string, Cell, NumberFormat?][] = [
+  // grouped as the other models' sheets are: how well it fits, for comparing models, how it was found
+  const fits: [string, Cell, NumberFormat?][] = [
     ['Areas', result.n, 'integer'],
-    [entry.method === 'least squares' ? 'R²' : 'Squared correlation of observed and fitted', num(h.r2), 'decimal4'],
-    ['Residual variance', num(h.sigma2), 'decimal4'],
+    [entry.method === 'least squares' ? 'R²' : 'Pseudo R²: squared correlation of observed and fitted', num(h.r2), 'decimal4'],
+    [entry.method === 'least squares' ? 'Residual variance (divided by n − k)' : 'Residual variance (divided by n)', num(h.sigma2), 'decimal4'],
   ];
+  const comparing: [string, Cell, NumberFormat?][] = [];
   if (h.logLik !== undefined) {
-    rows.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
+    comparing.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
   } else {
-    rows.push(['Log-likelihood, AIC, BIC', `not defined: the model is estimated by ${entry.method}, not by maximum likelihood`, 'text']);
+    comparing.push(['Log-likelihood, AIC, BIC', `not defined: the model is estimated by ${entry.method}, not by maximum likelihood`, 'text']);
   }
-  if (h.lr) rows.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
-  if (h.range) rows.push(['Admissible range of the spatial parameters', `${say(h.range.lower)} to ${say(h.range.upper)}`, 'text']);
-  if (extra.logDeterminantMethod) rows.push(['Log-determinant method', extra.logDeterminantMethod, 'text']);
-  if (extra.traceMethod) rows.push(['Traces for the standard errors', extra.traceMethod, 'text']);
+  if (h.lr) comparing.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
+  const found: [string, Cell, NumberFormat?][] = [];
+  if (h.range) found.push(['Lowest admissible spatial parameter', num(h.range.lower), 'decimal4'], ['Highest admissible spatial parameter', num(h.range.upper), 'decimal4']);
+  if (extra.logDeterminantMethod) found.push(['Log-determinant method', extra.logDeterminantMethod, 'text']);
+  if (extra.traceMethod) found.push(['Traces for the standard errors', extra.traceMethod, 'text']);
   if (h.convergence) {
-    rows.push(['Search converged', yesNo(h.convergence.converged), 'text']);
-    if (extra.evaluations !== undefined) rows.push([`Evaluations of the ${extra.evaluationsOf ?? 'likelihood'} used`, extra.evaluations, 'integer']);
-    rows.push(['Search note', h.convergence.message, 'text']);
+    found.push(['Search converged', yesNo(h.convergence.converged), 'text']);
+    if (extra.evaluations !== undefined) found.push([`Evaluations of the ${extra.evaluationsOf ?? 'likelihood'} used`, extra.evaluations, 'integer']);
+    found.push(['Search note', h.convergence.atBound ? `${h.convergence.message} (ended at the ${h.convergence.atBound} bound)` : h.convergence.message, 'text']);
   }
-  if (extra.instruments) rows.push(['Instruments', extra.instruments.join('; '), 'text']);
+  if (extra.instruments) found.push(['Instruments', extra.instruments.join('; '), 'text']);
   if (extra.firstStage) {
-    rows.push(['Instrument strength: first-stage F of the neighbours’ averages', num(extra.firstStage.stat), 'decimal4'],
+    found.push(['Instrument strength: first-stage F of the neighbours’ averages', num(extra.firstStage.stat), 'decimal4'],
       ['Its degrees of freedom', `${extra.firstStage.df} and ${extra.firstStage.df2}`, 'text'], ['Its p-value', num(extra.firstStage.p), 'pvalue']);
   }
-  if (extra.lambdaInitial !== undefined) rows.push(['λ from the first, unweighted moments step', num(extra.lambdaInitial), 'decimal4']);
-  if (extra.criterion !== undefined) rows.push(['Weighted moment criterion at the estimate', num(extra.criterion), 'scientific']);
-  blocks.push({ kind: 'keyValues', title: 'Fit', rows });
+  if (extra.lambdaInitial !== undefined) found.push(['λ from the first, unweighted moments step', num(extra.lambdaInitial), 'decimal4']);
+  if (extra.criterion !== undefined) found.push(['Weighted moment criterion at the estimate', num(extra.criterion), 'scientific']);
+  blocks.push({ kind: 'keyValues', title: 'How well it fits', rows: fits }, { kind: 'keyValues', title: 'For comparing models', rows: comparing });
+  if (found.length) blocks.push({ kind: 'keyValues', title: 'How the estimate was found', rows: found });
   const tests = testsOf(result, entry, fit);
   if (tests.length) {
     blocks.push({
