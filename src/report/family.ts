@@ -102,7 +102,7 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
       columns: [
         { header: 'Simpler model', format: 'text', width: 30 },
         { header: 'Restriction', format: 'text', width: 26 },
-        { header: 'Test', format: 'text', width: 14 },
+        { header: 'Test', format: 'text', width: 18 },
         { header: 'Statistic', format: 'decimal4', width: 12 },
         { header: 'Degrees of freedom', format: 'integer', width: 10 },
         { header: 'p-value', format: 'pvalue', width: 11 },
@@ -203,7 +203,7 @@ export function familySummaryBlocks(result: AnalysisResult): Block[] {
         { header: 'Wider model', format: 'text', width: 26 },
         { header: 'Simpler model', format: 'text', width: 26 },
         { header: 'Restriction', format: 'text', width: 26 },
-        { header: 'Test', format: 'text', width: 14 },
+        { header: 'Test', format: 'text', width: 18 },
         { header: 'Statistic', format: 'decimal4', width: 12 },
         { header: 'Degrees of freedom', format: 'integer', width: 10 },
         { header: 'p-value', format: 'pvalue', width: 11 },
