@@ -1,5 +1,6 @@
 /**
- * Builds and serves the add-in (task pane + cell functions) and the no-install browser page.
+ * Builds and serves the add-in (task pane + cell functions) and the no-install browser page; the
+ * cell functions' own script and metadata come from vite.functions.config.ts, run after this build.
  *   npm run build:addin   → dist-addin/
  *   npm run serve         → https://localhost:3000 (office-addin-dev-certs); SPILLWAY_HTTP=1 for plain http
  * Output paths the manifest names (taskpane/index.html, functions.js, functions.json, assets/icon-*.png)
@@ -8,9 +9,9 @@
 import { defineConfig, type Plugin, type UserConfig } from 'vite';
 import { fileURLToPath } from 'node:url';
 import { dirname, resolve } from 'node:path';
+import { functionMetadata, functionsScript } from './vite.functions.config.js';
 
 const ROOT = dirname(fileURLToPath(import.meta.url));
-const FUNCTIONS_SOURCE = resolve(ROOT, 'functions/functions.ts');
 
 /** The browser page sends nothing anywhere: every fetch, image and script comes from this origin. */
 export const PAGE_CSP = [
@@ -34,22 +35,13 @@ function cspFor(url: string, dev = false): string | undefined {
   return undefined;
 }
 
-/** functions.json from the JSDoc of functions.ts (custom-functions-metadata), at build and in the dev server. */
+/** functions.json in the dev server (the build writes it with functions.js: vite.functions.config.ts). */
 function cellFunctionMetadata(): Plugin {
-  const generate = async (): Promise<string> => {
-    const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
-    const r = await generateCustomFunctionsMetadata(FUNCTIONS_SOURCE);
-    if (r.errors.length) throw new Error(`cell function metadata: ${r.errors.join('; ')}`);
-    return r.metadataJson;
-  };
   return {
     name: 'spillway-cell-function-metadata',
-    async generateBundle() {
-      this.emitFile({ type: 'asset', fileName: 'functions.json', source: await generate() });
-    },
     configureServer(server) {
       server.middlewares.use('/functions.json', (_req, res, next) => {
-        generate().then((json) => { res.setHeader('Content-Type', 'application/json'); res.end(json); }, next);
+        functionMetadata().then((json) => { res.setHeader('Content-Type', 'application/json'); res.end(json); }, next);
       });
     },
   };
@@ -129,7 +121,7 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
     resolve: {
       alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
     },
-    plugins: [cellFunctionMetadata(), securityHeaders(), noDynamicCode()],
+    plugins: [cellFunctionMetadata(), securityHeaders(), noDynamicCode(), functionsScript()],
     worker: {
       format: 'es',
       plugins: () => [noDynamicCode()],
@@ -145,11 +137,9 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
           taskpane: resolve(ROOT, 'taskpane/index.html'),
           page: resolve(ROOT, 'page/index.html'),
           help: resolve(ROOT, 'help/index.html'),
-          functions: resolve(ROOT, 'functions/register.ts'),
         },
-        output: {
-          entryFileNames: (chunk) => (chunk.name === 'functions' ? 'functions.js' : 'assets/[name]-[hash].js'),
-        },
+        // functions.js is built on its own, as one classic script (functionsScript, vite.functions.config.ts)
+        output: { entryFileNames: 'assets/[name]-[hash].js' },
       },
     },
     server: { port: 3000, strictPort: true, https, host: 'localhost' },

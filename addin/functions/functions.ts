@@ -1,43 +1,24 @@
 /**
  * Cell functions (namespace SPILL, set in the manifest). Thin wrappers: the JSDoc below is read by
- * custom-functions-metadata to make functions.json; the arithmetic lives in logic.ts. Every function
- * takes the neighbours as a range of links (origin ID, neighbour ID, weight), as on the neighbour
- * sheet the sidebar writes, plus the ID column that puts the values in order.
+ * custom-functions-metadata to make functions.json (with the other *-functions.ts files here); the
+ * arithmetic lives in logic.ts. Every function takes the neighbours as a range of links (origin ID,
+ * neighbour ID, weight), as on the neighbour sheet the sidebar writes, or as an n × n weights matrix
+ * (neighbour-range.ts), plus the ID column that puts the values in order.
  */
 /* eslint-disable @typescript-eslint/no-explicit-any */
-import { InputError } from '../../src/errors.js';
+import { associate, guarded } from './cell-error.js';
 import {
   gearyOfRange, lagOfRange, localMoranOfRange, moranOfRange, moranPermutationP,
 } from './logic.js';
 import { giStarRows, localMoranRows } from './local-logic.js';
-
-declare const CustomFunctions: {
-  associate(id: string, fn: (...args: any[]) => unknown): void;
-  Error: new (code: string, message?: string) => Error;
-  ErrorCode: { invalidValue: string; notAvailable: string };
-};
-
-function cellError(e: unknown): Error {
-  const message = e instanceof Error ? e.message : String(e);
-  if (typeof CustomFunctions === 'undefined') return e instanceof Error ? e : new Error(message);
-  const code = e instanceof InputError ? CustomFunctions.ErrorCode.invalidValue : CustomFunctions.ErrorCode.notAvailable;
-  return new CustomFunctions.Error(code, message.slice(0, 255));
-}
-
-function guarded<T>(work: () => T): T {
-  try {
-    return work();
-  } catch (e) {
-    throw cellError(e);
-  }
-}
+import { registerNeighbourFunctions } from './neighbour-functions.js';
 
 /**
  * Moran's I of a column of values: how much neighbouring areas resemble each other.
  * @customfunction MORAN
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row (the neighbour sheet Spillway writes).
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [detail] TRUE to spill four cells across: the statistic, its expected value, z and the two-sided p-value.
  * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1; by default the weights are used as listed.
  * @returns Moran's I, or a row of four numbers with detail.
@@ -49,9 +30,9 @@ export function moran(values: any[][], ids: any[][], neighbours: any[][], detail
 /**
  * Permutation p-value of Moran's I: the share of random reshufflings of the values at least as extreme as the observed pattern.
  * @customfunction MORANPERM
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [permutations] How many reshufflings to draw (default 999).
  * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
  * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
@@ -66,9 +47,9 @@ export function moranPerm(
 /**
  * Spatial lag: for each area, the weighted sum of its neighbours' values (their average when each area's weights sum to 1).
  * @customfunction LAG
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
  * @returns One value per area, spilled down in the order of the IDs.
  */
@@ -79,9 +60,9 @@ export function lag(values: any[][], ids: any[][], neighbours: any[][], rowStand
 /**
  * Local Moran values: each area's share in the overall resemblance of neighbours.
  * @customfunction MORANBYAREA
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
  * @returns One value per area, spilled down in the order of the IDs.
  */
@@ -92,9 +73,9 @@ export function localMoran(values: any[][], ids: any[][], neighbours: any[][], r
 /**
  * Geary's C: below 1 when neighbouring areas have similar values, above 1 when they differ.
  * @customfunction GEARY
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [detail] TRUE to spill four cells across: the statistic, its expected value (1), z and the two-sided p-value.
  * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1.
  * @returns Geary's C, or a row of four numbers with detail.
@@ -106,9 +87,9 @@ export function geary(values: any[][], ids: any[][], neighbours: any[][], detail
 /**
  * Local Moran's I per area with conditional permutation inference and multiple-testing control: where the values cluster.
  * @customfunction LOCALMORAN
- * @param values One number per area, in a single column. A text first cell is read as a header.
+ * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [permutations] Reshufflings per area for the p-value (default 999; 0 for the normal approximation).
  * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
  * @param [level] Level of the multiple-testing control (default 0.05).
@@ -125,9 +106,9 @@ export function localMoranCells(
 /**
  * Getis–Ord Gi* per area (binary weights, the area itself included): clusters of high or of low values.
  * @customfunction GISTAR
- * @param values One number of zero or more per area, in a single column. A text first cell is read as a header.
+ * @param values One number of zero or more per area, in a single column (a whole column such as B:B works). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
- * @param neighbours The links between areas: origin ID, neighbour ID (weights are read as 1).
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape; every link counts as 1 here. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [permutations] Reshufflings per area for the p-value (default 999; 0 for the normal approximation).
  * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
  * @param [level] Level of the multiple-testing control (default 0.05).
@@ -142,12 +123,12 @@ export function giStarCells(
 
 /** Ties each metadata id to its function; Office.js provides CustomFunctions in the shared runtime. */
 export function registerCellFunctions(): void {
-  if (typeof CustomFunctions === 'undefined') return;
-  CustomFunctions.associate('MORAN', moran);
-  CustomFunctions.associate('MORANPERM', moranPerm);
-  CustomFunctions.associate('LAG', lag);
-  CustomFunctions.associate('MORANBYAREA', localMoran);
-  CustomFunctions.associate('GEARY', geary);
-  CustomFunctions.associate('LOCALMORAN', localMoranCells);
-  CustomFunctions.associate('GISTAR', giStarCells);
+  associate('MORAN', moran);
+  associate('MORANPERM', moranPerm);
+  associate('LAG', lag);
+  associate('MORANBYAREA', localMoran);
+  associate('GEARY', geary);
+  associate('LOCALMORAN', localMoranCells);
+  associate('GISTAR', giStarCells);
+  registerNeighbourFunctions();
 }
