@@ -40,7 +40,7 @@ describe('SPILL.NEIGHBOURS: neighbours from coordinate columns', () => {
     for (const r of rows.slice(1)) expect(r[2]).toBeCloseTo(0.25, 15);
   });
 
-  it('its output feeds MORAN, which gives the same figure as on the reference's 4-nearest list', async () => {
+  it('its output feeds MORAN, which gives the same figure as on the reference’s 4-nearest list', async () => {
     const c = await columbus();
     const rows = neighbourRowsFromPoints(c.idRange, c.x, c.y, 'nearest', 4);
     const direct: Grid = [['origin', 'neighbour', 'weight']];
