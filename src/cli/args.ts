@@ -35,6 +35,10 @@ export interface FitArgs {
   json: boolean;
   perArea: boolean;
   out?: string;
+  /** per-area results joined to the shapes, as GeoJSON */
+  outGeojson?: string;
+  /** folder for the maps and plots as SVG and PNG files */
+  pictures?: string;
 }
 
 export const FIT_USAGE = `Usage:
@@ -47,6 +51,9 @@ Files
   --data FILE          CSV or .xlsx table joined to the areas by --id (default: the boundary's own attributes)
   --sheet NAME         sheet of the .xlsx table (default: the first)
   --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one)
+  --out-geojson FILE   write each area's shape with its results (fitted values, residuals, local
+                       statistics) as GeoJSON, for mapping in any GIS
+  --pictures DIR       write the maps and plots as separate SVG and PNG files into DIR
 
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
@@ -109,7 +116,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
-        'per-area': { type: 'boolean' }, out: { type: 'string' },
+        'per-area': { type: 'boolean' }, out: { type: 'string' }, 'out-geojson': { type: 'string' }, pictures: { type: 'string' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
         rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' },
       },
@@ -135,6 +142,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
     throw new InputError(`--coordinates must be geographic or projected, not "${v.coordinates}".`);
   }
   if (v.out && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  if (v['out-geojson'] !== undefined && !/\.(geo)?json$/i.test(v['out-geojson'])) throw new InputError(`--out-geojson must name a .geojson (or .json) file, not "${v['out-geojson']}".`);
+  if (v.pictures !== undefined && !v.pictures.trim()) throw new InputError('--pictures needs a folder name.');
   return {
     boundary: need('boundary'),
     layer: v.layer,
@@ -163,6 +172,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
+    outGeojson: v['out-geojson'],
+    pictures: v.pictures,
   };
 }
 

@@ -65,8 +65,14 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       const { writeResultsFile } = await import('./write-results.js');
       for (const note of await writeResultsFile(result, args.out, args.data)) io.stderr(`spillway: note: ${note}\n`);
     }
+    if (args.outGeojson || args.pictures) {
+      const extras = await import('./write-extras.js');
+      const inputs = extras.inputPaths(args.boundary, args.data, args.edgeList);
+      if (args.outGeojson) for (const note of await extras.writeGeoJsonFile(result, args.outGeojson, inputs)) io.stderr(`spillway: note: ${note}\n`);
+      if (args.pictures) io.stderr(`spillway: pictures in ${args.pictures}: ${(await extras.writePictureFiles(result, args.pictures, inputs)).join(', ')}\n`);
+    }
     if (args.json) io.stdout(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2) + '\n');
-    else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : ''));
+    else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : '') + (args.outGeojson ? `Areas with results (GeoJSON): ${args.outGeojson}\n` : ''));
     return 0;
   } catch (e) {
     if (e instanceof InputError) {

@@ -47,3 +47,4 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   }
   return { sheets };
 }
+export { resultsGeoJson, resultsGeoJsonText, projectedNote } from './geojson.js';
