@@ -120,6 +120,20 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(districts.getCell('A1').value).toBe('district_id');
   }, 60_000);
 
+  it('saves the areas with their results as GeoJSON ("Save areas with results")', async () => {
+    const download = page.waitForEvent('download', { timeout: 20_000 });
+    await page.click('#save-areas');
+    const file = await download;
+    expect(file.suggestedFilename()).toBe('vell-basin areas with results.geojson');
+    const saved = join(out, 'areas.geojson');
+    await file.saveAs(saved);
+    const fc = JSON.parse(readFileSync(saved, 'utf8'));
+    expect(fc.type).toBe('FeatureCollection');
+    expect(fc.features).toHaveLength(150);
+    expect(Object.keys(fc.features[0].properties)).toEqual(expect.arrayContaining(['district_id', 'long_commute_pct', 'plain_regression_residual', 'spatial_lag_fitted', 'local_moran_group']));
+    await page.getByText(/150 areas with their fitted values/).waitFor();
+  });
+
   it('the keyboard reaches every step: Tab from the top arrives at Run', async () => {
     await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
     await page.focus('#open-data');

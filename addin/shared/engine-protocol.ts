@@ -43,14 +43,17 @@ export type EngineJob =
   | { op: 'table'; file: NamedBytesLike; sheet?: string }
   | { op: 'check'; check: CheckRequest }
   | { op: 'run'; request: Omit<AnalysisRequest, 'onProgress'> }
-  | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
+  | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string }
+  /** the areas of the last run with their results, as GeoJSON */
+  | { op: 'geojson' };
 
 export type EngineAnswer =
   | { op: 'sheets'; sheets: string[] }
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }
   | { op: 'run'; output: RunOutput }
-  | { op: 'workbook'; bytes: Uint8Array };
+  | { op: 'workbook'; bytes: Uint8Array }
+  | { op: 'geojson'; text: string; areas: number; note: string | null };
 
 export interface EngineError {
   message: string;

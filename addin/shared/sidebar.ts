@@ -10,6 +10,7 @@ import { button, checkbox, clear, h, message, numberInput, select, setDisabled, 
 import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckResult, EngineError } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
+import { saveAreasButton } from './save-areas.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
@@ -393,6 +394,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       onProgress(1, 'Done');
       run.found.append(message('success', `${output.headline}. ${outcome.message}`));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
+      run.found.append(saveAreasButton(engine, host.kind === 'page' ? (s.source?.file.name ?? 'data').replace(/\.[^.]+$/, '') : s.source?.table.sheet ?? 'sheet'));
       for (const w of output.warnings) run.found.append(message('warning', w));
       const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
       if (maps.length) {

@@ -6,7 +6,7 @@ import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
 import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
+import { buildReport, moranScatterData, MODEL_LABEL, projectedNote, resultsGeoJsonText } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
@@ -79,11 +79,21 @@ function headline(r: AnalysisResult): string {
   return parts.join(' · ');
 }
 
+/** The last run's result, kept for "Save areas with results". */
+let lastResult: AnalysisResult | null = null;
+
+function areasGeoJson(): EngineAnswer {
+  if (!lastResult) throw new InputError('There are no results yet: run the analysis first.');
+  return { op: 'geojson', text: resultsGeoJsonText(lastResult), areas: lastResult.n, note: projectedNote(lastResult) };
+}
+
 async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunOutput> {
+  lastResult = null;
   const result = await runAnalysis({
     ...request.request,
     onProgress: (fraction, stage) => scope.postMessage({ id, kind: 'progress', fraction: 0.9 * fraction, stage }),
   });
+  lastResult = result;
   scope.postMessage({ id, kind: 'progress', fraction: 0.92, stage: 'Laying out the results' });
   // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
   const report = buildReport(result);
@@ -103,6 +113,7 @@ async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
     case 'check': return { op: 'check', result: await check(job.check) };
     case 'run': return { op: 'run', output: await run(id, job) };
     case 'workbook': return { op: 'workbook', bytes: await writeResultsWorkbook(job.report, { base: job.base, baseName: job.baseName }) };
+    case 'geojson': return areasGeoJson();
   }
 }
 
