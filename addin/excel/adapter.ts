@@ -224,7 +224,13 @@ function placeAt(grid: SheetGrid, im: Pick<ReportImage, 'anchor'>) {
 export function writePictures(ws: WorksheetLike, grid: SheetGrid, sheet: ReportSheet, scatter?: ScatterPoints): void {
   for (const im of sheet.images ?? []) {
     const at = placeAt(grid, im);
-    if (scatter && im.name === SCATTER_PICTURE) {
+    const chart = scatter !== undefined && im.name === SCATTER_PICTURE;
+    // the picture described in words in the cell above it, as the .xlsx files written by exceljs have it
+    const caption = ws.getRangeByIndexes(Math.max(0, im.anchor.row - 2), im.anchor.col - 1, 1, 1);
+    caption.values = [[im.png.length || chart ? `Picture: ${im.alt}` : `Picture not drawn here (no PNG renderer): ${im.alt}`]];
+    caption.format.font.italic = true;
+    caption.format.font.color = STYLE.note.color!;
+    if (chart) {
       writeScatterChart(ws, grid, scatter, at, im);
       continue;
     }
