@@ -80,7 +80,7 @@ const GLOBAL_LOOKUP = /Function\(\s*['"]return this['"]\s*\)\(\)/g;
 const STRING_CALLBACK = /new Function\(\s*""\s*\+\s*(\w+)\s*\)/g;
 const DYNAMIC_CODE = /(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/;
 
-function noDynamicCode(): Plugin {
+export function noDynamicCode(): Plugin {
   return {
     name: 'spillway-no-dynamic-code',
     transform(code, id) {
