@@ -117,10 +117,10 @@ describe('writing the report (Columbus data, Anselin 1988)', () => {
     expect(header).toBeGreaterThan(0);
     const links = grid.values.slice(header + 1).filter((r) => typeof r[2] === 'number');
     expect(links).toHaveLength(236);
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.value).toBe(String(links[0][0]));
+    expect(excel.cellAt(nbName, header + 1, 0)?.value).toBe(String(links[0][0]));
     // IDs are written as text; weights with four decimals
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.format).toBe('@');
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},2`)?.format).toBe('0.0000');
+    expect(excel.cellAt(nbName, header + 1, 0)?.format).toBe('@');
+    expect(excel.cellAt(nbName, header + 1, 2)?.format).toBe('0.0000');
   });
 
   it('inserts the maps as pictures and the Moran scatter as a chart whose points are on the sheet', async () => {
@@ -138,7 +138,7 @@ describe('writing the report (Columbus data, Anselin 1988)', () => {
     expect(chart.trendlines).toEqual(['Linear']);
     // With row-standardised weights the scatter's least-squares slope is Moran's I (Anselin 1996).
     expect(scatter.slope).toBeCloseTo(result.moranY.I, 10);
-    const firstPoint = summary.cells.get(`${chart.source.row + 1},${chart.source.col}`);
+    const firstPoint = summary.cells.get(chart.source.row + 1, chart.source.col);
     expect(firstPoint?.value).toBeCloseTo(scatter.z[0], 12);
   });
 

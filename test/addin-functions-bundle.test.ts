@@ -14,7 +14,7 @@ import { build } from 'vite';
 import { readBoundary, representativePoints } from '../src/geo/index.js';
 import { moranColumn } from '../src/stats/index.js';
 import { buildWeights } from '../src/weights/index.js';
-import { boundaryPartXml } from '../addin/excel/boundary-part.js';
+import { boundaryParts } from '../addin/excel/boundary-part.js';
 import { SETUP_KEY } from '../addin/excel/adapter.js';
 import { FakeExcel } from './helpers/fake-excel.js';
 import { readGolden } from './helpers/columbus.js';
@@ -38,7 +38,7 @@ beforeAll(async () => {
   await build({ configFile: join(ROOT, 'addin/vite.functions.config.ts'), logLevel: 'warn', build: { outDir: out } });
   metadata = JSON.parse(readFileSync(join(out, 'functions.json'), 'utf8'));
   // the workbook as the sidebar leaves it after a run: the boundary file kept, the setup saved
-  excel.newPart(boundaryPartXml(files));
+  for (const xml of boundaryParts(files)) excel.newPart(xml);
   excel.settings.set(SETUP_KEY, JSON.stringify({ version: 1, id: 'POLYID', areas: { kind: 'file', names: files.map((f) => f.name) } }));
   const sandbox = {
     CustomFunctions: {

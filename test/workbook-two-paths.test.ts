@@ -26,10 +26,11 @@ let fileSheets: ReadSheet[];
 function fakeValues(excel: FakeExcel, name: string): Cell[][] {
   const sheet = excel.sheet(name)!;
   const rows: Cell[][] = [];
-  for (const [k, cell] of sheet.cells) {
-    if (cell.value === null || cell.value === '' || cell.value === undefined) continue;
-    const [r, c] = k.split(',').map(Number);
-    (rows[r] ??= [])[c] = cell.value as Cell;
+  for (const [r, cells] of sheet.cells.rows) {
+    cells.forEach((cell, c) => {
+      if (!cell || cell.value === null || cell.value === '' || cell.value === undefined) return;
+      (rows[r] ??= [])[c] = cell.value as Cell;
+    });
   }
   return normalise(rows);
 }

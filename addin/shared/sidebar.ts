@@ -390,9 +390,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
       await host.saveSetup(setup()).catch(() => undefined);
       const used = s.areas;
-      if (used?.kind === 'file' && !used.stored) await host.storeBoundary(used.files).catch(() => undefined);
+      // the results stand without it, but the analyst must learn that the boundary was not kept, and why
+      let notKept = '';
+      if (used?.kind === 'file' && !used.stored) {
+        await host.storeBoundary(used.files).catch((e: unknown) => { notKept = e instanceof Error ? e.message : String(e); });
+      }
       onProgress(1, 'Done');
       run.found.append(message('success', `${output.headline}. ${outcome.message}`));
+      if (notKept) run.found.append(message('warning', notKept));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       run.found.append(saveAreasButton(engine, host.kind === 'page' ? (s.source?.file.name ?? 'data').replace(/\.[^.]+$/, '') : s.source?.table.sheet ?? 'sheet'));
       for (const w of output.warnings) run.found.append(message('warning', w));
