@@ -106,7 +106,7 @@ describe('the built functions.js in a stand-in shared runtime', () => {
         expect(neighbours.description, f.id).toMatch(/5 MB/);
       }
     }
-    for (const id of ['NEIGHBOURS', 'TOUCHING']) expect(metadata.functions.find((f) => f.id === id)!.description).toMatch(/Example.*=SPILL\./);
+    for (const id of ['NEIGHBOURS', 'TOUCHING', 'FIT', 'EFFECTS', 'LMTESTS']) expect(metadata.functions.find((f) => f.id === id)!.description).toMatch(/Example.*=SPILL\./);
   });
 
   it('MORAN, LAG and GEARY by id give the engine’s figures, from a list of links and from the n × n matrix alike', async () => {
@@ -134,6 +134,23 @@ describe('the built functions.js in a stand-in shared runtime', () => {
     const rows = await call('TOUCHING', c.idRange);
     expect(rows).toHaveLength(237);
     expect(sets(rows, c.ids)).toEqual(golden.weights.neighbours);
+  });
+
+  it('FIT, EFFECTS and LMTESTS by id give the reference figures, from the list of links and the n × n matrix alike', async () => {
+    const c = await columbus();
+    for (const nb of [c.links, c.matrix]) {
+      const fit = call('FIT', c.crime, c.regressors, c.idRange, nb, 'lag');
+      const rho = fit.find((r: any[]) => String(r[0]).startsWith('ρ'));
+      expect(Math.abs(rho[1] - golden.lag.rho)).toBeLessThan(1e-6);
+      golden.lag.coefficients.forEach((k: { estimate: number }, i: number) => expect(Math.abs(fit[1 + i][1] - k.estimate) / Math.abs(k.estimate)).toBeLessThan(1e-6));
+      expect(Math.abs(fit.find((r: any[]) => r[0] === 'log-likelihood')[1] - golden.lag.logLik)).toBeLessThan(1e-6);
+      const effects = call('EFFECTS', c.crime, c.regressors, c.idRange, nb, 'lag', 'draws=100');
+      for (const g of golden.impacts) expect(Math.abs(effects.find((r: any[]) => r[0] === g.name)[7] - g.total) / Math.abs(g.total)).toBeLessThan(1e-6);
+      const tests = call('LMTESTS', c.crime, c.regressors, c.idRange, nb);
+      expect(Math.abs(tests.find((r: any[]) => r[0] === 'Lagrange multiplier: lag')[1] - golden.ols.lm.lag.stat)).toBeLessThan(1e-6);
+    }
+    const error = call('FIT', c.crime, c.regressors, c.idRange, c.links, 'error');
+    expect(Math.abs(error.find((r: any[]) => String(r[0]).startsWith('λ'))[1] - golden.error.lambda)).toBeLessThan(1e-6);
   });
 
   it('bad input becomes a #VALUE! cell error whose message names the cell', async () => {

@@ -11,6 +11,7 @@ import {
   gearyOfRange, lagOfRange, localMoranOfRange, moranOfRange, moranPermutationP,
 } from './logic.js';
 import { giStarRows, localMoranRows } from './local-logic.js';
+import { registerModelFunctions } from './model-functions.js';
 import { registerNeighbourFunctions } from './neighbour-functions.js';
 
 /**
@@ -131,4 +132,5 @@ export function registerCellFunctions(): void {
   associate('LOCALMORAN', localMoranCells);
   associate('GISTAR', giStarCells);
   registerNeighbourFunctions();
+  registerModelFunctions();
 }
