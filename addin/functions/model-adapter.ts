@@ -70,14 +70,19 @@ export function areasNeeded(key: string, coefficients: number): number {
 const KEEP = 3;
 const kept: { key: string; algebra: WeightsAlgebra }[] = [];
 
+/** The weights' pattern and values under two independent 32-bit hashes (64 bits against a stale hit). */
 function weightsKey(w: SpatialWeights): string {
   let h = 0x811c9dc5;
-  const mix = (x: number) => { h = Math.imul(h ^ x, 0x01000193); };
+  let g = 0x9747b28c;
+  const mix = (x: number) => {
+    h = Math.imul(h ^ x, 0x01000193);
+    g = Math.imul((g ^ x) << 13 | (g ^ x) >>> 19, 0x5bd1e995) + 0x6b43a9b5;
+  };
   for (const v of w.rowPtr) mix(v);
   for (const v of w.colIdx) mix(v);
   const view = new Uint32Array(w.values.buffer, w.values.byteOffset, w.values.length * 2);
   for (const v of view) mix(v);
-  return `${w.n}:${w.colIdx.length}:${(h >>> 0).toString(16)}:${w.ids.join('\u0001')}`;
+  return `${w.n}:${w.colIdx.length}:${(h >>> 0).toString(16)}${(g >>> 0).toString(16)}:${w.ids.join('\u0001')}`;
 }
 
 function algebraFor(w: SpatialWeights): WeightsAlgebra {

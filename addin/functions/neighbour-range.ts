@@ -128,12 +128,57 @@ function matrixLinks(grid: Grid, ids: string[], shape: { headerRow: boolean; hea
   return links;
 }
 
+/** Weights read from the last few neighbour ranges, keyed by the IDs, the transform and the range's cells. */
+const KEEP = 3;
+const kept: { key: string; w: SpatialWeights }[] = [];
+
+function rangeKey(ids: string[], neighbours: Grid, rowStandardise: boolean): string {
+  // two independent 32-bit hashes (FNV-1a and a multiply-rotate one): 64 bits against a stale hit
+  let h = 0x811c9dc5;
+  let g = 0x9747b28c;
+  let cells = 0;
+  const mix = (x: number) => {
+    h = Math.imul(h ^ x, 0x01000193);
+    g = Math.imul((g ^ x) << 13 | (g ^ x) >>> 19, 0x5bd1e995) + 0x6b43a9b5;
+  };
+  for (const row of neighbours) {
+    if (!Array.isArray(row)) continue;
+    for (const c of row) {
+      const text = c === null || c === undefined ? '' : typeof c === 'number' ? String(c) : `${typeof c}:${String(c)}`;
+      for (let i = 0; i < text.length; i++) mix(text.charCodeAt(i));
+      mix(0x1f);
+      cells++;
+    }
+    mix(0x1e);
+  }
+  return `${rowStandardise ? 'row' : 'as given'}|${neighbours.length}|${cells}|${(h >>> 0).toString(16)}${(g >>> 0).toString(16)}|${ids.join('\u0001')}`;
+}
+
+/**
+ * Weights from a neighbour range, read again only when the range, the IDs or the transform changed:
+ * a recalculation after an edit to the values reuses them.
+ */
+export function weightsFromRange(ids: string[], neighbours: Grid, opts: NeighbourOptions = {}): SpatialWeights {
+  if (!Array.isArray(neighbours)) return readWeights(ids, neighbours, opts);
+  const key = rangeKey(ids, neighbours, opts.rowStandardise === true);
+  const at = kept.findIndex((k) => k.key === key);
+  if (at >= 0) {
+    const [hit] = kept.splice(at, 1);
+    kept.unshift(hit);
+    return hit.w;
+  }
+  const w = readWeights(ids, neighbours, opts);
+  kept.unshift({ key, w });
+  kept.length = Math.min(kept.length, KEEP);
+  return w;
+}
+
 /**
  * Weights from a neighbour range (a list of links or a matrix, see above). The engine's edge-list
  * reader does the checking, so a range and a CSV file are read by the same rules (header row
  * detected, unknown IDs refused); trailing blank rows and columns are cut first.
  */
-export function weightsFromRange(ids: string[], neighbours: Grid, opts: NeighbourOptions = {}): SpatialWeights {
+function readWeights(ids: string[], neighbours: Grid, opts: NeighbourOptions): SpatialWeights {
   if (!Array.isArray(neighbours) || neighbours.length === 0) throw new InputError(`${SOURCE} is empty; select the origin, neighbour and weight columns, or a weights matrix.`);
   // A matrix selected exactly keeps its blank last rows or columns (an area with no links); any
   // other range loses its blank rows at the end and blank columns at the right.
