@@ -17,6 +17,9 @@ import { buildWeights } from '../src/weights/index.js';
 import { boundaryParts } from '../addin/excel/boundary-part.js';
 import { SETUP_KEY } from '../addin/excel/adapter.js';
 import { FakeExcel } from './helpers/fake-excel.js';
+import { runAnalysis } from '../src/pipeline/index.js';
+import { readWorkbook } from '../src/workbook/index.js';
+import { CELL_FUNCTION_GUIDE, WORKED_EXAMPLE } from '../addin/shared/functions-guide.js';
 import { readGolden } from './helpers/columbus.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -106,6 +109,8 @@ describe('the built functions.js in a stand-in shared runtime', () => {
         expect(neighbours.description, f.id).toMatch(/5 MB/);
       }
     }
+    // the sidebar's guide lists every function
+    expect(CELL_FUNCTION_GUIDE.map((f) => f.name).sort()).toEqual(metadata.functions.map((f) => f.id).sort());
     for (const id of ['NEIGHBOURS', 'TOUCHING', 'FIT', 'EFFECTS', 'LMTESTS']) expect(metadata.functions.find((f) => f.id === id)!.description).toMatch(/Example.*=SPILL\./);
   });
 
@@ -152,6 +157,28 @@ describe('the built functions.js in a stand-in shared runtime', () => {
     const error = call('FIT', c.crime, c.regressors, c.idRange, c.links, 'error');
     expect(Math.abs(error.find((r: any[]) => String(r[0]).startsWith('λ'))[1] - golden.error.lambda)).toBeLessThan(1e-6);
   });
+
+  it('the help’s worked example on the demo sheet gives the figures of a run of the whole job (addin/shared/functions-guide.ts)', async () => {
+    const samples = join(ROOT, 'sample-workbooks');
+    const districts = { name: 'vell-basin-districts.geojson', bytes: new Uint8Array(readFileSync(join(samples, 'vell-basin-districts.geojson'))) };
+    const table = { name: 'vell-basin.xlsx', bytes: new Uint8Array(readFileSync(join(samples, 'vell-basin.xlsx'))) };
+    const sheet = await readWorkbook(table.bytes);
+    const rows = sheet.find((s) => s.name === 'Districts')!.rows.slice(0, 151);
+    const column = (c: number, width = 1) => rows.map((r) => r.slice(c, c + width));
+    // the workbook after a run from the sidebar: the demo's boundary kept, its setup saved
+    excel.xmlParts.length = 0;
+    for (const xml of boundaryParts([districts])) excel.newPart(xml);
+    excel.settings.set(SETUP_KEY, JSON.stringify({ version: 1, id: 'district_id', areas: { kind: 'file', names: [districts.name] } }));
+    const k1 = await call('TOUCHING', column(0));
+    const fit = call('FIT', column(2), column(3, 3), column(0), k1, 'lag');
+    const run = await runAnalysis({ boundary: [districts], data: table, sheet: 'Districts', id: 'district_id', y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'],
+      weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag'], impactDraws: 10, permutations: 0 });
+    expect(k1.length - 1).toBe(run.weights.links);
+    expect(Math.abs(fit.find((r: any[]) => String(r[0]).startsWith('ρ'))[1] - run.lag!.parameter)).toBeLessThan(1e-6); // the search's own tolerance
+    const tests = call('LMTESTS', column(2), column(3, 3), column(0), k1);
+    expect(Math.abs(tests.find((r: any[]) => r[0] === 'Lagrange multiplier: lag')[1] - run.ols.lm.lag.stat)).toBeLessThan(1e-8);
+    for (const step of WORKED_EXAMPLE) expect(step.formula).toMatch(/^=SPILL\.(TOUCHING|LMTESTS|FIT|EFFECTS)\(/);
+  }, 60_000);
 
   it('bad input becomes a #VALUE! cell error whose message names the cell', async () => {
     const c = await columbus();

@@ -95,7 +95,9 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
     await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
-    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR']);
+    // every function the metadata lists is registered in the pane's runtime
+    const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.map((f) => f.id);
+    expect([...(await page.evaluate(() => window.__associated))].sort()).toEqual([...listed].sort());
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
@@ -133,6 +135,16 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
       await page.screenshot({ path: join(ROOT, 'docs/screenshots/excel-taskpane-sidebar.png'), fullPage: true });
     }
   }, 60_000);
+
+  it('lists the cell functions with a worked example on the demo sheet', async () => {
+    await page.click('#functions-help summary');
+    await page.getByText(/=SPILL\.FIT\(C1:C151, D1:F151, A1:A151, K1#, "lag"\)/).waitFor();
+    const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.length;
+    expect(await page.locator('#functions-help .function-list li').count()).toBe(listed);
+    const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    await page.locator('#functions-help').screenshot({ path: join(shots, 'excel-taskpane-cell-functions.png') });
+    expect(problems).toEqual([]);
+  });
 
   it('reopened, the pane finds the kept boundary file and the last setup in the workbook, and runs again without the file', async () => {
     await page.evaluate(() => {

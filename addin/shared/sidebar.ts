@@ -11,6 +11,7 @@ import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckResult, EngineError } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
 import { saveAreasButton } from './save-areas.js';
+import { functionsHelp } from './functions-help.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
@@ -414,6 +415,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       setDisabled(runButton, false); setDisabled(cancelButton, true);
     }
   }
+
+  // the cell functions, where there are cells (Excel)
+  if (host.kind === 'excel') root.append(functionsHelp());
 
   // ---- the last setup, and boundaries kept in the document
   void (async () => {
