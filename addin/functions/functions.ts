@@ -15,7 +15,7 @@ import { registerModelFunctions } from './model-functions.js';
 import { registerNeighbourFunctions } from './neighbour-functions.js';
 
 /**
- * Moran's I of a column of values: how much neighbouring areas resemble each other.
+ * Moran's I of a column of values: how much neighbouring areas resemble each other. Example on the Vell Basin districts, with =SPILL.TOUCHING(A1:A151) in K1: =SPILL.MORAN(C1:C151, A1:A151, K1#, TRUE)
  * @customfunction MORAN
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -29,7 +29,7 @@ export function moran(values: any[][], ids: any[][], neighbours: any[][], detail
 }
 
 /**
- * Permutation p-value of Moran's I: the share of random reshufflings of the values at least as extreme as the observed pattern.
+ * Permutation p-value of Moran's I: the share of random reshufflings of the values at least as extreme as the observed pattern. Example: =SPILL.MORANPERM(C1:C151, A1:A151, K1#, 999, 7)
  * @customfunction MORANPERM
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -46,7 +46,7 @@ export function moranPerm(
 }
 
 /**
- * Spatial lag: for each area, the weighted sum of its neighbours' values (their average when each area's weights sum to 1).
+ * Spatial lag: for each area, the weighted sum of its neighbours' values (their average when each area's weights sum to 1). Example: =SPILL.LAG(C1:C151, A1:A151, K1#)
  * @customfunction LAG
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -59,7 +59,7 @@ export function lag(values: any[][], ids: any[][], neighbours: any[][], rowStand
 }
 
 /**
- * Local Moran values: each area's share in the overall resemblance of neighbours.
+ * Local Moran values: each area's share in the overall resemblance of neighbours. Example: =SPILL.MORANBYAREA(C1:C151, A1:A151, K1#)
  * @customfunction MORANBYAREA
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -72,7 +72,7 @@ export function localMoran(values: any[][], ids: any[][], neighbours: any[][], r
 }
 
 /**
- * Geary's C: below 1 when neighbouring areas have similar values, above 1 when they differ.
+ * Geary's C: below 1 when neighbouring areas have similar values, above 1 when they differ. Example: =SPILL.GEARY(C1:C151, A1:A151, K1#, TRUE)
  * @customfunction GEARY
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -86,7 +86,7 @@ export function geary(values: any[][], ids: any[][], neighbours: any[][], detail
 }
 
 /**
- * Local Moran's I per area with conditional permutation inference and multiple-testing control: where the values cluster.
+ * Local Moran's I per area with conditional permutation inference and multiple-testing control: where the values cluster. Example on the Vell Basin districts, with =SPILL.TOUCHING(A1:A151) in K1: =SPILL.LOCALMORAN(H1:H151, A1:A151, K1#)
  * @customfunction LOCALMORAN
  * @param values One number per area, in a single column (a whole column such as B:B works: blank rows at the end are left out). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
@@ -105,7 +105,7 @@ export function localMoranCells(
 }
 
 /**
- * Getis–Ord Gi* per area (binary weights, the area itself included): clusters of high or of low values.
+ * Getis–Ord Gi* per area (binary weights, the area itself included): clusters of high or of low values. Example: =SPILL.GISTAR(H1:H151, A1:A151, K1#, 999, 1, 0.05, "fdr")
  * @customfunction GISTAR
  * @param values One number of zero or more per area, in a single column (a whole column such as B:B works). A text first cell is read as a header.
  * @param ids The area IDs, in the same rows as the values.
