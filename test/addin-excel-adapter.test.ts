@@ -189,3 +189,36 @@ describe('what the workbook keeps for the next run', () => {
     expect(Buffer.from(back![1].bytes).equals(Buffer.from(dbf))).toBe(true);
   });
 });
+
+describe('writing the Rates sheet through Office.js (North Carolina counties, test/fixtures/sids, r-cran-spdata CC0)', () => {
+  it('writes the same blocks as the .xlsx writer, with the side-by-side maps as one picture, and withheld cells empty', async () => {
+    const { parseRateRecipe } = await import('../src/pipeline/index.js');
+    const { scatterPoints } = await import('../src/report/index.js');
+    const sids = join(ROOT, 'test/fixtures/sids');
+    const boundary = ['sids.shp', 'sids.shx', 'sids.dbf'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(sids, name))) }));
+    const r = await runAnalysis({
+      boundary, id: 'FIPS', y: 'sids', x: ['NWBIR74'], weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+      rates: { recipes: [parseRateRecipe('sids=SID74/BIR74', 1000)], smoothing: 'global', withholdFlagged: true },
+    });
+    const rep = buildReport(r, { renderPng: () => PNG_STUB });
+    const d = scatterPoints(r);
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const names = await new ExcelAdapter(excel.run).writeReport({ report: rep, scatter: { valueName: 'sids', z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope } });
+    const index = rep.sheets.findIndex((s) => s.role === 'rates');
+    expect(names[index]).toBe('Rates');
+    const written = excel.sheet('Rates')!;
+    expect(written.shapes).toHaveLength(1);
+    expect(written.shapes[0].altTextDescription).toMatch(/raw rate and global empirical-Bayes rate, side by side/);
+    const grid = sheetGrid(rep.sheets[index]);
+    const header = grid.values.findIndex((row) => row[0] === 'Area ID');
+    const flagged = r.rates![0].areas.map((a) => a.flagged);
+    flagged.forEach((f, i) => {
+      const raw = written.cells.get(header + 1 + i, 4)?.value;
+      if (f) expect(raw ?? null).toBeNull();
+      else expect(raw).toBeCloseTo(r.rates![0].areas[i].rate, 12);
+    });
+    // the withheld areas' points are not on the chart's data either
+    expect(d.z.length).toBe(flagged.filter((f) => !f).length);
+  });
+});

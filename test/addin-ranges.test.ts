@@ -140,3 +140,17 @@ describe('the request size the descriptions promise (Excel sends a call at most 
     expect(larger).toBeGreaterThan(LIMIT);
   });
 });
+
+describe('the rate functions on whole columns', () => {
+  it('RATEGLOBAL and RATELOCAL give the same rates for whole columns as for the exact ranges', async () => {
+    const { globalRateRows, localRateRows } = await import('../addin/functions/rate-logic.js');
+    // invented counts for a path of four areas A–B–C–D
+    const events: Grid = [['cases'], [3], [10], [0], [7]];
+    const population: Grid = [['people'], [1200], [5400], [800], [3100]];
+    const ids: Grid = [['area'], ['A'], ['B'], ['C'], ['D']];
+    const links: Grid = [['A', 'B', 1], ['B', 'A', 1], ['B', 'C', 1], ['C', 'B', 1], ['C', 'D', 1], ['D', 'C', 1]];
+    const whole = (g: Grid) => [...g, ...Array.from({ length: 3000 }, () => [null])];
+    expect(globalRateRows(whole(events), whole(population), { detail: true })).toEqual(globalRateRows(events, population, { detail: true }));
+    expect(localRateRows(whole(events), whole(population), whole(ids), links)).toEqual(localRateRows(events, population, ids, links));
+  });
+});

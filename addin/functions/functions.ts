@@ -13,6 +13,7 @@ import {
 import { giStarRows, localMoranRows } from './local-logic.js';
 import { registerModelFunctions } from './model-functions.js';
 import { registerNeighbourFunctions } from './neighbour-functions.js';
+import { globalRateRows, localRateRows, rateMoranRow } from './rate-logic.js';
 
 /**
  * Moran's I of a column of values: how much neighbouring areas resemble each other. Example on the Vell Basin districts, with =SPILL.TOUCHING(A1:A151) in K1: =SPILL.MORAN(C1:C151, A1:A151, K1#, TRUE)
@@ -122,6 +123,53 @@ export function giStarCells(
   return guarded(() => giStarRows(values, ids, neighbours, { permutations, seed, level, control }));
 }
 
+/**
+ * Global empirical-Bayes rates: each area's rate pulled towards the overall rate by how reliable its count makes it (Marshall 1991). Example with event counts in B and populations in C: =SPILL.RATEGLOBAL(B1:B101, C1:C101, 100000)
+ * @customfunction RATEGLOBAL
+ * @param events Whole numbers of events (cases, deaths, offences) per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param [per] Show rates per 1, 100, 1000 (default) or 100000 people.
+ * @param [detail] TRUE to spill four columns per area: the raw rate, the smoothed rate, the shrinkage weight (1 keeps the raw rate, 0 replaces it) and "few events" where fewer than 20 events.
+ * @returns One smoothed rate per area, spilled down in the order of the rows.
+ */
+export function rateGlobal(events: any[][], population: any[][], per?: number, detail?: boolean): any[][] {
+  return guarded(() => globalRateRows(events, population, { per, detail: detail === true }));
+}
+
+/**
+ * Local empirical-Bayes rates: each area's rate pulled towards the rate of its neighbourhood (the area and its neighbours). Example with IDs in A, event counts in B, populations in C and =SPILL.TOUCHING(A1:A101) in K1: =SPILL.RATELOCAL(B1:B101, C1:C101, A1:A101, K1#, 100000)
+ * @customfunction RATELOCAL
+ * @param events Whole numbers of events per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param ids The area IDs, in the same rows.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
+ * @param [per] Show rates per 1, 100, 1000 (default) or 100000 people.
+ * @param [detail] TRUE to spill four columns per area: the raw rate, the smoothed rate, the shrinkage weight and "few events" where fewer than 20 events.
+ * @returns One smoothed rate per area, spilled down in the order of the IDs.
+ */
+export function rateLocal(events: any[][], population: any[][], ids: any[][], neighbours: any[][], per?: number, detail?: boolean): any[][] {
+  return guarded(() => localRateRows(events, population, ids, neighbours, { per, detail: detail === true }));
+}
+
+/**
+ * Rate-adjusted Moran's I (Assunção & Reis 1999): clustering of rates tested fairly when populations differ, by first standardising each rate by its empirical-Bayes variance. Example: =SPILL.RATEMORAN(B1:B101, C1:C101, A1:A101, K1#, TRUE)
+ * @customfunction RATEMORAN
+ * @param events Whole numbers of events per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param ids The area IDs, in the same rows.
+ * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
+ * @param [detail] TRUE to spill four cells across: the statistic, z, the two-sided normal p-value and the permutation p-value.
+ * @param [permutations] With detail, how many reshufflings to draw for the permutation p-value (default 999; 0 for none).
+ * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1; by default the weights are used as listed.
+ * @returns The rate-adjusted Moran's I, or a row of four numbers with detail.
+ */
+export function rateMoran(
+  events: any[][], population: any[][], ids: any[][], neighbours: any[][], detail?: boolean, permutations?: number, seed?: number, rowStandardise?: boolean,
+): any[][] {
+  return guarded(() => rateMoranRow(events, population, ids, neighbours, detail === true, permutations ?? 999, seed ?? 1, { rowStandardise: rowStandardise === true }));
+}
+
 /** Ties each metadata id to its function; Office.js provides CustomFunctions in the shared runtime. */
 export function registerCellFunctions(): void {
   associate('MORAN', moran);
@@ -131,6 +179,9 @@ export function registerCellFunctions(): void {
   associate('GEARY', geary);
   associate('LOCALMORAN', localMoranCells);
   associate('GISTAR', giStarCells);
+  associate('RATEGLOBAL', rateGlobal);
+  associate('RATELOCAL', rateLocal);
+  associate('RATEMORAN', rateMoran);
   registerNeighbourFunctions();
   registerModelFunctions();
 }

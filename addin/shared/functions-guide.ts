@@ -18,6 +18,9 @@ export const CELL_FUNCTION_GUIDE: readonly { name: string; call: string; gives: 
   { name: 'MORANBYAREA', call: 'SPILL.MORANBYAREA(values, ids, neighbours)', gives: 'each area’s local Moran value.' },
   { name: 'LOCALMORAN', call: 'SPILL.LOCALMORAN(values, ids, neighbours, …)', gives: 'local Moran per area with its p and group after multiple-testing control.' },
   { name: 'GISTAR', call: 'SPILL.GISTAR(values, ids, neighbours, …)', gives: 'Getis–Ord Gi* per area: clusters of high or low values.' },
+  { name: 'RATEGLOBAL', call: 'SPILL.RATEGLOBAL(events, population, [per], [detail])', gives: 'rates from counts, each pulled towards the overall rate by how reliable its count makes it (empirical Bayes).' },
+  { name: 'RATELOCAL', call: 'SPILL.RATELOCAL(events, population, ids, neighbours, [per], [detail])', gives: 'rates pulled towards the rate of the area’s neighbourhood instead.' },
+  { name: 'RATEMORAN', call: 'SPILL.RATEMORAN(events, population, ids, neighbours, [detail], …)', gives: 'Moran’s I for rates, fair when populations differ.' },
 ];
 
 /** The worked example on the demo sheet, cell by cell. */
