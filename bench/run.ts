@@ -9,6 +9,8 @@
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
  *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
  *  - the model cell functions on cell ranges (Columbus; 3,000 areas): first call and recalculation.
+ *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
+ *    (bench/input-checks.ts).
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
  */
 import { spawnSync } from 'node:child_process';
@@ -33,6 +35,7 @@ import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
 import { columbusCellsWorkload, gridCellsWorkload } from './cell-functions.js';
+import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 
@@ -315,6 +318,8 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'local statistics 300x300': () => localStatisticsWorkload(300),
   'cell functions Columbus': columbusCellsWorkload,
   'cell functions 3000 areas': () => gridCellsWorkload(50, 60),
+  'zip understating its size': understatedZipWorkload,
+  'overlap checks': overlapChecksWorkload,
 };
 
 async function main(): Promise<void> {

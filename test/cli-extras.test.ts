@@ -98,7 +98,7 @@ describe('the extra outputs never overwrite an input', () => {
     const r = runCli(['fit', '--boundary', boundary, '--data', join(ROOT, 'sample-workbooks/vell-basin.xlsx'), '--id', 'district_id', '--y', 'long_commute_pct', '--x', 'broadband_pct',
       '--models', 'ols', '--out-geojson', boundary, '--threads', '1']);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/--out-geojson .* is one of the input files/);
+    expect(r.stderr).toMatch(/--out-geojson ".*" is the same file as the --boundary file/);
     expect(r.stderr).not.toMatch(STACK_LINE);
     expect(readFileSync(boundary).equals(before)).toBe(true);
   });

@@ -3,6 +3,7 @@
  * their results into GeoJSON (RFC 7946), which the browser saves as a file — for mapping in any GIS.
  * Self-contained: the sidebar only places it.
  */
+import { printable } from '../../src/errors.js';
 import { button, h, message } from './dom.js';
 import type { EngineClient } from './engine-client.js';
 
@@ -18,7 +19,8 @@ export function saveAreasButton(engine: EngineClient, stem: string): HTMLElement
       document.body.append(a);
       a.click();
       a.remove();
-      status.append(h('p', { class: 'hint' }, `${fileName}: ${areas} areas with their fitted values, residuals and local statistics, for any GIS.`));
+      // the name carries the user's file or sheet name: shown through the same escaping as every message
+      status.append(h('p', { class: 'hint' }, printable(`${fileName}: ${areas} areas with their fitted values, residuals and local statistics, for any GIS.`)));
       if (note) status.append(message('warning', note));
       setTimeout(() => URL.revokeObjectURL(url), 60_000);
     } catch (e) {

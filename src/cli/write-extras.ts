@@ -1,42 +1,26 @@
 /**
  * Outputs beside the workbook: the per-area results joined to the shapes as GeoJSON (--out-geojson),
- * and the report's maps and plots as separate SVG and PNG files (--pictures DIR). Each file is written
- * whole or not at all (write-file.ts), and never over one of the run's input files.
+ * and the report's maps and plots as separate SVG and PNG files (--pictures DIR). They meet the same
+ * rules as the results workbook (output-file.ts): never an input, an existing file replaced only with
+ * --overwrite and never when read-only, each file written whole through a temporary file that is
+ * removed on failure and on signals (write-file.ts).
  */
-import { readdirSync } from 'node:fs';
-import { mkdir, stat } from 'node:fs/promises';
-import { basename, dirname, extname, join, resolve } from 'node:path';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
 import { InputError } from '../errors.js';
 import type { AnalysisResult } from '../pipeline/index.js';
 import { buildReport, projectedNote, resultsGeoJsonText } from '../report/index.js';
 import { renderPng } from '../report/render-png.js';
 import { writeWorkbookFile } from '../workbook/write-file.js';
+import { planOutput, type InputPath, type OutputPlan, type PictureFolder } from './output-file.js';
 
-/** The run's input files: the boundary (with a shapefile's companions), the table, the neighbour list. */
-export function inputPaths(boundary: string, data?: string, edgeList?: string): string[] {
-  const paths = [boundary, ...(data ? [data] : []), ...(edgeList ? [edgeList] : [])];
-  if (extname(boundary).toLowerCase() === '.shp') {
-    const stem = basename(boundary, extname(boundary)).toLowerCase();
-    try {
-      for (const entry of readdirSync(dirname(boundary))) {
-        if (basename(entry, extname(entry)).toLowerCase() === stem) paths.push(join(dirname(boundary), entry));
-      }
-    } catch { /* the boundary was read, so its folder exists; nothing more to add */ }
-  }
-  return paths;
+function writeOptions(plan: OutputPlan): { replace?: boolean; mode?: number } {
+  return plan.replaceMode !== undefined ? { replace: true, mode: plan.replaceMode } : {};
 }
 
-/** Refuses an output path that names one of the inputs: an input file is never overwritten. */
-export function refuseInputPath(outPath: string, inputs: readonly string[], option: string): void {
-  const target = resolve(outPath);
-  const hit = inputs.find((p) => resolve(p) === target);
-  if (hit) throw new InputError(`${option} ${outPath} is one of the input files; choose another name so the input is not overwritten.`, { file: outPath });
-}
-
-/** Writes the GeoJSON; returns notes for the user (projected coordinates). */
-export async function writeGeoJsonFile(result: AnalysisResult, outPath: string, inputs: readonly string[]): Promise<string[]> {
-  refuseInputPath(outPath, inputs, '--out-geojson');
-  await writeWorkbookFile(outPath, new TextEncoder().encode(resultsGeoJsonText(result)));
+/** Writes the GeoJSON to a planned path; returns notes for the user (projected coordinates). */
+export async function writeGeoJsonFile(result: AnalysisResult, plan: OutputPlan): Promise<string[]> {
+  await writeWorkbookFile(plan.target, new TextEncoder().encode(resultsGeoJsonText(result)), writeOptions(plan));
   const note = projectedNote(result);
   return note ? [note] : [];
 }
@@ -46,13 +30,19 @@ export function pictureFileName(name: string): string {
   return name.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '') || 'picture';
 }
 
-/** Writes every picture of the report as NAME.svg and NAME.png into dir (made when missing); returns the file names. */
-export async function writePictureFiles(result: AnalysisResult, dir: string, inputs: readonly string[]): Promise<string[]> {
-  const existing = await stat(dir).catch(() => null);
-  if (existing && !existing.isDirectory()) throw new InputError(`--pictures ${dir} is a file, not a folder; name a folder for the pictures.`, { file: dir });
-  await mkdir(dir, { recursive: true });
+export interface PicturePlan {
+  pictures: PictureFolder;
+  files: { name: string; bytes: Uint8Array; plan?: OutputPlan }[];
+}
+
+/**
+ * Draws every picture of the report and checks each file it will be written to (NAME.svg and
+ * NAME.png in the planned folder) against the inputs and what is there — before any output of the run
+ * is written, so a refusal leaves every folder as it was.
+ */
+export function planPictureFiles(result: AnalysisResult, pictures: PictureFolder, inputs: InputPath[], overwrite: boolean): PicturePlan {
   const report = buildReport(result, { renderPng });
-  const written: string[] = [];
+  const files: PicturePlan['files'] = [];
   const used = new Set<string>();
   for (const sheet of report.sheets) {
     for (const im of sheet.images ?? []) {
@@ -61,12 +51,26 @@ export async function writePictureFiles(result: AnalysisResult, dir: string, inp
       used.add(stem);
       for (const [ext, bytes] of [['svg', new TextEncoder().encode(im.svg)], ['png', im.png]] as const) {
         if (bytes.length === 0) continue;
-        const path = join(dir, `${stem}.${ext}`);
-        refuseInputPath(path, inputs, '--pictures');
-        await writeWorkbookFile(path, bytes);
-        written.push(`${stem}.${ext}`);
+        const name = `${stem}.${ext}`;
+        // in a folder still to be made there is nothing to compare with
+        files.push({ name, bytes, ...(pictures.exists ? { plan: planOutput(join(pictures.folder, name), inputs, overwrite, '--pictures') } : {}) });
       }
     }
   }
-  return written;
+  return { pictures, files };
+}
+
+/** Writes the planned pictures (making their folder when missing); returns the file names. */
+export async function writePictureFiles({ pictures, files }: PicturePlan): Promise<string[]> {
+  if (!pictures.exists) {
+    try {
+      mkdirSync(pictures.folder);
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      // made meanwhile by someone else: each file below is then placed without replacing anything
+      if (code !== 'EEXIST') throw new InputError(`Cannot make the --pictures folder "${pictures.given}" (${code ?? 'error'}). Check the path and permissions, or name another folder.`, { file: pictures.given });
+    }
+  }
+  for (const f of files) await writeWorkbookFile(f.plan ? f.plan.target : join(pictures.folder, f.name), f.bytes, f.plan ? writeOptions(f.plan) : {});
+  return files.map((f) => f.name);
 }
