@@ -13,6 +13,7 @@ import { build, type PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
+import { BOUNDARY_NAMESPACE } from '../addin/excel/boundary-part.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const window: any;
@@ -176,6 +177,23 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     expect(await page.getByText(/Keep the file beside the workbook to run again/).count()).toBe(1);
     expect(await page.evaluate(() => window.__excel.xmlParts.length)).toBe(0);
     if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'boundary-not-kept.png'), fullPage: true });
+    expect(problems).toEqual([]);
+  }, 60_000);
+
+  it('says plainly when the kept boundary file cannot be read at start-up, and the rest of the pane works', async () => {
+    // a workbook whose kept boundary lost one of its two parts
+    const damaged = `<boundaries xmlns="${BOUNDARY_NAMESPACE}" set="k1" part="1" parts="2"><file name="districts.shp" size="9" piece="1" pieces="2">AAAA</file></boundaries>`;
+    await page.evaluate((xml) => sessionStorage.setItem('seed', JSON.stringify({ settings: [], parts: [xml] })), damaged);
+    await page.reload();
+    await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    const note = page.locator('#stored-boundary-note');
+    await note.getByText(/The boundary file kept in this workbook is incomplete \(1 of 2 parts found\); open the original file again\. The table and the other settings work as before\./).waitFor();
+    if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'kept-boundary-unreadable.png'), fullPage: true });
+    // opening the file again goes on as usual, and the note goes
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    expect(await note.textContent()).toBe('');
+    await page.evaluate(() => sessionStorage.removeItem('seed'));
     expect(problems).toEqual([]);
   }, 60_000);
 });

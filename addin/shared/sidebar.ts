@@ -152,10 +152,13 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const pointsButton = button('Use coordinate columns instead', () => { s.areas = { kind: 'points' }; drawAreas(); }, { id: 'use-points' });
   areas.body.append(h('p', { class: 'hint' }, 'GeoJSON, TopoJSON or a zipped shapefile. It stays on this computer.'), h('div', { class: 'buttons' }, openButton, pointsButton), fileInput);
   const areaChoice = h('div');
-  areas.body.append(areaChoice);
+  // why a boundary kept in the workbook could not be read; stays until another choice is made
+  const storedNote = h('div', { id: 'stored-boundary-note' });
+  areas.body.append(storedNote, areaChoice);
 
   function drawAreas() {
     clear(areaChoice);
+    if (s.areas) clear(storedNote);
     if (s.areas?.kind === 'file') {
       areaChoice.append(h('p', {}, `Boundaries: ${s.areas.files.map((f) => f.name).join(', ')}${s.areas.stored ? ' (kept in this workbook from an earlier run)' : ''}.`));
     } else if (s.areas?.kind === 'points' && s.profile) {
@@ -470,7 +473,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       // the table may have arrived before the setup did
       if (s.source) useTable(s.source);
     }
-    const stored = await host.loadBoundary().catch(() => null);
+    // a kept boundary that cannot be read is said plainly; the table, the setup and a new file still work
+    const stored = await host.loadBoundary().catch((e: unknown) => {
+      // the adapter's reasons name the kept file and end by asking for the original again
+      const why = (e instanceof Error ? e.message : String(e)).trim();
+      const tail = /open the original file again/i.test(why) ? '' : ' Open the boundary file again to run.';
+      if (!s.areas) clear(storedNote, message('warning', `${why}${tail} The table and the other settings work as before.`));
+      return null;
+    });
     if (stored && !s.areas) {
       s.areas = { kind: 'file', files: stored, stored: true, idProperty: saved?.areas?.kind === 'file' ? saved.areas.idProperty : undefined };
       drawAreas();
