@@ -9,6 +9,8 @@
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
  *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
  *  - the model cell functions on cell ranges (Columbus; 3,000 areas): first call and recalculation.
+ *  - the results workbook (--out) against --json on the same grid, back to back (bench/results-workbook.ts);
+ *    at 500×500 only with --with-large (several minutes);
  *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
  *    (bench/input-checks.ts).
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
@@ -35,6 +37,7 @@ import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
 import { columbusCellsWorkload, gridCellsWorkload } from './cell-functions.js';
+import { resultsWorkbookWorkload } from './results-workbook.js';
 import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -93,7 +96,7 @@ function lagData(w: CsrMatrix, seed = 12345) {
     csrMultiply(w, term, next);
     for (let i = 0; i < n; i++) { term[i] = 0.5 * next[i]; y[i] += term[i]; }
   }
-  return { y, x1, x2, design: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
+  return { y, x1, x2, design: { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
 }
 
 /** The algebra with its exact log-determinant counted. */
@@ -185,14 +188,14 @@ async function analysisWorkload(name: string, request: Parameters<typeof runAnal
   }
   const reportSeconds = median(runs);
   sample();
-  const r = result as unknown as { n: number; timings: Record<string, number>; lag?: { convergence: { iterations: number; message: string } }; error?: { convergence: { iterations: number } }; algebra?: { logDeterminant: string } };
+  const r = result as unknown as { n: number; timings: Record<string, number>; fits: { lag?: { convergence: { iterations: number; message: string } } }; algebra?: { logDeterminant: string } };
   return {
     workload: name,
     n: r.n,
     weightsSeconds: weightsSeconds === null ? null : round(weightsSeconds),
     reportSeconds: round(reportSeconds),
     stageSeconds: Object.fromEntries(Object.entries(r.timings).map(([k, v]) => [k, round(v)])),
-    lagSearch: r.lag?.convergence.message,
+    lagSearch: r.fits.lag?.convergence.message,
     peakRssMB: peakMB(),
     method: r.algebra?.logDeterminant,
   };
@@ -318,9 +321,14 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'local statistics 300x300': () => localStatisticsWorkload(300),
   'cell functions Columbus': columbusCellsWorkload,
   'cell functions 3000 areas': () => gridCellsWorkload(50, 60),
+  'results workbook 300x300': () => resultsWorkbookWorkload(300, 3),
+  'results workbook 500x500': () => resultsWorkbookWorkload(500, 1),
   'zip understating its size': understatedZipWorkload,
   'overlap checks': overlapChecksWorkload,
 };
+
+/** Workloads left out of a full run unless asked for with --with-large. */
+const LARGE = new Set(['results workbook 500x500']);
 
 async function main(): Promise<void> {
   const at = process.argv.indexOf('--one');
@@ -333,7 +341,9 @@ async function main(): Promise<void> {
     return;
   }
   const script = fileURLToPath(import.meta.url);
+  const withLarge = process.argv.includes('--with-large');
   for (const name of Object.keys(WORKLOADS)) {
+    if (LARGE.has(name) && !withLarge) continue;
     const child = spawnSync(process.execPath, [...process.execArgv, script, '--one', name], { encoding: 'utf8', maxBuffer: 1 << 24 });
     const line = child.stdout.trim().split('\n').pop();
     if (child.status === 0 && line) console.log(line);

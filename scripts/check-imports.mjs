@@ -1,8 +1,6 @@
 #!/usr/bin/env node
 // Import-boundary check: the engine's stages import one another only in pipeline order, and never
 // reach downward into a later stage. Prints each offending import and exits 1 when there is one.
-// Rules that do not hold yet are listed in KNOWN and reported without failing, so they can be removed
-// one by one as the code is moved.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative, dirname, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -12,7 +10,8 @@ const src = join(root, 'src');
 
 /** For each stage, the stages it must never import. */
 const FORBIDDEN = {
-  linalg: ['geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
+  core: ['linalg', 'geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
+  linalg: ['core', 'geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   geo: ['weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   weights: ['models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   stats: ['models', 'pipeline', 'report', 'workbook', 'cli'],
@@ -20,8 +19,6 @@ const FORBIDDEN = {
   report: ['workbook', 'cli'],
   workbook: ['cli'],
 };
-/** Known exceptions still to be removed (stats reads the design and test types from models). */
-const KNOWN = [{ from: 'stats', to: 'models/types.ts' }];
 
 function files(dir) {
   return readdirSync(dir).flatMap((name) => {
@@ -31,7 +28,6 @@ function files(dir) {
 }
 
 const problems = [];
-const known = [];
 for (const file of files(src)) {
   const stage = relative(src, file).split(sep)[0];
   const banned = FORBIDDEN[stage];
@@ -41,12 +37,9 @@ for (const file of files(src)) {
     const target = relative(src, resolve(dirname(file), m[1])).replace(/\.js$/, '.ts');
     const targetStage = target.split(sep)[0];
     if (!banned.includes(targetStage)) continue;
-    const line = `${relative(root, file)} imports ${m[1]}`;
-    if (KNOWN.some((k) => k.from === stage && target.split(sep).join('/') === k.to)) known.push(line);
-    else problems.push(line);
+    problems.push(`${relative(root, file)} imports ${m[1]}`);
   }
 }
-if (known.length) console.log(`import boundaries: ${known.length} known exception(s) still to move (stats → models/types.ts).`);
 if (problems.length) {
   console.error(`import boundaries: ${problems.length} import(s) against the stage order:\n  ${problems.join('\n  ')}`);
   process.exit(1);

@@ -174,7 +174,7 @@ describe('the built functions.js in a stand-in shared runtime', () => {
     const run = await runAnalysis({ boundary: [districts], data: table, sheet: 'Districts', id: 'district_id', y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'],
       weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag'], impactDraws: 10, permutations: 0 });
     expect(k1.length - 1).toBe(run.weights.links);
-    expect(Math.abs(fit.find((r: any[]) => String(r[0]).startsWith('ρ'))[1] - run.lag!.parameter)).toBeLessThan(1e-6); // the search's own tolerance
+    expect(Math.abs(fit.find((r: any[]) => String(r[0]).startsWith('ρ'))[1] - run.fits.lag!.parameter)).toBeLessThan(1e-6); // the search's own tolerance
     const tests = call('LMTESTS', column(2), column(3, 3), column(0), k1);
     expect(Math.abs(tests.find((r: any[]) => r[0] === 'Lagrange multiplier: lag')[1] - run.ols.lm.lag.stat)).toBeLessThan(1e-8);
     for (const step of WORKED_EXAMPLE) expect(step.formula).toMatch(/^=SPILL\.(TOUCHING|LMTESTS|FIT|EFFECTS)\(/);

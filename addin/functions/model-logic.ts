@@ -4,7 +4,7 @@
  * the choice of model). Ranges are read here; the models are reached through model-adapter.ts only.
  */
 import { InputError } from '../../src/errors.js';
-import type { Design } from '../../src/models/index.js';
+import { designWithIntercept, type Design } from '../../src/models/index.js';
 import { areasNeeded, effectsForCells, fitForCells, MODEL_KEYS, prepareInputs, residualTests, type CellInputs } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
@@ -69,7 +69,7 @@ export function readModelRanges(y: Grid, x: Grid, ids: Grid): ModelRanges {
   columns.forEach((c, j) => {
     if (c.every((v) => v === c[0])) throw new InputError(`The explanatory column ${names[j]} has the same value (${c[0]}) for every area; the constant is already in every model, so leave the column out.`, { column: names[j] });
   });
-  return { ids: areaIds, y: yValues, yName, design: { names: ['constant', ...names], columns: [new Float64Array(yValues.length).fill(1), ...columns] } };
+  return { ids: areaIds, y: yValues, yName, design: designWithIntercept(names, columns, yValues.length) };
 }
 
 function modelKey(model: string | undefined): string {

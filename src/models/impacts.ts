@@ -56,7 +56,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     for (let i = 0; i < n; i++) s += sol[i];
     return s / n;
   };
-  const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.name !== 'constant');
+  const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.j !== x.intercept);
   const beta = fit.coefficients.map((c) => c.estimate);
   const rhoHat = fit.parameter;
   // the point estimate takes tr(A⁻¹) at ρ̂ from the traces already computed there for the fit

@@ -10,12 +10,15 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import { LOCAL_CATEGORY_LABEL } from '../pipeline/local-patterns.js';
 import type { AreaGeometry } from '../geo/types.js';
+import { fittedInOrder } from '../models/index.js';
 
 type Position = number[];
 type Json = string | number | boolean | null;
 
-/** The property-name prefix of each model's columns. */
-const MODEL_KEY = { ols: 'plain_regression', lag: 'spatial_lag', error: 'spatial_error' } as const;
+/** The property-name prefix of a model's columns, from its label: "Spatial lag model" → spatial_lag. */
+function modelPrefix(label: string): string {
+  return label.toLowerCase().replace(/\s+model$/, '').replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '');
+}
 const LOCAL_KEY = { moran: 'local_moran', gi: 'getis_ord_gi', gistar: 'getis_ord_gi_star' } as const;
 
 /** Twice the signed area of a closed ring (positive when counter-clockwise). */
@@ -57,15 +60,12 @@ export function resultsGeoJson(result: AnalysisResult): { type: 'FeatureCollecti
   const neighbourKey = uniqueKey('neighbour_count', taken);
   const columns: { key: string; value: (i: number) => Json }[] = [];
   const add = (name: string, value: (i: number) => Json) => columns.push({ key: uniqueKey(name, taken), value });
-  const fits = [
-    { key: MODEL_KEY.ols, fitted: result.ols.fitted, residuals: result.ols.residuals, lag: result.olsResidualLag },
-    ...(result.lag ? [{ key: MODEL_KEY.lag, fitted: result.lag.fitted, residuals: result.lag.residuals, lag: result.lag.residualLag }] : []),
-    ...(result.error ? [{ key: MODEL_KEY.error, fitted: result.error.fitted, residuals: result.error.residuals, lag: result.error.residualLag }] : []),
-  ];
-  for (const f of fits) {
-    add(`${f.key}_fitted`, (i) => finite(f.fitted[i]));
-    add(`${f.key}_residual`, (i) => finite(f.residuals[i]));
-    add(`${f.key}_neighbours_residual`, (i) => finite(f.lag[i]));
+  // every fitted model in registry order: the plain regression, then the spatial models asked for
+  for (const { entry, fit } of fittedInOrder(result.fits)) {
+    const prefix = modelPrefix(entry.label);
+    add(`${prefix}_fitted`, (i) => finite(fit.fitted[i]));
+    add(`${prefix}_residual`, (i) => finite(fit.residuals[i]));
+    add(`${prefix}_neighbours_residual`, (i) => finite(fit.residualLag[i]));
   }
   for (const [kind, outcome] of Object.entries(result.local?.results ?? {})) {
     if (!outcome) continue;

@@ -1,7 +1,7 @@
 import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../linalg/csr.js';
 import { householderQr, thinQ } from '../linalg/dense-qr.js';
 import { entry } from '../linalg/dense-algebra.js';
-import type { Design } from '../models/types.js';
+import type { Design } from '../core/types.js';
 
 /**
  * Traces of products of W with the residual maker M = I − X(X'X)⁻¹X' = I − QQᵀ (Q the thin QR
