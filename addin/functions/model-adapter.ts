@@ -1,33 +1,34 @@
 /**
- * The one place the model cell functions meet the engine's models: which models there are (by key),
- * fitting one, its spillover effects, and the tests on the plain regression's residuals. Everything
- * else in the cell functions speaks only of `CellFit`. The weights algebra (log-determinant,
- * admissible range, traces) depends only on the neighbours, so it is kept between recalculations:
- * changing a value in the outcome or an explanatory column refits without rebuilding it.
+ * The one place the model cell functions meet the engine's models, through the model registry
+ * (src/models/registry.ts): which models there are (the registry's keys and command-line spellings),
+ * fitting one by its entry, its spillover effects when the entry has them, and the tests on the plain
+ * regression's residuals. Everything else in the cell functions speaks only of `CellFit`. The weights
+ * algebra (log-determinant, admissible range, traces) depends only on the neighbours, so it is kept
+ * between recalculations: changing a value in the outcome or an explanatory column refits without
+ * rebuilding it.
  */
 import { chooseAlgebra } from '../../src/linalg/choose-algebra.js';
 import type { WeightsAlgebra } from '../../src/linalg/algebra.js';
 import {
-  fitOls, fitSpatialError, fitSpatialLag, lagImpacts, recommendModel,
-  type Coefficient, type Convergence, type Design, type ImpactsResult, type LmTests, type MoranTest, type OlsFit, type Recommendation, type SpatialFit,
+  areasNeeded as registryAreasNeeded, designWithIntercept, entriesOf, fitOls, MODEL_KEYS, MODELS, recommendModel,
+  type Coefficient, type Convergence, type Design, type ImpactsResult, type LmTests, type ModelEntry, type ModelFitBase, type MoranTest,
+  type ParameterEstimate, type PreparedInputs, type Recommendation,
 } from '../../src/models/index.js';
 import { lmTests, moranResidualTest } from '../../src/stats/index.js';
 import { symmetricForm, type SpatialWeights } from '../../src/weights/index.js';
 import { InputError } from '../../src/errors.js';
 
-/** A spatial parameter as a table names it. */
-export interface CellParameter { symbol: string; name: string; estimate: number; se: number; z: number; p: number }
+/** The registry's keys, in the order the models are listed; the design every model takes (a constant first). */
+export { MODEL_KEYS, designWithIntercept, type Design };
 
-interface ModelInfo { key: string; label: string; parameters: { symbol: string; name: string }[]; hasEffects: boolean }
-
-const MODELS: readonly ModelInfo[] = [
-  { key: 'ols', label: 'Plain regression', parameters: [], hasEffects: false },
-  { key: 'lag', label: 'Spatial lag model', parameters: [{ symbol: 'ρ', name: 'spillover of the outcome' }], hasEffects: true },
-  { key: 'error', label: 'Spatial error model', parameters: [{ symbol: 'λ', name: 'spillover of the errors' }], hasEffects: false },
-];
-
-/** The model keys a cell may name, in the order the models are listed. */
-export const MODEL_KEYS: readonly string[] = MODELS.map((m) => m.key);
+/**
+ * The registry key a cell names: the key or the command line's spelling, in any letter case
+ * ("lag", "LAG", "error"); null when it names no model.
+ */
+export function modelKeyOf(text: string): string | null {
+  const t = text.trim().toLowerCase();
+  return MODELS.find((m) => m.key.toLowerCase() === t || m.cli.toLowerCase() === t)?.key ?? null;
+}
 
 /** What one model's fit shows in cells, whatever the model. */
 export interface CellFit {
@@ -36,34 +37,27 @@ export interface CellFit {
   /** t for least squares, z for the maximum-likelihood models */
   statName: 't' | 'z';
   coefficients: Coefficient[];
-  parameters: CellParameter[];
+  parameters: ParameterEstimate[];
   n: number;
-  logLik: number;
-  aic: number;
+  /** absent for an estimator without a likelihood */
+  logLik?: number;
+  aic?: number;
   convergence?: Convergence;
   warnings: string[];
-  /** the engine's own fit, for the effects */
-  engineFit: OlsFit | SpatialFit;
+  /** the entry's own fit, for its effects */
+  engineFit: ModelFitBase;
 }
 
-/** The inputs every model is fitted on. */
-export interface CellInputs {
-  y: Float64Array;
-  design: Design;
-  w: SpatialWeights;
-  algebra: WeightsAlgebra;
-  ols: OlsFit;
-}
+/** The inputs every model is fitted on (the registry's prepared inputs). */
+export type CellInputs = PreparedInputs;
 
-function info(key: string): ModelInfo {
-  const m = MODELS.find((x) => x.key === key);
-  if (!m) throw new InputError(`The model "${key}" is not one Spillway fits; choose from ${MODEL_KEYS.map((k) => `"${k}"`).join(', ')}.`);
-  return m;
+function entryOf(key: string): ModelEntry {
+  return entriesOf([key])[0];
 }
 
 /** How many areas a model needs at least: the coefficients, the residual variance and each spatial parameter, plus one. */
 export function areasNeeded(key: string, coefficients: number): number {
-  return coefficients + info(key).parameters.length + 2;
+  return registryAreasNeeded(entryOf(key), coefficients);
 }
 
 // ---- the weights algebra, kept for the last few neighbour ranges
@@ -102,44 +96,39 @@ function algebraFor(w: SpatialWeights): WeightsAlgebra {
 /** The plain regression and the weights algebra for one set of ranges (the algebra from the cache when the neighbours are unchanged). */
 export function prepareInputs(y: Float64Array, design: Design, w: SpatialWeights, robust = false): CellInputs {
   const ols = fitOls(y, design, { robust });
-  return { y, design, w, algebra: algebraFor(w), ols };
+  const algebra = algebraFor(w);
+  return { y, design, w: algebra.w, algebra, ols };
 }
 
-function spatial(m: ModelInfo, f: SpatialFit, n: number): CellFit {
-  const [p] = m.parameters;
+/**
+ * Fits one model by its registry entry: the entry's fit and headline, nothing more (its effects are
+ * simulated only when SPILL.EFFECTS asks). `robust` shows the heteroskedasticity-robust standard
+ * errors where the fit has them.
+ */
+export function fitForCells(key: string, inputs: CellInputs, robust = false): CellFit {
+  const entry = entryOf(key);
+  const n = inputs.y.length;
+  const fit = entry.fit(inputs, { robust, seed: 1, impactDraws: 0 });
+  const h = entry.headline(fit);
+  if (h.logLik !== undefined && !Number.isFinite(h.logLik)) {
+    throw new InputError(`The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${h.logLik}; ${n} areas): the areas are too few or the links too sparse for the spatial parameter.`);
+  }
+  const robustCoefficients = (fit as { robustCoefficients?: Coefficient[] }).robustCoefficients;
   return {
-    key: m.key, label: m.label, statName: 'z', coefficients: f.coefficients,
-    parameters: [{ ...p, estimate: f.parameter, se: f.parameterSe, z: f.parameterZ, p: f.parameterP }],
-    n, logLik: f.logLik, aic: f.aic, convergence: f.convergence, warnings: f.warnings, engineFit: f,
+    key: entry.key, label: entry.label, statName: entry.method === 'least squares' ? 't' : 'z',
+    coefficients: robust && robustCoefficients ? robustCoefficients : fit.coefficients,
+    parameters: h.parameters, n, logLik: h.logLik, aic: h.aic, convergence: h.convergence, warnings: fit.warnings, engineFit: fit,
   };
 }
 
-/** Fits one model by its key. `robust` gives the plain regression heteroskedasticity-robust standard errors. */
-export function fitForCells(key: string, inputs: CellInputs, robust = false): CellFit {
-  const m = info(key);
-  const n = inputs.y.length;
-  if (key === 'ols') {
-    const o = inputs.ols;
-    return {
-      key, label: m.label, statName: 't', coefficients: robust && o.robustCoefficients ? o.robustCoefficients : o.coefficients,
-      parameters: [], n, logLik: o.logLik, aic: o.aic, warnings: o.warnings, engineFit: o,
-    };
-  }
-  const fit = key === 'lag' ? fitSpatialLag(inputs.y, inputs.design, inputs.algebra, inputs.ols) : fitSpatialError(inputs.y, inputs.design, inputs.algebra, inputs.ols);
-  if (!Number.isFinite(fit.logLik)) {
-    throw new InputError(`The ${m.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${fit.logLik}; ${n} areas): the areas are too few or the links too sparse for the spatial parameter.`);
-  }
-  return spatial(m, fit, n);
-}
-
-/** Direct, indirect and total effects of a fitted model that has them (simulated standard errors). */
+/** Direct, indirect and total effects of a fitted model whose entry has them (simulated standard errors). */
 export function effectsForCells(fit: CellFit, inputs: CellInputs, draws: number, seed: number): ImpactsResult {
-  const m = info(fit.key);
-  if (!m.hasEffects) {
-    const withEffects = MODELS.filter((x) => x.hasEffects).map((x) => `"${x.key}"`).join(', ');
-    throw new InputError(`The ${m.label.toLowerCase()} has no separate direct and indirect effects (its coefficients are the effects); effects are given for ${withEffects}.`);
+  const entry = entryOf(fit.key);
+  if (!entry.impacts) {
+    const withEffects = MODELS.filter((m) => m.impacts).map((m) => `"${m.key}"`).join(', ');
+    throw new InputError(`The ${entry.label.toLowerCase()} has no separate direct and indirect effects (its coefficients are the effects); effects are given for ${withEffects}.`);
   }
-  return lagImpacts(fit.engineFit as SpatialFit, inputs.design, inputs.algebra, { draws, seed });
+  return entry.impacts(fit.engineFit, inputs, { seed, impactDraws: draws });
 }
 
 /** Moran's I of the plain regression's residuals, the Lagrange-multiplier tests and the suggestion they lead to. */

@@ -4,8 +4,7 @@
  * the choice of model). Ranges are read here; the models are reached through model-adapter.ts only.
  */
 import { InputError } from '../../src/errors.js';
-import { designWithIntercept, type Design } from '../../src/models/index.js';
-import { areasNeeded, effectsForCells, fitForCells, MODEL_KEYS, prepareInputs, residualTests, type CellInputs } from './model-adapter.js';
+import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_KEYS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
 import { asNumber, flatten, hasHeader, isBlank, readIds, readNumbers, trimTogether, type CellValue, type Grid } from './ranges.js';
@@ -72,9 +71,10 @@ export function readModelRanges(y: Grid, x: Grid, ids: Grid): ModelRanges {
   return { ids: areaIds, y: yValues, yName, design: designWithIntercept(names, columns, yValues.length) };
 }
 
+/** The registry key the model argument names (by default the spatial lag model). */
 function modelKey(model: string | undefined): string {
-  const key = String(model ?? 'lag').trim().toLowerCase() || 'lag';
-  if (!MODEL_KEYS.includes(key)) throw new InputError(`The model "${model}" is not one Spillway fits; choose from ${MODEL_KEYS.map((k) => `"${k}"`).join(', ')}.`);
+  const key = modelKeyOf(String(model ?? '').trim() || 'lag');
+  if (key === null) throw new InputError(`The model "${model}" is not one Spillway fits; choose from ${MODEL_KEYS.map((k) => `"${k}"`).join(', ')}.`);
   return key;
 }
 
@@ -106,7 +106,7 @@ export function fitRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model?: s
   const rows: Spill = [['term', 'estimate', 'standard error', fit.statName, 'p']];
   for (const c of fit.coefficients) rows.push([c.name, c.estimate, blank(c.se), blank(c.stat), blank(c.p)]);
   for (const p of fit.parameters) rows.push([`${p.symbol} (${p.name})`, p.estimate, blank(p.se), blank(p.z), blank(p.p)]);
-  rows.push(['areas', fit.n, '', '', ''], ['log-likelihood', fit.logLik, '', '', ''], ['AIC', fit.aic, '', '', '']);
+  rows.push(['areas', fit.n, '', '', ''], ['log-likelihood', fit.logLik ?? '', '', '', ''], ['AIC', fit.aic ?? '', '', '', '']);
   const c = fit.convergence;
   if (c && (!c.converged || c.atBound)) rows.push(['note', `${c.message}${c.atBound ? ` (ended at the ${c.atBound} end of the admissible range)` : ''}`, '', '', '']);
   return rows;
