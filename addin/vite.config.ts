@@ -2,7 +2,10 @@
  * Builds and serves the add-in (task pane + cell functions) and the no-install browser page; the
  * cell functions' own script and metadata come from vite.functions.config.ts, run after this build.
  *   npm run build:addin   → dist-addin/
- *   npm run serve         → https://localhost:3000 (office-addin-dev-certs); SPILLWAY_HTTP=1 for plain http
+ *   npm run serve         → http://localhost:3000 (the browser page: no certificate, no sudo)
+ *   npm run serve:excel   → https://localhost:3000 with the Office development certificate (mode "excel"; Excel
+ *                           needs https, and the first time office-addin-dev-certs installs its certificate
+ *                           authority, which may ask for an administrator's password)
  * Output paths the manifest names (taskpane/index.html, functions.js, functions.json, assets/icon-*.png)
  * carry no content hash so the manifest can point at them. The dev server answers every one of them
  * (functions.js too), with the headers a production host must send (README: "Deploying for your
@@ -162,16 +165,27 @@ export function noDynamicCode(): Plugin {
   };
 }
 
-export default defineConfig(async ({ command }): Promise<UserConfig> => {
-  let https: { key: Buffer; cert: Buffer; ca: Buffer } | undefined;
-  if (command === 'serve' && process.env.SPILLWAY_HTTP !== '1') {
-    try {
-      const certs = await import('office-addin-dev-certs');
-      https = (await certs.getHttpsServerOptions()) as typeof https;
-    } catch (e) {
-      console.warn(`Could not set up the development certificate (${e instanceof Error ? e.message : String(e)}); serving plain http. Excel needs https.`);
-    }
+/**
+ * The files the dev server scans for libraries to pre-bundle before the first page is served: every
+ * page, the cell functions and the engine worker (which no page imports statically). A library found
+ * only later, when the worker first starts, would make the server re-bundle and reload the page,
+ * losing the file the analyst had just chosen (test/e2e-dev-server.test.ts).
+ */
+export const SCANNED_ENTRIES = ['page/index.html', 'taskpane/index.html', 'help/index.html', 'functions/register.ts', 'shared/worker.ts'];
+
+/** https with the Office development certificate, only when asked for (the Excel route); the page needs none. */
+async function officeCertificate(): Promise<{ key: Buffer; cert: Buffer; ca: Buffer }> {
+  try {
+    const certs = await import('office-addin-dev-certs');
+    return (await certs.getHttpsServerOptions()) as { key: Buffer; cert: Buffer; ca: Buffer };
+  } catch (e) {
+    throw new Error(`Could not set up the Office development certificate (${e instanceof Error ? e.message : String(e)}). ` +
+      'Excel needs it; the browser page does not: `npm run serve` serves the page over plain http.');
   }
+}
+
+export default defineConfig(async ({ command, mode }): Promise<UserConfig> => {
+  const https = command === 'serve' && mode === 'excel' ? await officeCertificate() : undefined;
   return {
     root: ROOT,
     base: '/',
@@ -181,6 +195,7 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
       alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
     },
     plugins: [securityHeaders(), cellFunctionMetadata(), devFunctionsScript(), noDynamicCode(), functionsScript()],
+    optimizeDeps: { entries: SCANNED_ENTRIES },
     worker: {
       format: 'es',
       plugins: () => [noDynamicCode()],

@@ -15,10 +15,9 @@ const ROOT = join(import.meta.dirname, '..');
 const EXCEL_ON_THE_WEB = 'https://excel.officeapps.live.com';
 let server: ViteDevServer;
 let base: string;
-const before = process.env.SPILLWAY_HTTP;
 
+// `npm run serve` is plain http (the Excel route with its certificate is `npm run serve:excel`)
 beforeAll(async () => {
-  process.env.SPILLWAY_HTTP = '1';
   server = await createServer({ configFile: join(ROOT, 'addin/vite.config.ts'), logLevel: 'warn', server: { port: 0, strictPort: false, hmr: false } });
   await server.listen();
   base = `http://localhost:${(server.httpServer!.address() as AddressInfo).port}`;
@@ -26,8 +25,6 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await server?.close();
-  if (before === undefined) delete process.env.SPILLWAY_HTTP;
-  else process.env.SPILLWAY_HTTP = before;
 });
 
 /** The directives of a policy, by name. */

@@ -3,7 +3,8 @@
  * (test/helpers/fake-excel.ts, bundled for the browser): the pane reads the active sheet, runs the
  * job in its worker, draws the maps to PNG, and writes the result sheets, pictures and chart through
  * the adapter; the cell functions register in the same runtime. The request for Office.js is
- * answered by the test (page.route), so nothing leaves the machine.
+ * answered by the test (page.route), so nothing leaves the machine. At each step the pane is checked
+ * against the WCAG 2.1 AA rules of axe-core (test/helpers/a11y.ts).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -14,6 +15,7 @@ import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
 import { BOUNDARY_NAMESPACE } from '../addin/excel/boundary-part.js';
+import { accessibilityProblems } from './helpers/a11y.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const window: any;
@@ -96,15 +98,21 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
     await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    expect(await accessibilityProblems(page), 'the sheet read').toBe('');
+    expect(await page.inputValue('#y-column')).toBe(''); // the outcome is the analyst's to choose
     // every function the metadata lists is registered in the pane's runtime
     const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.map((f) => f.id);
     expect([...(await page.evaluate(() => window.__associated))].sort()).toEqual([...listed].sort());
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    expect(await accessibilityProblems(page), 'the areas matched and the model chosen').toBe('');
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    await page.getByText(/Moran's I of the plain regression's residuals: -?\d\.\d{3} \(p/).waitFor();
+    expect(await accessibilityProblems(page), 'the run done').toBe('');
 
     const state = await page.evaluate(() => {
       const x = window.__excel;
@@ -142,6 +150,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.getByText(/=SPILL\.FIT\(C1:C151, D1:F151, A1:A151, K1#, "lag"\)/).waitFor();
     const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.length;
     expect(await page.locator('#functions-help .function-list li').count()).toBe(listed);
+    expect(await accessibilityProblems(page), 'the cell functions guide open').toBe('');
     const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
     await page.locator('#functions-help').screenshot({ path: join(shots, 'excel-taskpane-cell-functions.png') });
     expect(problems).toEqual([]);
@@ -170,6 +179,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.evaluate(() => { window.__excel.failWhen = (c: any) => c.kind === 'addXmlPart'; });
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
+    await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
@@ -189,6 +199,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     const note = page.locator('#stored-boundary-note');
     await note.getByText(/The boundary file kept in this workbook is incomplete \(1 of 2 parts found\); open the original file again\. The table and the other settings work as before\./).waitFor();
     if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'kept-boundary-unreadable.png'), fullPage: true });
+    expect(await accessibilityProblems(page), 'the kept boundary unreadable').toBe('');
     // opening the file again goes on as usual, and the note goes
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();

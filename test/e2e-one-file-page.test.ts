@@ -3,7 +3,8 @@
  * from disk (file://, no server) in Debian's Chromium (playwright-core) and, when installed, Debian's
  * Firefox (WebDriver BiDi, test/helpers/firefox-page-run.mjs). It runs Columbus — the table as CSV and
  * the shapefile's three parts — and the downloaded workbook is checked against the independent numpy
- * reference (test/golden/columbus.json). Its Content-Security-Policy is checked to refuse every request.
+ * reference (test/golden/columbus.json). Its Content-Security-Policy is checked to refuse every request,
+ * and the page after a run against axe-core's WCAG 2.1 AA rules (test/helpers/a11y.ts).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -17,6 +18,7 @@ import { openDbf } from 'shapefile';
 import { readWorkbook, type ReadSheet } from '../src/workbook/index.js';
 import { chromiumPresent, launchChromium, ROOT } from './helpers/browser.js';
 import { readGolden } from './helpers/columbus.js';
+import { accessibilityProblems } from './helpers/a11y.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 declare const document: any;
@@ -124,6 +126,9 @@ describe.skipIf(!chromiumPresent)('the one-file page from file:// in Chromium', 
     checkAgainstReference(lagFigures(sheets));
     const neighbours = sheets.find((s) => s.name === 'Neighbours')!;
     expect(neighbours.rows.find((r) => r[0] === 'Links (each direction counted)')?.[1]).toBe(golden.weights.links);
+    // the page as built into one file meets the same WCAG 2.1 AA rules as the served page, checked once after a run
+    await page.getByText(/Moran's I of the plain regression's residuals/).waitFor();
+    expect(await accessibilityProblems(page), 'the one-file page after a run').toBe('');
   }, 120_000);
 
   it('refuses a request to anywhere, as its policy says', async () => {

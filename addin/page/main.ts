@@ -16,12 +16,12 @@ let opened: { name: string; bytes: Uint8Array; isWorkbook: boolean } | null = nu
 const host: SidebarHost = {
   kind: 'page',
   dataSource(slot, provide, fail, engine: EngineClient) {
-    const input = h('input', { type: 'file', id: 'data-file', accept: '.xlsx,.xlsm,.csv,.txt', class: 'visually-hidden' });
+    const input = h('input', { type: 'file', id: 'data-file', accept: '.xlsx,.xlsm,.csv,.txt', hidden: true });
     const sheets = h('div');
     const status = h('p', { class: 'hint' }, 'Open the workbook (.xlsx) or CSV file with one row per area. It is read on this computer only.');
     const load = async (sheet?: string) => {
       const { table } = await engine.call({ op: 'table', file: opened!, sheet });
-      const source: TableSource = { table, origin: 'file', file: { name: opened!.name, bytes: opened!.bytes }, sheet: opened!.isWorkbook ? table.sheet : undefined };
+      const source: TableSource = { table, origin: 'file', file: { name: opened!.name, bytes: opened!.bytes }, sheet: opened!.isWorkbook ? table.sheet : undefined, csv: !opened!.isWorkbook };
       provide(source);
     };
     input.addEventListener('change', async () => {

@@ -1,8 +1,10 @@
-/** Small DOM helpers for the sidebar: elements, Fluent controls, and native selects styled like them. */
+/**
+ * Small DOM helpers for the sidebar: elements, Fluent buttons, progress and message bars, and native
+ * form controls (select, checkbox, number) styled with Fluent's tokens. Native controls carry their
+ * label and state to every screen reader and every Office web view, which custom form elements do not
+ * reliably do.
+ */
 import '@fluentui/web-components/button.js';
-import '@fluentui/web-components/checkbox.js';
-import '@fluentui/web-components/field.js';
-import '@fluentui/web-components/text-input.js';
 import '@fluentui/web-components/progress-bar.js';
 import '@fluentui/web-components/message-bar.js';
 import { setTheme } from '@fluentui/web-components';
@@ -28,8 +30,18 @@ export function h(tag: string, attrs: Attrs = {}, ...children: Child[]): HTMLEle
   return el;
 }
 
+/**
+ * Replaces el's content. When the focus was on a control inside el, the new control with the same
+ * id takes it, so redrawing a step after a change does not throw a keyboard user back to the top.
+ */
 export function clear(el: Element, ...children: Child[]): void {
+  const active = document.activeElement;
+  const focusedId = active && active !== el && el.contains(active) ? active.id : '';
   el.replaceChildren(...children.filter((c): c is Node | string => c !== null && c !== undefined));
+  if (focusedId) {
+    const again = el.querySelector<HTMLElement>(`#${CSS.escape(focusedId)}`);
+    again?.focus();
+  }
 }
 
 export function button(label: string, onClick: () => void, opts: { primary?: boolean; id?: string; disabled?: boolean } = {}): HTMLElement {
@@ -44,12 +56,12 @@ export function setDisabled(el: Element, disabled: boolean): void {
   else el.removeAttribute('disabled');
 }
 
-/** A Fluent checkbox with its label after it. */
+/** A native checkbox with its label after it, on a line of its own. */
 export function checkbox(id: string, label: string, checked: boolean, onChange: (v: boolean) => void): HTMLElement {
-  const box = h('fluent-checkbox', { id, slot: 'input' }) as HTMLElement & { checked: boolean };
-  if (checked) box.setAttribute('checked', '');
-  box.addEventListener('change', () => onChange(Boolean(box.checked)));
-  return h('fluent-field', { 'label-position': 'after' }, h('label', { slot: 'label', for: id }, label), box);
+  const box = h('input', { type: 'checkbox', id });
+  box.checked = checked;
+  box.addEventListener('change', () => onChange(box.checked));
+  return h('div', { class: 'check' }, box, h('label', { for: id }, label));
 }
 
 /** A labelled native select (keyboard and screen readers handle it natively), styled with Fluent tokens. */
@@ -64,11 +76,12 @@ export function select(id: string, label: string, options: { value: string; text
   return h('div', { class: 'row-field' }, h('label', { for: id }, label), s);
 }
 
-/** A labelled Fluent number input. */
-export function numberInput(id: string, label: string, value: number, onChange: (v: number) => void, opts: { min?: number; step?: number } = {}): HTMLElement {
-  const input = h('fluent-text-input', { id, type: 'number', value: String(value), min: opts.min, step: opts.step, slot: 'input' }) as HTMLElement & { value: string };
-  input.addEventListener('change', () => onChange(Number(input.value)));
-  return h('fluent-field', { 'label-position': 'above' }, h('label', { slot: 'label', for: id }, label), input);
+/** A labelled native number input (its label above it). */
+export function numberInput(id: string, label: string, value: number | undefined, onChange: (v: number) => void, opts: { min?: number; step?: number | 'any'; hint?: string } = {}): HTMLElement {
+  const hintId = opts.hint ? `${id}-hint` : undefined;
+  const input = h('input', { id, type: 'number', class: 'fl-input', value: value === undefined ? '' : String(value), min: opts.min, step: opts.step, 'aria-describedby': hintId });
+  input.addEventListener('change', () => { if (input.value.trim() !== '') onChange(Number(input.value)); });
+  return h('div', { class: 'row-field' }, h('label', { for: id }, label), input, opts.hint ? h('p', { class: 'hint', id: hintId }, opts.hint) : null);
 }
 
 /** A message bar. Its text passes through the engine's `printable`, as the command line's messages do. */
@@ -78,8 +91,5 @@ export function message(intent: 'error' | 'warning' | 'info' | 'success', text: 
   return bar;
 }
 
-/** "a; b; c; and 4 more" */
-export function some<T>(items: readonly T[], show: (t: T) => string, max = 8): string {
-  const shown = items.slice(0, max).map(show).join('; ');
-  return items.length > max ? `${shown}; and ${items.length - max} more` : shown;
-}
+// lists in sentences live in a DOM-free module so pure helpers can use them too
+export { some } from './text.js';

@@ -3,7 +3,7 @@ import type { AnalysisRequest, NamedBytesLike } from '../../src/pipeline/index.j
 import type { InputLocation } from '../../src/errors.js';
 import type { JoinReport, CoordinateKind } from '../../src/geo/index.js';
 import type { Report } from '../../src/report/index.js';
-import type { WeightsSpec, WeightsSummary, WeightsTransform } from '../../src/weights/index.js';
+import type { BandSuggestion, WeightsSpec, WeightsSummary, WeightsTransform } from '../../src/weights/index.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 export interface CheckRequest {
@@ -14,7 +14,8 @@ export interface CheckRequest {
   id: string;
   /** the boundary file's ID property, when it is named differently from the table's column */
   boundaryId?: string;
-  weights: WeightsSpec;
+  /** a distance band without a distance takes the one suggested from the data */
+  weights: WeightsSpec | { method: 'band'; distance?: undefined };
   transform: WeightsTransform;
   linkUnneighboured?: boolean;
   /** the analyst's statement of the coordinates, overriding the file and the guess */
@@ -34,6 +35,8 @@ export interface CheckResult {
   /** when the boundary file has no property named like the ID: its properties holding the table's IDs, best first */
   idCandidates?: { property: string; matches: number; rows: number }[];
   neighbours?: WeightsSummary & { description: string; tiesWarning?: string };
+  /** a distance band to start from, derived from where the areas are (absent when no positive distance separates them) */
+  bandSuggestion?: BandSuggestion;
   neighboursError?: EngineError;
   warnings: string[];
 }

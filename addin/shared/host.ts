@@ -13,6 +13,8 @@ export interface TableSource {
   /** the bytes the engine reads the table from, and the sheet within them */
   file: NamedBytesLike;
   sheet?: string;
+  /** the table is a CSV file, not a workbook's sheet (the sidebar calls it a file) */
+  csv?: boolean;
 }
 
 export interface WriteOutcome {

@@ -3,16 +3,18 @@
  * found. Shared by the Excel task pane and the browser page; the host supplies the table and
  * writes the results. The engine runs in a worker (EngineClient).
  */
-import type { JoinReport } from '../../src/geo/index.js';
 import type { ModelKey, NamedBytesLike } from '../../src/pipeline/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
 import { button, checkbox, clear, h, message, numberInput, select, setDisabled, some } from './dom.js';
 import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
-import type { CheckResult, EngineError, ModelChoice } from './engine-protocol.js';
+import type { CheckRequest, CheckResult, EngineError, ModelChoice } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
 import { saveAreasButton } from './save-areas.js';
 import { functionsHelp } from './functions-help.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
+import { joinProblemLines } from './join-lines.js';
+import { builtRateParts, rateParts } from './rate-parts.js';
+import { modelWords, summaryLines, type RunSummary, type SpatialModel } from './run-summary.js';
 import { mountRateBuilder } from './rate-builder.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
@@ -27,7 +29,10 @@ interface State {
     | { kind: 'points'; x?: string; y?: string } | null;
   check?: CheckResult;
   method: Method;
-  k: number; distance: number; power: number; order: number;
+  /** distance band: undefined until the data suggest one or the analyst types one */
+  k: number; distance?: number; power: number; order: number;
+  /** the band distance is the one suggested from the data (a new boundary file or coordinates suggest anew) */
+  distanceFromData: boolean;
   /** k-nearest: every area tied at the k-th distance becomes a neighbour (else the lower rows fill the places) */
   tiesInclude: boolean;
   transform: WeightsTransform;
@@ -48,6 +53,9 @@ interface State {
   running: boolean;
 }
 
+/** About three significant figures, for a distance in a sentence. */
+const round3 = (x: number) => String(Number(x.toPrecision(3)));
+
 const METHODS: { value: Method; text: string }[] = [
   { value: 'queen', text: 'Shared border or corner (queen)' },
   { value: 'rook', text: 'Shared border only (rook)' },
@@ -59,7 +67,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
+    areas: null, method: 'queen', k: 5, distance: undefined, distanceFromData: true, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
     x: new Set(), modelChoices: null, models: null, robust: false, dropMissing: false, running: false,
     local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
@@ -82,7 +90,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   // "Build a rate from two columns" sits at the top of the model step; its rates join the column lists
   const rateBuilder = mountRateBuilder(() => (s.profile ? s.profile.numeric.filter((c) => c !== s.id) : []), () => {
     const names = modelColumns();
-    if (s.y && !names.includes(s.y)) s.y = names[0];
+    if (s.y && !names.includes(s.y)) s.y = undefined; // never a guess: the analyst chooses again
     for (const c of [...s.x]) if (!names.includes(c)) s.x.delete(c);
     if (s.local.of.startsWith('rate:') && !rateBuilder.names().includes(s.local.of.slice(5))) s.local.of = 'outcome';
     drawModel();
@@ -120,8 +128,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     s.id = keep(saved?.id) ?? keep(s.id) ?? p.suggestedId;
     rateBuilder.refresh();
     const rate = (c?: string) => (c && rateBuilder.names().includes(c) ? c : undefined);
-    s.y = keep(saved?.y) ?? rate(saved?.y) ?? keep(s.y) ?? rate(s.y) ?? p.numeric.find((c) => c !== s.id);
+    // the outcome is the analyst's choice: kept from the last setup when the column is there, never guessed
+    s.y = keep(saved?.y) ?? rate(saved?.y) ?? keep(s.y) ?? rate(s.y);
+    if (s.y === s.id) s.y = undefined;
     s.x = new Set((saved?.x ?? [...s.x]).filter((c) => (p.numeric.includes(c) || rateBuilder.names().includes(c)) && c !== s.y && c !== s.id));
+    newPlaces(); // other rows may match other areas
     drawData();
     drawAreas();
     drawModel();
@@ -135,7 +146,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const list = h('ul', { class: 'columns' }, ...p.columns.map((c) =>
       h('li', {}, h('strong', {}, c.name), `: ${kinds[c.kind]}${c.blanks ? `, ${c.blanks} blank` : ''}${c.unique ? ', all different' : ''}`)));
     clear(data.found,
-      h('p', {}, `Sheet "${t.sheet}": ${p.n} rows (header on row ${t.headerRow}), ${p.columns.length} columns.`),
+      h('p', {}, `${s.source!.csv ? 'File' : 'Sheet'} "${t.sheet}": ${p.n} rows (header on row ${t.headerRow}), ${p.columns.length} columns.`),
       select('id-column', 'ID column (one per area)', t.headers.map((c) => ({ value: c, text: c })), s.id, (v) => { s.id = v; drawModel(); void refreshCheck(); }),
       p.suggestedId ? h('p', { class: 'hint' }, `Suggested: ${p.suggestedId} (every row has a different value).`) : h('p', { class: 'hint' }, 'No column has a different value in every row; pick the ID column.'),
       h('details', {}, h('summary', {}, 'Column types'), list),
@@ -143,17 +154,18 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
 
   // ---- 2 Areas
-  const fileInput = h('input', { type: 'file', id: 'boundary-file', accept: '.geojson,.json,.topojson,.zip,.shp,.shx,.dbf,.prj,.cpg', multiple: true, class: 'visually-hidden' });
+  const fileInput = h('input', { type: 'file', id: 'boundary-file', accept: '.geojson,.json,.topojson,.zip,.shp,.shx,.dbf,.prj,.cpg', multiple: true, hidden: true });
   fileInput.addEventListener('change', async () => {
     const files = [...(fileInput.files ?? [])];
     if (!files.length) return;
     const kept = s.areas?.kind === 'file' ? s.areas.idProperty : undefined;
     s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))), idProperty: kept };
+    newPlaces();
     drawAreas();
     void refreshCheck();
   });
   const openButton = button('Open boundary file…', () => fileInput.click(), { id: 'open-boundary' });
-  const pointsButton = button('Use coordinate columns instead', () => { s.areas = { kind: 'points' }; drawAreas(); }, { id: 'use-points' });
+  const pointsButton = button('Use coordinate columns instead', () => { s.areas = { kind: 'points' }; newPlaces(); drawAreas(); }, { id: 'use-points' });
   areas.body.append(h('p', { class: 'hint' }, 'GeoJSON, TopoJSON or a zipped shapefile. It stays on this computer.'), h('div', { class: 'buttons' }, openButton, pointsButton), fileInput);
   const areaChoice = h('div');
   // why a boundary kept in the workbook could not be read; stays until another choice is made
@@ -169,8 +181,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       const a = s.areas;
       const opts = [{ value: '', text: '(choose)' }, ...s.profile.numeric.map((c) => ({ value: c, text: c }))];
       areaChoice.append(
-        select('x-column', 'Across (x or longitude)', opts, a.x, (v) => { a.x = v || undefined; void refreshCheck(); }),
-        select('y-column', 'Up (y or latitude)', opts, a.y, (v) => { a.y = v || undefined; void refreshCheck(); }),
+        select('across-column', 'Across (x or longitude)', opts, a.x, (v) => { a.x = v || undefined; newPlaces(); void refreshCheck(); }),
+        select('up-column', 'Up (y or latitude)', opts, a.y, (v) => { a.y = v || undefined; newPlaces(); void refreshCheck(); }),
       );
     }
   }
@@ -187,11 +199,21 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     return s.areas?.kind === 'file' && s.areas.idProperty && s.areas.idProperty !== s.id ? s.areas.idProperty : undefined;
   }
 
+  /** New places (a boundary file, coordinate columns, a statement of the coordinates): a band taken from the data is suggested anew. */
+  function newPlaces() {
+    if (s.distanceFromData) s.distance = undefined;
+  }
+
+  /** The neighbour rule; a distance band without a distance yet is left for the check to suggest. */
+  function checkSpec(): CheckRequest['weights'] {
+    return s.method === 'band' && s.distance === undefined ? { method: 'band' } : weightsSpec();
+  }
+
   function weightsSpec(): WeightsSpec {
     switch (s.method) {
       case 'queen': case 'rook': return { method: s.method, order: s.order };
       case 'knn': return s.tiesInclude ? { method: 'knn', k: s.k, ties: 'include' } : { method: 'knn', k: s.k };
-      case 'band': return { method: 'band', distance: s.distance };
+      case 'band': return { method: 'band', distance: s.distance ?? NaN };
       case 'idw': return { method: 'idw', power: s.power };
     }
   }
@@ -206,7 +228,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(areas.found, h('p', { class: 'hint' }, 'Matching the table to the areas…'));
     try {
       const { result } = await engine.call({ op: 'check', check: {
-        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: checkSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       } });
       if (serial !== checkSerial) return;
@@ -219,6 +241,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         return;
       }
       s.check = result;
+      if (s.method === 'band' && s.distance === undefined && result.bandSuggestion) {
+        s.distance = result.bandSuggestion.distance;
+        s.distanceFromData = true;
+      }
+      if (s.method === 'band') updateBandControl();
       drawJoin(result);
       drawNeighbours(result);
     } catch (e) {
@@ -229,15 +256,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
 
   function drawJoin(r: CheckResult) {
-    const j: JoinReport = r.join;
-    const lines: string[] = [];
-    if (j.unmatchedRows.length) lines.push(`Rows with no matching area: ${some(j.unmatchedRows, (u) => `row ${u.row} (${u.id})`)}.`);
-    if (j.unmatchedFeatures.length) lines.push(`Areas with no row: ${some(j.unmatchedFeatures, (u) => `${u.id} (feature ${u.feature})`)}.`);
-    if (j.duplicateRows.length) lines.push(`IDs on more than one row: ${some(j.duplicateRows, (d) => `${d.id} on rows ${d.rows.join(', ')}`)}.`);
-    if (j.duplicateFeatures.length) lines.push(`IDs on more than one area: ${some(j.duplicateFeatures, (d) => `${d.id} (features ${d.features.join(', ')})`)}.`);
-    if (j.blankRows.length) lines.push(`Rows with no ID: ${some(j.blankRows, (n) => `row ${n}`)}.`);
-    if (j.withoutGeometry.length) lines.push(`Matched areas without a shape: ${some(j.withoutGeometry, (g) => `${g.id} (row ${g.row})`)}.`);
-    if (j.zeroPaddingSuspects.length) lines.push(`IDs that differ only by leading zeros: ${some(j.zeroPaddingSuspects, (z) => `${z.tableId} / ${z.featureId}`)}. Make them the same in both places.`);
+    const lines = joinProblemLines(r.join, Boolean(r.joinError));
     const property = boundaryId();
     const by = property ? `${s.id} (called ${property} in the boundary file)` : s.id;
     const idChoice: HTMLElement[] = [];
@@ -258,7 +277,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         { value: '', text: 'As the file says (guessed when it does not)' },
         { value: 'geographic', text: 'Longitude/latitude degrees' },
         { value: 'projected', text: 'Projected (planar units)' },
-      ], s.coordinates, (v) => { s.coordinates = v as State['coordinates']; void refreshCheck(); })] : []),
+      ], s.coordinates, (v) => { s.coordinates = v as State['coordinates']; newPlaces(); void refreshCheck(); })] : []),
       lines.length ? h('ul', { class: 'join-problems' }, ...lines.map((l) => h('li', {}, l))) : r.joinError ? h('span') : h('p', { class: 'ok' }, 'Every row has exactly one area.'),
     );
     if (r.joinError) areas.errors.append(message('error', r.joinError));
@@ -276,7 +295,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
       extra.push(checkbox('ties-include', 'Include every area tied at the last place (otherwise the lower rows are taken)', s.tiesInclude, (v) => { s.tiesInclude = v; void refreshCheck(); }));
     }
-    if (s.method === 'band') extra.push(numberInput('distance', 'Distance (in the map’s units)', s.distance, (v) => { s.distance = v; changed(); }, { min: 0 }));
+    if (s.method === 'band') extra.push(bandControl(changed));
     if (s.method === 'idw') extra.push(numberInput('power', 'Power of the distance', s.power, (v) => { s.power = v; changed(); }, { min: 0, step: 0.5 }));
     clear(nbControls,
       select('method', 'Who counts as a neighbour', METHODS, s.method, (v) => { s.method = v as Method; changed(); }),
@@ -287,6 +306,35 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     );
   }
   drawNeighbourControls();
+
+  /** The band's distance in the unit of the coordinates, with the distance the data suggest. */
+  function bandControl(changed: () => void): HTMLElement {
+    const { label, hint } = bandWords();
+    return numberInput('distance', label, s.distance, (v) => {
+      s.distance = v > 0 ? v : undefined;
+      s.distanceFromData = !(v > 0);
+      changed();
+    }, { min: 0, step: 'any', hint: hint || ' ' });
+  }
+
+  function bandWords(): { label: string; hint: string } {
+    const suggestion = s.check?.bandSuggestion;
+    const unit = suggestion?.unit ?? (s.check ? (s.check.coordinates === 'geographic' ? 'km' : 'coordinate units') : undefined);
+    const label = unit === 'km' ? 'Distance in kilometres (great-circle)' : unit ? 'Distance in the coordinates’ units' : 'Distance';
+    const hint = !suggestion ? (s.check ? '' : 'Suggested from the data once the areas are matched.')
+      : `Every area has a neighbour from ${round3(suggestion.allLinked)} ${suggestion.unit}; ${suggestion.distance} ${suggestion.unit} is that rounded up${s.distanceFromData ? ' (used until you type another)' : ''}.`;
+    return { label, hint };
+  }
+
+  /** After a check: the unit, the suggestion and a suggested value, updated in place (the analyst may be typing). */
+  function updateBandControl() {
+    const input = nbControls.querySelector<HTMLInputElement>('#distance');
+    if (!input) return;
+    const { label, hint } = bandWords();
+    nbControls.querySelector('label[for="distance"]')!.textContent = label;
+    nbControls.querySelector('#distance-hint')!.textContent = hint;
+    if (s.distanceFromData && document.activeElement !== input) input.value = s.distance === undefined ? '' : String(s.distance);
+  }
 
   function drawNeighbours(r: CheckResult) {
     clear(nb.found);
@@ -311,23 +359,38 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
 
   // ---- 4 Model
   function drawModel() {
-    clear(model.body);
     const p = s.profile;
-    if (!p) { model.body.append(h('p', { class: 'hint' }, 'Choose the data first.')); return; }
+    if (!p) { clear(model.body, h('p', { class: 'hint' }, 'Choose the data first.')); return; }
     const candidates = modelColumns();
     const rates = rateBuilder.names();
     const shown = (c: string) => (rates.includes(c) ? `${c} (rate built above)` : c);
-    model.body.append(
+    const outcomes = [{ value: '', text: '(choose the outcome)' }, ...candidates.map((c) => ({ value: c, text: shown(c) }))];
+    // one replacement, so the control that had the focus gets it back (dom.ts clear)
+    clear(model.body,
       rateBuilder.element,
-      select('y-column', 'Outcome to explain', candidates.map((c) => ({ value: c, text: shown(c) })), s.y, (v) => { s.y = v; s.x.delete(v); drawModel(); }),
+      select('y-column', 'Outcome to explain', outcomes, s.y ?? '', (v) => { s.y = v || undefined; if (v) s.x.delete(v); drawModel(); drawLocal(); }),
       h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
-        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, shown(c), s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); }))),
+        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, shown(c), s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); drawRateParts(); }))),
+      rateWarnings,
       modelChoice(),
       checkbox('robust', 'Standard errors robust to unequal spread', s.robust, (v) => { s.robust = v; }),
       checkbox('drop-missing', 'Leave out rows with missing values', s.dropMissing, (v) => { s.dropMissing = v; }),
     );
+    drawRateParts();
   }
+  const rateWarnings = h('div', { class: 'rate-parts' });
   drawModel();
+
+  /** A warning for each ticked column that is one of the counts the outcome is made from. */
+  function drawRateParts() {
+    const t = s.source?.table;
+    const ticked = [...s.x];
+    const built = rateBuilder.request()?.recipes.find((r) => r.name === s.y);
+    const found = !t || !s.y || !ticked.length ? [] : built ? builtRateParts(built, ticked) : rateParts(t, s.y, ticked, s.profile!.numeric);
+    clear(rateWarnings, ...found.map((f) => message('warning',
+      `${f.column} looks like ${f.role === 'numerator' ? 'the numerator of' : f.role === 'denominator' ? 'the denominator of' : 'the numerator or denominator of'} the rate ${s.y} (${f.evidence}). ` +
+      `Explaining a rate by its own counts explains it by construction, not by anything about the areas; untick ${f.column} unless that is what you mean.`)));
+  }
 
   /** The engine's models: the always-fitted ones named in the legend, a tick box for each of the others. */
   function modelChoice(): HTMLElement {
@@ -394,8 +457,27 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const progress = h('fluent-progress-bar', { id: 'progress', max: 100, value: 0, 'aria-label': 'Progress' }) as HTMLElement & { value: number };
   const stage = h('p', { class: 'stage', role: 'status', 'aria-live': 'polite' });
   const runButton = button('Run', () => void start(), { primary: true, id: 'run' });
-  const cancelButton = button('Cancel', () => engine.cancel(), { id: 'cancel', disabled: true });
+  // Cancel is there only while a run goes (a greyed-out button is hard to read and does nothing)
+  const cancelButton = button('Cancel', () => engine.cancel(), { id: 'cancel' });
+  cancelButton.hidden = true;
   run.body.append(h('div', { class: 'buttons' }, runButton, cancelButton), progress, stage);
+
+  /** Run becomes Cancel while the engine works; the keyboard focus follows. */
+  function setRunning(running: boolean) {
+    s.running = running;
+    const from = running ? runButton : cancelButton;
+    const to = running ? cancelButton : runButton;
+    const hadFocus = from.contains(document.activeElement);
+    setDisabled(runButton, running);
+    cancelButton.hidden = !running;
+    if (hadFocus) to.focus();
+  }
+
+  /** Adds a model to the ticked ones (the done message's "run again with the suggested model"). */
+  function includeModel(m: SpatialModel) {
+    if (!s.modelChoices) return;
+    s.models = new Set([...tickedModels(s.modelChoices), m]);
+  }
 
   function setup(): SavedSetup {
     return {
@@ -403,6 +485,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId() ? { idProperty: boundaryId() } : {}) }
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
+      ...(s.method === 'band' && s.distanceFromData ? { bandFromData: true } : {}),
       ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       ...(s.models ? { models: [...s.models] } : {}), robust: s.robust, dropMissing: s.dropMissing,
       ...(rateBuilder.names().length ? { rates: rateBuilder.choices() } : {}),
@@ -413,6 +496,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(run.errors); clear(run.found);
     const missing = !s.source ? 'Choose the data (step 1).' : !s.id ? 'Choose the ID column (step 1).'
       : !s.areas ? 'Open a boundary file or choose coordinate columns (step 2).' : !s.y ? 'Choose the outcome (step 4).'
+      : s.method === 'band' && !(s.distance && s.distance > 0) ? 'Give the distance of the band (step 3).'
+      : s.check?.joinError ? 'The rows do not match the areas yet: fix the problems shown in step 2 first.'
       : s.x.size === 0 ? 'Tick at least one explanatory column (step 4).'
       : s.local.on && !s.local.moran && !s.local.gi && !s.local.gistar ? 'Tick at least one local statistic (step 5), or untick the local statistics.' : '';
     if (missing) { run.errors.append(message('error', missing)); return; }
@@ -421,9 +506,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     if (!boundary) { run.errors.append(message('error', 'Choose both coordinate columns (step 2).')); return; }
     let choices: ModelChoice[];
     try { choices = s.modelChoices ?? (await engine.call({ op: 'models' })).models; } catch (e) { showError(run.errors, e); return; }
+    s.modelChoices = choices;
     const ticked = tickedModels(choices);
-    s.running = true;
-    setDisabled(runButton, true); setDisabled(cancelButton, false);
+    setRunning(true);
     progress.value = 0;
     const onProgress = (f: number, text: string) => { progress.value = Math.round(100 * f); stage.textContent = text; };
     try {
@@ -446,7 +531,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         await host.storeBoundary(used.files).catch((e: unknown) => { notKept = e instanceof Error ? e.message : String(e); });
       }
       onProgress(1, 'Done');
-      run.found.append(message('success', `${output.headline}. ${outcome.message}`));
+      showDone(output.summary, outcome.message);
       if (notKept) run.found.append(message('warning', notKept));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       run.found.append(saveAreasButton(engine, host.kind === 'page' ? (s.source?.file.name ?? 'data').replace(/\.[^.]+$/, '') : s.source?.table.sheet ?? 'sheet'));
@@ -462,12 +547,27 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
           h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
       }
     } catch (e) {
-      if (e instanceof Cancelled) { stage.textContent = 'Stopped. Nothing was written.'; progress.value = 0; }
+      progress.value = 0;
+      if (e instanceof Cancelled) stage.textContent = 'Stopped. Nothing was written.';
       else { stage.textContent = ''; showError(run.errors, e); }
     } finally {
-      s.running = false;
-      setDisabled(runButton, false); setDisabled(cancelButton, true);
+      setRunning(false);
     }
+  }
+
+  /** The done message: the residuals' Moran's I, the suggested model, and a button to fit it when this run did not. */
+  function showDone(summary: RunSummary, written: string) {
+    run.found.append(message('success', [...summaryLines(summary), written].join('\n')));
+    const add = summary.suggestion.notFitted;
+    if (add.length) {
+      run.found.append(h('div', { class: 'buttons' }, button(`Run again with the ${modelWords(add)}`, () => {
+        for (const m of add) includeModel(m);
+        drawModel();
+        runButton.focus();
+        void start();
+      }, { id: 'run-suggested', primary: true })));
+    }
+    run.found.append(h('details', {}, h('summary', {}, 'Why this model'), h('p', {}, summary.suggestion.text)));
   }
 
   // the cell functions, where there are cells (Excel)
@@ -480,7 +580,8 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (saved.weights) {
         s.method = saved.weights.method;
         if ('k' in saved.weights) { s.k = saved.weights.k; s.tiesInclude = saved.weights.ties === 'include'; }
-        if ('distance' in saved.weights) s.distance = saved.weights.distance;
+        // a band taken from the data is suggested anew from the data at hand
+        if ('distance' in saved.weights && !saved.bandFromData) { s.distance = saved.weights.distance; s.distanceFromData = false; }
         if ('power' in saved.weights) s.power = saved.weights.power;
         if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
       }

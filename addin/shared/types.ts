@@ -2,6 +2,7 @@
 import type { NamedBytesLike } from '../../src/pipeline/index.js';
 import type { Report } from '../../src/report/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
+import type { RunSummary } from './run-summary.js';
 import type { RateSmoothing } from '../../src/pipeline/index.js';
 
 export type SheetValue = string | number | boolean | null;
@@ -42,6 +43,8 @@ export interface SavedSetup {
   linkUnneighboured?: boolean;
   /** the analyst's statement of the boundary file's coordinates */
   coordinates?: 'geographic' | 'projected';
+  /** a distance band's distance was the one suggested from the data (so new data suggest anew) */
+  bandFromData?: boolean;
   /** also fit under the usual alternative neighbour definitions */
   compare?: boolean;
   /** registry keys of the models ticked (the plain regression is always fitted) */
@@ -64,7 +67,9 @@ export interface ScatterPoints {
 export interface RunOutput {
   report: Report;
   scatter: ScatterPoints;
-  /** one line for the sidebar, e.g. "150 areas, spatial lag ρ = 0.48" */
+  /** the figures for the sidebar's done message (residuals' Moran's I, the suggested model, what was fitted) */
+  summary: RunSummary;
+  /** the same in one line of text */
   headline: string;
   warnings: string[];
 }

@@ -4,13 +4,14 @@
  */
 import { InputError } from '../../src/errors.js';
 import { readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
-import { fittedInOrder } from '../../src/models/index.js';
 import { readLayerAndTable, runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, projectedNote, resultsGeoJsonText, scatterPoints } from '../../src/report/index.js';
-import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
+import type { WeightsSpec } from '../../src/weights/index.js';
+import { buildWeights, suggestBandDistance, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import { modelChoices } from './model-choices.js';
+import { runSummary, summaryLines } from './run-summary.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
@@ -51,25 +52,21 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   // the joined areas carry the layer's and the table's notes already
   const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...joined.warnings] };
   try {
-    const w = buildWeights(
-      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates },
-      c.weights,
-      { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
-    );
+    const input = { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates };
+    let spec = c.weights;
+    if (spec.method === 'band') {
+      result.bandSuggestion = suggestBandDistance(input);
+      if (spec.distance === undefined) {
+        if (!result.bandSuggestion) throw new InputError('Every area shares its location with another, so no distance can be suggested; give the band distance yourself.');
+        spec = { method: 'band', distance: result.bandSuggestion.distance };
+      }
+    }
+    const w = buildWeights(input, spec as WeightsSpec, { transform: c.transform, linkUnneighboured: c.linkUnneighboured });
     result.neighbours = { ...summarizeWeights(w), description: w.description, ...(w.tiesDecided ? { tiesWarning: tieWarning(w.tiesDecided, w.spec) } : {}) };
   } catch (e) {
     result.neighboursError = asEngineError(e);
   }
   return result;
-}
-
-function headline(r: AnalysisResult): string {
-  const parts = [`${r.n} areas`, `Moran's I of ${r.request.y} ${r.moranY.I.toFixed(3)}`];
-  for (const { entry, fit } of fittedInOrder(r.fits)) {
-    const { parameters } = entry.headline(fit);
-    if (parameters.length) parts.push(`${entry.label}: ${parameters.map((q) => `${q.symbol} = ${q.estimate.toFixed(3)}`).join(', ')}`);
-  }
-  return parts.join(' · ');
 }
 
 /** The last run's result, kept for "Save areas with results". */
@@ -91,10 +88,12 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
   // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
   const report = buildReport(result);
   const d = scatterPoints(result); // without any withheld areas' points
+  const summary = runSummary(result);
   return {
     report,
     scatter: { valueName: result.request.y, z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope },
-    headline: headline(result),
+    summary,
+    headline: summaryLines(summary).join(' '),
     warnings: result.warnings,
   };
 }

@@ -14,3 +14,4 @@ export { symmetricForm, spatialLag } from './transform.js';
 export { readEdgeList, writeEdgeList } from './edge-list.js';
 export { subsetWeights } from './subset.js';
 export { describeRule, tieWarning } from './describe-rule.js';
+export { suggestBandDistance, roundUpTwoFigures, type BandSuggestion } from './band-default.js';

@@ -21,7 +21,6 @@ export async function buildAddin(outDir: string): Promise<void> {
 
 /** Builds the add-in into outDir and serves it over plain http; returns the server and its origin. */
 export async function buildAndServe(outDir: string): Promise<{ server: PreviewServer; origin: string }> {
-  process.env.SPILLWAY_HTTP = '1';
   await buildAddin(outDir);
   const server = await preview({ configFile, logLevel: 'warn', preview: { port: 0, strictPort: false, host: '127.0.0.1' } });
   return { server, origin: server.resolvedUrls!.local[0].replace(/\/$/, '') };
