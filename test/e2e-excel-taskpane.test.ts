@@ -146,12 +146,22 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   }, 60_000);
 
   it('lists the cell functions with a worked example on the demo sheet', async () => {
-    await page.click('#functions-help summary');
+    // reached and opened by keyboard: Tab from Run arrives at the guide's heading, Enter opens it
+    await page.focus('#run');
+    let reached = false;
+    for (let i = 0; i < 40 && !reached; i++) {
+      await page.keyboard.press('Tab');
+      reached = await page.evaluate(() => document.activeElement?.matches('#functions-help summary') ?? false);
+    }
+    expect(reached).toBe(true);
+    await page.keyboard.press('Enter');
+    expect(await page.evaluate(() => document.querySelector('#functions-help').open)).toBe(true);
     await page.getByText(/=SPILL\.FIT\(C1:C151, D1:F151, A1:A151, K1#, "lag"\)/).waitFor();
     const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.length;
     expect(await page.locator('#functions-help .function-list li').count()).toBe(listed);
     expect(await accessibilityProblems(page), 'the cell functions guide open').toBe('');
     const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    await page.evaluate(() => document.activeElement?.blur());
     await page.locator('#functions-help').screenshot({ path: join(shots, 'excel-taskpane-cell-functions.png') });
     expect(problems).toEqual([]);
   });
