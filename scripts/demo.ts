@@ -35,7 +35,7 @@ const demos: Demo[] = [
     title: 'Vell Basin districts: share of workers with a long commute',
     boundary: 'vell-basin-districts.geojson', data: 'vell-basin.xlsx', sheet: 'Districts', id: 'district_id',
     truth: 'vell-basin-truth.json', out: 'vell-basin-results.xlsx', parameter: 'lag',
-    request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested',
+    request: { label: 'district_name', y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested',
       local: { statistics: ['moran', 'gistar'], of: 'clinic_wait_days' },
       // the Rates sheet: fall admissions per 1,000 residents aged 70+, with a few very small districts among large ones
       rates: { recipes: [{ name: 'falls_per_1000', events: 'fall_admissions', population: 'residents_70plus', per: 1000 }], smoothing: 'local' } },
@@ -44,7 +44,7 @@ const demos: Demo[] = [
     title: 'Vell Basin villages: new small businesses per 1,000 residents',
     boundary: 'vell-basin-villages.geojson', data: 'vell-basin-villages.xlsx', sheet: 'Villages', id: 'village_id',
     truth: 'vell-basin-villages-truth.json', out: 'vell-basin-villages-results.xlsx', parameter: 'error',
-    request: { y: 'new_business_per_1000', x: ['broadband_pct', 'town_km'], weights: { method: 'knn', k: 5 }, transform: 'row', models: ['ols', 'lag', 'error'] },
+    request: { label: 'village_name', y: 'new_business_per_1000', x: ['broadband_pct', 'town_km'], weights: { method: 'knn', k: 5 }, transform: 'row', models: ['ols', 'lag', 'error'] },
   },
 ];
 

@@ -28,6 +28,47 @@ export function listSome(items: readonly (string | number)[], max = 10): string 
 }
 
 /**
+ * The name among `candidates` the user most likely meant by `name`: the same letters in another case
+ * (or with spaces, dashes and underscores differing), else the one closest by edit distance when it
+ * is close enough for the name's length (one edit up to 4 characters, two up to 8, three beyond) and
+ * no other candidate is as close. Undefined when nothing is near.
+ */
+export function nearestName(name: string, candidates: readonly string[]): string | undefined {
+  const fold = (s: string) => s.toLowerCase();
+  const squash = (s: string) => s.toLowerCase().replace(/[\s_\-.]+/g, '');
+  const others = candidates.filter((c) => c !== name);
+  const sameFold = others.filter((c) => fold(c) === fold(name));
+  if (sameFold.length) return sameFold[0];
+  const sameSquash = others.filter((c) => squash(c) === squash(name) && squash(c) !== '');
+  if (sameSquash.length) return sameSquash[0];
+  const limit = name.length <= 4 ? 1 : name.length <= 8 ? 2 : 3;
+  let best: string | undefined, bestD = Infinity, tie = false;
+  for (const c of others) {
+    const d = editDistance(fold(name), fold(c));
+    if (d < bestD) { best = c; bestD = d; tie = false; } else if (d === bestD) tie = true;
+  }
+  return best !== undefined && bestD <= limit && !tie ? best : undefined;
+}
+
+/** " Did you mean "X"?" when a near name exists, else "". */
+export function didYouMean(name: string, candidates: readonly string[]): string {
+  const near = nearestName(name, candidates);
+  return near === undefined ? '' : ` Did you mean "${near}"?`;
+}
+
+/** Levenshtein distance (insertions, deletions, substitutions), two rows of the usual table. */
+export function editDistance(a: string, b: string): number {
+  if (a === b) return 0;
+  let prev = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i++) {
+    const cur = [i];
+    for (let j = 1; j <= b.length; j++) cur[j] = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
+    prev = cur;
+  }
+  return prev[b.length];
+}
+
+/**
  * Text safe to show on a terminal or a screen: every control character (C0 except line feed and
  * tab, DEL, C1), the bidirectional marks, overrides and isolates, zero-width characters, the
  * non-characters U+FFFE/U+FFFF and lone surrogates are written as \u{…} escapes, so a value read from

@@ -85,9 +85,13 @@ describe('a report sheet laid out for Office.js', () => {
     });
     expect(grid.values[0][0]).toBe('Title');
     expect(grid.values[2][0]).toBe('Numbers');
-    expect(grid.values[3]).toEqual(['id', 'p']);
-    expect(grid.values[4]).toEqual(['007', 0.00001]);
-    expect(grid.formats[4]).toEqual(['@', '[<0.0001]"<0.0001";0.0000']);
+    // the rows reach across the columns that titles and notes are merged over; the table's cells come first
+    expect(grid.values[3].slice(0, 2)).toEqual(['id', 'p']);
+    expect(grid.values[4].slice(0, 2)).toEqual(['007', 0.00001]);
+    expect(grid.values[4].slice(2).every((v) => v === null)).toBe(true);
+    expect(grid.formats[4].slice(0, 2)).toEqual(['@', '[<0.0001]"<0.0001";0.0000']);
+    // the p column is right-aligned, header and cells, like the numbers under it
+    expect(grid.aligns).toContainEqual({ row: 3, col: 1, rows: 2, cols: 1, horizontal: 'Right' });
     expect(grid.rows).toBe(5);
     expect(grid.styles.map((s) => s.style)).toEqual(['title', 'blockTitle', 'header']);
   });

@@ -72,8 +72,11 @@ describe('spillway fit on the Columbus neighbourhood data (Anselin 1988)', () =>
     expect(out.weights.transform).toBe('row');
     expect(out.weights.withoutNeighbours).toEqual([]);
     expect(out.weights.components).toBe(1);
-    expect(typeof out.ols.recommendation).toBe('string');
-    expect(out.ols.recommendation.length).toBeGreaterThan(20);
+    expect(out.ols.recommendation.text.length).toBeGreaterThan(20);
+    expect(['ols', 'lag', 'error', 'either']).toContain(out.ols.recommendation.choice);
+    // all three models fitted by default: whatever is suggested was fitted
+    expect(out.ols.recommendation).toMatchObject({ fitted: true, notFitted: [] });
+    expect(typeof out.ols.recommendation.borderline).toBe('boolean');
     for (const imp of out.impacts) {
       expect(imp.total).toBeCloseTo(imp.direct + imp.indirect, 10); // identity: total = direct + indirect
       expect(imp.totalSe).toBeGreaterThan(0);

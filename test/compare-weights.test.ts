@@ -90,12 +90,15 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const sheet = report.sheets.find((s) => s.role === 'comparison')!;
     expect(sheet.name).toBe('Neighbour definitions compared');
     const titles = sheet.blocks.filter((b) => b.kind === 'table').map((b) => (b as { title: string }).title);
-    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition', 'Spillover effects of the spatial lag model under each definition', 'The definitions in full']);
+    expect(titles).toEqual(['Neighbours and the tests on the plain regression\'s residuals', 'The spatial models under each definition', 'Spillover effects of the spatial lag model under each definition']);
+    expect(sheet.blocks.some((b) => b.kind === 'keyValues' && b.title === 'The definitions in full')).toBe(true);
     const text = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
     expect(text).toMatch(/ρ runs from 0\.423 to 0\.463/); // rook 0.4228, queen 0.4233, 4 nearest 0.4632 (reference above)
     expect(text).toMatch(/for a reason about the places/);
     const summary = report.sheets[0].blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
-    expect(summary).toMatch(/Under other neighbour definitions \(sheet "Neighbour definitions compared"\): Across the 3 definitions/);
+    expect(summary).toMatch(/Other neighbour definitions, on the sheet "Neighbour definitions compared": across the 3 distinct definitions/);
+    // no nested brackets in the readings
+    for (const t of [text, summary]) expect(t).not.toMatch(/\([^()]*\(/);
     const json = resultToJson(result) as { comparison: { asRun: boolean; lag: { rho: number } }[] };
     expect(json.comparison).toHaveLength(3);
     expect(json.comparison[1].lag.rho).toBe(param(rows[1], 'lag').estimate);
@@ -118,5 +121,36 @@ describe('neighbour definitions compared (Columbus)', async () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--compare: .*unknown rule "hexagon"/);
     expect(bad.stderr).not.toMatch(STACK_LINE);
+  });
+});
+
+describe('a definition that links the same neighbours as another is said once', () => {
+  // on a grid of unit squares, a distance band of 1.2 between centres links exactly the rook neighbours
+  // (centres 1 apart across an edge, √2 across a corner): an identity of the grid's geometry
+  it('is recognised, not refitted, and named once in the report instead of repeating identical rows', async () => {
+    const side = 6;
+    const features = Array.from({ length: side * side }, (_, i) => {
+      const x = i % side, y = Math.floor(i / side);
+      return {
+        type: 'Feature', properties: { cell: `G${i + 1}`, y: Math.sin(i) + x * 0.4 + ((i * 7) % 5) * 0.3, x: Math.cos(i * 1.3) + y * 0.2 },
+        geometry: { type: 'Polygon', coordinates: [[[x, y], [x + 1, y], [x + 1, y + 1], [x, y + 1], [x, y]]] },
+      };
+    });
+    const bytes = new TextEncoder().encode(JSON.stringify({ type: 'FeatureCollection', features }));
+    const r = await runAnalysis({
+      boundary: [{ name: 'grid.geojson', bytes }], coordinates: 'projected', id: 'cell', y: 'y', x: ['x'], weights: { method: 'rook' }, transform: 'row',
+      models: ['ols', 'lag'], permutations: 0, impactDraws: 20, compareWeights: [{ method: 'band', distance: 1.2 }, { method: 'queen' }],
+    });
+    const [own, band, queen] = r.comparison!;
+    expect(band.sameAs).toBe(own.label);
+    expect(band.fits.lag!.parameters[0].estimate).toBe(own.fits.lag!.parameters[0].estimate);
+    expect(queen.sameAs).toBeUndefined();
+    const sheet = buildReport(r).sheets.find((s) => s.role === 'comparison')!;
+    const first = sheet.blocks.find((b) => b.kind === 'table')!;
+    expect(first.kind === 'table' && first.rows.map((row) => row[0])).toEqual(['rook contiguity (this run)', 'queen contiguity']);
+    const notes = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join('\n');
+    expect(notes).toMatch(/^The definition "all areas within distance 1\.2" links exactly the same neighbours as "rook contiguity" on these areas, so it gives the same figures/m);
+    expect(notes).toMatch(/Across the 2 distinct definitions \(1 more linked the same neighbours as one of these\)/);
+    expect((resultToJson(r) as { comparison: { sameAs?: string }[] }).comparison[1].sameAs).toBe('rook contiguity');
   });
 });

@@ -133,6 +133,16 @@ describe('readBoundary: geographic or projected', () => {
     expect(e.message).toMatch(/CRS84.*far beyond longitude\/latitude degrees/);
   });
 
+  it('keeps the stated length unit of projected coordinates (for scale bars): a metre EPSG code, our own statement; else none', async () => {
+    const utm = { ...fc(poly({}, square(500000, 4000000, 1000))), crs: { type: 'name', properties: { name: 'urn:ogc:def:crs:EPSG::32617' } } };
+    expect((await readBoundary(file(utm))).coordinateUnit).toBe('metre');
+    const own = { ...fc(poly({}, square(500000, 4000000, 1000))), 'spillway:coordinates': 'projected metres, invented local grid' };
+    const layer = await readBoundary(file(own));
+    expect(layer).toMatchObject({ coordinates: 'projected', coordinateUnit: 'metre' });
+    expect(layer.coordinateEvidence).toMatch(/states "projected metres, invented local grid"/);
+    expect((await readBoundary(file(fc(poly({}, square(500000, 4000000, 1000)))))).coordinateUnit).toBeUndefined();
+  });
+
   it('lets the analyst state projected coordinates', async () => {
     const layer = await readBoundary(file(fc(poly({}, square(3, 3)))), { coordinates: 'projected' });
     expect(layer.coordinates).toBe('projected');

@@ -97,6 +97,45 @@ describe('joinAreas', () => {
     expect(j.ids).toEqual(['a']);
   });
 
+  it('refuses IDs that differ only by leading zeros, naming the option that matches them; with it, matches and records them', async () => {
+    const layer = await layerOf(['005', '017', '101']);
+    const table: DataTable = { sourceName: 't.csv', columns: ['zone', 'v'], rows: [[5, 1], ['17', 2], ['101', 3]], firstRow: 2 };
+    const e = joinFailure(() => joinAreas(layer, table, 'zone'));
+    expect(e.message).toMatch(/5 vs 005, 17 vs 017/);
+    expect(e.message).toMatch(/--ids-ignore-leading-zeros; in the sidebar, tick "match 01001 with 1001"/);
+    const j = joinAreas(layer, table, 'zone', { ignoreLeadingZeros: true });
+    expect(j.ids).toEqual(['5', '17', '101']); // the table's IDs, in its order
+    expect(j.column('size')).toEqual([10, 11, 12]);
+    expect(j.report.matchedIgnoringZeros).toEqual([{ tableId: '5', featureId: '005' }, { tableId: '17', featureId: '017' }]);
+    expect(j.warnings.join(' ')).toMatch(/2 ID\(s\) were matched ignoring leading zeros, as asked .*5 with 005, 17 with 017/);
+    // two rows that meet only under the option are a repeated ID, shown as written
+    const twice: DataTable = { sourceName: 't.csv', columns: ['zone'], rows: [['5'], ['005']], firstRow: 2 };
+    expect(joinFailure(() => joinAreas(layer, twice, 'zone', { ignoreLeadingZeros: true })).message).toMatch(/IDs appear more than once: 5 \(written 5, 005\) \(rows 2, 3\)/);
+    // codes that are not all digits keep their zeros
+    const letters = await layerOf(['A05']);
+    expect(() => joinAreas(letters, { sourceName: 't.csv', columns: ['zone'], rows: [['A5']], firstRow: 2 }, 'zone', { ignoreLeadingZeros: true })).toThrow(/no feature/);
+  });
+
+  it('suggests the near column name (case, then edit distance) and points to --boundary-id when only the boundary file lacks the ID', async () => {
+    const layer = await layerOf(['a', 'b']);
+    const t: DataTable = { sourceName: 't.csv', columns: ['FIPS', 'NAME', 'rate'], rows: [['a', 'Alder', 1], ['b', 'Birch', 2]], firstRow: 2 };
+    expect(joinFailure(() => joinAreas(layer, t, 'fips', { featureIdProperty: 'zone' })).message)
+      .toBe('t.csv has no column "fips" to join by; did you mean "FIPS"? Its columns are "FIPS", "NAME", "rate".');
+    // the table has the column; the boundary file holds the same IDs under "zone"
+    const m = joinFailure(() => joinAreas(layer, t, 'FIPS')).message;
+    expect(m).toMatch(/zones\.geojson has no property "FIPS" to join by; its properties are "zone", "size"\./);
+    expect(m).toMatch(/Its property "zone" holds 2 of the 2 IDs in t\.csv's "FIPS": name it as the boundary file's ID \(--boundary-id zone\)/);
+    // a misspelt --boundary-id
+    expect(joinFailure(() => joinAreas(layer, t, 'FIPS', { featureIdProperty: 'zome' })).message).toMatch(/no property "zome" to join by; did you mean "zone"\? .*--boundary-id zone/);
+    // nothing near: no guess
+    expect(joinFailure(() => joinAreas(layer, t, 'district', { featureIdProperty: 'zone' })).message).not.toMatch(/did you mean/);
+    // a model column: the table's columns only, with the near match
+    const j = joinAreas(layer, t, 'FIPS', { featureIdProperty: 'zone' });
+    const e = joinFailure(() => j.column('Rate'));
+    expect(e.message).toBe('There is no column "Rate" in t.csv (nor a property "Rate" in zones.geojson); did you mean "rate"? Its columns are "FIPS", "NAME", "rate".');
+    expect(joinFailure(() => j.column('rates_per_1000')).message).toMatch(/; its columns are "FIPS", "NAME", "rate"\.$/);
+  });
+
   it('joins the boundary file to its own table, counting in features', async () => {
     const layer = await layerOf(['a', 'b']);
     const j = joinAreas(layer, tableFromLayer(layer), 'zone');
@@ -126,6 +165,16 @@ describe('numericColumn', () => {
     expect(message).toMatch(/text in row 3 \("abc"\)/);
     expect(message).toMatch(/blank cells in row 4/);
     expect(message).toMatch(/NaN or infinite values in row 5 \(NaN\), row 6 \(Infinity\)/);
+  });
+
+  it('calls a column of text "not numeric", with or without leaving out missing values', async () => {
+    const layer = await layerOf(['a', 'b', 'c']);
+    const j = joinAreas(layer, { sourceName: 't.csv', columns: ['zone', 'name'], rows: [['a', 'Alder Vale'], ['b', null], ['c', 'Birch']], firstRow: 2 }, 'zone');
+    for (const allowMissing of [false, true]) {
+      const e = thrown<InputError>(() => numericColumn(j, 'name', { allowMissing }));
+      expect(e.message).toBe('Column "name" is not numeric: it holds text in every row that is not blank (for example row 2 ("Alder Vale")). Choose a column of numbers for the model.');
+      expect(e.message).not.toMatch(/missing/);
+    }
   });
 
   it('returns NaN at those rows with allowMissing', async () => {

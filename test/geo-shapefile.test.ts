@@ -126,6 +126,15 @@ describe('readBoundary: hand-made point shapefiles', () => {
     expect(layer.warnings.join(' ')).toMatch(/not valid UTF-8 \(first in field NAME, feature 2\); it was read as Windows-1252/);
   });
 
+  it('reads the length unit of a projected .prj (its last UNIT, after the GEOGCS inside)', async () => {
+    const { claimFromPrj } = await import('../src/geo/coordinate-kind.js');
+    const utm = 'PROJCS["WGS_1984_UTM_Zone_17N",GEOGCS["GCS_WGS_1984",DATUM["D_WGS_1984"],UNIT["Degree",0.0174532925199433]],PROJECTION["Transverse_Mercator"],UNIT["Meter",1.0]]';
+    expect(claimFromPrj(utm, 'a.prj')).toMatchObject({ kind: 'projected', unit: 'metre' });
+    const feet = 'PROJCS["NAD_1983_StatePlane_North_Carolina_FIPS_3200_Feet",GEOGCS["GCS_North_American_1983",UNIT["Degree",0.017453292519943295]],UNIT["Foot_US",0.3048006096012192]]';
+    expect(claimFromPrj(feet, 'b.prj')).toMatchObject({ kind: 'projected', unit: 'us-foot' });
+    expect(claimFromPrj('GEOGCS["GCS_WGS_1984",UNIT["Degree",0.0174532925199433]]', 'c.prj')?.unit).toBeUndefined();
+  });
+
   it('refuses a geographic .prj with coordinates in the millions', async () => {
     const far = pointShp([{ x: 500000, y: 4000000 }]);
     const e = await failure(readBoundary([

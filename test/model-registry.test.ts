@@ -163,13 +163,14 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
     const summary = report.sheets.find((s) => s.role === 'overview')!;
     const models = summary.blocks.find((b) => b.kind === 'table' && b.title === 'How the models compare') as { rows: unknown[][] };
     expect(models.rows.map((r) => r[0])).toEqual(MODELS.map((m) => m.label));
-    const areas = report.sheets.find((s) => s.role === 'areas')!.blocks[0] as { columns: { header: string }[]; rows: unknown[][] };
-    const k = areas.columns.findIndex((c) => c.header === 'Model with neighbours’ columns: fitted');
+    const areas = report.sheets.find((s) => s.role === 'areas')!.blocks[0] as { columns: { header: string; group?: string }[]; rows: unknown[][] };
+    // each model's columns sit under its label as a group heading
+    const k = areas.columns.findIndex((c) => c.group === 'Model with neighbours’ columns' && c.header === 'Fitted');
     expect(k).toBeGreaterThan(0);
     expect(areas.rows[0][k]).toBe(extra.fitted[0]);
     const compared = report.sheets.find((s) => s.role === 'comparison')!;
-    const table = compared.blocks.find((b) => b.kind === 'table' && b.title === 'The spatial models under each definition') as { columns: { header: string }[] };
-    expect(table.columns.map((c) => c.header)).toContain('AIC: model with neighbours’ columns');
+    const table = compared.blocks.find((b) => b.kind === 'table' && b.title === 'The spatial models under each definition') as { columns: { header: string; group?: string }[] };
+    expect(table.columns.filter((c) => c.group === 'Model with neighbours’ columns').map((c) => c.header)).toEqual(['AIC']);
   });
 
   it('the run adds the likelihood-ratio test of the restriction it declares (θ = 0 against the plain regression; chi-square by jStat)', () => {

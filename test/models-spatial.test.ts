@@ -134,9 +134,9 @@ describe('model recommendation (decision rule of Anselin 2005 / Anselin & Rey 20
     expect(recommendModel(lm(0.01, 0.5, 0.5, 0.5)).choice).toBe('error');
     expect(recommendModel(lm(0.01, 0.01, 0.5, 0.02)).choice).toBe('lag');
     expect(recommendModel(lm(0.01, 0.01, 0.02, 0.5)).choice).toBe('error');
-    const both = recommendModel(lm(0.01, 0.01, 0.01, 0.001, 7, 12));
-    expect(both.choice).toBe('either');
-    expect(both.text).toMatch(/lag model/);
+    const both = recommendModel(lm(0.001, 0.001, 0.001, 0.0001, 7, 12));
+    expect(both).toMatchObject({ choice: 'lag', bothKinds: true });
+    expect(recommendModel(lm(0.001, 0.001, 0.5, 0.5)).choice).toBe('either');
     expect(recommendModel(lm(0.04, 0.5, 0.5, 0.5), 0.01).choice).toBe('ols');
     expect(recommendModel(lm(0.04, 0.5, 0.5, 0.5)).alpha).toBe(0.05);
   });

@@ -92,13 +92,31 @@ describe('Moran scatter plot', () => {
 });
 
 describe('maps', () => {
-  it('draws a scale bar only for projected coordinates', () => {
-    for (const kind of ['projected', 'geographic'] as const) {
-      const r = fakeResult({ coordinates: kind });
-      const pic = choroplethSvg({ title: 'Residuals', valueName: 'observed − fitted', geometries: r.geometries, values: r.ols.residuals, coordinates: kind, scale: 'diverging' });
-      expect(pic.svg.includes('in map units')).toBe(kind === 'projected');
+  it('draws a scale bar in kilometres for longitude/latitude and for metres, in map units only when the unit is unknown', () => {
+    // the bar's length against the map's own extent: the 5 × 5 grid spans 5000 m, or 0.05° of latitude,
+    // which is 0.05 × 2π × 6371 / 360 km on a sphere of the Earth's mean radius (6371 km)
+    const barAndFrame = (svg: string) => {
+      const bar = /<path d="M12 [\d.]+V[\d.]+H([\d.]+)V/.exec(svg)!;
+      const frame = /<rect x="0.5" y="40.5" width="([\d.]+)" height="([\d.]+)"/.exec(svg)!;
+      return { length: Number(bar[1]) - 12, height: Number(frame[2]) + 1 };
+    };
+    const cases = [
+      { kind: 'projected' as const, unit: 'metre' as const, words: /1 km</, kmTall: 5 },
+      { kind: 'geographic' as const, unit: undefined, words: /1 km</, kmTall: (0.05 * 2 * Math.PI * 6371) / 360 },
+      { kind: 'projected' as const, unit: undefined, words: /1,000 map units \(the file does not state its unit\)/, kmTall: 5 },
+    ];
+    for (const c of cases) {
+      const r = fakeResult({ coordinates: c.kind });
+      const pic = choroplethSvg({ title: 'Residuals', valueName: 'observed − fitted', geometries: r.geometries, values: r.ols.residuals, coordinates: c.kind, unit: c.unit, scale: 'diverging' });
+      expect(pic.svg).toMatch(c.words);
+      if (c.unit || c.kind === 'geographic') expect(pic.svg).not.toMatch(/map units/);
+      const { length, height } = barAndFrame(pic.svg);
+      // 6 px of padding above and below the areas (projection.ts)
+      expect(length).toBeCloseTo((height - 12) / c.kmTall, 0);
       expect((pic.svg.match(/<path d="M/g) ?? []).length).toBeGreaterThanOrEqual(GRID * GRID);
       expect(pic.alt).toMatch(/symmetric about 0/);
+      // the legend's last line is one sentence, not "Classes: classes of ..."
+      expect(pic.svg).not.toMatch(/Classes: classes/);
     }
   });
 

@@ -23,7 +23,8 @@ async function cellTexts(bytes: Uint8Array, sheet: string): Promise<unknown[]> {
   const wb = new ExcelJS.Workbook();
   await wb.xlsx.load(bytes as unknown as ArrayBuffer);
   const out: unknown[] = [];
-  wb.getWorksheet(sheet)!.eachRow((row) => row.eachCell((c) => { out.push(c.value); }));
+  // a merged title repeats its text in every merged cell; keep it once, in the first
+  wb.getWorksheet(sheet)!.eachRow((row) => row.eachCell((c) => { if (!c.isMerged || c.master.address === c.address) out.push(c.value); }));
   return out;
 }
 

@@ -5,25 +5,27 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
-import { buildReport, layoutBlocks, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
+import { buildReport, planSheet, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
 import { renderPng } from '../src/report/render-png.js';
 import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, baseWorkbookRisks, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
 import { runAnalysis } from '../src/pipeline/index.js';
 import { InputError } from '../src/errors.js';
 import { fakeResult } from './helpers/fake-result.js';
 
-/** Every cell a block puts on the sheet, at the row the shared layout gives it: [row, col, value, format]. */
+/** Every cell a block puts on the sheet, at the row the shared sheet plan gives it: [row, col, value, format]. */
 function expectedCells(sheet: ReportSheet): [number, number, Cell, NumberFormat | undefined][] {
   const out: [number, number, Cell, NumberFormat | undefined][] = [];
-  const { starts } = layoutBlocks(sheet.blocks);
+  const plan = planSheet(sheet);
   sheet.blocks.forEach((b: Block, i) => {
-    const top = starts[i];
+    const top = plan.starts[i];
+    const p = plan.blocks[i];
     if (b.kind === 'title' || b.kind === 'paragraph') out.push([top, 1, b.text, undefined]);
-    if (b.kind === 'table') {
+    if (b.kind === 'table' && p.kind === 'table') {
       out.push([top, 1, b.title, undefined]);
-      b.columns.forEach((c, j) => out.push([top + 1, j + 1, c.header, undefined]));
-      b.rows.forEach((r, k) => r.forEach((v, j) => out.push([top + 2 + k, j + 1, v, b.columns[j]?.format])));
-      if (b.note) out.push([top + 2 + b.rows.length, 1, b.note, undefined]);
+      for (const g of p.groups) out.push([p.groupRow!, g.col + 1, g.text, undefined]);
+      b.columns.forEach((c, j) => out.push([p.headerRow, j + 1, c.header, undefined]));
+      b.rows.forEach((r, k) => r.forEach((v, j) => out.push([p.firstRow + k, j + 1, v, b.columns[j]?.format])));
+      if (b.note) out.push([p.noteRow!, 1, b.note, undefined]);
     }
     if (b.kind === 'keyValues') {
       out.push([top, 1, b.title, undefined]);
@@ -94,8 +96,8 @@ describe('writeResultsWorkbook', () => {
     const o = back[0];
     expect(o.images.map((im) => [im.row, im.col, im.width, im.height, im.extension])).toEqual(
       report.sheets[0].images!.map((im) => [im.anchor.row, im.anchor.col, im.widthPx, im.heightPx, 'png']));
-    // the per-area table's header (row 2, under its title) stays in view
-    expect(back.find((s) => s.name === 'By area')!.frozenRows).toBe(2);
+    // the per-area table's headings (rows 2 and 3: the models over their columns, under the title) stay in view
+    expect(back.find((s) => s.name === 'By area')!.frozenRows).toBe(3);
   });
 
   it('keeps the user’s sheets cell by cell and gives new sheets unique names', async () => {
@@ -145,7 +147,7 @@ describe('results of the real pipeline on the Columbus neighbourhoods', () => {
     expect(coefRows.map((r) => r.slice(0, 5))).toEqual(result.ols.coefficients.map((c) => [c.name, c.estimate, c.se, c.stat, c.p]));
     const areas = back.find((s) => s.name === 'By area')!;
     result.ids.forEach((id, i) => {
-      expect(areas.rows[2 + i].slice(0, 5)).toEqual([id, result.rows[i], result.y[i], result.ols.fitted[i], result.ols.residuals[i]]);
+      expect(areas.rows[3 + i].slice(0, 5)).toEqual([id, result.rows[i], result.y[i], result.ols.fitted[i], result.ols.residuals[i]]);
     });
     // Moran's I of CRIME with queen, row-standardised weights: 0.500 (recalled from memory of the
     // published Columbus analyses); the report's scatter slope is computed independently of the engine

@@ -25,6 +25,7 @@ const STYLE: Record<CellStyle, { bold?: boolean; italic?: boolean; size?: number
   title: { bold: true, size: 14, color: '#1B4470' },
   blockTitle: { bold: true },
   header: { bold: true, fill: '#E6EDF4', wrap: true },
+  group: { bold: true, wrap: true },
   note: { italic: true, color: '#555555' },
   caution: { color: '#8A3F0A' },
 };
@@ -232,7 +233,7 @@ export class ExcelAdapter {
   }
 }
 
-/** Values and number formats in row blocks, then widths, heights, merges, styles and frozen rows. */
+/** Values and number formats in row blocks, then widths, heights, merges, wrapping, alignment, styles and frozen rows. */
 export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: SheetGrid): Promise<void> {
   // formats first in every block, so text such as IDs with leading zeros or a leading minus stays text
   await writeRows(budget, ws, 0, 0, grid.values, grid.formats);
@@ -250,6 +251,17 @@ export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: 
     range.merge(false);
     range.format.wrapText = true;
     range.format.verticalAlignment = 'Top';
+  }
+  for (const w of grid.wraps) {
+    await budget.room(0);
+    ws.getRangeByIndexes(w.row, w.col, w.rows, w.cols).format.wrapText = true;
+  }
+  for (const a of grid.aligns) {
+    await budget.room(0);
+    const f = ws.getRangeByIndexes(a.row, a.col, a.rows, a.cols).format;
+    f.horizontalAlignment = a.horizontal;
+    if (a.indent) f.indentLevel = a.indent;
+    if (a.top) f.verticalAlignment = 'Top';
   }
   for (const s of grid.styles) {
     const style = STYLE[s.style];

@@ -14,6 +14,8 @@ export interface RangeFormatLike {
   columnWidth: number;
   rowHeight: number;
   verticalAlignment: string;
+  horizontalAlignment: string;
+  indentLevel: number;
 }
 
 export interface RangeLike {

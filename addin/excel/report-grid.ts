@@ -1,13 +1,14 @@
 /**
  * One report sheet as the rectangles Office.js writes in a single batch: values, number formats,
- * styled ranges, merged paragraph rows, row heights and column widths. Pure (no Office), so it is
- * checked in Node. The layout is the report's own (layoutBlocks), the same as the .xlsx writer's.
+ * styled ranges, merged rows, wrapped and aligned cells, row heights and column widths. Pure (no
+ * Office), so it is checked in Node. The layout is the report's own sheet plan (planSheet), the same
+ * as the .xlsx writer's.
  */
-import { layoutBlocks, type Block, type Cell, type NumberFormat, type ReportSheet } from '../../src/report/index.js';
+import { planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type ReportSheet } from '../../src/report/index.js';
 // The number-format table alone (src/workbook's index would pull exceljs into the task pane).
 import { EXCEL_FORMAT } from '../../src/workbook/number-formats.js';
 
-export type CellStyle = 'title' | 'blockTitle' | 'header' | 'note' | 'caution';
+export type CellStyle = 'title' | 'blockTitle' | 'header' | 'group' | 'note' | 'caution';
 
 export interface StyledRange {
   /** 0-based top-left cell and size */
@@ -18,14 +19,20 @@ export interface StyledRange {
   style: CellStyle;
 }
 
+export interface Rect { row: number; col: number; rows: number; cols: number }
+
 export interface SheetGrid {
   rows: number;
   cols: number;
   values: (string | number | boolean | null)[][];
   formats: (string | null)[][];
   styles: StyledRange[];
-  /** paragraph rows merged across the first columns so the text wraps on a comfortable line */
+  /** cells merged across columns (titles, paragraphs, notes, group headings, long values); they wrap */
   merges: { row: number; col: number; cols: number }[];
+  /** cells whose text wraps without being merged */
+  wraps: Rect[];
+  /** cells aligned other than by default */
+  aligns: (Rect & { horizontal: 'Left' | 'Right' | 'Center'; indent?: number; top?: boolean })[];
   /** 0-based row → height in points, for wrapped rows */
   rowHeights: Map<number, number>;
   /** width of each column in characters */
@@ -35,30 +42,9 @@ export interface SheetGrid {
 }
 
 const DEFAULT_WIDTH = 12;
-const PARAGRAPH_CHARS = 110;
-const MAX_PARAGRAPH_COLUMNS = 10;
 /** Excel's default row height in points. */
 export const ROW_POINTS = 15;
-/** Points per character of column width (Calibri 11, approximately). */
-export const POINTS_PER_CHAR = 5.6;
-
-function widths(blocks: readonly Block[]): number[] {
-  const w: number[] = [];
-  const want = (col: number, width: number) => { w[col] = Math.max(w[col] ?? DEFAULT_WIDTH, width); };
-  for (const b of blocks) {
-    if (b.kind === 'table') b.columns.forEach((c, i) => want(i, c.width ?? Math.min(60, Math.max(DEFAULT_WIDTH, c.header.length + 2))));
-    if (b.kind === 'keyValues') {
-      want(0, Math.min(48, Math.max(b.title.length, ...b.rows.map((r) => r[0].length)) + 2));
-      want(1, Math.min(60, Math.max(DEFAULT_WIDTH, ...b.rows.map((r) => (typeof r[1] === 'string' ? r[1].length + 2 : DEFAULT_WIDTH)))));
-    }
-  }
-  for (let i = 0; i < w.length; i++) if (w[i] === undefined) w[i] = DEFAULT_WIDTH;
-  return w.length ? w : [DEFAULT_WIDTH];
-}
-
-function lineCount(text: string, widthChars: number): number {
-  return Math.max(1, Math.ceil(text.length / Math.max(10, widthChars * 1.05)));
-}
+export { POINTS_PER_CHAR };
 
 function shown(value: Cell): string | number | boolean | null {
   if (value === null) return null;
@@ -66,18 +52,21 @@ function shown(value: Cell): string | number | boolean | null {
   return value;
 }
 
+const CASE = { left: 'Left', right: 'Right' } as const;
+
 export function sheetGrid(sheet: ReportSheet): SheetGrid {
-  const columnWidths = widths(sheet.blocks);
-  const { starts, lastRow } = layoutBlocks(sheet.blocks);
+  const plan = planSheet(sheet);
+  const columnWidths = plan.widths.length ? plan.widths : [DEFAULT_WIDTH];
   const cols = Math.max(columnWidths.length, 2);
-  const rows = Math.max(lastRow, 1);
+  const rows = Math.max(plan.lastRow, 1);
   const values = Array.from({ length: rows }, () => new Array<string | number | boolean | null>(cols).fill(null));
   const formats = Array.from({ length: rows }, () => new Array<string | null>(cols).fill(null));
   const styles: StyledRange[] = [];
   const merges: SheetGrid['merges'] = [];
+  const wraps: Rect[] = [];
+  const aligns: SheetGrid['aligns'] = [];
   const rowHeights = new Map<number, number>();
-  let span = 0, paragraphWidth = 0;
-  while (span < Math.min(MAX_PARAGRAPH_COLUMNS, cols) && paragraphWidth < PARAGRAPH_CHARS) paragraphWidth += columnWidths[span++] ?? DEFAULT_WIDTH;
+  for (const [r, h] of plan.heights) if (r - 1 < rows) rowHeights.set(r - 1, h);
   let freezeRows = 0;
 
   const put = (r: number, c: number, v: Cell, format?: NumberFormat) => {
@@ -87,40 +76,56 @@ export function sheetGrid(sheet: ReportSheet): SheetGrid {
     if (typeof value === 'number') formats[r][c] = format === undefined ? EXCEL_FORMAT.decimal4 : format === 'text' ? 'General' : EXCEL_FORMAT[format];
     else if (typeof value === 'string') formats[r][c] = '@';
   };
-  const paragraph = (r: number, text: string, style?: CellStyle) => {
+  /** 0-based row: text merged across the plan's span, wrapped */
+  const spanned = (r: number, text: string, style?: CellStyle) => {
     put(r, 0, text);
-    if (span > 1) merges.push({ row: r, col: 0, cols: span });
-    rowHeights.set(r, lineCount(text, paragraphWidth) * ROW_POINTS + 3);
+    if (plan.span > 1) merges.push({ row: r, col: 0, cols: plan.span });
+    else wraps.push({ row: r, col: 0, rows: 1, cols: 1 });
     if (style) styles.push({ row: r, col: 0, rows: 1, cols: 1, style });
   };
 
   sheet.blocks.forEach((b, bi) => {
-    const top = starts[bi] - 1;
-    switch (b.kind) {
-      case 'title':
-        put(top, 0, b.text);
-        styles.push({ row: top, col: 0, rows: 1, cols: 1, style: 'title' });
-        break;
-      case 'paragraph':
-        paragraph(top, b.text, b.style === 'note' ? 'note' : b.style === 'caution' ? 'caution' : undefined);
-        break;
-      case 'table':
-        put(top, 0, b.title);
-        styles.push({ row: top, col: 0, rows: 1, cols: 1, style: 'blockTitle' });
-        b.columns.forEach((c, i) => put(top + 1, i, c.header));
-        styles.push({ row: top + 1, col: 0, rows: 1, cols: b.columns.length, style: 'header' });
-        b.rows.forEach((cells, r) => cells.forEach((v, i) => put(top + 2 + r, i, v, b.columns[i]?.format)));
-        if (b.note) paragraph(top + 2 + b.rows.length, b.note, 'note');
-        if (!freezeRows && bi === 0 && (sheet.freezeHeader || b.rows.length > 30)) freezeRows = top + 2;
-        break;
-      case 'keyValues':
-        put(top, 0, b.title);
-        styles.push({ row: top, col: 0, rows: 1, cols: 1, style: 'blockTitle' });
-        b.rows.forEach(([label, value, format], r) => { put(top + 1 + r, 0, label); put(top + 1 + r, 1, value, format); });
-        break;
+    const p = plan.blocks[bi];
+    const top = plan.starts[bi] - 1;
+    if (b.kind === 'title') spanned(top, b.text, 'title');
+    else if (b.kind === 'paragraph') spanned(top, b.text, b.style === 'note' ? 'note' : b.style === 'caution' ? 'caution' : undefined);
+    else if (b.kind === 'table' && p.kind === 'table') {
+      spanned(top, b.title, 'blockTitle');
+      for (const g of p.groups) {
+        put(p.groupRow! - 1, g.col, g.text);
+        if (g.cols > 1) merges.push({ row: p.groupRow! - 1, col: g.col, cols: g.cols });
+        styles.push({ row: p.groupRow! - 1, col: g.col, rows: 1, cols: g.cols, style: 'group' });
+        aligns.push({ row: p.groupRow! - 1, col: g.col, rows: 1, cols: g.cols, horizontal: 'Center' });
+      }
+      const h = p.headerRow - 1;
+      b.columns.forEach((c, i) => put(h, i, c.header));
+      styles.push({ row: h, col: 0, rows: 1, cols: b.columns.length, style: 'header' });
+      b.rows.forEach((cells, r) => cells.forEach((v, i) => put(p.firstRow - 1 + r, i, v, b.columns[i]?.format)));
+      b.columns.forEach((_, i) => {
+        const indent = i > 0 && p.align[i] === 'left' && p.align[i - 1] === 'right' ? { indent: 1 } : {};
+        if (p.wrap.some(Boolean) && b.rows.length) {
+          // with wrapped text in the table, every cell starts at the top of its row; the header stays at the bottom
+          aligns.push({ row: h, col: i, rows: 1, cols: 1, horizontal: CASE[p.align[i]], ...indent });
+          aligns.push({ row: h + 1, col: i, rows: b.rows.length, cols: 1, horizontal: CASE[p.align[i]], ...indent, top: true });
+        } else aligns.push({ row: h, col: i, rows: 1 + b.rows.length, cols: 1, horizontal: CASE[p.align[i]], ...indent });
+        if (p.wrap[i] && b.rows.length) wraps.push({ row: p.firstRow - 1, col: i, rows: b.rows.length, cols: 1 });
+      });
+      if (b.note) spanned(p.noteRow! - 1, b.note, 'note');
+      if (!freezeRows && bi === 0 && (sheet.freezeHeader || b.rows.length > 30)) freezeRows = p.headerRow;
+    } else if (b.kind === 'keyValues' && p.kind === 'keyValues') {
+      spanned(top, b.title, 'blockTitle');
+      b.rows.forEach(([label, value, format], r) => {
+        const rp = p.rows[r];
+        put(rp.row - 1, 0, label);
+        put(rp.row - 1, 1, value, format);
+        if (rp.wrapLabel) wraps.push({ row: rp.row - 1, col: 0, rows: 1, cols: 1 });
+        if (rp.valueCols > 1) merges.push({ row: rp.row - 1, col: 1, cols: rp.valueCols });
+        else if (rp.wrapValue) wraps.push({ row: rp.row - 1, col: 1, rows: 1, cols: 1 });
+        aligns.push({ row: rp.row - 1, col: 1, rows: 1, cols: 1, horizontal: CASE[rp.align] });
+      });
     }
   });
-  return { rows, cols, values, formats, styles, merges, rowHeights, columnWidths, freezeRows };
+  return { rows, cols, values, formats, styles, merges, wraps, aligns, rowHeights, columnWidths, freezeRows };
 }
 
 /** Distance in points from the top of the sheet to the top of 0-based `row`, given the grid's row heights. */

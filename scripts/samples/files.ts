@@ -32,6 +32,8 @@ export async function workbookBytes(sheetName: string, columns: ColumnSpec[], ro
       if (c.format) row.getCell(k + 1).numFmt = c.format;
     });
   }
+  const wide = columns.reduce((w, c) => w + c.width, 0) > 95;
+  ws.pageSetup = { orientation: wide ? 'landscape' : 'portrait', fitToPage: true, fitToWidth: 1, fitToHeight: 0, printTitlesRow: '1:1' };
   const info = wb.addWorksheet('About this data');
   info.getColumn(1).width = 26;
   info.getColumn(2).width = 100;
@@ -40,7 +42,12 @@ export async function workbookBytes(sheetName: string, columns: ColumnSpec[], ro
     row.getCell(2).alignment = { wrapText: true, vertical: 'top' };
     row.getCell(1).alignment = { vertical: 'top' };
     if (line.length === 1 && line[0] !== '') row.font = { bold: true };
+    // wrapped text gets the height of its lines (about 0.85 width units a character), so rows never overlap
+    const text = typeof line[1] === 'string' ? line[1] : '';
+    const lines = Math.ceil((text.length * 0.85 + 1) / 100);
+    if (lines > 1) row.height = lines * 15 + 3;
   }
+  info.pageSetup = { orientation: 'landscape', fitToPage: true, fitToWidth: 1, fitToHeight: 0 };
   const raw = new Uint8Array(await wb.xlsx.writeBuffer());
   // Re-pack with fixed entry times so an unchanged workbook has unchanged bytes.
   const entries = unzipSync(raw);

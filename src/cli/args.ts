@@ -12,6 +12,8 @@ export interface FitArgs {
   sheet?: string;
   id: string;
   boundaryId?: string;
+  idsIgnoreLeadingZeros: boolean;
+  label?: string;
   y: string;
   x: string[];
   weights: WeightsSpec;
@@ -62,6 +64,10 @@ Files
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
   --boundary-id NAME   the boundary file's ID property, when it is named differently from --id
+  --ids-ignore-leading-zeros
+                       match all-digit IDs that differ only by leading zeros (01001 with 1001);
+                       off by default (such IDs stop the join), recorded in the results when on
+  --label COLUMN       a column of area names shown beside the IDs (By area, Local patterns, JSON)
   --y COLUMN           the outcome to explain
   --x COL1,COL2        explanatory columns, comma-separated
   --models LIST        ${modelsHelp()}
@@ -118,7 +124,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
       allowPositionals: false,
       options: {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
-        id: { type: 'string' }, 'boundary-id': { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
+        id: { type: 'string' }, 'boundary-id': { type: 'string' }, 'ids-ignore-leading-zeros': { type: 'boolean' }, label: { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
         weights: { type: 'string' }, order: { type: 'string' }, cumulative: { type: 'boolean' },
         tolerance: { type: 'string' }, ties: { type: 'string' }, 'link-unneighboured': { type: 'boolean' }, neighbours: { type: 'string' }, compare: { type: 'string' },
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
@@ -169,6 +175,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
     sheet: v.sheet,
     id: need('id'),
     boundaryId: v['boundary-id']?.trim() || undefined,
+    idsIgnoreLeadingZeros: v['ids-ignore-leading-zeros'] ?? false,
+    label: v.label?.trim() || undefined,
     y: need('y'),
     x: need('x').split(',').map((s) => s.trim()).filter(Boolean),
     weights: parseWeightsRule(v.weights ?? 'queen', v.order, v.cumulative ?? false, v.tolerance, v.ties, !v.compare),

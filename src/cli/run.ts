@@ -66,6 +66,8 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
       sheet: args.sheet,
       id: args.id,
       boundaryId: args.boundaryId,
+      idsIgnoreLeadingZeros: args.idsIgnoreLeadingZeros,
+      ...(args.label ? { label: args.label } : {}),
       y: args.y,
       x: args.x,
       weights: args.weights,

@@ -31,6 +31,7 @@ export function formatSummary(r: AnalysisResult): string {
     ['for both together', fmt(lm.joint.stat, 5), String(lm.joint.df), p(lm.joint.p)],
   ]));
   lines.push(`  Guidance: ${o.recommendation.text}`);
+  if (!o.recommendation.fitted) lines.push(`  To fit ${o.recommendation.notFitted.length === 2 ? 'them' : 'it'}: run again with --models ${modelsWith(r.request.models, o.recommendation.notFitted)}`);
   lines.push('');
   for (const { entry, fit } of fittedInOrder(r.fits)) {
     if (entry.baseline) continue;
@@ -135,4 +136,9 @@ function localBlock(r: AnalysisResult): string[] {
     out.push(line);
   }
   return out;
+}
+
+/** The --models value that adds the missing models (registry keys) to the ones this run fitted, in registry order. */
+export function modelsWith(fitted: readonly string[], add: readonly string[]): string {
+  return MODELS.filter((m) => m.baseline || fitted.includes(m.key) || add.includes(m.key)).map((m) => m.cli).join(',');
 }

@@ -4,15 +4,34 @@ import type { Area, CoordinateKind } from './types.js';
 import { shapesLookPlanar } from './coordinate-guess.js';
 import type { Bounds } from './features-to-areas.js';
 
+/** The length unit of projected coordinates, when the file states it. */
+export type LinearUnit = 'metre' | 'foot' | 'us-foot';
+
 /** What the file itself says about its coordinate system (.prj text or a GeoJSON `crs` member). */
 export interface CoordinateClaim {
   kind: CoordinateKind;
   /** e.g. ".prj names GEOGCS \"GCS_WGS_1984\"" */
   says: string;
+  /** projected coordinates: their length unit, when stated */
+  unit?: LinearUnit;
+}
+
+/** The unit of a WKT's last UNIT or LENGTHUNIT (the projected one: a GEOGCS inside comes first). */
+export function unitFromWkt(text: string): LinearUnit | undefined {
+  const units = [...text.matchAll(/(?:LENGTH)?UNIT\s*\[\s*"([^"]*)"\s*,\s*([0-9.eE+-]+)/gi)];
+  const last = units[units.length - 1];
+  if (!last) return undefined;
+  const [name, factor] = [last[1].toLowerCase(), Number(last[2])];
+  if (/us|survey/.test(name) && /f(oo|ee)t/.test(name)) return 'us-foot';
+  if (/f(oo|ee)t/.test(name)) return 'foot';
+  if (/met(er|re)/.test(name) || factor === 1) return 'metre';
+  return undefined;
 }
 
 export interface CoordinateDecision {
   coordinates: CoordinateKind;
+  /** projected coordinates whose unit the file states */
+  unit?: LinearUnit;
   coordinateEvidence: string;
   /** neither the file nor the analyst said: the kind was guessed from the ranges and shapes */
   guessed: boolean;
@@ -27,7 +46,8 @@ export function claimFromPrj(text: string, prjName: string): CoordinateClaim | n
   const keyword = m[1].toUpperCase();
   const name = m[2];
   if (keyword === 'PROJCS' || keyword === 'PROJCRS' || keyword === 'PROJECTEDCRS') {
-    return { kind: 'projected', says: `${prjName} describes a projected system (${keyword} "${name}")` };
+    const unit = unitFromWkt(t);
+    return { kind: 'projected', says: `${prjName} describes a projected system (${keyword} "${name}")`, ...(unit ? { unit } : {}) };
   }
   if (keyword === 'GEOGCS' || keyword === 'GEOGCRS' || keyword === 'GEODCRS' || keyword === 'GEOGRAPHICCRS') {
     return { kind: 'geographic', says: `${prjName} describes a longitude/latitude system (${keyword} "${name}")` };
@@ -38,6 +58,14 @@ export function claimFromPrj(text: string, prjName: string): CoordinateClaim | n
 /** Common longitude/latitude EPSG codes (WGS 84, NAD83, NAD27, ETRS89, GDA94/2020, NZGD2000, JGD2000/2011,
  *  SIRGAS 2000, CGCS2000, ED50). Recalled from memory; any other code is taken as projected. */
 const GEOGRAPHIC_EPSG = new Set([4326, 4269, 4267, 4258, 4283, 7844, 4167, 4612, 6668, 4674, 4490, 4230, 4979, 4617]);
+
+/** Projected EPSG codes in metres: UTM zones on WGS 84 and ETRS89, web Mercator, and a few national grids
+ *  (Europe's equal-area grid, British, New Zealand, Australian, US equal-area, French, Dutch, Belgian).
+ *  Recalled from memory; any other code leaves the unit unstated. */
+function epsgInMetres(code: number): boolean {
+  return (code >= 32601 && code <= 32660) || (code >= 32701 && code <= 32760) || (code >= 25828 && code <= 25838) ||
+    [3857, 3395, 3035, 27700, 2193, 3577, 5070, 2154, 28992, 31370].includes(code);
+}
 
 /** Reads the (pre-2016) GeoJSON `crs` member: {"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::4326"}}. */
 export function claimFromGeoJsonCrs(root: unknown, file: string): CoordinateClaim | null {
@@ -51,7 +79,22 @@ export function claimFromGeoJsonCrs(root: unknown, file: string): CoordinateClai
   const code = Number(m[1]);
   return GEOGRAPHIC_EPSG.has(code)
     ? { kind: 'geographic', says: `${file}'s crs member names EPSG:${code} (longitude/latitude)` }
-    : { kind: 'projected', says: `${file}'s crs member names EPSG:${code}, not one of the common longitude/latitude codes` };
+    : { kind: 'projected', says: `${file}'s crs member names EPSG:${code}, not one of the common longitude/latitude codes`, ...(epsgInMetres(code) ? { unit: 'metre' as const } : {}) };
+}
+
+/**
+ * Spillway's own statement in a GeoJSON file it wrote (the demo's boundaries):
+ * "spillway:coordinates": "projected metres, ..." or "geographic ...".
+ */
+export function claimFromOwnMember(root: unknown, file: string): CoordinateClaim | null {
+  if (!root || typeof root !== 'object') return null;
+  const said = (root as Record<string, unknown>)['spillway:coordinates'];
+  if (typeof said !== 'string') return null;
+  const t = said.toLowerCase();
+  if (t.startsWith('geographic')) return { kind: 'geographic', says: `${file} states "${said}"` };
+  if (!t.startsWith('projected')) return null;
+  const unit: LinearUnit | undefined = /met(er|re)s?\b/.test(t) ? 'metre' : /\bf(oo|ee)t\b/.test(t) ? 'foot' : undefined;
+  return { kind: 'projected', says: `${file} states "${said}"`, ...(unit ? { unit } : {}) };
 }
 
 const SLACK = 1e-9;
@@ -105,7 +148,7 @@ export function decideCoordinates(
     if (xIsLon && yIsLat) {
       warnings.push(`${file}: ${stated.says}, yet every coordinate lies within ±180/±90; check that this is right.`);
     }
-    return { coordinates: 'projected', coordinateEvidence: `${stated.says}; ${span}.`, guessed: false, warnings };
+    return { coordinates: 'projected', ...(stated.unit ? { unit: stated.unit } : {}), coordinateEvidence: `${stated.says}; ${span}.`, guessed: false, warnings };
   }
   if (xIsLon && yIsLat) {
     const look = shapesLookPlanar(areas, b);

@@ -1,5 +1,5 @@
 /** Joins table rows to boundary features by an ID column; the table's row order is kept. */
-import { InputError, listSome } from '../errors.js';
+import { InputError, listSome, nearestName } from '../errors.js';
 import type { AreaGeometry, AreaLayer, DataTable, JoinReport, JoinedAreas } from './types.js';
 import type { Cell } from './table-shape.js';
 import { idText, toCell, unpadded } from './ids.js';
@@ -20,27 +20,56 @@ export class JoinError extends InputError {
 export function emptyJoinReport(): JoinReport {
   return {
     unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [],
-    blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [],
+    blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [], matchedIgnoringZeros: [],
   };
 }
+
+export interface JoinOptions {
+  /** the boundary file's property holding the IDs, when it is named differently from `idColumn` */
+  featureIdProperty?: string;
+  /**
+   * Match all-digit IDs that differ only by leading zeros ("005" with "5", "01001" with "1001").
+   * Off by default: such pairs refuse the join until the analyst asks for this, and it is recorded.
+   */
+  ignoreLeadingZeros?: boolean;
+}
+
+/** The option's name on the command line and in the sidebar, for messages. */
+export const IGNORE_ZEROS_OPTION = '--ids-ignore-leading-zeros; in the sidebar, tick "match 01001 with 1001"';
 
 export function joinAreas(
   layer: AreaLayer,
   table: DataTable | null,
   idColumn: string,
-  opts: { featureIdProperty?: string } = {},
+  opts: JoinOptions = {},
 ): JoinedAreas {
   const featureProp = opts.featureIdProperty ?? idColumn;
+  // with the option, an all-digit ID is compared without its leading zeros
+  const key = (id: string): string => (opts.ignoreLeadingZeros ? unpadded(id) ?? id : id);
+  // a separate table is checked first; the boundary file's own attributes are checked as its properties below
+  if (table && !table.rowsAreFeatures && table.columns.indexOf(idColumn) < 0) {
+    const near = nearestName(idColumn, table.columns);
+    throw new InputError(
+      `${table.sourceName} has no column "${idColumn}" to join by${near ? `; did you mean "${near}"? Its` : '; its'} columns are ${listSome(table.columns.map((n) => `"${n}"`), 30)}.`,
+      { file: table.sourceName, column: idColumn },
+    );
+  }
   if (!layer.propertyNames.includes(featureProp)) {
-    let elsewhere = '';
+    const near = nearestName(featureProp, layer.propertyNames);
+    let advice = near ? `; did you mean "${near}"? Its` : '; its';
+    let after = '';
     if (table && !opts.featureIdProperty) {
+      // the table has the column; only the boundary file names its IDs differently
       const best = idPropertyCandidates(layer, table, idColumn)[0];
-      elsewhere = best
-        ? ` Its property "${best.property}" holds ${best.matches} of the ${best.rows} IDs in ${table.sourceName}'s "${idColumn}": name it as the boundary file's ID to join by it.`
-        : ` If it holds the same IDs under another name, name that property as the boundary file's ID.`;
+      const pick = best?.property ?? near;
+      after = best
+        ? ` Its property "${best.property}" holds ${best.matches} of the ${best.rows} IDs in ${table.sourceName}'s "${idColumn}": name it as the boundary file's ID (--boundary-id ${quoteArg(best.property)}) to join by it.`
+        : ` If it holds the same IDs under another name, name that property as the boundary file's ID (--boundary-id ${pick ? quoteArg(pick) : 'NAME'}).`;
+    } else if (opts.featureIdProperty && near) {
+      after = ` Name the boundary file's ID as --boundary-id ${quoteArg(near)}.`;
     }
     throw new InputError(
-      `${layer.sourceName} has no property "${featureProp}" to join by; its properties are ${listSome(layer.propertyNames.map((n) => `"${n}"`), 30)}.${elsewhere}`,
+      `${layer.sourceName} has no property "${featureProp}" to join by${advice} properties are ${listSome(layer.propertyNames.map((n) => `"${n}"`), 30)}.${after}`,
       { file: layer.sourceName, column: featureProp },
     );
   }
@@ -50,10 +79,10 @@ export function joinAreas(
   const byFeatureId = new Map<string, number[]>();
   featureIds.forEach((id, i) => {
     if (id === null) report.blankFeatures.push(areas[i].feature);
-    else byFeatureId.set(id, [...(byFeatureId.get(id) ?? []), i]);
+    else byFeatureId.set(key(id), [...(byFeatureId.get(key(id)) ?? []), i]);
   });
-  for (const [id, list] of byFeatureId) {
-    if (list.length > 1) report.duplicateFeatures.push({ id, features: list.map((i) => areas[i].feature) });
+  for (const [k, list] of byFeatureId) {
+    if (list.length > 1) report.duplicateFeatures.push({ id: sameOrBoth(list.map((i) => featureIds[i]!), k), features: list.map((i) => areas[i].feature) });
   }
 
   let ids: string[];
@@ -65,12 +94,6 @@ export function joinAreas(
   let rowWord = 'feature';
   if (table) {
     const col = table.columns.indexOf(idColumn);
-    if (col < 0) {
-      throw new InputError(
-        `${table.sourceName} has no column "${idColumn}" to join by; its columns are ${listSome(table.columns.map((n) => `"${n}"`), 30)}.`,
-        { file: table.sourceName, column: idColumn },
-      );
-    }
     rowWord = table.rowsAreFeatures ? 'feature' : 'row';
     if (table.rows.length === 0) {
       throw new InputError(
@@ -85,28 +108,28 @@ export function joinAreas(
     );
     const byRowId = new Map<string, number[]>();
     tableIds = byRowId;
-    table.rows.forEach((r, i) => {
-      const id = idText(r[col]);
+    const rowIds = table.rows.map((r) => idText(r[col]));
+    rowIds.forEach((id, i) => {
       if (id === null) report.blankRows.push(rowNo(i));
-      else byRowId.set(id, [...(byRowId.get(id) ?? []), i]);
+      else byRowId.set(key(id), [...(byRowId.get(key(id)) ?? []), i]);
     });
     ids = [];
     rows = [];
     featureIndex = [];
     tableIndex = [];
     const matched = new Set<number>();
-    for (const [id, list] of byRowId) {
-      if (list.length > 1) report.duplicateRows.push({ id, rows: list.map(rowNo) });
+    for (const [k, list] of byRowId) {
+      if (list.length > 1) report.duplicateRows.push({ id: sameOrBoth(list.map((i) => rowIds[i]!), k), rows: list.map(rowNo) });
     }
-    table.rows.forEach((r, i) => {
-      const id = idText(r[col]);
+    rowIds.forEach((id, i) => {
       if (id === null) return;
-      const hit = byFeatureId.get(id);
+      const hit = byFeatureId.get(key(id));
       if (!hit) {
         report.unmatchedRows.push({ row: rowNo(i), id });
         return;
       }
       const f = hit[0];
+      if (featureIds[f] !== id) report.matchedIgnoringZeros.push({ tableId: id, featureId: featureIds[f]! });
       matched.add(f);
       ids.push(id);
       rows.push(rowNo(i));
@@ -148,6 +171,10 @@ export function joinAreas(
     );
   }
   if (report.zeroPaddingSuspects.length > 0) warnings.push(paddingMessage(report));
+  if (report.matchedIgnoringZeros.length > 0) {
+    const pairs = report.matchedIgnoringZeros.map((m) => `${m.tableId} with ${m.featureId}`);
+    warnings.push(`${pairs.length} ID(s) were matched ignoring leading zeros, as asked (table with boundary file): ${listSome(pairs)}.`);
+  }
   if (table && report.blankFeatures.length > 0) {
     warnings.push(`${report.blankFeatures.length} feature(s) of ${layer.sourceName} have a blank ID and are left out: features ${listSome(report.blankFeatures)}.`);
   }
@@ -159,8 +186,12 @@ export function joinAreas(
     const k = table ? table.columns.indexOf(name) : -1;
     if (k >= 0) return tableIndex!.map((i) => table!.rows[i][k] ?? null);
     if (layer.propertyNames.includes(name)) return featureIndex.map((f) => toCell(areas[f].properties[name]));
+    // with a table, name the table's own columns (the boundary file's properties are searched too, said once)
+    const listed = table ? table.columns : columnNames;
+    const near = nearestName(name, columnNames);
     throw new InputError(
-      `There is no column "${name}" in ${source}; the columns are ${listSome(columnNames.map((n) => `"${n}"`), 30)}.`,
+      `There is no column "${name}" in ${source}${table ? ` (nor a property "${name}" in ${layer.sourceName})` : ''}` +
+        `${near ? `; did you mean "${near}"? Its` : '; its'} columns are ${listSome(listed.map((n) => `"${n}"`), 30)}.`,
       { file: source, column: name },
     );
   };
@@ -173,6 +204,7 @@ export function joinAreas(
     coordinates: layer.coordinates,
     coordinateEvidence: layer.coordinateEvidence,
     ...(layer.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
+    ...(layer.coordinateUnit ? { coordinateUnit: layer.coordinateUnit } : {}),
     report,
     warnings: [...layer.warnings, ...(table?.warnings ?? []), ...warnings],
     rowKind: rowWord === 'feature' ? 'feature' : 'row',
@@ -218,8 +250,20 @@ function paddingMessage(report: JoinReport): string {
   const pairs = report.zeroPaddingSuspects.map((s) => `${s.tableId} vs ${s.featureId}`);
   return (
     `${pairs.length} ID(s) differ only by leading zeros (table vs boundary file): ${listSome(pairs)}. ` +
-    'They are not matched automatically; store the IDs as text with the same zero padding on both sides.'
+    'They are not matched automatically: store the IDs as text with the same zero padding on both sides, ' +
+    `or ask for IDs to be matched ignoring leading zeros (${IGNORE_ZEROS_OPTION}).`
   );
+}
+
+/** The ID as the report shows it: one text, or the texts that met under the leading-zeros option. */
+function sameOrBoth(texts: string[], key: string): string {
+  const distinct = [...new Set(texts)];
+  return distinct.length === 1 ? distinct[0] : `${key} (written ${distinct.join(', ')})`;
+}
+
+/** A command-line argument, quoted when it holds spaces. */
+function quoteArg(s: string): string {
+  return /^[\w.\-]+$/.test(s) ? s : `"${s}"`;
 }
 
 /**

@@ -52,6 +52,15 @@ export function numericColumn(joined: JoinedAreas, name: string, opts: { allowMi
       { column: name, row: joined.rowKind === 'feature' ? undefined : Number(/\d+/.exec(dotGrouped[0])?.[0]) },
     );
   }
+  const numbers = out.reduce((k, v) => k + (Number.isFinite(v) ? 1 : 0), 0);
+  if (numbers === 0 && text.length > 0 && notFinite.length === 0) {
+    // a column of names or codes, not numbers with a few gaps: say so, whatever the missing-values choice
+    throw new InputError(
+      `Column "${name}" is not numeric: it holds text in every ${word}${blank.length ? ' that is not blank' : ''} (for example ${text[0]}). ` +
+        'Choose a column of numbers for the model.',
+      { column: name },
+    );
+  }
   if (opts.allowMissing || (text.length === 0 && blank.length === 0 && notFinite.length === 0)) return out;
   const parts: string[] = [];
   if (text.length) parts.push(`text in ${listSome(text)}`);

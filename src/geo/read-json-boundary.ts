@@ -6,7 +6,7 @@ import type { AreaLayer, CoordinateKind } from './types.js';
 import { featuresToAreas } from './features-to-areas.js';
 import { jsonErrorOffset } from './json-error-position.js';
 import { decodeText } from './decode-text.js';
-import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
+import { claimFromGeoJsonCrs, claimFromOwnMember, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
 
 export function parseJsonBytes(bytes: Uint8Array, file: string, notes?: string[]): unknown {
   const decoded = decodeText(bytes, file, { kind: 'GeoJSON or TopoJSON' });
@@ -49,7 +49,7 @@ export function isTopology(root: unknown): root is Topology {
 
 export function layerFromGeoJson(root: unknown, file: string, override?: CoordinateKind): AreaLayer {
   const converted = featuresToAreas(root, file);
-  const claim = claimFromGeoJsonCrs(root, file);
+  const claim = claimFromGeoJsonCrs(root, file) ?? claimFromOwnMember(root, file);
   return layerOf(file, converted, claim, override);
 }
 
@@ -106,6 +106,7 @@ function layerOf(source: string, converted: ReturnType<typeof featuresToAreas>, 
     coordinates: decision.coordinates,
     coordinateEvidence: decision.coordinateEvidence,
     ...(decision.guessed ? { coordinatesGuessed: true } : {}),
+    ...(decision.unit ? { coordinateUnit: decision.unit } : {}),
     warnings: [...converted.warnings, ...decision.warnings],
   };
 }

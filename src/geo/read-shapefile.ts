@@ -107,6 +107,7 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
     coordinates: decision.coordinates,
     coordinateEvidence: parts.prj || override ? decision.coordinateEvidence : `${shp.name} comes without a .prj file. ${decision.coordinateEvidence}`,
     ...(decision.guessed ? { coordinatesGuessed: true } : {}),
+    ...(decision.unit ? { coordinateUnit: decision.unit } : {}),
     warnings: [...warnings, ...converted.warnings, ...decision.warnings],
     ...(readNotes.length ? { readNotes } : {}),
   };

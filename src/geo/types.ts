@@ -31,6 +31,8 @@ export interface AreaLayer {
   coordinateEvidence: string;
   /** True when neither the file nor the analyst stated the kind and it was guessed. */
   coordinatesGuessed?: boolean;
+  /** Projected coordinates: their length unit when the file states it (metres, feet). */
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
   warnings: string[];
   /** The warnings about how the file was read (text encoding, code page, deleted records): added to a later refusal's message. */
@@ -72,6 +74,8 @@ export interface JoinReport {
   withoutGeometry: { id: string; row: number; feature: number }[];
   /** IDs that would match if leading zeros were ignored (e.g. 01001 vs 1001): reported, never guessed. */
   zeroPaddingSuspects: { tableId: string; featureId: string }[];
+  /** IDs matched although their leading zeros differ, because the analyst asked for it (table ID with feature ID). */
+  matchedIgnoringZeros: { tableId: string; featureId: string }[];
 }
 
 /** The analysis set: one entry per table row, in the table's row order. */
@@ -86,6 +90,7 @@ export interface JoinedAreas {
   coordinates: CoordinateKind;
   coordinateEvidence: string;
   coordinatesGuessed?: boolean;
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   report: JoinReport;
   warnings: string[];
   /** 'feature' when `rows` holds feature numbers (no table, or the boundary file's own table). */

@@ -23,12 +23,35 @@ export interface OlsFit extends RegressionResiduals {
   warnings: string[];
 }
 
+/**
+ * A spatial model the Lagrange-multiplier decision rule can point to: the registry keys of the two
+ * models its tests speak for (the tests are for a spatial lag and for a spatial error).
+ */
+export type SpatialModelName = 'lag' | 'error';
+
 export interface Recommendation {
-  /** 'lag' | 'error' | 'ols' | 'either' (both robust tests significant) */
+  /**
+   * 'lag' | 'error': the rule points to that model; 'ols': neither test is significant; 'either': both
+   * plain tests are significant but neither robust form is, so the tests do not separate the two models.
+   */
   choice: 'lag' | 'error' | 'ols' | 'either';
-  /** One line of guidance naming the rule applied and why. */
+  /** The models the reading asks to be reported: the suggestion, both spatial models when the tests do not separate them, or every model a borderline call could go to. */
+  models: ('ols' | SpatialModelName)[];
+  /** The call would change had the significance level been halved or doubled (see `close`). */
+  borderline: boolean;
+  /** The band of levels that defines "close to the level": a p-value in [lower, upper) can flip the call. */
+  close: { lower: number; upper: number };
+  /** Which of the four Lagrange-multiplier tests are significant at `alpha`. */
+  significant: { error: boolean; lag: boolean; robustError: boolean; robustLag: boolean };
+  /** Both robust forms are significant: a model with both a lag and an error term is worth considering. */
+  bothKinds: boolean;
+  /** Every spatial model among `models` was fitted in this run. */
+  fitted: boolean;
+  /** The spatial models among `models` that this run did not fit (empty when `fitted`). */
+  notFitted: SpatialModelName[];
+  /** Guidance in a few sentences: the branch of the rule, the p-values it turned on, what was not fitted. */
   text: string;
-  /** The published decision rule applied. */
+  /** The published decision rule applied, and this tool's rule for "close". */
   rule: string;
   alpha: number;
 }

@@ -68,11 +68,26 @@ export interface OwnFigures {
   lm: LmTests;
   recommendation: Recommendation;
   fits: FittedModels;
+  /** the run's weights, so that an alternative linking the same neighbours is recognised */
+  weights?: Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
+}
+
+type Links = Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
+
+/** The same links with the same weights (the same areas in the same order are assumed). */
+function sameLinks(a: Links, b: Links): boolean {
+  const eq = (x: ArrayLike<number>, y: ArrayLike<number>) => {
+    if (x.length !== y.length) return false;
+    for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) return false;
+    return true;
+  };
+  return eq(a.rowPtr, b.rowPtr) && eq(a.colIdx, b.colIdx) && eq(a.values, b.values);
 }
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
   const rows: WeightsComparison[] = [rowOf(describeRule(own.spec), true, own)];
+  const built: { links: Links; row: number }[] = own.weights ? [{ links: own.weights, row: 0 }] : [];
   const { points } = ctx;
   for (const spec of alternatives) {
     let w: SpatialWeights;
@@ -87,6 +102,14 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), failed: e.message }); continue; }
       throw e;
     }
+    // a rule that links exactly the same neighbours (queen and rook on a grid of irregular areas often do) gives the same figures
+    const twin = built.find((b) => sameLinks(b.links, w));
+    if (twin) {
+      const first = rows[twin.row];
+      rows.push({ ...first, label: describeRule(spec), description: w.description, asRun: false, sameAs: first.label });
+      continue;
+    }
+    built.push({ links: w, row: rows.length });
     let found;
     try {
       found = fitUnderWeights(ctx.base, w, ctx.models, { points, method: ctx.method, helper: ctx.helper, robust: ctx.robust, seed: ctx.seed, impactDraws: ctx.impactDraws });
@@ -119,6 +142,7 @@ function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison 
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
     suggestion: f.recommendation.choice,
+    ...(f.recommendation.borderline ? { borderline: true } : {}),
     fits,
   };
 }

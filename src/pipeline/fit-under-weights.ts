@@ -64,7 +64,7 @@ export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly
     progress(0.1, 'Testing the residuals for a spatial pattern');
     const moran = moranResidualTest(base.ols, base.design, algebra);
     const lm = lmTests(base.ols, base.design, algebra);
-    const recommendation = recommendModel(lm);
+    const recommendation = recommendModel(lm, { fitted: entries.map((m) => m.key) });
     done('tests');
     const prepared = { y: base.y, design: base.design, w: algebra.w, algebra, ols: base.ols };
     const fits: Record<string, Fitted> = {};

@@ -31,6 +31,10 @@ export interface PreparedAreas {
   values: Map<string, Float64Array>;
   /** rows left out for missing values */
   dropped: { row: number; id: string; columns: string[] }[];
+  /** the label column asked for, if any */
+  labelColumn?: string;
+  /** its text per analysed area (when a label column was asked for), in the same order as `joined` */
+  labels?: string[];
 }
 
 /**
@@ -52,11 +56,17 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   const boundaryId = request.boundaryId?.trim() || undefined;
   // how the files were read (an encoding guessed, a code page, merged cells) often explains a refusal of the join or the columns
   const readNotes = [...(layer.readNotes ?? []), ...(request.data ? table.warnings ?? [] : [])];
-  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId }));
+  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId, ignoreLeadingZeros: request.idsIgnoreLeadingZeros ?? false }));
+  const labelColumn = request.label?.trim() || undefined;
+  if (labelColumn) joinedAll.column(labelColumn); // an unknown label column is refused before any work
   const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...extraColumns], request.rates), request.dropMissing ?? false));
   checkModelColumns(values, joined);
+  const labels = labelColumn ? joined.column(labelColumn).map((c) => (c === null ? '' : String(c).trim())) : undefined;
   lap('join');
-  return { inputs, ...(boundaryId ? { boundaryId } : {}), boundaryName: layer.sourceName, joinedAll, joined, values, dropped };
+  return {
+    inputs, ...(boundaryId ? { boundaryId } : {}), boundaryName: layer.sourceName, joinedAll, joined, values, dropped,
+    ...(labelColumn ? { labelColumn, labels } : {}),
+  };
 }
 
 /** The boundary layer and the data table (the layer's own attributes when no table file is given). */

@@ -98,7 +98,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     engineVersion: ENGINE_VERSION,
     createdAt: new Date().toISOString(),
     request: {
-      id: request.id, ...(areas.boundaryId ? { boundaryId: areas.boundaryId } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
+      id: request.id, ...(areas.boundaryId ? { boundaryId: areas.boundaryId } : {}), idsIgnoreLeadingZeros: request.idsIgnoreLeadingZeros ?? false,
+      ...(areas.labelColumn ? { label: areas.labelColumn } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
       weights: request.edgeList ? { method: 'edge-list', source: request.edgeList.name } : request.weights,
       transform: w.transform, models: [...models],
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
@@ -110,12 +111,14 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     inputs: areas.inputs,
     n: joined.ids.length,
     ids: joined.ids,
+    ...(areas.labels ? { labels: areas.labels } : {}),
     rows: joined.rows,
     droppedRows: dropped,
     geometries: joined.geometries,
     coordinates: joined.coordinates,
     coordinateEvidence: joined.coordinateEvidence,
     ...(joined.coordinatesGuessed ? { coordinatesGuessed: true } : {}),
+    ...(joined.coordinateUnit ? { coordinateUnit: joined.coordinateUnit } : {}),
     join: joined.report,
     y,
     xNames: [...request.x],
@@ -167,7 +170,7 @@ function compareDefinitions(
   const alternatives = asked.filter((spec) => w.spec.method === 'edge-list' || !sameSpec(spec, w.spec as WeightsSpec));
   if (alternatives.length === 0) return undefined;
   progress(0.9, 'Refitting under the other neighbour definitions');
-  const rows = compareWeights({ spec: w.spec, description: w.description, summary, ...own }, alternatives, ctx);
+  const rows = compareWeights({ spec: w.spec, description: w.description, summary, ...own, weights: w }, alternatives, ctx);
   lap('comparison');
   return { alternatives, rows };
 }

@@ -1,5 +1,6 @@
 import { rateToJson } from './rates.js';
 import { MODELS, baselineModel, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
+import type { Recommendation } from '../models/types.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
@@ -13,7 +14,10 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     engineVersion: r.engineVersion,
     createdAt: r.createdAt,
     n: r.n,
-    question: { y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}) },
+    question: {
+      y: r.request.y, x: r.request.x, id: r.request.id, ...(r.request.boundaryId ? { boundaryId: r.request.boundaryId } : {}),
+      idsIgnoreLeadingZeros: r.request.idsIgnoreLeadingZeros ?? false, ...(r.request.label ? { label: r.request.label } : {}),
+    },
     coordinates: { kind: r.coordinates, guessed: r.coordinatesGuessed ?? false, evidence: r.coordinateEvidence },
     inputs: r.inputs,
     droppedRows: r.droppedRows,
@@ -42,9 +46,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
         robustLag: test(ols.lm.robustLag),
         joint: test(ols.lm.joint),
       },
-      recommendation: ols.recommendation.text,
-      recommendationRule: ols.recommendation.rule,
-      recommendationChoice: ols.recommendation.choice,
+      recommendation: recommendationJson(ols.recommendation),
     },
     moranOfY: {
       I: r.moranY.I, expected: r.moranY.expected, variance: r.moranY.variance, z: r.moranY.z, p: r.moranY.p,
@@ -73,7 +75,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
       const atTop = spatial.find((m) => m.impactsAtTop && fits[m.key]?.impacts);
       return {
         label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
-        moran: c.moran, lmP: c.lmP, suggestion: c.suggestion,
+        moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, ...(c.borderline ? { borderline: true } : {}), ...(c.sameAs ? { sameAs: c.sameAs } : {}),
         ...Object.fromEntries(spatial.map((m) => [m.key, fit(fits[m.key], m)])),
         ...(atTop ? { impacts: fits[atTop.key]!.impacts!.map((i) => ({ ...i })) } : {}),
         ...(c.failed ? { failed: c.failed } : {}),
@@ -85,6 +87,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
   if (opts.perArea) {
     out.areas = r.ids.map((id, i) => ({
       id,
+      ...(r.labels ? { label: r.labels[i] } : {}),
       row: r.rows[i],
       observed: r.y[i],
       ...Object.fromEntries(fittedInOrder(r.fits).flatMap(({ entry, fit }) => [[`${entry.key}Fitted`, fit.fitted[i]], [`${entry.key}Residual`, fit.residuals[i]]])),
@@ -110,6 +113,7 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
       ...(kind === 'gistar' ? { weights: 'binary, each area included with weight 1' } : {}),
       areas: r.ids.map((id, i) => ({
         id,
+        ...(r.labels ? { label: r.labels[i] } : {}),
         value: num(s.value[i]),
         expected: num(s.expected[i]),
         variance: num(s.variance[i]),
@@ -123,4 +127,14 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
     };
   }
   return out;
+}
+
+/** The suggestion with what a script (or the sidebar's "fit it" button) needs: which models, which were not fitted. */
+function recommendationJson(r: Recommendation) {
+  return {
+    choice: r.choice, models: r.models, borderline: r.borderline, bothKinds: r.bothKinds,
+    fitted: r.fitted, notFitted: r.notFitted,
+    significant: r.significant, alpha: r.alpha, close: r.close,
+    text: r.text, rule: r.rule,
+  };
 }

@@ -31,6 +31,10 @@ export interface AnalysisRequest {
   id: string;
   /** The boundary file's property holding the same IDs, when it is named differently from the table's column. */
   boundaryId?: string;
+  /** Match all-digit IDs that differ only by leading zeros ("005" with "5"); off by default, recorded when on. */
+  idsIgnoreLeadingZeros?: boolean;
+  /** A column of names (or other labels) shown beside the IDs on the per-area sheets and in the JSON. */
+  label?: string;
   y: string;
   x: string[];
   weights: WeightsSpec;
@@ -75,7 +79,7 @@ export interface AnalysisResult {
   engineVersion: string;
   createdAt: string;
   request: {
-    id: string; boundaryId?: string; y: string; x: string[]; sheet?: string;
+    id: string; boundaryId?: string; idsIgnoreLeadingZeros?: boolean; label?: string; y: string; x: string[]; sheet?: string;
     weights: WeightsSpec | { method: 'edge-list'; source: string };
     transform: WeightsTransform | 'as given';
     models: ModelKey[]; dropMissing: boolean; robust: boolean;
@@ -87,6 +91,8 @@ export interface AnalysisResult {
   inputs: InputRecord[];
   n: number;
   ids: string[];
+  /** the label column's text per area (when a label column was asked for), in the same order */
+  labels?: string[];
   /** user-visible table rows of the areas, in table order */
   rows: number[];
   droppedRows: { row: number; id: string; columns: string[] }[];
@@ -96,6 +102,8 @@ export interface AnalysisResult {
   coordinateEvidence: string;
   /** neither the file nor the request said what the coordinates are: the kind was guessed */
   coordinatesGuessed?: boolean;
+  /** projected coordinates: their length unit when the boundary file states it (for scale bars) */
+  coordinateUnit?: 'metre' | 'foot' | 'us-foot';
   join: JoinReport;
   y: Float64Array;
   xNames: string[];
@@ -159,6 +167,10 @@ export interface WeightsComparison {
   /** p-values of the Lagrange-multiplier tests */
   lmP: { error: number; lag: number; robustError: number; robustLag: number };
   suggestion?: Recommendation['choice'];
+  /** the suggestion turns on p-values close to the level (see Recommendation.borderline) */
+  borderline?: boolean;
+  /** this definition links exactly the same neighbours as the earlier one named here: its figures are that one's */
+  sameAs?: string;
   /** the spatial models under this definition, by registry key */
   fits: { [K in ModelKey]?: ComparedFit };
   failed?: string;

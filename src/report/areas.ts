@@ -4,27 +4,37 @@ import { num } from './format.js';
 import { fittedInOrder } from '../models/index.js';
 import { withheldOutcome } from './withheld.js';
 
-/** One row per area, keyed by ID, in the table's row order. */
+/** The leading columns of every per-area table: the ID, the label column when one was chosen, the table row. */
+export function areaKeyColumns(result: AnalysisResult): TableColumn[] {
+  return [
+    { header: 'Area ID', format: 'text', width: 10 },
+    ...(result.labels ? [{ header: result.request.label ?? 'Name', format: 'text', width: 14 } satisfies TableColumn] : []),
+    { header: 'Table row', format: 'integer', width: 7 },
+  ];
+}
+
+/** The cells of those columns for area i. */
+export function areaKeyCells(result: AnalysisResult, i: number): Cell[] {
+  return [result.ids[i], ...(result.labels ? [result.labels[i]] : []), result.rows[i]];
+}
+
+/** One row per area, keyed by ID (and label), in the table's row order; each model's figures under its name. */
 export function areasBlocks(result: AnalysisResult): Block[] {
   const y = result.request.y;
   const fits = fittedInOrder(result.fits).map(({ entry, fit }) => ({ label: entry.label, fitted: fit.fitted, residuals: fit.residuals, lag: fit.residualLag }));
-  const columns: TableColumn[] = [
-    { header: 'Area ID', format: 'text', width: 14 },
-    { header: 'Table row', format: 'integer', width: 9 },
-    { header: `Observed ${y}`, format: 'decimal4', width: 14 },
-  ];
+  const columns: TableColumn[] = [...areaKeyColumns(result), { header: `Observed ${y}`, format: 'decimal4', width: 11 }];
   for (const f of fits) {
     columns.push(
-      { header: `${f.label}: fitted`, format: 'decimal4', width: 14 },
-      { header: `${f.label}: residual`, format: 'decimal4', width: 14 },
-      { header: `${f.label}: neighbours' average residual`, format: 'decimal4', width: 16 },
+      { header: 'Fitted', format: 'decimal4', width: 10, group: f.label },
+      { header: 'Residual', format: 'decimal4', width: 10, group: f.label },
+      { header: "Neighbours' average residual", format: 'decimal4', width: 11, group: f.label },
     );
   }
   // a withheld outcome (a rate of few events, blanked for privacy) takes its residuals with it: fitted + residual would give it back
   const withheld = withheldOutcome(result);
-  const rows: Cell[][] = result.ids.map((id, i) => {
+  const rows: Cell[][] = result.ids.map((_, i) => {
     const hide = withheld?.[i] ?? false;
-    const row: Cell[] = [id, result.rows[i], hide ? null : num(result.y[i])];
+    const row: Cell[] = [...areaKeyCells(result, i), hide ? null : num(result.y[i])];
     for (const f of fits) row.push(num(f.fitted[i]), hide ? null : num(f.residuals[i]), num(f.lag[i]));
     return row;
   });

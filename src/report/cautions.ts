@@ -1,5 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import { say } from './format.js';
+import { describeRule } from '../weights/index.js';
 import { listSome } from '../errors.js';
 import { fittedInOrder } from '../models/index.js';
 import { rateCautions } from './rates.js';
@@ -9,7 +10,7 @@ export function cautions(result: AnalysisResult): string[] {
   const list = [
     'These figures describe association, not cause: a coefficient says how the outcome and an explanatory column move together across areas, not what would happen if one were changed.',
     'Results are about areas, not people. A pattern across areas need not hold for the individuals living in them (the ecological fallacy).',
-    `The spatial results depend on how neighbours were defined (here: ${result.weights.description}). Another reasonable definition can give different numbers; it is worth trying one.`,
+    `The spatial results depend on how neighbours were defined (here: ${describeRule(result.request.weights)}, described in full on the Neighbours sheet). Another reasonable definition can give different numbers; it is worth trying one.`,
     'Rates for areas with few people or few events swing widely by chance; treat extreme values in small areas with care.',
     ...rateCautions(result),
     'People who know these places may know reasons for a pattern that the data do not show. Their judgement should weigh alongside these numbers.',
@@ -20,7 +21,7 @@ export function cautions(result: AnalysisResult): string[] {
 
 /** One-paragraph reminder carried at the foot of every results sheet besides the summary, which has the full list. */
 export function shortCaution(result: AnalysisResult): string {
-  return `Read with care: association, not cause; areas, not people; other neighbour definitions (here: ${result.weights.description}) can change the answers; ` +
+  return `Read with care: association, not cause; areas, not people; other neighbour definitions than the one used here (${describeRule(result.request.weights)}) can change the answers; ` +
     'rates for small areas are unstable. Check these figures with people who know the places.';
 }
 

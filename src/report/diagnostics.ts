@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
 import { num } from './format.js';
-import { fittedInOrder } from '../models/index.js';
+import { baselineModel, fittedInOrder } from '../models/index.js';
 import { blocksOf } from './model-blocks.js';
 import { TEST_COLUMNS, testRow } from './test-rows.js';
 
@@ -17,8 +17,13 @@ export function lmTestRows(result: AnalysisResult): Cell[][] {
   ];
 }
 
-export function lmTable(result: AnalysisResult, title: string): Block {
-  return { kind: 'table', title, columns: TEST_COLUMNS, rows: lmTestRows(result), note: 'Small p-values are evidence of the dependence the test asks about.' };
+/** The tests as a table; without the questions (the Summary) it stays as narrow as the tables around it. */
+export function lmTable(result: AnalysisResult, title: string, withQuestions = true): Block {
+  if (withQuestions) return { kind: 'table', title, columns: TEST_COLUMNS, rows: lmTestRows(result), note: 'Small p-values are evidence of the dependence the test asks about.' };
+  return {
+    kind: 'table', title, columns: TEST_COLUMNS.slice(0, 4).map((c, i) => (i === 0 ? { ...c, width: 40 } : c)), rows: lmTestRows(result).map((r) => r.slice(0, 4)),
+    note: 'Small p-values are evidence of the dependence the test asks about; the sheet "Checks on residuals" says what each test asks.',
+  };
 }
 
 export function diagnosticsBlocks(result: AnalysisResult): Block[] {
@@ -39,13 +44,14 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
     {
       kind: 'table', title: "Moran's I of the residuals",
       columns: [
+        { header: 'Residuals of', format: 'text', width: 36 },
         { header: "Moran's I", format: 'decimal4', width: 12 },
         { header: 'Expected if no pattern', format: 'decimal4', width: 12 },
-        { header: 'Variance', format: 'scientific', width: 12 },
+        { header: 'Variance', format: 'scientific', width: 11 },
         { header: 'z-value', format: 'decimal4', width: 10 },
         { header: 'p-value', format: 'pvalue', width: 11 },
       ],
-      rows: [[num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
+      rows: [[baselineModel().label.toLowerCase(), num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
       note: 'Are residuals of neighbouring areas more alike (positive I) or less alike (negative I) than chance would give? The p-value is two-sided, from the normal approximation.',
     },
     lmTable(result, 'Lagrange-multiplier tests for spatial dependence'),

@@ -1,5 +1,6 @@
 import type { Cell } from './types.js';
 import { MODELS, type ModelKey } from '../models/index.js';
+import type { Recommendation } from '../models/types.js';
 
 /** A number cell, or empty when the value is not finite (a host cannot store NaN). */
 export function num(x: number | undefined | null): Cell {
@@ -14,8 +15,17 @@ export const CHOICE_LABEL = {
   lag: MODEL_LABEL.lag,
   error: MODEL_LABEL.error,
   ols: `${MODEL_LABEL.ols} (no spatial model needed)`,
-  either: 'Either spatial model (the tests do not separate them)',
+  either: 'Not separated by the tests: report both spatial models',
 } as const;
+
+/** The suggestion in a few words, saying when it is borderline and what was not fitted. */
+export function suggestionLabel(r: Recommendation): string {
+  const models = r.models.map((m) => `the ${MODEL_LABEL[m].toLowerCase()}`);
+  let s = r.borderline ? `Borderline: report ${sayList(models)}` : CHOICE_LABEL[r.choice];
+  if (r.bothKinds && !r.borderline) s += '; a model with both a lag and an error term is worth considering';
+  if (!r.fitted) s += ` (${sayList(r.notFitted.map((m) => MODEL_LABEL[m].toLowerCase()))} not fitted in this run)`;
+  return s;
+}
 
 /** Our evidence marks (no star codes): defined in the note under each coefficient table. */
 export const STRONG_MARK = '●';

@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Fitted, SpatialFit } from '../models/index.js';
-import type { Block, Cell } from './types.js';
+import type { Block, Cell, TableColumn } from './types.js';
 import { num, say, sayP } from './format.js';
 
 /** Direct, indirect and total impacts of the lag model, with one careful sentence per regressor. */
@@ -8,7 +8,11 @@ export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): 
   const im = fit.impacts;
   if (!im) return [];
   const y = result.request.y;
-  const col = (header: string, format: 'decimal4' | 'pvalue') => ({ header, format, width: 12 });
+  const effect = (group: string): TableColumn[] => [
+    { header: 'Effect', format: 'decimal4', width: 10, group },
+    { header: 'Standard error', format: 'decimal4', width: 10, group },
+    { header: 'p-value', format: 'pvalue', width: 9, group },
+  ];
   const blocks: Block[] = [
     { kind: 'title', text: 'Spillover effects in the spatial lag model' },
     {
@@ -18,10 +22,8 @@ export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): 
     {
       kind: 'table', title: 'Direct, indirect and total effects',
       columns: [
-        { header: 'Explanatory column', format: 'text', width: 30 },
-        col('Direct', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
-        col('Indirect', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
-        col('Total', 'decimal4'), col('Its standard error', 'decimal4'), col('Its p-value', 'pvalue'),
+        { header: 'Explanatory column', format: 'text', width: 16 },
+        ...effect('In the area itself (direct)'), ...effect('Spread over other areas (indirect)'), ...effect('Total'),
       ],
       rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP),
         num(m.total), num(m.totalSe), num(m.totalP)]),

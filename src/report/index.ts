@@ -19,7 +19,11 @@ import { splitLongSheets } from './row-limit.js';
 export type {
   Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
 } from './types.js';
-export { blockHeight, layoutBlocks, BLOCK_GAP, ROW_HEIGHT_PX } from './layout.js';
+export {
+  blockHeight, layoutBlocks, planSheet, pictureCaption, hasGroups, BLOCK_GAP, ROW_HEIGHT_PX, LINE_POINTS, POINTS_PER_CHAR, DEFAULT_WIDTH, LONG_TABLE_ROWS,
+  type SheetPlan, type BlockPlan, type TablePlan, type KeyValuesPlan, type PagePlan, type Align,
+} from './layout.js';
+export { textWidth, wrappedLines, longestWordWidth, numberWidth } from './text-fit.js';
 export { MODEL_BLOCKS, type ModelBlocks } from './model-blocks.js';
 export { SHEET_ROW_LIMIT, splitLongSheets } from './row-limit.js';
 export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';

@@ -28,11 +28,29 @@ export function interpretation(result: AnalysisResult): string {
     ? `After taking ${sayList(result.xNames)} into account, the plain regression's residuals still show a spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}), so the plain regression's standard errors and tests are not fully trustworthy.`
     : `After taking ${sayList(result.xNames)} into account, the plain regression's residuals show no clear spatial pattern (Moran's I ${say(m.I)}, ${sayP(m.p)}).`);
 
-  parts.push(result.ols.recommendation.text);
+  const rec = result.ols.recommendation;
+  parts.push(rec.text);
 
-  const choice = result.ols.recommendation.choice;
+  // Whose estimates to describe: the suggested model when it was fitted; of several to report, the
+  // one with the lower AIC (said as such); otherwise the plain regression, saying why.
   const fitted = fittedModels(result);
-  const preferred = fitted.find((f) => f.name === choice) ?? fitted[0];
+  const candidates = fitted.filter((f) => (rec.models as readonly string[]).includes(f.name));
+  const withAic = <T extends { aic?: number }>(list: T[]) => list.filter((f): f is T & { aic: number } => f.aic !== undefined);
+  const label = (f: { label: string }) => f.label.toLowerCase();
+  let preferred = candidates[0] ?? fitted[0];
+  let lead: string;
+  let comparedByAic: string[] = [];
+  const rankedCandidates = withAic(candidates);
+  if (candidates.length > 1 && rankedCandidates.length === candidates.length) {
+    const best = rankedCandidates.reduce((a, b) => (b.aic < a.aic ? b : a));
+    preferred = best;
+    comparedByAic = candidates.map((c) => c.name);
+    lead = `Of the models to report, the ${label(best)} has the ${candidates.length > 2 ? 'lowest' : 'lower'} AIC (${say(best.aic)} against ${sayList(rankedCandidates.filter((c) => c !== best).map((c) => say(c.aic)))}); in it,`;
+  } else if (candidates.length >= 1) {
+    lead = `In the ${label(preferred)},`;
+  } else {
+    lead = `In the ${label(preferred)} (the suggested model was not fitted),`;
+  }
   const phrases: string[] = [];
   for (const c of preferred.coefficients) {
     if (c.intercept) continue;
@@ -42,7 +60,7 @@ export function interpretation(result: AnalysisResult): string {
       phrases.push(`${c.name} shows no clear association with ${y} (${sayP(c.p)})`);
     }
   }
-  if (phrases.length) parts.push(`In the ${preferred.label.toLowerCase()}, ${phrases.join('; ')}.`);
+  if (phrases.length) parts.push(`${lead} ${phrases.join('; ')}.`);
 
   if (preferred.name === 'lag' && result.fits.lag) {
     const f = result.fits.lag;
@@ -56,10 +74,11 @@ export function interpretation(result: AnalysisResult): string {
       ? `The unexplained part of ${y} is shared between neighbouring areas (spatial parameter ${say(f.parameter)}, ${sayP(f.parameterP)}), which hints at something missing from the data that varies smoothly across the map.`
       : `The spatial parameter of the error model is not clearly different from zero (${say(f.parameter)}, ${sayP(f.parameterP)}).`);
   }
-  const ranked = fitted.filter((f): f is typeof f & { aic: number } => f.aic !== undefined);
+  const ranked = withAic(fitted);
   if (ranked.length > 1) {
     const best = ranked.reduce((a, b) => (b.aic < a.aic ? b : a));
-    parts.push(`Of the models fitted, the ${best.label.toLowerCase()} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
+    // said already when the models to report were compared by AIC and the best of all is among them
+    if (!comparedByAic.includes(best.name)) parts.push(`Among all the models fitted in this run, the ${label(best)} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
   }
   return parts.join(' ');
 }

@@ -4,6 +4,7 @@ import {
 import type { LocalCategory, LocalStatisticKind } from '../stats/index.js';
 import type { Block, Cell, PngRenderer, ReportImage, TableColumn } from './types.js';
 import { num } from './format.js';
+import { areaKeyCells, areaKeyColumns } from './areas.js';
 import { layoutBlocks, ROW_HEIGHT_PX } from './layout.js';
 import { placePictures } from './pictures-for-report.js';
 import { categoryMapSvg, type MapCategory } from './pictures/category-map.js';
@@ -99,27 +100,26 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
   return kinds.map((k) => {
     const s = l.results[k]!;
     const columns: TableColumn[] = [
-      { header: 'Area ID', format: 'text', width: 14 },
-      { header: 'Table row', format: 'integer', width: 9 },
-      { header: 'Statistic', format: 'decimal4', width: 12 },
-      { header: 'Expected', format: 'decimal4', width: 12 },
-      { header: 'Variance', format: 'decimal4', width: 12 },
-      { header: 'z', format: 'decimal2', width: 9 },
-      { header: 'p (normal)', format: 'pvalue', width: 11 },
-      { header: 'p (permutation)', format: 'pvalue', width: 13 },
-      { header: 'p adjusted', format: 'pvalue', width: 11 },
-      { header: 'Significant after control', format: 'text', width: 14 },
+      ...areaKeyColumns(result),
+      { header: 'Statistic', format: 'decimal4', width: 10 },
+      { header: 'Expected', format: 'decimal4', width: 10 },
+      { header: 'Variance', format: 'decimal4', width: 10 },
+      { header: 'z', format: 'decimal2', width: 8 },
+      { header: 'Normal', format: 'pvalue', width: 9, group: 'p-value' },
+      { header: 'Permutation', format: 'pvalue', width: 11, group: 'p-value' },
+      { header: 'Adjusted', format: 'pvalue', width: 9, group: 'p-value' },
+      { header: 'Significant after control', format: 'text', width: 12 },
     ];
     if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
-    const rows: Cell[][] = result.ids.map((id, i) => {
-      const row: Cell[] = [id, result.rows[i], num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
+    const rows: Cell[][] = result.ids.map((_, i) => {
+      const row: Cell[] = [...areaKeyCells(result, i), num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
         s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no'];
       if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
       return row;
     });
     return {
       kind: 'table', title: `${LOCAL_STATISTIC_LABEL[k]}, each area in table order`, columns, rows,
-      note: `p (normal) is two-sided from z under total randomisation; p (permutation) follows the permutation rule above; p adjusted is for ${describeControl(l.control)}.`,
+      note: `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.`,
     } satisfies Block;
   });
 }
@@ -140,7 +140,7 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
     const index: Record<LocalCategory, number> = { 'high-high': 0, 'high-low': 1, 'low-high': 2, 'low-low': 3, 'not-significant': 4, 'no-neighbours': 5 };
     out.push({ name: 'map of local groups', pic: categoryMapSvg({
       title: `Where ${l.variable} clusters`, legendTitle: 'Area, then its neighbours',
-      geometries: result.geometries, coordinates: result.coordinates,
+      geometries: result.geometries, coordinates: result.coordinates, unit: result.coordinateUnit,
       category: s.categories!.map((c) => index[c]), categories: cats,
       note: `Local Moran's I; ${controlWords}.`,
     }) });
@@ -154,7 +154,7 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
     const category = Array.from(s.z, (z, i) => (s.neighbourCount[i] === 0 ? 3 : !s.significant[i] ? 2 : z > 0 ? 0 : 1));
     out.push({ name: 'map of local clusters', pic: categoryMapSvg({
       title: `Where ${l.variable} clusters`, legendTitle: LOCAL_STATISTIC_LABEL[kind],
-      geometries: result.geometries, coordinates: result.coordinates, category, categories: cats,
+      geometries: result.geometries, coordinates: result.coordinates, unit: result.coordinateUnit, category, categories: cats,
       note: controlWords.replace(/^./, (c) => c.toUpperCase()) + '.',
     }) });
   }
@@ -170,7 +170,7 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
   out.push({ name: 'map of local p-values', pic: categoryMapSvg({
     title: `How strong the local evidence is (${kind === 'moran' ? "local Moran's I" : LOCAL_STATISTIC_LABEL[kind]})`,
     legendTitle: l.control.method === 'none' ? 'p, not adjusted for many tests' : 'p adjusted for many tests',
-    geometries: result.geometries, coordinates: result.coordinates, category: band, categories: bands,
+    geometries: result.geometries, coordinates: result.coordinates, unit: result.coordinateUnit, category: band, categories: bands,
     note: `${l.permutations > 0 ? 'Permutation p-values' : 'Analytic p-values'}; ${controlWords}.`,
   }) });
   return out;

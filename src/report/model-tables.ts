@@ -1,8 +1,8 @@
 import type { AnalysisResult } from '../pipeline/types.js';
-import type { Coefficient, SpatialFit } from '../models/types.js';
+import type { Coefficient, OlsFit, SpatialFit } from '../models/types.js';
 import type { Fitted, ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, yesNo } from './format.js';
+import { MARK_NOTE, evidenceMark, num, say, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
 
 function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
@@ -24,48 +24,68 @@ function coefficientTable(title: string, statName: string, coefs: Coefficient[],
   };
 }
 
-export function olsBlocks(result: AnalysisResult): Block[] {
-  const o = result.ols;
+/** The plain regression's sheet. */
+export function olsBlocks(result: AnalysisResult, _fit: Fitted<OlsFit>, entry: ModelEntry): Block[] {
+  const o = result.ols; // the plain regression with its residual tests, as the run keeps it
   const blocks: Block[] = [
-    { kind: 'title', text: `${MODEL_LABEL.ols}: ${result.request.y} by least squares` },
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     coefficientTable('Coefficients', 't-value', o.coefficients),
   ];
   if (o.robustCoefficients) {
     blocks.push(coefficientTable('Coefficients with standard errors robust to unequal variance', 't-value', o.robustCoefficients));
   }
-  const rows: [string, Cell, NumberFormat?][] = [
-    ['Areas', o.n, 'integer'],
-    ['Terms (with the constant)', o.k, 'integer'],
-    ['R²', num(o.r2), 'decimal4'],
-    ['Adjusted R²', num(o.adjR2), 'decimal4'],
-    ['F statistic', num(o.f.stat), 'decimal4'],
-    ['F degrees of freedom', `${o.f.df} and ${o.f.df2}`, 'text'],
-    ['p-value of F', num(o.f.p), 'pvalue'],
-    ['Residual variance (divided by n − k)', num(o.sigma2), 'decimal4'],
-    ['Residual variance (divided by n)', num(o.sigma2ML), 'decimal4'],
-    ['Log-likelihood', num(o.logLik), 'decimal4'],
-    ['AIC', num(o.aic), 'decimal4'],
-    ['Bayesian information criterion (BIC)', num(o.bic), 'decimal4'],
-  ];
-  blocks.push({ kind: 'keyValues', title: 'Fit', rows });
+  blocks.push(
+    {
+      kind: 'keyValues', title: 'How well it fits',
+      rows: [
+        ['Areas', o.n, 'integer'],
+        ['Terms (with the constant)', o.k, 'integer'],
+        ['R²: share of the variation explained', num(o.r2), 'decimal4'],
+        ['R² adjusted for the number of terms', num(o.adjR2), 'decimal4'],
+        ['Residual variance (divided by n − k)', num(o.sigma2), 'decimal4'],
+        ['F statistic: do the columns explain anything together?', num(o.f.stat), 'decimal4'],
+        ['Its degrees of freedom', `${o.f.df} and ${o.f.df2}`, 'text'],
+        ['Its p-value', num(o.f.p), 'pvalue'],
+      ],
+    },
+    {
+      kind: 'keyValues', title: 'For comparing models',
+      rows: [
+        ['Log-likelihood', num(o.logLik), 'decimal4'],
+        ['AIC', num(o.aic), 'decimal4'],
+        ['Bayesian information criterion (BIC)', num(o.bic), 'decimal4'],
+      ],
+    },
+    {
+      kind: 'paragraph', style: 'note',
+      text: `The residual variance above divides the sum of squared residuals by n − k = ${o.n - o.k}, which leaves it unbiased. ` +
+        `The maximum-likelihood estimate divides by n = ${o.n} instead: ${say(o.sigma2ML)}. That is the one inside the log-likelihood, AIC and BIC, ` +
+        'and the one to set beside the spatial models\' residual variance.',
+    },
+  );
   return blocks;
 }
 
-export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] {
+/** The sheet of a model fitted by maximum likelihood with one spatial parameter (the lag and error models). */
+export function spatialBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>, entry: ModelEntry): Block[] {
   const lag = fit.model === 'lag';
   const paramName = lag ? `ρ: neighbours' average ${result.request.y}` : 'λ: spatial error';
   const paramRow: Cell[] = [paramName, num(fit.parameter), num(fit.parameterSe), num(fit.parameterZ), num(fit.parameterP), evidenceMark(fit.parameterP)];
   const c = fit.convergence;
-  const rows: [string, Cell, NumberFormat?][] = [
+  const fits: [string, Cell, NumberFormat?][] = [
     ['Areas', result.n, 'integer'],
-    ['Pseudo R² (squared correlation of observed and fitted)', num(fit.pseudoR2), 'decimal4'],
-    ['Residual variance', num(fit.sigma2), 'decimal4'],
+    ['Pseudo R²: squared correlation of observed and fitted', num(fit.pseudoR2), 'decimal4'],
+    ['Residual variance (maximum likelihood, divided by n)', num(fit.sigma2), 'decimal4'],
+  ];
+  const comparing: [string, Cell, NumberFormat?][] = [
     ['Log-likelihood', num(fit.logLik), 'decimal4'],
     ['AIC', num(fit.aic), 'decimal4'],
     ['Bayesian information criterion (BIC)', num(fit.bic), 'decimal4'],
     ['Likelihood ratio against the plain regression', num(fit.lr.stat), 'decimal4'],
     ['Its degrees of freedom', fit.lr.df, 'integer'],
     ['Its p-value', num(fit.lr.p), 'pvalue'],
+  ];
+  const search: [string, Cell, NumberFormat?][] = [
     ['Lowest admissible spatial parameter', num(fit.range.lower), 'decimal4'],
     ['Highest admissible spatial parameter', num(fit.range.upper), 'decimal4'],
     ['Log-determinant method', fit.logDeterminantMethod, 'text'],
@@ -75,9 +95,11 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
     ['Search note', c.atBound ? `${c.message} (ended at the ${c.atBound} bound)` : c.message, 'text'],
   ];
   return [
-    { kind: 'title', text: `${MODEL_LABEL[fit.model]}: ${result.request.y} by maximum likelihood` },
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     coefficientTable('Coefficients', 'z-value', fit.coefficients, [paramRow]),
-    { kind: 'keyValues', title: 'Fit', rows },
+    { kind: 'keyValues', title: 'How well it fits', rows: fits },
+    { kind: 'keyValues', title: 'For comparing models', rows: comparing },
+    { kind: 'keyValues', title: 'How the estimate was found', rows: search },
   ];
 }
 
@@ -94,18 +116,23 @@ export function spatialChecks(fit: SpatialFit): Cell[][] {
 /** Any model's sheet from its registry headline: coefficients, spatial parameters and fit figures. */
 export function headlineBlocks(result: AnalysisResult, fit: Fitted, entry: ModelEntry): Block[] {
   const h = entry.headline(fit);
-  const paramRows = h.parameters.map((q): Cell[] => [q.symbol, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
-  const rows: [string, Cell, NumberFormat?][] = [
+  const paramRows = h.parameters.map((q): Cell[] => [`${q.symbol}: ${q.name}`, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
+  const fits: [string, Cell, NumberFormat?][] = [
     ['Areas', result.n, 'integer'],
     ['R² or squared correlation of observed and fitted', num(h.r2), 'decimal4'],
     ['Residual variance', num(h.sigma2), 'decimal4'],
   ];
-  if (h.logLik !== undefined) rows.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
-  if (h.lr) rows.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
-  if (h.convergence) rows.push(['Search converged', yesNo(h.convergence.converged), 'text'], ['Search note', h.convergence.message, 'text']);
+  const comparing: [string, Cell, NumberFormat?][] = [];
+  if (h.logLik !== undefined) comparing.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
+  if (h.lr) comparing.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
+  const search: [string, Cell, NumberFormat?][] = [];
+  if (h.range) search.push(['Lowest admissible spatial parameter', num(h.range.lower), 'decimal4'], ['Highest admissible spatial parameter', num(h.range.upper), 'decimal4']);
+  if (h.convergence) search.push(['Search converged', yesNo(h.convergence.converged), 'text'], ['Search note', h.convergence.message, 'text']);
   return [
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     coefficientTable('Coefficients', 'z-value', fit.coefficients, paramRows),
-    { kind: 'keyValues', title: 'Fit', rows },
+    { kind: 'keyValues', title: 'How well it fits', rows: fits },
+    ...(comparing.length ? [{ kind: 'keyValues', title: 'For comparing models', rows: comparing } satisfies Block] : []),
+    ...(search.length ? [{ kind: 'keyValues', title: 'How the estimate was found', rows: search } satisfies Block] : []),
   ];
 }

@@ -1,12 +1,17 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { CHOICE_LABEL, num, question } from './format.js';
-import { fittedInOrder } from '../models/index.js';
+import { MODEL_LABEL, num, question, sayList, suggestionLabel } from './format.js';
+import { MODELS, fittedInOrder } from '../models/index.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
 import { rateUse, recipeWords } from './rates.js';
+
+/** "ρ for the spatial lag model and λ for the spatial error model": each spatial parameter, from the registry. */
+function parameterWords(): string {
+  return sayList(MODELS.filter((m) => m.parameters.length).map((m) => `${sayList(m.parameters.map((q) => q.symbol))} for the ${m.label.toLowerCase()}`));
+}
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   // one row per model and spatial parameter (a model with two has a second row for the second)
@@ -31,6 +36,7 @@ function coordinatesLine(result: AnalysisResult): string {
 
 export function overviewBlocks(result: AnalysisResult, title?: string): Block[] {
   const r = result.request;
+  const rec = result.ols.recommendation;
   const blocks: Block[] = [
     { kind: 'title', text: title ?? `Spatial regression: ${question(r.y, r.x)}` },
     {
@@ -49,33 +55,36 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },
     ...(result.comparison && result.comparison.length > 1
-      ? [{ kind: 'paragraph', style: 'interpretation', text: `Under other neighbour definitions (sheet "Neighbour definitions compared"): ${comparisonReading(result.comparison)}` } as Block]
+      ? [{ kind: 'paragraph', style: 'interpretation', text: `Other neighbour definitions, on the sheet "Neighbour definitions compared": ${comparisonReading(result.comparison).replace(/^A/, 'a')}` } as Block]
       : []),
     {
       kind: 'table', title: 'How the models compare',
       columns: [
-        { header: 'Model', format: 'text', width: 26 },
-        { header: 'Log-likelihood', format: 'decimal4', width: 14 },
-        { header: 'AIC', format: 'decimal4', width: 12 },
-        { header: 'Bayesian information criterion (BIC)', format: 'decimal4', width: 12 },
-        { header: 'Likelihood ratio against plain regression', format: 'decimal4', width: 14 },
-        { header: 'p-value of the ratio', format: 'pvalue', width: 11 },
-        { header: 'Spatial parameter', format: 'decimal4', width: 12 },
-        { header: 'Its standard error', format: 'decimal4', width: 12 },
-        { header: 'Its p-value', format: 'pvalue', width: 11 },
-        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 12 },
+        { header: 'Model', format: 'text', width: 20 },
+        { header: 'Log-likelihood', format: 'decimal4', width: 11, group: 'For comparing models' },
+        { header: 'AIC', format: 'decimal4', width: 10, group: 'For comparing models' },
+        { header: 'BIC', format: 'decimal4', width: 10, group: 'For comparing models' },
+        { header: 'Likelihood ratio', format: 'decimal4', width: 10, group: 'Against the plain regression' },
+        { header: 'p-value', format: 'pvalue', width: 9, group: 'Against the plain regression' },
+        { header: 'Estimate', format: 'decimal4', width: 9, group: 'Spatial parameter' },
+        { header: 'Standard error', format: 'decimal4', width: 9, group: 'Spatial parameter' },
+        { header: 'p-value', format: 'pvalue', width: 9, group: 'Spatial parameter' },
+        { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 13, group: 'How well it fits' },
       ],
       rows: comparisonRows(result),
-      note: 'Higher log-likelihood and lower AIC or BIC values mean a better balance of fit and simplicity. The spatial parameter is ρ for the lag model and λ for the error model.',
+      note: `Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ${parameterWords()}.`,
     },
-    lmTable(result, 'Evidence of spatial dependence in the plain regression'),
+    lmTable(result, 'Evidence of spatial dependence in the plain regression', false),
     {
       kind: 'keyValues', title: 'Suggested model',
       rows: [
-        ['Suggestion', CHOICE_LABEL[result.ols.recommendation.choice], 'text'],
-        ['Why', result.ols.recommendation.text, 'text'],
-        ['Rule applied', result.ols.recommendation.rule, 'text'],
-        ['Significance level used', result.ols.recommendation.alpha, 'decimal2'],
+        ['Suggestion', suggestionLabel(rec), 'text'],
+        ['Why', rec.text, 'text'],
+        ['Borderline call', rec.borderline ? 'yes: a p-value it turns on is close to the level, so report every model named' : 'no', 'text'],
+        ['Fitted in this run', rec.fitted ? 'yes' : `no: ${rec.notFitted.map((m) => MODEL_LABEL[m].toLowerCase()).join(' and ')} still to fit`, 'text'],
+        ['Significance level used', rec.alpha, 'decimal2'],
+        ['Close to the level means', `a p-value from ${rec.close.lower} to ${rec.close.upper}`, 'text'],
+        ['Rule applied', rec.rule, 'text'],
       ],
     },
     { kind: 'title', text: 'Before drawing conclusions' },

@@ -34,13 +34,13 @@ export function overviewPictureList(result: AnalysisResult): { name: string; pic
   if (result.geometries.length === result.n) {
     pictures.push({
       name: 'map of the outcome',
-      pic: choroplethSvg({ title: `${y} by area`, valueName: y, geometries: result.geometries, values: shown(result.y), coordinates: result.coordinates, scale: 'sequential' }),
+      pic: choroplethSvg({ title: `${y} by area`, valueName: y, geometries: result.geometries, values: shown(result.y), coordinates: result.coordinates, unit: result.coordinateUnit, scale: 'sequential' }),
     });
     pictures.push({
       name: 'map of residuals',
       pic: choroplethSvg({
         title: 'Residuals of the plain regression', valueName: 'observed − fitted',
-        geometries: result.geometries, values: shown(result.ols.residuals), coordinates: result.coordinates, scale: 'diverging',
+        geometries: result.geometries, values: shown(result.ols.residuals), coordinates: result.coordinates, unit: result.coordinateUnit, scale: 'diverging',
       }),
     });
   }

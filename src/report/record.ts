@@ -27,6 +27,8 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('Sheet read', r.sheet ?? '(first sheet, or not a workbook)'),
         kv('ID column', r.id),
         ...(r.boundaryId ? [kv('ID property in the boundary file', r.boundaryId)] : []),
+        kv('IDs matched ignoring leading zeros', r.idsIgnoreLeadingZeros ? 'yes, as asked (e.g. 01001 matched 1001)' : 'no'),
+        ...(r.label ? [kv('Label column', r.label)] : []),
         kv('Outcome column', r.y),
         kv('Explanatory columns', r.x.join(', ')),
         kv('Neighbour definition asked for', describeRule(r.weights)),
@@ -64,6 +66,7 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('IDs repeated in the boundaries', result.join.duplicateFeatures.length, 'integer'),
         kv('Matched areas without a shape', result.join.withoutGeometry.length, 'integer'),
         kv('IDs that differ only by leading zeros', result.join.zeroPaddingSuspects.length, 'integer'),
+        ...(r.idsIgnoreLeadingZeros ? [kv('IDs matched although their leading zeros differ', result.join.matchedIgnoringZeros?.length ?? 0, 'integer')] : []),
       ],
     },
   ];

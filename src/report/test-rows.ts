@@ -4,11 +4,11 @@ import type { Cell, TableColumn } from './types.js';
 import { num } from './format.js';
 
 export const TEST_COLUMNS: TableColumn[] = [
-  { header: 'Check', format: 'text', width: 44 },
+  { header: 'Check', format: 'text', width: 36 },
   { header: 'Statistic', format: 'decimal4', width: 12 },
   { header: 'Degrees of freedom', format: 'integer', width: 10 },
   { header: 'p-value', format: 'pvalue', width: 11 },
-  { header: 'What it asks', format: 'text', width: 24 },
+  { header: 'What it asks', format: 'text', width: 40 },
 ];
 
 export function testRow(label: string, t: TestResult | undefined, meaning: string): Cell[] {

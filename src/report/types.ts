@@ -11,8 +11,10 @@ export type NumberFormat = 'integer' | 'decimal2' | 'decimal4' | 'scientific' | 
 export interface TableColumn {
   header: string;
   format?: NumberFormat;
-  /** width in characters */
+  /** width in characters (a minimum: the layout widens a column to its header's words and its numbers) */
   width?: number;
+  /** a heading over this and the neighbouring columns with the same group, in a row above the headers */
+  group?: string;
 }
 
 export type Block =

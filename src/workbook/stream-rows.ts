@@ -98,7 +98,8 @@ function* rowsXml(d: DeferredRows, styles: Map<string, string>, chunkChars = 1 <
   for (let r = d.from; r < d.block.rows.length; r++) {
     const rowNumber = d.firstRow + r - d.from;
     const cells = d.block.rows[r];
-    out += `<row r="${rowNumber}">`;
+    const height = d.heights?.get(rowNumber);
+    out += height === undefined ? `<row r="${rowNumber}">` : `<row r="${rowNumber}" ht="${height}" customHeight="1">`;
     for (let c = 0; c < cells.length; c++) {
       const v = cells[c];
       const k = kindOf(v);

@@ -1,13 +1,7 @@
 import type ExcelJS from 'exceljs';
-import { layoutBlocks, type Block, type Cell, type NumberFormat, type ReportSheet } from '../report/index.js';
+import { planSheet, type Block, type Cell, type NumberFormat, type ReportSheet, type TablePlan } from '../report/index.js';
 import { EXCEL_FORMAT } from './number-formats.js';
 import { toBase64 } from './base64.js';
-
-/** Paragraphs wrap across the first columns up to about this many characters: a comfortable line. */
-const PARAGRAPH_CHARS = 110;
-const MAX_PARAGRAPH_COLUMNS = 10;
-const DEFAULT_WIDTH = 12;
-const LINE_POINTS = 15;
 
 const FACE = { name: 'Calibri', family: 2 } as const;
 const STYLE = {
@@ -20,32 +14,12 @@ const STYLE = {
 
 const HEADER_FILL: ExcelJS.Fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: 'FFE6EDF4' } };
 
-/** Column widths in characters: the widest asked for by any table, or enough for key-value labels. */
-function columnWidths(blocks: readonly Block[]): number[] {
-  const w: number[] = [];
-  const want = (col: number, width: number) => { w[col] = Math.max(w[col] ?? DEFAULT_WIDTH, width); };
-  for (const b of blocks) {
-    if (b.kind === 'table') b.columns.forEach((c, i) => want(i, c.width ?? Math.min(60, Math.max(DEFAULT_WIDTH, c.header.length + 2))));
-    if (b.kind === 'keyValues') {
-      want(0, Math.min(48, Math.max(...b.rows.map((r) => r[0].length), b.title.length) + 2));
-      // long text values overflow into the empty cells to their right, so the value column stays modest
-      want(1, 16);
-    }
-  }
-  for (let i = 0; i < w.length; i++) if (w[i] === undefined) w[i] = DEFAULT_WIDTH;
-  return w;
-}
-
 function put(cell: ExcelJS.Cell, value: Cell, format?: NumberFormat): void {
   if (value === null || (typeof value === 'number' && !Number.isFinite(value))) { cell.value = null; return; }
   cell.value = value;
   if (typeof value === 'number') cell.numFmt = EXCEL_FORMAT[format && format !== 'text' ? format : 'decimal4'];
   // integers asked as decimals still show as decimals; whole counts in 'text' columns show plainly
   if (typeof value === 'number' && format === 'text') cell.numFmt = 'General';
-}
-
-function lines(text: string, widthChars: number): number {
-  return Math.max(1, Math.ceil(text.length / Math.max(10, widthChars * 1.05)));
 }
 
 type TableBlock = Extract<Block, { kind: 'table' }>;
@@ -57,6 +31,8 @@ export interface DeferredRows {
   from: number;
   /** 1-based sheet row where block.rows[from] belongs */
   firstRow: number;
+  /** heights in points of the deferred rows that wrap (1-based sheet row → points) */
+  heights?: Map<number, number>;
 }
 
 export interface WriteSheetOptions {
@@ -65,94 +41,110 @@ export interface WriteSheetOptions {
 }
 
 /**
- * Writes one report sheet's blocks (one blank row between them), pictures and frozen header.
+ * Writes one report sheet's blocks (one blank row between them), pictures, frozen header and page
+ * set-up, all placed by the report's sheet plan (the same plan the add-in follows).
  * Every block keeps its place in the shared layout even when a long table's rows are deferred.
  */
 export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: ReportSheet, opts: WriteSheetOptions = {}): DeferredRows[] {
   const deferred: DeferredRows[] = [];
-  const widths = columnWidths(sheet.blocks);
-  widths.forEach((w, i) => { ws.getColumn(i + 1).width = w; });
-  let span = 0, paragraphWidth = 0;
-  while (span < MAX_PARAGRAPH_COLUMNS && paragraphWidth < PARAGRAPH_CHARS) paragraphWidth += widths[span++] ?? DEFAULT_WIDTH;
-  ws.pageSetup = { orientation: 'landscape', fitToPage: true, fitToWidth: 1, fitToHeight: 0 };
-  const { starts } = layoutBlocks(sheet.blocks);
+  const plan = planSheet(sheet);
+  plan.widths.forEach((w, i) => { ws.getColumn(i + 1).width = w; });
+  const spanned = (row: number, text: string, font?: Partial<ExcelJS.Font>) => {
+    if (plan.span > 1) ws.mergeCells(row, 1, row, plan.span);
+    const c = ws.getCell(row, 1);
+    c.value = text;
+    if (font) c.font = font;
+    c.alignment = { wrapText: true, vertical: 'top' };
+  };
   let freezeAt = 0;
 
   sheet.blocks.forEach((b, bi) => {
-    const top = starts[bi];
-    switch (b.kind) {
-      case 'title': {
-        const c = ws.getCell(top, 1);
-        c.value = b.text;
-        c.font = STYLE.title;
-        ws.getRow(top).height = 21;
-        break;
+    const p = plan.blocks[bi];
+    const top = plan.starts[bi];
+    if (b.kind === 'title') spanned(top, b.text, STYLE.title);
+    else if (b.kind === 'paragraph') spanned(top, b.text, b.style === 'note' ? STYLE.note : b.style === 'caution' ? STYLE.caution : undefined);
+    else if (b.kind === 'table' && p.kind === 'table') {
+      spanned(top, b.title, STYLE.blockTitle);
+      for (const g of p.groups) {
+        if (g.cols > 1) ws.mergeCells(p.groupRow!, g.col + 1, p.groupRow!, g.col + g.cols);
+        const c = ws.getCell(p.groupRow!, g.col + 1);
+        c.value = g.text;
+        c.font = STYLE.header;
+        c.alignment = { horizontal: 'center', vertical: 'bottom', wrapText: true };
+        c.border = { bottom: { style: 'thin', color: { argb: 'FF8899AA' } } };
       }
-      case 'paragraph': {
-        ws.mergeCells(top, 1, top, span);
-        const c = ws.getCell(top, 1);
-        c.value = b.text;
-        c.alignment = { wrapText: true, vertical: 'top' };
-        if (b.style === 'note') c.font = STYLE.note;
-        if (b.style === 'caution') c.font = STYLE.caution;
-        ws.getRow(top).height = lines(b.text, paragraphWidth) * LINE_POINTS + 3;
-        break;
-      }
-      case 'table': {
-        ws.getCell(top, 1).value = b.title;
-        ws.getCell(top, 1).font = STYLE.blockTitle;
-        const header = ws.getRow(top + 1);
-        let headerLines = 1;
-        b.columns.forEach((col, i) => {
-          const c = header.getCell(i + 1);
-          c.value = col.header;
-          c.font = STYLE.header;
-          c.fill = HEADER_FILL;
-          c.alignment = { wrapText: true, vertical: 'bottom' };
-          c.border = { bottom: { style: 'thin', color: { argb: 'FF8899AA' } } };
-          headerLines = Math.max(headerLines, lines(col.header, widths[i] ?? DEFAULT_WIDTH));
+      const header = ws.getRow(p.headerRow);
+      b.columns.forEach((col, i) => {
+        const c = header.getCell(i + 1);
+        c.value = col.header;
+        c.font = STYLE.header;
+        c.fill = HEADER_FILL;
+        c.alignment = { wrapText: true, vertical: 'bottom', horizontal: p.align[i], ...(indented(p, i) ? { indent: 1 } : {}) };
+        c.border = { bottom: { style: 'thin', color: { argb: 'FF8899AA' } } };
+      });
+      const written = Math.min(b.rows.length, opts.rowsToWrite?.(b) ?? b.rows.length);
+      // in a table with wrapped text every cell starts at the top of its row, beside the first line
+      const wraps = p.wrap.some(Boolean);
+      for (let r = 0; r < written; r++) {
+        const row = ws.getRow(p.firstRow + r);
+        b.rows[r].forEach((v, i) => {
+          const c = row.getCell(i + 1);
+          put(c, v, b.columns[i]?.format);
+          const text = typeof v === 'string';
+          if (wraps || (text && indented(p, i))) {
+            // an indent shows only on a cell aligned to a side
+            c.alignment = { vertical: 'top', ...(text && p.wrap[i] ? { wrapText: true } : {}), ...(text && indented(p, i) ? { horizontal: 'left', indent: 1 } : {}) };
+          }
         });
-        header.height = headerLines * LINE_POINTS;
-        const written = Math.min(b.rows.length, opts.rowsToWrite?.(b) ?? b.rows.length);
-        for (let r = 0; r < written; r++) {
-          const row = ws.getRow(top + 2 + r);
-          b.rows[r].forEach((v, i) => put(row.getCell(i + 1), v, b.columns[i]?.format));
-        }
-        if (written < b.rows.length) deferred.push({ block: b, from: written, firstRow: top + 2 + written });
-        if (b.note) {
-          const nr = top + 2 + b.rows.length;
-          ws.mergeCells(nr, 1, nr, span);
-          const c = ws.getCell(nr, 1);
-          c.value = b.note;
-          c.font = STYLE.note;
-          c.alignment = { wrapText: true, vertical: 'top' };
-          ws.getRow(nr).height = lines(b.note, paragraphWidth) * LINE_POINTS + 3;
-        }
-        if (!freezeAt && bi === 0 && (sheet.freezeHeader || b.rows.length > 30)) freezeAt = top + 1;
-        break;
       }
-      case 'keyValues': {
-        ws.getCell(top, 1).value = b.title;
-        ws.getCell(top, 1).font = STYLE.blockTitle;
-        b.rows.forEach(([label, value, format], r) => {
-          ws.getCell(top + 1 + r, 1).value = label;
-          put(ws.getCell(top + 1 + r, 2), value, format);
-          ws.getCell(top + 1 + r, 2).alignment = { horizontal: 'left' };
-        });
-        break;
+      if (written < b.rows.length) {
+        const heights = new Map<number, number>();
+        for (let r = p.firstRow + written; r < p.firstRow + b.rows.length; r++) {
+          const h = plan.heights.get(r);
+          if (h !== undefined) { heights.set(r, h); plan.heights.delete(r); }
+        }
+        deferred.push({ block: b, from: written, firstRow: p.firstRow + written, ...(heights.size ? { heights } : {}) });
       }
+      if (b.note) spanned(p.noteRow!, b.note, STYLE.note);
+      if (!freezeAt && bi === 0 && (sheet.freezeHeader || b.rows.length > 30)) freezeAt = p.headerRow;
+    } else if (b.kind === 'keyValues' && p.kind === 'keyValues') {
+      spanned(top, b.title, STYLE.blockTitle);
+      b.rows.forEach(([label, value, format], r) => {
+        const rp = p.rows[r];
+        const l = ws.getCell(rp.row, 1);
+        l.value = label;
+        l.alignment = { vertical: 'top', ...(rp.wrapLabel ? { wrapText: true } : {}) };
+        if (rp.valueCols > 1) ws.mergeCells(rp.row, 2, rp.row, 1 + rp.valueCols);
+        const c = ws.getCell(rp.row, 2);
+        put(c, value, format);
+        c.alignment = { horizontal: rp.align, vertical: 'top', ...(rp.wrapValue ? { wrapText: true } : {}) };
+      });
     }
   });
+  for (const [row, points] of plan.heights) ws.getRow(row).height = points;
   if (freezeAt) ws.views = [{ state: 'frozen', xSplit: 0, ySplit: freezeAt }];
+
+  const page = plan.page;
+  ws.pageSetup = {
+    ...ws.pageSetup,
+    orientation: page.orientation, fitToPage: true, fitToWidth: 1, fitToHeight: 0,
+    margins: { left: 0.5, right: 0.5, top: 0.6, bottom: 0.6, header: 0.3, footer: 0.3 },
+    ...(page.titleRows ? { printTitlesRow: `${page.titleRows.first}:${page.titleRows.last}` } : {}),
+  };
+  for (const row of page.breaksBefore) if (row > 1) ws.getRow(row - 1).addPageBreak();
 
   for (const im of sheet.images ?? []) {
     // Excel cannot show the SVG form; a picture without PNG bytes is described in words only.
-    const caption = ws.getCell(Math.max(1, im.anchor.row - 1), im.anchor.col);
-    caption.value = im.png.length ? `Picture: ${im.alt}` : `Picture not drawn here (no PNG renderer): ${im.alt}`;
-    caption.font = STYLE.note;
+    const caption = plan.captions.find((c) => c.row === Math.max(1, im.anchor.row - 1));
+    if (caption) spanned(caption.row, caption.text, STYLE.note);
     if (!im.png.length) continue;
     const id = wb.addImage({ base64: `data:image/png;base64,${toBase64(im.png)}`, extension: 'png' });
     ws.addImage(id, { tl: { col: im.anchor.col - 1, row: im.anchor.row - 1 }, ext: { width: im.widthPx, height: im.heightPx }, editAs: 'oneCell' });
   }
   return deferred;
+}
+
+/** Text columns after the first keep a little space from the numbers to their left. */
+function indented(p: TablePlan, i: number): boolean {
+  return i > 0 && p.align[i] === 'left' && p.align[i - 1] === 'right';
 }

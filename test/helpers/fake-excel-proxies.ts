@@ -199,6 +199,8 @@ export class RangeProxy extends ClientObject {
     this.format = Object.defineProperties({ font, fill }, {
       wrapText: style('wrap'),
       verticalAlignment: { set: (v: string) => ctx.enqueue('format', () => {}, sheetHint, jsonBytes(v)) },
+      horizontalAlignment: { set: (v: string) => ctx.enqueue('format', each((c) => { c.align = v; }), sheetHint, jsonBytes(v)) },
+      indentLevel: { set: (v: number) => ctx.enqueue('format', () => {}, sheetHint, jsonBytes(v)) },
       columnWidth: { set: (w: number) => ctx.enqueue('format', () => { const r = this.rect(); for (let j = 0; j < r.cols; j++) r.sheet.columnWidths.set(r.col + j, w); }, sheetHint) },
       rowHeight: { set: (h: number) => ctx.enqueue('format', () => { const r = this.rect(); for (let i = 0; i < r.rows; i++) r.sheet.rowHeights.set(r.row + i, h); }, sheetHint) },
     });

@@ -31,7 +31,7 @@ import {
 
 export { COMMAND_BYTES, FakeOfficeError, READ_CELL_LIMIT, REQUEST_LIMIT_BYTES, RESPONSE_LIMIT_BYTES, parseAddress } from './fake-excel-proxies.js';
 
-export interface FakeCell { value: any; format: any; bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean }
+export interface FakeCell { value: any; format: any; bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean; align?: string }
 
 /** A sheet's cells, row by row (a row's cells in a plain array), so half a million rows stay small. */
 export class CellStore {

@@ -8,7 +8,8 @@ import { createHash } from 'node:crypto';
 import { Matrix, solve } from 'ml-matrix';
 import type { AnalysisResult, ModelKey } from '../../src/pipeline/types.js';
 import type { AreaGeometry } from '../../src/geo/types.js';
-import type { Coefficient, SpatialFit } from '../../src/models/types.js';
+import type { Coefficient, LmTests, SpatialFit } from '../../src/models/types.js';
+import { recommendModel } from '../../src/models/recommend.js';
 
 export const GRID = 5;
 
@@ -59,6 +60,9 @@ export const FAKE_DATA_BYTES = new TextEncoder().encode('ward,vacancy_rate,media
 export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
   const coordinates = opts.coordinates ?? 'projected';
   const models = opts.models ?? ['ols', 'lag', 'error'];
+  const lm: LmTests = {
+    error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 },
+  };
   const n = GRID * GRID;
   const ids = Array.from({ length: n }, (_, i) => `W${String(i + 1).padStart(2, '0')}`);
   const rent = new Float64Array(n), dist = new Float64Array(n), y = new Float64Array(n);
@@ -108,8 +112,8 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, breuschPaganStudentised: { stat: 2.9, df: 2, p: 0.2346 },
     warnings: [],
     moran: { I: 0.231, expected: -1 / 24, variance: 0.0152, z: 2.21, p: 0.027 },
-    lm: { error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 } },
-    recommendation: { choice: 'lag', text: 'Only the robust lag test is significant, so the spatial lag model is suggested.', rule: 'LM decision rule (plain tests first, robust tests to break ties)', alpha: 0.05 },
+    lm,
+    recommendation: recommendModel(lm, { fitted: models }),
   };
   const result: AnalysisResult = {
     engineVersion: '0.1.0', createdAt: '2024-05-06T07:08:09.000Z',
@@ -125,7 +129,7 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     n, ids, rows: ids.map((_, i) => i + 2), droppedRows: [],
     geometries: squares(coordinates), coordinates,
     coordinateEvidence: coordinates === 'projected' ? 'coordinates far outside longitude/latitude ranges' : 'all coordinates within longitude/latitude ranges',
-    join: { unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [], blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [] },
+    join: { unmatchedRows: [], unmatchedFeatures: [], duplicateRows: [], duplicateFeatures: [], blankRows: [], blankFeatures: [], withoutGeometry: [], zeroPaddingSuspects: [], matchedIgnoringZeros: [] },
     y, xNames: ['median_rent', 'distance_km'],
     weights: {
       method: 'rook', description: 'rook contiguity (shared edge)', transform: 'row', links: edges.from.length, withoutNeighbours: [], components: 1,

@@ -2,6 +2,7 @@ import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { fitFrame } from './projection.js';
 import { describeDrawing, drawAreas } from './area-shapes.js';
 import { c1, svgDocument, text, wrapWords } from './svg.js';
+import { scaleBar } from './scale-bar.js';
 import type { Picture } from './choropleth.js';
 
 /** One class of a category map: its legend words and how it is filled. */
@@ -21,6 +22,8 @@ export interface CategoryMapInput {
   category: ArrayLike<number>;
   categories: MapCategory[];
   coordinates: CoordinateKind;
+  /** projected coordinates: their stated length unit, for the scale bar */
+  unit?: 'metre' | 'foot' | 'us-foot';
   /** a line under the legend (how the categories were decided) */
   note?: string;
 }
@@ -48,6 +51,7 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
   const drawn = drawAreas(input.geometries, frame, TOP, (i) => paint[input.category[i]], { stroke: '#8a8a8a', strokeWidth: 0.5, pointRadius: 4.5, pointStroke: '#444444' });
   body.push(...drawn.body);
   body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
+  body.push(...scaleBar(frame, input.coordinates, input.unit, 12, TOP + frame.height + 18));
   const lx = Math.max(frame.width, 200) + 20;
   let yy = TOP + 8;
   body.push(text(lx, yy, input.legendTitle, 'font-size="13" font-weight="bold"'));
@@ -66,7 +70,7 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
     for (const l of wrapWords(input.note, 36)) { body.push(text(lx, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
   }
   const width = lx + LEGEND_W;
-  const height = Math.ceil(Math.max(TOP + frame.height, yy) + 12);
+  const height = Math.ceil(Math.max(TOP + frame.height + 28, yy) + 12);
   const drawingNote = describeDrawing(drawn.drawing, input.coordinates) ?? undefined;
   const alt = `${input.title}. ${input.legendTitle}: ${lines.join('; ')}.${drawingNote ? ` ${drawingNote}` : ''}`;
   return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt, drawingNote };

@@ -2,6 +2,7 @@ import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { type Classes, NO_VALUE, colourOf, quantileClasses, symmetricClasses } from './classes.js';
 import { fitFrame } from './projection.js';
 import { c1, label, svgDocument, text, wrapWords } from './svg.js';
+import { scaleBar } from './scale-bar.js';
 import { describeDrawing, drawAreas } from './area-shapes.js';
 
 export interface ChoroplethInput {
@@ -11,6 +12,8 @@ export interface ChoroplethInput {
   geometries: readonly AreaGeometry[];
   values: ArrayLike<number>;
   coordinates: CoordinateKind;
+  /** projected coordinates: their stated length unit (the scale bar then reads in km or miles) */
+  unit?: 'metre' | 'foot' | 'us-foot';
   /** diverging: centred at 0 (residuals); sequential: quantile classes (levels) */
   scale: 'diverging' | 'sequential';
 }
@@ -26,13 +29,6 @@ export interface Picture {
 }
 
 const MAP_W = 520, MAP_H = 520, LEGEND_W = 230, TOP = 40;
-
-/** A "nice" length (1, 2 or 5 × a power of ten) not longer than `max`. */
-function niceLength(max: number): number {
-  const p = Math.pow(10, Math.floor(Math.log10(max)));
-  for (const m of [5, 2, 1]) if (m * p <= max) return m * p;
-  return p;
-}
 
 function legend(c: Classes, valueName: string, x: number, y: number, hasMissing: boolean): { body: string[]; bottom: number; lines: string[] } {
   const body: string[] = [text(x, y, valueName, 'font-size="13" font-weight="bold"')];
@@ -53,11 +49,11 @@ function legend(c: Classes, valueName: string, x: number, y: number, hasMissing:
     yy += 20;
   }
   yy += 8;
-  for (const l of wrapWords(`Classes: ${c.method}.`, 32)) { body.push(text(x, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
+  for (const l of wrapWords(`${c.method}.`, 32)) { body.push(text(x, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
   return { body, bottom: yy, lines };
 }
 
-/** A filled map of one value per area, with legend; a scale bar only for projected coordinates. */
+/** A filled map of one value per area, with legend and a scale bar. */
 export function choroplethSvg(input: ChoroplethInput): Picture {
   const classes = input.scale === 'diverging' ? symmetricClasses(input.values) : quantileClasses(input.values);
   const frame = fitFrame(input.geometries, input.coordinates, MAP_W, MAP_H);
@@ -70,12 +66,9 @@ export function choroplethSvg(input: ChoroplethInput): Picture {
   body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
 
   let bottom = TOP + frame.height;
-  if (input.coordinates === 'projected') {
-    const units = niceLength((frame.width * 0.3) / frame.scale);
-    const px = units * frame.scale;
-    const y = bottom + 18, x = 12;
-    body.push(`<path d="M${x} ${y - 5}V${y}H${c1(x + px)}V${y - 5}" fill="none" stroke="#333333" stroke-width="1.5"/>`);
-    body.push(text(x + px + 8, y + 1, `${units.toLocaleString('en-US')} in map units`, 'font-size="11" fill="#333333"'));
+  {
+    const y = bottom + 18;
+    body.push(...scaleBar(frame, input.coordinates, input.unit, 12, y));
     bottom = y + 10;
   }
   const lx = Math.max(frame.width, 200) + 20;
@@ -84,7 +77,7 @@ export function choroplethSvg(input: ChoroplethInput): Picture {
   const width = lx + LEGEND_W;
   const height = Math.ceil(Math.max(bottom, leg.bottom) + 12);
   const drawingNote = describeDrawing(drawn.drawing, input.coordinates) ?? undefined;
-  const alt = `${input.title}. ${input.valueName} in classes ${leg.lines.join('; ')} (${classes.method}).${drawingNote ? ` ${drawingNote}` : ''}`;
+  const alt = `${input.title}. ${input.valueName}: ${leg.lines.join('; ')}. ${classes.method}.${drawingNote ? ` ${drawingNote}` : ''}`;
   return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt, drawingNote };
 }
 

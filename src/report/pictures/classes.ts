@@ -13,7 +13,7 @@ export interface Classes {
   /** class edges, ascending, length = colours + 1 */
   breaks: number[];
   colours: string[];
-  /** how the classes were formed, shown in the legend */
+  /** how the classes were formed, as the legend's closing sentence */
   method: string;
 }
 
@@ -24,13 +24,13 @@ export function symmetricClasses(values: ArrayLike<number>): Classes {
   if (m === 0) m = 1;
   const half = DIVERGING.length / 2;
   const breaks = Array.from({ length: DIVERGING.length + 1 }, (_, k) => ((k - half) / half) * m);
-  return { breaks, colours: DIVERGING, method: 'classes of equal width, symmetric about 0' };
+  return { breaks, colours: DIVERGING, method: 'Classes of equal width, symmetric about 0' };
 }
 
 /** Quantile classes (about equal numbers of areas per class); tied edges are merged. */
 export function quantileClasses(values: ArrayLike<number>): Classes {
   const v = Array.from(values).filter(Number.isFinite).sort((a, b) => a - b);
-  if (v.length === 0) return { breaks: [0, 1], colours: [SEQUENTIAL[0]], method: 'no values' };
+  if (v.length === 0) return { breaks: [0, 1], colours: [SEQUENTIAL[0]], method: 'No values' };
   const k = SEQUENTIAL.length;
   const q = (p: number) => {
     // linear interpolation between order statistics (the usual sample quantile)
@@ -46,7 +46,7 @@ export function quantileClasses(values: ArrayLike<number>): Classes {
   const n = breaks.length - 1;
   // spread the available colours over fewer classes when edges tie
   const colours = Array.from({ length: n }, (_, i) => SEQUENTIAL[n === 1 ? k - 1 : Math.round((i * (k - 1)) / (n - 1))]);
-  return { breaks, colours, method: n === k ? 'five classes with about equal numbers of areas' : `${n} classes with about equal numbers of areas` };
+  return { breaks, colours, method: n === k ? 'Five classes with about equal numbers of areas' : `${n} classes with about equal numbers of areas` };
 }
 
 /** Colour of one value: classes are closed on the right except the first, which includes its lower edge. */
