@@ -26,7 +26,7 @@ import { readBoundary } from '../src/geo/index.js';
 import { buildWeights, symmetricForm } from '../src/weights/index.js';
 import { runAnalysis } from '../src/pipeline/run-analysis.js';
 import { rookGrid } from './grid.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
@@ -264,7 +264,7 @@ function cliWorkload(): Record<string, unknown> {
 
 /** k-nearest-neighbour weights (no symmetric form) on invented random points: the exact sparse LU. */
 async function knnWorkload(n: number, k: number): Promise<Record<string, unknown>> {
-  const u = seededUniform(31);
+  const u = seededRandom(31);
   const x = new Float64Array(n).map(() => u()), y = new Float64Array(n).map(() => u());
   let a = performance.now();
   const { pattern } = nearestNeighbours({ x, y, greatCircle: false }, k);

@@ -13,7 +13,7 @@ import { csrMultiply, type CsrMatrix } from '../src/linalg/csr.js';
 import { denseAlgebra } from '../src/linalg/dense-algebra.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import { LanczosQuadrature } from '../src/linalg/sparse/quadrature.js';
-import { symmetricForm } from '../src/linalg/sparse/similarity.js';
+import { symmetricForm } from '../src/linalg/symmetric-form.js';
 import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
 import type { Design } from '../src/models/types.js';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';

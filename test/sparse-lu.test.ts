@@ -14,7 +14,7 @@ import { DenseLuLogDet } from '../src/linalg/dense-lu-logdet.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(1e-300, Math.abs(b));
 
@@ -50,7 +50,7 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
   it('solves with the kept factor equal ml-matrix\'s dense LU solve (1e-10 relative), one right-hand side and a block of three', () => {
     const g = randomKnn(700, 6, 8);
     const lu = new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } });
-    const u = seededUniform(4);
+    const u = seededRandom(4);
     for (const rho of [-0.8, 0.45, 0.97]) {
       const dense = new LuDecomposition(shifted(g.w, rho));
       const b = new Float64Array(3 * g.w.n).map(() => u() - 0.5);
@@ -110,7 +110,7 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
   it('gives the lag estimate of the dense LU at every step to 1e-7 (1,550 areas, 6 nearest neighbours)', () => {
     const g = randomKnn(1550, 6, 5);
     const n = g.w.n;
-    const u = seededUniform(21);
+    const u = seededRandom(21);
     const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
     const x1 = new Float64Array(n).map(normal);
     const base = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] + normal());

@@ -12,7 +12,7 @@ import { CholeskyTraces } from '../src/linalg/sparse/traces.js';
 import { GeneralTraces } from '../src/linalg/sparse/general-traces.js';
 import { powerTraces } from '../src/linalg/sparse/power-traces.js';
 import { SeriesLogDet } from '../src/linalg/sparse/series-logdet.js';
-import { symmetricForm } from '../src/linalg/sparse/similarity.js';
+import { symmetricForm } from '../src/linalg/symmetric-form.js';
 import { chooseAlgebra, sparseAlgebra } from '../src/linalg/choose-algebra.js';
 
 function dense(a: CsrMatrix): Matrix {

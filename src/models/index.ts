@@ -4,4 +4,4 @@ export { fitSpatialLag } from './ml-lag.js';
 export { fitSpatialError } from './ml-error.js';
 export { lagImpacts } from './impacts.js';
 export { recommendModel } from './recommend.js';
-export { denseAlgebra } from '../linalg/dense-algebra.js';
+export { denseAlgebra } from '../linalg/index.js';

@@ -1,6 +1,6 @@
-import { csrMultiply } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
-import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/dense-qr.js';
+import { csrMultiply } from '../linalg/index.js';
+import type { WeightsAlgebra } from '../linalg/index.js';
+import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
@@ -85,6 +85,7 @@ export function fitSpatialError(
   const xtxInv = inverseCrossProduct(at.qr);
   for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) covariance[a * p + b] = sigma2 * xtxInv[a * k + b];
   const tr = algebra.traces(lambda);
+  if (tr.unconverged) warnings.push(`Traces for the standard errors: ${tr.unconverged}.`);
   const block = invertInformation(
     Float64Array.from([tr.trG2 + tr.trGtG, tr.trG / sigma2, tr.trG / sigma2, n / (2 * sigma2 * sigma2)]),
     2,
@@ -126,7 +127,7 @@ export function fitSpatialError(
     breuschPagan: breuschPagan(at.eps, x),
     covariance,
     range: { lower: algebra.range.lower, upper: algebra.range.upper },
-    logDeterminantMethod: algebra.logdet.method,
+    logDeterminantMethod: algebra.logdet.accuracyAt ? `${algebra.logdet.method}; ${algebra.logdet.accuracyAt(lambda)}` : algebra.logdet.method,
     convergence,
     warnings,
   };

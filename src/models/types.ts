@@ -131,4 +131,6 @@ export interface ImpactsResult {
   draws: number;
   seed: number;
   method: string;
+  /** what the user must know about these figures (e.g. no standard errors, and why) */
+  warnings?: string[];
 }

@@ -6,8 +6,8 @@
 import type { JoinedAreas } from '../geo/types.js';
 import { buildWeights, describeRule, summarizeWeights, symmetricForm } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
-import { chooseAlgebra } from '../linalg/choose-algebra.js';
-import type { StartHelperThread } from '../linalg/sparse/index.js';
+import { chooseAlgebra } from '../linalg/index.js';
+import type { StartHelperThread } from '../linalg/index.js';
 import { fitSpatialError, fitSpatialLag, lagImpacts, recommendModel } from '../models/index.js';
 import type { Design, Impact, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';

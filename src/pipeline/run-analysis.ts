@@ -5,7 +5,7 @@ import {
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { chooseAlgebra } from '../linalg/choose-algebra.js';
+import { chooseAlgebra } from '../linalg/index.js';
 import {
   fitOls, fitSpatialLag, fitSpatialError, lagImpacts, recommendModel,
 } from '../models/index.js';

@@ -1,6 +1,6 @@
 import KDBush from 'kdbush';
 import { distance as greatCircleKm } from 'geokdbush';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { TreeSearch } from './tree-search.js';
 
 /** Earth radius used by geokdbush's distance (km). */

@@ -1,12 +1,18 @@
 /**
- * Exact ln|I − ρW| for a row-standardised W without a symmetric form (k-nearest neighbours) at
- * large n: multifrontal LU (Duff & Reid 1984, "The multifrontal solution of unsymmetric sets of
+ * Exact ln|I − ρW| for a nonnegative W without a symmetric form (k-nearest neighbours, binary or
+ * row-standardised; inverse distance without row standardisation): multifrontal LU (Duff & Reid 1984, "The multifrontal solution of unsymmetric sets of
  * linear equations") on the symmetric pattern of W + Wᵀ, with the same fill-reducing ordering and
  * symbolic analysis as the Cholesky factor (symbolic.ts), reused for every ρ. Each front is a full
  * m×m matrix; its leading k columns are eliminated, the Schur complement goes to the parent.
- * No pivoting is needed: for |ρ| < 1 and rows of W summing to one, I − ρW is strictly diagonally
- * dominant by rows, elimination keeps it so (every pivot is positive), and the growth factor stays
- * below 2 (Wilkinson 1961; Golub & Van Loan, Matrix Computations, §3.4.10) — so ln|I − ρW| = Σ ln u_jj.
+ * No pivoting is needed for |ρ| λmax < 1: with W ≥ 0, I − ρW is then a nonsingular M-matrix (ρ > 0)
+ * or has one as its comparison matrix (ρ < 0), i.e. an H-matrix: scaled by the Perron vector x
+ * (Wx = λmax x, x > 0) it is strictly diagonally dominant by rows, X⁻¹(I − ρW)X having off-diagonal
+ * row sums |ρ|λmax < 1. Gaussian elimination keeps an H-matrix an H-matrix, every pivot is positive
+ * and the growth stays bounded (Varga, Matrix Iterative Analysis, 2nd ed., §3.5; Golub & Van Loan,
+ * Matrix Computations, §3.4.10 for the diagonally dominant case) — so ln|I − ρW| = Σ ln u_jj. For
+ * row-stochastic W, x = 1 and λmax = 1: plain diagonal dominance. Below −1/λmax (the admissible
+ * range reaches down to 1/λmin) no such guarantee holds: the pivot check (PivotError) is the
+ * backstop, and the algebra then falls back to the dense LU with partial pivoting.
  * The factor of the last ρ is kept (up to 512 MB of it), so the traces and the reduced form at an
  * estimate found by exact evaluations are solved with it (two triangular solves each) rather than
  * iteratively.
@@ -48,7 +54,8 @@ export class SparseLuLogDet implements LogDeterminant {
   private keptRho = NaN;
   private keptLogdet = 0;
 
-  constructor(readonly w: CsrMatrix, opts: { coordinates?: { x: Float64Array; y: Float64Array } } = {}) {
+  /** `radius` bounds λmax (the Collatz–Wielandt maximum ratio; 1 for row-stochastic W), for the method text. */
+  constructor(readonly w: CsrMatrix, opts: { coordinates?: { x: Float64Array; y: Float64Array }; radius?: number } = {}) {
     const t0 = performance.now();
     const { pattern, lower, upper } = symmetricPattern(w);
     this.lower = lower;
@@ -75,7 +82,11 @@ export class SparseLuLogDet implements LogDeterminant {
     this.pos = new Int32Array(w.n);
     this.map = new Int32Array(Math.max(1, maxFront));
     this.symbolicSeconds = (performance.now() - t0) / 1000;
-    this.method = `exact, sparse LU of I − ρW without pivoting (rows of W sum to one, so I − ρW is diagonally dominant for |ρ| < 1; ` +
+    const r = opts.radius ?? 1;
+    const why = r === 1
+      ? 'rows of W sum to one, so I − ρW is diagonally dominant for |ρ| < 1'
+      : `W ≥ 0 with λmax ≤ ${r.toPrecision(6)}, so I − ρW is an H-matrix for |ρ| < ${(1 / r).toPrecision(6)}`;
+    this.method = `exact, sparse LU of I − ρW without pivoting (${why}; every pivot checked; ` +
       `multifrontal on the pattern of W + Wᵀ, nested dissection from ${useCoordinates ? 'area coordinates' : 'breadth-first level structures'}; ` +
       `one symbolic analysis reused for every ρ)`;
   }
