@@ -97,14 +97,20 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
     expect(estimated.describe()).toMatch(/solves with the sparse LU factor; standard errors/);
   });
 
-  it('serves the algebra above 1,500 areas when the rows of W sum to one; binary weights keep the Monte Carlo series', () => {
+  it('serves the algebra above 1,500 areas for row-standardised and for binary weights (W ≥ 0: an H-matrix for |ρ|λmax < 1)', () => {
     const g = randomKnn(1550, 6, 5);
     const alg = sparseAlgebra(g.w, null, { coordinates: { x: g.x, y: g.y } });
     expect(alg.logdet.method).toMatch(/exact, sparse LU/);
     expect(alg.logdet.accuracy).toMatch(/exact/);
     expect(alg.roughLogdet?.method).toMatch(/Monte Carlo/);
+    // binary k-nearest weights used to fall back to the series; now the exact LU serves them too,
+    // checked against the dense LU with partial pivoting (its own check: ml-matrix, above)
     const binary: CsrMatrix = { ...g.w, values: new Float64Array(g.w.values.length).fill(1) };
-    expect(sparseAlgebra(binary, null).logdet.method).toMatch(/Monte Carlo/);
+    const b = sparseAlgebra(binary, null);
+    expect(b.logdet.method).toMatch(/exact, sparse LU.*H-matrix for \|ρ\| < 0\.166667/);
+    expect(b.range.upper).toBeCloseTo(1 / 6, 14);
+    const denseLu = new DenseLuLogDet(binary);
+    for (const rho of [0.1, 0.16, -0.1]) expect(rel(b.logdet.evaluate(rho), denseLu.evaluate(rho))).toBeLessThan(1e-10);
   });
 
   it('gives the lag estimate of the dense LU at every step to 1e-7 (1,550 areas, 6 nearest neighbours)', () => {
