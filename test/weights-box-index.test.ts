@@ -1,4 +1,4 @@
-// The box index used by contiguity, checked directly against a brute-force scan of every box
+// The box index used by contiguity (flatbush behind a small adapter), checked directly against a brute-force scan of every box
 // (a mathematical identity: a box query returns exactly the boxes that meet the query rectangle).
 import { describe, expect, it } from 'vitest';
 import { BoxIndex } from '../src/weights/box-index.js';
