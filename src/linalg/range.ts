@@ -58,7 +58,7 @@ export function admissibleRange(w: CsrMatrix, opts: RangeOptions = {}): Admissib
     const r = maxAbsRowSum(w);
     return rangeFromEigenvalues(-r, r, `W has negative entries and no symmetric form: every eigenvalue has |λ| ≤ ${r.toPrecision(12)} (the largest absolute row sum), so the range (−1/${r.toPrecision(6)}, 1/${r.toPrecision(6)}) is safe but may be narrower than the true one`);
   }
-  const perron = opts.perron ?? perronRoot(w);
+  const perron = opts.perron ?? perronRoot(w, opts.shiftSolve);
   const maxText = perron.stochastic ? 'λmax = 1 (rows of W sum to one)' : `λmax ≤ ${perron.upper.toPrecision(12)} (${perron.method})`;
   if (!opts.shiftSolve) {
     return rangeFromEigenvalues(-perron.upper, perron.upper, `${maxText}; λmin taken as −λmax (no factor of I − ρW to find it with): every |λ| ≤ λmax (Perron–Frobenius), so the range is safe but may be narrower than the true one`);
@@ -162,39 +162,60 @@ export interface PerronRoot {
  * The Perron root of W ≥ 0 (its spectral radius, which is also its largest real eigenvalue;
  * Perron–Frobenius), bracketed by the Collatz–Wielandt ratios: for any x > 0,
  *   min_i (Wx)_i/x_i ≤ λmax ≤ max_i (Wx)_i/x_i
- * (Horn & Johnson, Matrix Analysis, 2nd ed., §8.1), the maximum ratio holding for every W ≥ 0. x is
- * power iteration on (W + I)/2 (the shift removes periodicity and keeps x > 0) until the bracket
- * closes to 1e-12 relative. Row-stochastic W: λmax = 1 exactly.
+ * (Horn & Johnson, Matrix Analysis, 2nd ed., §8.1; the maximum ratio bounds λmax for every W ≥ 0,
+ * the minimum only when W is irreducible). x comes from power iteration on (W + I)/2 (the shift
+ * removes periodicity and keeps x > 0); when that has not closed the bracket to 1e-12 and a solver
+ * is given, from inverse iteration with (I − ρ₁W)⁻¹, ρ₁ just below 1/(the bound so far): that
+ * inverse is ≥ I entrywise (a nonsingular M-matrix's inverse, Σ ρ₁ᵏWᵏ), so x stays positive, and it
+ * converges fast because 1 − ρ₁λmax is small. Row-stochastic W: λmax = 1 exactly.
  */
-export function perronRoot(w: CsrMatrix): PerronRoot {
+export function perronRoot(w: CsrMatrix, shiftSolve?: (rho: number, b: Float64Array) => Float64Array): PerronRoot {
   if (isRowStochastic(w)) return { upper: 1, lower: 1, stochastic: true, method: 'rows of W sum to one' };
   const n = w.n;
   let v = new Float64Array(n).fill(1);
   let next = new Float64Array(n);
-  let upper = Infinity, lower = 0, it = 0;
-  const maxIterations = 5000;
-  for (; it < maxIterations; it++) {
-    csrMultiply(w, v, next);
+  let upper = Infinity, lower = 0, powerSteps = 0, inverseSteps = 0;
+  const bracket = (x: Float64Array, wx: Float64Array): boolean => {
     let hi = 0, lo = Infinity;
     for (let i = 0; i < n; i++) {
-      const ratio = next[i] / v[i];
+      const ratio = wx[i] / x[i];
       if (ratio > hi) hi = ratio;
       if (ratio < lo) lo = ratio;
     }
     upper = Math.min(upper, hi);
     lower = Math.max(lower, lo);
-    if (upper - lower <= 1e-12 * upper) break;
+    return upper - lower <= 1e-12 * upper;
+  };
+  const powerLimit = shiftSolve ? 200 : 5000;
+  for (; powerSteps < powerLimit; powerSteps++) {
+    csrMultiply(w, v, next);
+    if (bracket(v, next)) break;
     let norm = 0;
     for (let i = 0; i < n; i++) { next[i] = 0.5 * (next[i] + v[i]); if (next[i] > norm) norm = next[i]; }
     for (let i = 0; i < n; i++) next[i] /= norm;
     const t = v; v = next; next = t;
   }
+  if (shiftSolve && !(upper - lower <= 1e-12 * upper)) {
+    let previous = upper;
+    for (; inverseSteps < 60; inverseSteps++) {
+      const x = shiftSolve(1 / (upper * (1 + 1e-4)), v);
+      let norm = 0;
+      for (let i = 0; i < n; i++) if (x[i] > norm) norm = x[i];
+      for (let i = 0; i < n; i++) v[i] = Math.max(x[i] / norm, 1e-300);
+      csrMultiply(w, v, next);
+      if (bracket(v, next)) break;
+      // a reducible W: the minimum ratio need not reach λmax; stop when the bound stops moving
+      if (inverseSteps >= 5 && previous - upper <= 1e-15 * upper) break;
+      previous = upper;
+    }
+  }
   const closed = upper - lower <= 1e-12 * upper;
+  const how = `${powerSteps + 1} power steps on (W + I)/2${inverseSteps > 0 ? ` and ${inverseSteps + 1} inverse-iteration steps with the LU` : ''}`;
   return {
     upper,
     lower,
     stochastic: false,
-    method: `Collatz–Wielandt bound after ${Math.min(it + 1, maxIterations)} power steps on (W + I)/2; the Perron root lies in [${lower.toPrecision(12)}, ${upper.toPrecision(12)}]${closed ? '' : ' (the bracket had not closed to 1e-12)'}`,
+    method: `Collatz–Wielandt bound after ${how}; the Perron root lies in [${lower.toPrecision(12)}, ${upper.toPrecision(12)}]${closed ? '' : ' (the lower end is loose: W is reducible or the iteration stopped first)'}`,
   };
 }
 

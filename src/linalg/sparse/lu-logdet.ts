@@ -31,7 +31,8 @@ export const SPARSE_LU_WORK_LIMIT = 4e10;
 export const KEPT_FACTOR_LIMIT = 6.4e7;
 
 export class SparseLuLogDet implements LogDeterminant {
-  readonly method: string;
+  private radius = 1;
+  private readonly how: string;
   readonly accuracy = 'exact (to rounding)';
   readonly symbolic: SymbolicFactor;
   /** multiply-adds per evaluation (k·m² summed over the fronts) */
@@ -54,8 +55,7 @@ export class SparseLuLogDet implements LogDeterminant {
   private keptRho = NaN;
   private keptLogdet = 0;
 
-  /** `radius` bounds λmax (the Collatz–Wielandt maximum ratio; 1 for row-stochastic W), for the method text. */
-  constructor(readonly w: CsrMatrix, opts: { coordinates?: { x: Float64Array; y: Float64Array }; radius?: number } = {}) {
+  constructor(readonly w: CsrMatrix, opts: { coordinates?: { x: Float64Array; y: Float64Array } } = {}) {
     const t0 = performance.now();
     const { pattern, lower, upper } = symmetricPattern(w);
     this.lower = lower;
@@ -82,13 +82,21 @@ export class SparseLuLogDet implements LogDeterminant {
     this.pos = new Int32Array(w.n);
     this.map = new Int32Array(Math.max(1, maxFront));
     this.symbolicSeconds = (performance.now() - t0) / 1000;
-    const r = opts.radius ?? 1;
+    this.how = `multifrontal on the pattern of W + Wᵀ, nested dissection from ${useCoordinates ? 'area coordinates' : 'breadth-first level structures'}; ` +
+      'one symbolic analysis reused for every ρ';
+  }
+
+  /** Names the bound on λmax (the Collatz–Wielandt maximum ratio; 1 for row-stochastic W) in the method text. */
+  describeRadius(radius: number): void {
+    this.radius = radius;
+  }
+
+  get method(): string {
+    const r = this.radius;
     const why = r === 1
       ? 'rows of W sum to one, so I − ρW is diagonally dominant for |ρ| < 1'
       : `W ≥ 0 with λmax ≤ ${r.toPrecision(6)}, so I − ρW is an H-matrix for |ρ| < ${(1 / r).toPrecision(6)}`;
-    this.method = `exact, sparse LU of I − ρW without pivoting (${why}; every pivot checked; ` +
-      `multifrontal on the pattern of W + Wᵀ, nested dissection from ${useCoordinates ? 'area coordinates' : 'breadth-first level structures'}; ` +
-      `one symbolic analysis reused for every ρ)`;
+    return `exact, sparse LU of I − ρW without pivoting (${why}; every pivot checked; ${this.how})`;
   }
 
   evaluate(rho: number): number {

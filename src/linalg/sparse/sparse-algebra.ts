@@ -150,11 +150,9 @@ const EXACT_TRACE_BUDGET = 1.5e8;
 function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: SparseOptions): SparseWeightsAlgebra {
   const n = w.n;
   const nonNegative = isNonNegative(w);
-  const perron = nonNegative ? perronRoot(w) : null;
-  const radius = perron ? perron.upper : maxAbsRowSum(w);
   let sparseLu: SparseLuLogDet | null = null;
   if (nonNegative) {
-    const lu = new SparseLuLogDet(w, { coordinates: opts.coordinates, radius });
+    const lu = new SparseLuLogDet(w, { coordinates: opts.coordinates });
     if (lu.work <= SPARSE_LU_WORK_LIMIT) sparseLu = lu;
   }
   const denseLu = n <= DENSE_LU_LIMIT ? new DenseLuLogDet(w) : null;
@@ -174,7 +172,9 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
   const exact: LogDeterminant | null = sparseLu || denseLu
     ? {
         evaluate: (rho: number) => withFallback(rho, sparseLu ? () => sparseLu!.evaluate(rho) : null, denseLu ? () => denseLu.evaluate(rho) : null),
-        method: sparseLu ? `${sparseLu.method}${denseLu ? '; where a pivot is not positive (ρ below −1/λmax), LU with partial pivoting of the dense I − ρW' : ''}` : denseLu!.method,
+        get method(): string {
+          return sparseLu ? `${sparseLu.method}${denseLu ? '; where a pivot is not positive (ρ below −1/λmax), LU with partial pivoting of the dense I − ρW' : ''}` : denseLu!.method;
+        },
         accuracy: 'exact (to rounding)',
       }
     : null;
@@ -186,6 +186,9 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
       }
     : null;
   const solve = direct ? (rho: number, b: Float64Array) => direct.solveBlock(rho, b, 1, new Float64Array(n)) : null;
+  const perron = nonNegative ? perronRoot(w, solve ?? undefined) : null;
+  const radius = perron ? perron.upper : maxAbsRowSum(w);
+  sparseLu?.describeRadius(radius);
   const range = admissibleRange(w, { ...(perron ? { perron } : {}), ...(solve && nonNegative ? { shiftSolve: solve } : {}), seed });
   // beside an exact log-determinant the series only brackets the maximum, which the exact
   // evaluations then polish: 8 probes do (the 32 that make it the log-determinant itself took 17 s
