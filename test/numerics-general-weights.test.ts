@@ -58,7 +58,7 @@ function inverseDistanceOf(g: { w: CsrMatrix; x: Float64Array; y: Float64Array }
 }
 
 describe('exact log-determinant of nonnegative weights without row standardisation', () => {
-  const g = randomKnn(300, 4, 31);
+  const g = randomKnn(200, 4, 31);
   for (const [label, w] of [['binary 4-nearest', binaryOf(g.w)], ['inverse distance on 4-nearest', inverseDistanceOf(g)]] as const) {
     it(`${label}: the sparse LU equals ml-matrix's dense LU to 1e-10 across the admissible range`, () => {
       const alg = sparseAlgebra(w, null);
