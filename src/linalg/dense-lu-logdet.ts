@@ -14,13 +14,12 @@ export class DenseLuLogDet implements LogDeterminant {
   readonly accuracy = 'exact (to rounding)';
   /** doubles of the factor (n²), for cost comparisons with the sparse factor */
   readonly factorSize: number;
-  private readonly a: Float64Array;
+  private storage: Float64Array | null = null;
   private readonly pivots: Int32Array;
   private keptRho = NaN;
   private keptLogdet = 0;
 
   constructor(readonly w: CsrMatrix) {
-    this.a = new Float64Array(w.n * w.n);
     this.pivots = new Int32Array(w.n);
     this.factorSize = w.n * w.n;
     this.method = `exact, LU with partial pivoting of the dense I − ρW at each ρ (${w.n} areas)`;
@@ -28,6 +27,11 @@ export class DenseLuLogDet implements LogDeterminant {
 
   evaluate(rho: number): number {
     return this.factorAt(rho);
+  }
+
+  /** n² doubles, allocated on first use (the sparse LU may never need this one). */
+  private get a(): Float64Array {
+    return (this.storage ??= new Float64Array(this.w.n * this.w.n));
   }
 
   /** Factors I − ρW (unless the kept factor is at ρ); returns ln|I − ρW| (−Infinity when singular). */

@@ -137,6 +137,9 @@ export const ONE_PROBE_DRAWS = 20000;
 /** Largest n for which the dense LU with partial pivoting backs up the sparse LU (or serves alone). */
 export const DENSE_LU_LIMIT = 1500;
 
+/** Multiply-adds of one exact evaluation above which a cheap series brackets the maximum first. */
+const ROUGH_WORTH = 2e7;
+
 /** n · (doubles of the factor) up to which traces come exactly from one solve per area. */
 const EXACT_TRACE_BUDGET = 1.5e8;
 
@@ -190,11 +193,24 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
   const radius = perron ? perron.upper : maxAbsRowSum(w);
   sparseLu?.describeRadius(radius);
   const range = admissibleRange(w, { ...(perron ? { perron } : {}), ...(solve && nonNegative ? { shiftSolve: solve } : {}), seed });
-  // beside an exact log-determinant the series only brackets the maximum, which the exact
+  // Beside an exact log-determinant the series only brackets the maximum, which the exact
   // evaluations then polish: 8 probes do (the 32 that make it the log-determinant itself took 17 s
-  // at 90,000 areas)
-  const series = new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius, ...(exact ? { probes: 8 } : {}) });
-  const logdet: LogDeterminant = exact ?? series;
+  // at 90,000 areas). Where one exact evaluation is cheap (under ROUGH_WORTH multiply-adds) the
+  // search uses the exact one throughout and no series is built.
+  const series = exact ? null : new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius });
+  const logdet: LogDeterminant = exact ?? series!;
+  const exactWork = sparseLu ? sparseLu.work : n ** 3 / 3;
+  let rough: SeriesLogDet | null = null;
+  const built = () => (rough ??= new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius, probes: 8 }));
+  // built when the search first asks for it
+  const roughLogdet: LogDeterminant | null = exact && exactWork > ROUGH_WORTH
+    ? {
+        evaluate: (rho: number) => built().evaluate(rho),
+        get method() { return built().method; },
+        get accuracy() { return built().accuracy; },
+        get domain() { return built().domain; },
+      }
+    : null;
   // above 20,000 areas 16 probes, as with the Cholesky factor (the standard errors are reported)
   const probes = opts.probes ?? (n > 20000 ? 16 : 48);
   const tracer = new GeneralTraces(w, { seed, probes, exactBudget: EXACT_TRACE_BUDGET, ...(direct ? { direct } : {}) });
@@ -206,7 +222,7 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
     range,
     lmTrace,
     cholesky: null,
-    ...(exact ? { roughLogdet: series } : {}),
+    ...(roughLogdet ? { roughLogdet } : {}),
     traces: (rho: number) => tracer.traces(rho),
     tracesExact: tracer.exact,
     ...(solve ? { solve } : {}),
