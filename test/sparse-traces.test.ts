@@ -130,9 +130,9 @@ describe('k-nearest neighbours (no symmetric form)', () => {
     expect(Math.abs(alg.range.lower - 1 / min)).toBeLessThan(1e-8);
     expect(alg.range.lower).toBeLessThan(-1); // wider than the (−1, 1) of the spectral radius
     expect(alg.range.upper).toBe(1);
-    // up to 1,500 areas the log-determinant is the exact dense LU; the series only brackets ρ
-    expect(alg.logdet.method).toMatch(/exact, LU/);
-    expect(alg.roughLogdet?.method).toMatch(/Monte Carlo/);
+    // the exact sparse LU, cheap enough at 300 areas that no series brackets ρ first
+    expect(alg.logdet.method).toMatch(/exact, sparse LU/);
+    expect(alg.roughLogdet).toBeUndefined();
   });
 });
 
