@@ -84,7 +84,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
       impacts: estimates(() => ({ d: NaN, i: NaN, t: NaN })),
       draws: 0,
       seed,
-      method: `point estimates at the fitted ρ and β only (${why}); tr(I − ρW)⁻¹ at ρ̂ ${algebra.traceMethod}`,
+      method: `not available (${why}); the estimates are at the fitted ρ and β, tr(I − ρW)⁻¹ at ρ̂ ${algebra.traceMethod}; no draws were made (seed ${seed} unused)`,
       warnings,
     };
   };

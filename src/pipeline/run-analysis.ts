@@ -178,7 +178,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     lap('local');
   }
 
-  const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(error?.warnings ?? [])];
+  const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(impacts?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }

@@ -194,8 +194,8 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
   sparseLu?.describeRadius(radius);
   const range = admissibleRange(w, { ...(perron ? { perron } : {}), ...(solve && nonNegative ? { shiftSolve: solve } : {}), seed });
   // Beside an exact log-determinant the series only brackets the maximum, which the exact
-  // evaluations then polish: 8 probes do (the 32 that make it the log-determinant itself took 17 s
-  // at 90,000 areas). Where one exact evaluation is cheap (under ROUGH_WORTH multiply-adds) the
+  // evaluations then polish: 8 probes do (32 make it the log-determinant itself, at four times the
+  // cost; bench/README.md). Where one exact evaluation is cheap (under ROUGH_WORTH multiply-adds) the
   // search uses the exact one throughout and no series is built.
   const series = exact ? null : new SeriesLogDet(w, { terms: opts.seriesTerms, seed, radius });
   const logdet: LogDeterminant = exact ?? series!;
