@@ -104,19 +104,5 @@ export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
   return { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) };
 }
 
-/** Position of entry (i, j) in colIdx, or -1; binary search since rows are sorted by column. */
-export function findEntry(m: CsrMatrix, i: number, j: number): number {
-  let lo = m.rowPtr[i];
-  let hi = m.rowPtr[i + 1] - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const c = m.colIdx[mid];
-    if (c === j) return mid;
-    if (c < j) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return -1;
-}
-
 /** One symmetry check for the engine, with one tolerance (src/linalg/csr.ts). */
 export { isSymmetric } from '../linalg/index.js';
