@@ -3,7 +3,9 @@
  *   npm run build:addin   → dist-addin/
  *   npm run serve         → https://localhost:3000 (office-addin-dev-certs); SPILLWAY_HTTP=1 for plain http
  * Output paths the manifest names (taskpane/index.html, functions.js, functions.json, assets/icon-*.png)
- * carry no content hash so the manifest can point at them.
+ * carry no content hash so the manifest can point at them. The dev server answers every one of them
+ * (functions.js too), with the headers a production host must send (README: "Deploying for your
+ * organisation").
  */
 import { defineConfig, type Plugin, type UserConfig } from 'vite';
 import { fileURLToPath } from 'node:url';
@@ -11,6 +13,7 @@ import { dirname, resolve } from 'node:path';
 
 const ROOT = dirname(fileURLToPath(import.meta.url));
 const FUNCTIONS_SOURCE = resolve(ROOT, 'functions/functions.ts');
+const FUNCTIONS_ENTRY = resolve(ROOT, 'functions/register.ts');
 
 /** The browser page sends nothing anywhere: every fetch, image and script comes from this origin. */
 export const PAGE_CSP = [
@@ -18,12 +21,32 @@ export const PAGE_CSP = [
   "connect-src 'self'", "worker-src 'self'", "object-src 'none'", "base-uri 'self'", "form-action 'none'",
 ].join('; ');
 
-/** The task pane must also load Office.js from Microsoft's script host (Office requires it). */
+/**
+ * Microsoft's hosts for Office.js: the current one, and the one its documentation announces as the new
+ * CDN ("Referencing the Office JavaScript API library": https://officeapis.public.onecdn.static.microsoft/1/office.js,
+ * part of the unified domain for Microsoft 365 apps and services). Office.js loads its own scripts,
+ * makes requests and opens its own frames (its error frame among them) from the host it came from.
+ */
+export const OFFICE_JS_HOSTS = ['https://appsforoffice.microsoft.com', 'https://officeapis.public.onecdn.static.microsoft'] as const;
+
+/** The task pane must also load Office.js from Microsoft's hosts (Office requires it), and nothing else from anywhere. */
 export const TASKPANE_CSP = [
-  "default-src 'self'", "script-src 'self' https://appsforoffice.microsoft.com", "style-src 'self' 'unsafe-inline'",
-  "img-src 'self' data: blob:", "font-src 'self'", "connect-src 'self' https://appsforoffice.microsoft.com",
+  "default-src 'self'", `script-src 'self' ${OFFICE_JS_HOSTS.join(' ')}`, "style-src 'self' 'unsafe-inline'",
+  "img-src 'self' data: blob:", "font-src 'self'", `connect-src 'self' ${OFFICE_JS_HOSTS.join(' ')}`, `frame-src ${OFFICE_JS_HOSTS.join(' ')}`,
   "worker-src 'self'", "object-src 'none'", "base-uri 'self'", "form-action 'none'",
 ].join('; ');
+
+/**
+ * Files Excel on the web fetches from its own origin (excel.officeapps.live.com and others), so they
+ * need Access-Control-Allow-Origin: the cell functions' metadata (and their script, for hosts that
+ * fetch it). Both are public and carry no credentials, so any origin may read them.
+ */
+export const CROSS_ORIGIN_PATHS = ['/functions.json', '/functions.js'] as const;
+
+function allowCrossOrigin(url: string | undefined): boolean {
+  const path = (url ?? '').split('?')[0];
+  return (CROSS_ORIGIN_PATHS as readonly string[]).includes(path);
+}
 
 /** The dev server injects each CSS module as a <style> element; only there are inline styles let through. */
 const DEV_PAGE_CSP = PAGE_CSP.replace("style-src 'self'", "style-src 'self' 'unsafe-inline'");
@@ -55,13 +78,49 @@ function cellFunctionMetadata(): Plugin {
   };
 }
 
-/** Content-Security-Policy as a response header too (the pages also carry it in a meta tag). */
+/**
+ * functions.js in the dev server: the manifest's Script element names it, and the build has it, so the
+ * dev server answers it too, as one self-contained classic script (bundled on first request, again
+ * after a source file changes).
+ */
+function devFunctionsScript(): Plugin {
+  const bundle = async (): Promise<string> => {
+    const { build } = await import('vite');
+    const result = await build({
+      configFile: false, root: ROOT, logLevel: 'silent',
+      resolve: { alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }] },
+      plugins: [noDynamicCode()],
+      build: { write: false, minify: false, target: 'es2022', lib: { entry: FUNCTIONS_ENTRY, formats: ['iife'], name: 'spillwayFunctions', fileName: () => 'functions.js' } },
+    });
+    const output = (Array.isArray(result) ? result[0] : result) as { output: { code?: string }[] };
+    return output.output[0].code ?? '';
+  };
+  return {
+    name: 'spillway-dev-functions-script',
+    apply: 'serve',
+    configureServer(server) {
+      let cached: Promise<string> | null = null;
+      server.watcher.on('change', () => { cached = null; });
+      server.middlewares.use('/functions.js', (_req, res, next) => {
+        cached ??= bundle();
+        cached.then((code) => { res.setHeader('Content-Type', 'text/javascript; charset=utf-8'); res.end(code); }, (e) => { cached = null; next(e); });
+      });
+    },
+  };
+}
+
+/**
+ * Content-Security-Policy as a response header too (the pages also carry it in a meta tag), and
+ * Access-Control-Allow-Origin for the files Excel on the web fetches cross-origin.
+ */
 function securityHeaders(): Plugin {
   const use = (mw: { use: (fn: (req: { url?: string }, res: { setHeader(k: string, v: string): void }, next: () => void) => void) => void }, dev: boolean) =>
     mw.use((req, res, next) => {
       const csp = cspFor(req.url ?? '', dev);
       if (csp) res.setHeader('Content-Security-Policy', csp);
       res.setHeader('X-Content-Type-Options', 'nosniff');
+      // a plain GET (no preflight), so the one header is all the browser needs
+      if (allowCrossOrigin(req.url)) res.setHeader('Access-Control-Allow-Origin', '*');
       next();
     });
   return {
@@ -129,7 +188,7 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
     resolve: {
       alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
     },
-    plugins: [cellFunctionMetadata(), securityHeaders(), noDynamicCode()],
+    plugins: [securityHeaders(), cellFunctionMetadata(), devFunctionsScript(), noDynamicCode()],
     worker: {
       format: 'es',
       plugins: () => [noDynamicCode()],
@@ -145,7 +204,7 @@ export default defineConfig(async ({ command }): Promise<UserConfig> => {
           taskpane: resolve(ROOT, 'taskpane/index.html'),
           page: resolve(ROOT, 'page/index.html'),
           help: resolve(ROOT, 'help/index.html'),
-          functions: resolve(ROOT, 'functions/register.ts'),
+          functions: FUNCTIONS_ENTRY,
         },
         output: {
           entryFileNames: (chunk) => (chunk.name === 'functions' ? 'functions.js' : 'assets/[name]-[hash].js'),

@@ -1,6 +1,7 @@
 /**
  * `npm run demo`: the whole job on the invented Vell Basin sample — districts joined to their
- * polygons, queen neighbours, all three models, the results workbook — then the villages sample
+ * polygons, queen neighbours, all three models, local statistics, a rate built from counts
+ * (`--rate falls_per_1000=fall_admissions/residents_70plus`), the results workbook — then the villages sample
  * with 5-nearest neighbours. Prints a short summary, how well the simulated parameters came back,
  * and the output paths.
  */
@@ -34,7 +35,9 @@ const demos: Demo[] = [
     boundary: 'vell-basin-districts.geojson', data: 'vell-basin.xlsx', sheet: 'Districts', id: 'district_id',
     truth: 'vell-basin-truth.json', out: 'vell-basin-results.xlsx', parameter: 'lag',
     request: { y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'], weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag', 'error'], compareWeights: 'suggested',
-      local: { statistics: ['moran', 'gistar'], of: 'clinic_wait_days' } },
+      local: { statistics: ['moran', 'gistar'], of: 'clinic_wait_days' },
+      // the Rates sheet: fall admissions per 1,000 residents aged 70+, with a few very small districts among large ones
+      rates: { recipes: [{ name: 'falls_per_1000', events: 'fall_admissions', population: 'residents_70plus', per: 1000 }], smoothing: 'local' } },
   },
   {
     title: 'Vell Basin villages: new small businesses per 1,000 residents',
@@ -61,6 +64,10 @@ async function runDemo(d: Demo): Promise<void> {
   console.log(`  Residual Moran's I ${result.ols.moran.I.toFixed(3)} (p ${result.ols.moran.p.toPrecision(2)}); ${result.ols.recommendation.text}`);
   console.log(recovered(result, d.parameter, truth));
   if (result.local?.results.moran && truth.planted_clusters) console.log(foundClusters(result, truth.planted_clusters));
+  for (const r of result.rates ?? []) {
+    const flagged = r.areas.filter((a) => a.flagged).length;
+    console.log(`  Rate ${r.name}: ${flagged} of ${r.areas.length} areas flagged for few events; Moran's I of the raw rate ${r.moranRaw.I.toFixed(3)}, rate-adjusted ${r.ebMoran.I.toFixed(3)} (sheet "Rates")`);
+  }
   console.log(`  Results workbook: ${relative(process.cwd(), outPath)}`);
 }
 

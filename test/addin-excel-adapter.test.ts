@@ -117,10 +117,10 @@ describe('writing the report (Columbus data, Anselin 1988)', () => {
     expect(header).toBeGreaterThan(0);
     const links = grid.values.slice(header + 1).filter((r) => typeof r[2] === 'number');
     expect(links).toHaveLength(236);
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.value).toBe(String(links[0][0]));
+    expect(excel.cellAt(nbName, header + 1, 0)?.value).toBe(String(links[0][0]));
     // IDs are written as text; weights with four decimals
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},0`)?.format).toBe('@');
-    expect(excel.sheet(nbName)!.cells.get(`${header + 1},2`)?.format).toBe('0.0000');
+    expect(excel.cellAt(nbName, header + 1, 0)?.format).toBe('@');
+    expect(excel.cellAt(nbName, header + 1, 2)?.format).toBe('0.0000');
   });
 
   it('inserts the maps as pictures and the Moran scatter as a chart whose points are on the sheet', async () => {
@@ -138,7 +138,7 @@ describe('writing the report (Columbus data, Anselin 1988)', () => {
     expect(chart.trendlines).toEqual(['Linear']);
     // With row-standardised weights the scatter's least-squares slope is Moran's I (Anselin 1996).
     expect(scatter.slope).toBeCloseTo(result.moranY.I, 10);
-    const firstPoint = summary.cells.get(`${chart.source.row + 1},${chart.source.col}`);
+    const firstPoint = summary.cells.get(chart.source.row + 1, chart.source.col);
     expect(firstPoint?.value).toBeCloseTo(scatter.z[0], 12);
   });
 
@@ -187,5 +187,38 @@ describe('what the workbook keeps for the next run', () => {
     expect(back!.map((f) => f.name)).toEqual(['columbus.shp', 'columbus.dbf']);
     expect(Buffer.from(back![0].bytes).equals(Buffer.from(shp))).toBe(true);
     expect(Buffer.from(back![1].bytes).equals(Buffer.from(dbf))).toBe(true);
+  });
+});
+
+describe('writing the Rates sheet through Office.js (North Carolina counties, test/fixtures/sids, r-cran-spdata CC0)', () => {
+  it('writes the same blocks as the .xlsx writer, with the side-by-side maps as one picture, and withheld cells empty', async () => {
+    const { parseRateRecipe } = await import('../src/pipeline/index.js');
+    const { scatterPoints } = await import('../src/report/index.js');
+    const sids = join(ROOT, 'test/fixtures/sids');
+    const boundary = ['sids.shp', 'sids.shx', 'sids.dbf'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(sids, name))) }));
+    const r = await runAnalysis({
+      boundary, id: 'FIPS', y: 'sids', x: ['NWBIR74'], weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+      rates: { recipes: [parseRateRecipe('sids=SID74/BIR74', 1000)], smoothing: 'global', withholdFlagged: true },
+    });
+    const rep = buildReport(r, { renderPng: () => PNG_STUB });
+    const d = scatterPoints(r);
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const names = await new ExcelAdapter(excel.run).writeReport({ report: rep, scatter: { valueName: 'sids', z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope } });
+    const index = rep.sheets.findIndex((s) => s.role === 'rates');
+    expect(names[index]).toBe('Rates');
+    const written = excel.sheet('Rates')!;
+    expect(written.shapes).toHaveLength(1);
+    expect(written.shapes[0].altTextDescription).toMatch(/raw rate and global empirical-Bayes rate, side by side/);
+    const grid = sheetGrid(rep.sheets[index]);
+    const header = grid.values.findIndex((row) => row[0] === 'Area ID');
+    const flagged = r.rates![0].areas.map((a) => a.flagged);
+    flagged.forEach((f, i) => {
+      const raw = written.cells.get(header + 1 + i, 4)?.value;
+      if (f) expect(raw ?? null).toBeNull();
+      else expect(raw).toBeCloseTo(r.rates![0].areas[i].rate, 12);
+    });
+    // the withheld areas' points are not on the chart's data either
+    expect(d.z.length).toBe(flagged.filter((f) => !f).length);
   });
 });

@@ -22,6 +22,23 @@ describe('spillway fit --rate', () => {
     expect(Object.keys(r.areas[0])).toEqual(['id', 'rate', 'flagged', 'ebGlobal', 'ebLocal', 'neighbourhood']);
     expect(out.question.y).toBe("sids");
   });
+  it('--withhold-flagged says in the JSON which areas the workbook leaves blank, and takes the standardised rates to the local statistics', () => {
+    const run = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'sids', '--x', 'NWBIR74', '--models', 'ols',
+      '--rate', 'sids=SID74/BIR74', '--withhold-flagged', '--permutations', '0', '--local', 'moran', '--local-of', 'rate:sids', '--json']);
+    expect(run.code, run.stderr).toBe(0);
+    const out = JSON.parse(run.stdout);
+    const r = out.rates.sids;
+    expect(r.withholdFlagged).toBe(true);
+    // the flag's rule of thumb (fewer than 20 events; common practice) decides who is withheld
+    expect(r.withheldInWorkbook).toEqual(r.areas.filter((a: { flagged: boolean }) => a.flagged).map((a: { id: string }) => a.id));
+    expect(r.withheldInWorkbook.length).toBeGreaterThan(0);
+    expect(r.moranOfRawRate).toMatchObject({ permutations: 0 });
+    expect(out.local.moran.of).toBe('rate:sids');
+    expect(out.local.moran.variable).toBe('sids, standardised by empirical Bayes');
+    const stray = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'SID74', '--x', 'NWBIR74', '--withhold-flagged']);
+    expect(stray.code).toBe(2);
+    expect(stray.stderr).toMatch(/--withhold-flagged goes with --rate/);
+  });
   it('refuses a malformed recipe and a stray --smooth on one line', () => {
     const bad = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'sids', '--x', 'NWBIR74', '--rate', 'SID74/BIR74']);
     expect(bad.code).toBe(2);

@@ -218,6 +218,61 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(await page.getByText(/had more areas tied .*lowest row were taken/).count()).toBe(0);
   });
 
+  it('builds a rate from two columns, models its smoothed form, withholds the flagged districts and writes the Rates sheet', async () => {
+    await page.goto(`${origin}/page/index.html`);
+    await page.evaluate(() => (globalThis as any).localStorage.clear()); // no setup carried over from the runs above
+    await page.reload();
+    await page.setInputFiles('#data-file', XLSX);
+    await page.getByText(/"Districts": 150 rows/).waitFor();
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    // a name the table already uses is refused inline
+    await page.fill('#rate-name', 'population');
+    await page.click('#rate-add');
+    await page.getByText(/already has a column called population/).waitFor();
+    await page.fill('#rate-name', 'falls_per_1000');
+    await page.selectOption('#rate-events', 'fall_admissions');
+    await page.selectOption('#rate-population', 'residents_70plus');
+    await page.selectOption('#rate-per', '1000');
+    await page.click('#rate-add');
+    await page.getByText(/falls_per_1000 = fall_admissions per 1,000 residents_70plus/).waitFor();
+    await page.selectOption('#rate-smoothing', 'local');
+    await page.click('#rate-withhold');
+    await page.selectOption('#y-column', 'falls_per_1000');
+    await page.click('#x-broadband_pct');
+    await page.click('#local-on');
+    await page.selectOption('#local-of', 'rate:falls_per_1000');
+    const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    await page.locator('#rate-builder').screenshot({ path: join(shots, 'browser-page-rate-builder.png') });
+
+    const download = page.waitForEvent('download', { timeout: 45_000 });
+    await page.click('#run');
+    const saved = join(out, 'rates.xlsx');
+    await (await download).saveAs(saved);
+    await page.getByText(/new sheets after your own/).waitFor();
+    expect(await page.locator('.rate-maps img').count()).toBe(1);
+
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(readFileSync(saved) as unknown as ArrayBuffer);
+    const rates = wb.getWorksheet('Rates')!;
+    expect(rates, wb.worksheets.map((w) => w.name).join(', ')).toBeDefined();
+    expect(rates.getImages().length).toBe(1);
+    // the sample's eight very small new-build districts (vell-basin-truth.json) rest on few events: withheld
+    const truth = JSON.parse(readFileSync(TRUTH, 'utf8')) as { rates_example: { small_districts: string[] } };
+    const found = new Map<string, unknown[]>();
+    rates.eachRow((row) => { const id = String(row.getCell(1).value ?? ''); if (/^VB-\d{3}$/.test(id)) found.set(id, (row.values as unknown[]).slice(1)); });
+    expect(found.size).toBe(150);
+    for (const id of truth.rates_example.small_districts) {
+      const cells = found.get(id)!;
+      expect(cells[8], id).toBe('yes, withheld');
+      expect(cells[4] ?? null, id).toBeNull(); // the raw rate is blank
+    }
+    const record = wb.getWorksheet('How this was made')!;
+    let withheld = '';
+    record.eachRow((row) => { if (row.getCell(1).value === 'Flagged areas withheld in this workbook') withheld = String(row.getCell(2).value); });
+    expect(withheld).toMatch(/^yes/);
+  }, 60_000);
+
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {
     expect(foreignRequests).toEqual([]);
     expect(problems).toEqual([]);

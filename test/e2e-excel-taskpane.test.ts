@@ -48,7 +48,11 @@ async function officeStandIn(rows: unknown[][]): Promise<string> {
     w.__excel = excel;
     w.__associated = associated;
     w.Excel = { run: excel.run };
-    w.Office = { onReady: (cb: (info: unknown) => void) => Promise.resolve().then(() => cb({ host: 'Excel', platform: 'PC' })) };
+    w.Office = {
+      onReady: (cb: (info: unknown) => void) => Promise.resolve().then(() => cb({ host: 'Excel', platform: 'PC' })),
+      // ExcelApi 1.11 is there: the pane asks Excel to hold its batches during a cell edit
+      context: { requirements: { isSetSupported: (name: string, version: string) => name === 'ExcelApi' && Number(version.split('.')[1]) <= 11 } },
+    };
     w.CustomFunctions = {
       associate: (id: string) => { associated.push(id); },
       Error: class extends Error { constructor(readonly code: string, message?: string) { super(message); } },
@@ -91,7 +95,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
   it('reads the active sheet, runs, and writes the report sheets, map pictures and a scatter chart into the workbook', async () => {
     await page.goto(`${origin}/taskpane/index.html`);
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
-    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR']);
+    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR', 'RATEGLOBAL', 'RATELOCAL', 'RATEMORAN']);
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
@@ -109,6 +113,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
         settings: [...x.settings.keys()],
         parts: x.xmlParts.length,
         active: x.active,
+        delayed: x.runOptions.every((o: any) => o.delayForCellEdit === true),
       };
     });
     expect(state.names[0]).toBe('Districts');
@@ -121,6 +126,7 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     expect(state.settings).toEqual(['spillway.setup']);
     expect(state.parts).toBe(1); // the boundary file, kept in the workbook
     expect(state.active).toBe('Summary');
+    expect(state.delayed).toBe(true); // every batch asked Excel to wait out a cell edit
     expect(problems).toEqual([]);
     if (process.env.SPILLWAY_SCREENSHOTS === '1') {
       await page.mouse.move(0, 0);
@@ -140,6 +146,24 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     expect(await page.evaluate(() => document.querySelector('#model-lag').checked)).toBe(true);
     await page.click('#run');
     await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    expect(problems).toEqual([]);
+  }, 60_000);
+
+  it('says plainly when the boundary file could not be kept in the workbook, after writing the results', async () => {
+    await page.evaluate(() => sessionStorage.removeItem('seed'));
+    await page.reload();
+    await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    // Excel refuses to store the custom XML part
+    await page.evaluate(() => { window.__excel.failWhen = (c: any) => c.kind === 'addXmlPart'; });
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    await page.click('#run');
+    await page.getByText(/The results are on \d+ new sheets/).waitFor({ timeout: 45_000 });
+    await page.getByText(/The boundary file \(vell-basin-districts\.geojson\) was not kept in this workbook: Excel refused to store it/).waitFor();
+    expect(await page.getByText(/Keep the file beside the workbook to run again/).count()).toBe(1);
+    expect(await page.evaluate(() => window.__excel.xmlParts.length)).toBe(0);
+    if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'boundary-not-kept.png'), fullPage: true });
     expect(problems).toEqual([]);
   }, 60_000);
 });

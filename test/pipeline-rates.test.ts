@@ -21,7 +21,7 @@ describe('rates in the pipeline', () => {
     expect(r.areas[0].rate).toBeCloseTo(10, 12);
     expect(Array.from(r.modelled)).toEqual(r.areas.map((a) => a.ebLocal));
     const json = rateToJson(r) as { areas: { id: string }[]; ebMoran: { permutations: number; seed: number } };
-    expect(Object.keys(json)).toEqual(['events', 'population', 'per', 'flagRule', 'smoothing', 'ebMoran', 'areas']);
+    expect(Object.keys(json)).toEqual(['events', 'population', 'per', 'flagRule', 'smoothing', 'ebMoran', 'areas', 'moranOfRawRate', 'withholdFlagged', 'withheldInWorkbook']);
     expect(json.areas.map((a) => a.id)).toEqual(ids);
     expect(json.ebMoran).toMatchObject({ permutations: 99, seed: 4 });
   });
@@ -44,7 +44,7 @@ describe('a run with a rate (North Carolina counties, test/fixtures/sids, r-cran
   it('models the chosen smoothed rate and keeps the recipe in the run record', () => {
     const r = result.rates![0];
     expect(Array.from(r.modelled)).toEqual(r.areas.map((a) => a.neighbourhood));
-    expect(result.request.rates).toEqual({ recipes: [{ name: 'sids', events: 'SID74', population: 'BIR74', per: 1000 }], smoothing: 'neighbourhood' });
+    expect(result.request.rates).toEqual({ recipes: [{ name: 'sids', events: 'SID74', population: 'BIR74', per: 1000 }], smoothing: 'neighbourhood', withholdFlagged: false });
     const record = JSON.stringify(buildReport(result).sheets.find((s) => s.role === 'record'));
     expect(record).toContain('SID74 / BIR74 per 1000; modelled as the neighbourhood smoothed rate');
   });

@@ -201,7 +201,7 @@ describe('district attributes follow the stated spatial lag process', () => {
   beforeAll(async () => ({ header, rows } = await sheetRecords(join(committed, 'vell-basin.xlsx'), 'Districts')));
 
   it('has the documented columns, one row per district, numbers as numbers', () => {
-    expect(header).toEqual(['district_id', 'district_name', 'long_commute_pct', 'broadband_pct', 'rail_km', 'rent_index', 'population', 'clinic_wait_days']);
+    expect(header).toEqual(['district_id', 'district_name', 'long_commute_pct', 'broadband_pct', 'rail_km', 'rent_index', 'population', 'clinic_wait_days', 'residents_70plus', 'fall_admissions']);
     expect(rows.length).toBe(truth.n);
     rows.forEach((r, i) => {
       expect(r.district_id).toBe(gj.features[i].properties.district_id);
@@ -234,6 +234,25 @@ describe('district attributes follow the stated spatial lag process', () => {
     expect(sampleSd(e)).toBeLessThan(1.25 * sigma);
     // The recovered noise matches the realised draw the generator recorded (outcome rounding is 0.01).
     expect(Math.abs(sampleSd(e) - truth.realised_errors.sd)).toBeLessThan(0.01);
+  });
+
+  it('the rates example: whole counts within their populations, a few very small districts, counts around the stated rate', () => {
+    const ex = truth.rates_example;
+    const small = new Set(ex.small_districts);
+    expect(small.size).toBe(8);
+    let expected = 0, observed = 0;
+    rows.forEach((r, i) => {
+      const d = r.fall_admissions as number, n = r.residents_70plus as number;
+      expect(Number.isInteger(d) && Number.isInteger(n)).toBe(true);
+      expect(d).toBeGreaterThanOrEqual(0);
+      expect(d).toBeLessThanOrEqual(n);
+      expect(n).toBeLessThanOrEqual(r.population as number);
+      if (small.has(r.district_id)) { expect(n).toBeGreaterThanOrEqual(30); expect(n).toBeLessThanOrEqual(150); } else expect(n).toBeGreaterThan(150);
+      expected += (n * ex.underlying_rate_per_1000[i]) / 1000;
+      observed += d;
+    });
+    // Poisson counts: the total lies within 3 standard errors (√expected) of its expectation (common practice)
+    expect(Math.abs(observed - expected)).toBeLessThan(3 * Math.sqrt(expected));
   });
 
   it('the About sheet says the data are invented and states the parameters', async () => {

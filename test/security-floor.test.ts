@@ -47,7 +47,10 @@ const DYNAMIC_CODE = /(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/;
  * - https://appsforoffice.microsoft.com/lib/1/hosted/office.js: Office.js, which Office requires a
  *   task pane to load from Microsoft's host (allowed in the task pane and help pages only, and in
  *   their CSP; never in the browser page);
- *   The task pane's CSP names the bare origin https://appsforoffice.microsoft.com for the same reason.
+ *   The task pane's CSP names the bare origin https://appsforoffice.microsoft.com for the same reason,
+ *   and the bare origin https://officeapis.public.onecdn.static.microsoft, the new host Microsoft
+ *   announces for Office.js ("Referencing the Office JavaScript API library"), for scripts, requests
+ *   and Office's own frames (addin/vite.config.ts, OFFICE_JS_HOSTS).
  * - XML namespace names (schemas.openxmlformats.org, schemas.microsoft.com, www.w3.org, purl.org):
  *   identifiers written inside .xlsx parts and SVG, never fetched.
  * - In script bundles only: licence notes and error-message links of the bundled libraries (the
@@ -58,7 +61,7 @@ const DYNAMIC_CODE = /(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/;
  */
 const NAMESPACE = /^https?:\/\/(schemas\.openxmlformats\.org|schemas\.microsoft\.com|www\.w3\.org|purl\.org)\//;
 const OWN_ORIGIN = /^https:\/\/localhost:3000(\/|$)/;
-const OFFICE_JS = /^https:\/\/appsforoffice\.microsoft\.com(\/lib\/1\/hosted\/office\.js)?$/;
+const OFFICE_JS = /^https:\/\/(appsforoffice\.microsoft\.com(\/lib\/1\/hosted\/office\.js)?|officeapis\.public\.onecdn\.static\.microsoft(\/1\/office\.js)?)$/;
 const LIBRARY_NOTES = /^https?:\/\/(github\.com|raw\.github\.com|feross\.org|stuartk\.com|stuk\.github\.io|rolldown\.rs)(\/|$)/;
 /** A script asking for a literal address: fetch, XMLHttpRequest.open, sendBeacon, WebSocket, EventSource, import(). */
 const LITERAL_REQUEST = /(?:fetch|\.open|sendBeacon|WebSocket|EventSource|import)\s*\(\s*(?:["'`][A-Z]+["'`]\s*,\s*)?["'`]https?:\/\//;
@@ -121,7 +124,7 @@ function checkCsp(path: string): void {
   expect(csp).toMatch(/object-src 'none'/);
   expect(csp).not.toMatch(/unsafe-eval/);
   expect(csp).not.toMatch(/(^|\s)\*(\s|;|$)/);
-  if (/(^|[\\/])page[\\/]/.test(relative(ROOT, path))) expect(csp).not.toMatch(/microsoft\.com/);
+  if (/(^|[\\/])page[\\/]/.test(relative(ROOT, path))) expect(csp).not.toMatch(/microsoft\.com|\.microsoft(\s|;|$)/);
 }
 
 describe('add-in sources', () => {

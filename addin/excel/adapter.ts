@@ -1,20 +1,25 @@
 /**
  * The one place that touches Office.js. Reads the active sheet's table, writes the report as new
- * sheets (one batch and one sync per sheet), inserts the maps as pictures and the Moran scatter as
- * a native chart, and keeps the setup (document settings) and the boundary files (a custom XML part)
- * in the workbook. If any write fails, the sheets this run added are deleted again.
+ * sheets, inserts the maps as pictures and the Moran scatter as a native chart, and keeps the setup
+ * (document settings) and the boundary files (custom XML parts) in the workbook. Every read and write
+ * goes in row blocks small enough for Excel on the web's 5 MB per request and response (blocks.ts).
+ * If any write fails, the sheets this run added are deleted again.
  */
 import { InputError } from '../../src/errors.js';
 import type { Report, ReportImage, ReportSheet } from '../../src/report/index.js';
 import { uniqueSheetName } from '../../src/workbook/sheet-names.js';
 import type { BoundaryFile, RunOutput, SavedSetup, ScatterPoints, SheetValue, TableSnapshot } from '../shared/types.js';
-import type { ContextLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
-import { BOUNDARY_NAMESPACE, boundaryPartXml, readBoundaryPart } from './boundary-part.js';
+import type { ContextLike, CustomXmlPartLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
+import { RequestBudget, readRows, writeRows } from './blocks.js';
+import { BOUNDARY_NAMESPACE, BoundaryNotKept, boundaryParts, readBoundaryParts } from './boundary-part.js';
+import { describe, isCellEditError, jsonBytes } from './limits.js';
 import { address, columnLeft, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
 
 export const SETUP_KEY = 'spillway.setup';
 const PX_TO_POINTS = 0.75;
 const SCATTER_PICTURE = 'Moran scatter plot';
+/** Times a sheet is written again after a cell edit interrupted it (only where Excel cannot hold batches). */
+const REWRITES_AFTER_CELL_EDIT = 3;
 
 const STYLE: Record<CellStyle, { bold?: boolean; italic?: boolean; size?: number; color?: string; fill?: string; wrap?: boolean }> = {
   title: { bold: true, size: 14, color: '#1B4470' },
@@ -36,17 +41,9 @@ function plainCell(v: unknown): SheetValue {
   return String(v);
 }
 
-/** Message of an Office error (OfficeExtension.Error carries a code) or any other. */
-function describe(e: unknown): string {
-  if (e instanceof Error) {
-    const code = (e as { code?: unknown }).code;
-    return typeof code === 'string' && code && !e.message.includes(code) ? `${e.message} (${code})` : e.message;
-  }
-  return String(e);
-}
-
 export class ExcelAdapter {
-  constructor(private readonly run: ExcelRunner) {}
+  /** `maxBoundaryChars`: the largest boundary kept in the workbook (boundary-part.ts; tests pass a small one) */
+  constructor(private readonly run: ExcelRunner, private readonly options: { maxBoundaryChars?: number } = {}) {}
 
   /** The first table on the active sheet, or else its used range: the header row and the rows below. */
   async readActiveTable(): Promise<TableSnapshot> {
@@ -56,12 +53,12 @@ export class ExcelAdapter {
       ws.tables.load('items/name');
       await context.sync();
       const range: RangeLike = ws.tables.items.length > 0 ? ws.tables.items[0].getRange() : ws.getUsedRangeOrNullObject(true);
-      range.load(['values', 'rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
+      range.load(['rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
       await context.sync();
       if (range.isNullObject || range.rowCount === 0) {
         throw new InputError(`The sheet "${ws.name}" is empty. Open the sheet that holds one row per area, with column names in the first row.`);
       }
-      const values = range.values.map((row) => row.map(plainCell));
+      const values = (await readRows(context, ws, range.rowIndex, range.columnIndex, range.rowCount, range.columnCount)).map((row) => row.map(plainCell));
       let head = 0;
       while (head < values.length && values[head].every((c) => c === null)) head++;
       if (head === values.length) throw new InputError(`The sheet "${ws.name}" has no values.`);
@@ -75,7 +72,7 @@ export class ExcelAdapter {
         rowNumbers.push(range.rowIndex + r + 1);
       }
       return { sheet: ws.name, headerRow: range.rowIndex + head + 1, firstColumn: range.columnIndex + 1, headers, rows, rowNumbers };
-    });
+    }, { repeatable: true });
   }
 
   /** Selects a cell so the analyst sees the value at fault. */
@@ -87,11 +84,11 @@ export class ExcelAdapter {
       ws.activate();
       ws.getRange(cell).select();
       await context.sync();
-    });
+    }, { repeatable: true });
   }
 
   /**
-   * Writes every report sheet as a new sheet, one batch each. On the first failure the sheets this
+   * Writes every report sheet as a new sheet, in row blocks. On the first failure the sheets this
    * call added are deleted and the error is passed on with the sheet it happened on.
    */
   async writeReport(output: Pick<RunOutput, 'report' | 'scatter'>): Promise<string[]> {
@@ -99,32 +96,47 @@ export class ExcelAdapter {
       context.workbook.worksheets.load('items/name');
       await context.sync();
       return context.workbook.worksheets.items.map((w) => w.name);
-    });
+    }, { repeatable: true });
     const taken = new Set(existing.map((n) => n.toLowerCase()));
     const created: string[] = [];
     let current = '';
     try {
       for (const sheet of output.report.sheets) {
         current = uniqueSheetName(sheet.name, taken);
-        const name = current;
-        await this.run(async (context) => {
-          const ws = context.workbook.worksheets.add(name);
-          created.push(name);
-          const grid = sheetGrid(sheet);
-          writeGrid(ws, grid);
-          writePictures(ws, grid, sheet, sheet.role === 'overview' ? output.scatter : undefined);
-          await context.sync();
-        });
+        const scatter = sheet.role === 'overview' ? output.scatter : undefined;
+        for (let attempt = 1; ; attempt++) {
+          try {
+            await this.writeSheet(current, sheet, scatter, created);
+            break;
+          } catch (e) {
+            // Excel without delayForCellEdit refused a block half-way through the sheet: write it again
+            if (!isCellEditError(e) || attempt > REWRITES_AFTER_CELL_EDIT) throw e;
+            await this.removeSheets([current]);
+            created.splice(created.indexOf(current), 1);
+          }
+        }
       }
       await this.run(async (context) => {
         context.workbook.worksheets.getItemOrNullObject(created[0]).activate();
         await context.sync();
-      }).catch(() => undefined);
+      }, { repeatable: true }).catch(() => undefined);
       return created;
     } catch (e) {
       await this.removeSheets(created);
       throw new Error(`Writing the results stopped at the sheet "${current}": ${describe(e)}. The sheets this run had added were removed again.`);
     }
+  }
+
+  private async writeSheet(name: string, sheet: ReportSheet, scatter: ScatterPoints | undefined, created: string[]): Promise<void> {
+    await this.run(async (context) => {
+      const ws = context.workbook.worksheets.add(name);
+      if (!created.includes(name)) created.push(name);
+      const budget = new RequestBudget(context);
+      const grid = sheetGrid(sheet);
+      await writeGrid(budget, ws, grid);
+      await writePictures(budget, ws, grid, sheet, scatter);
+      await budget.flush();
+    });
   }
 
   private async removeSheets(names: readonly string[]): Promise<void> {
@@ -134,14 +146,14 @@ export class ExcelAdapter {
       await context.sync();
       for (const ws of sheets) if (!ws.isNullObject) ws.delete();
       await context.sync();
-    });
+    }, { repeatable: true });
   }
 
   async saveSetup(setup: SavedSetup): Promise<void> {
     await this.run(async (context) => {
       context.workbook.settings.add(SETUP_KEY, JSON.stringify(setup));
       await context.sync();
-    });
+    }, { repeatable: true });
   }
 
   async loadSetup(): Promise<SavedSetup | null> {
@@ -156,18 +168,33 @@ export class ExcelAdapter {
       } catch {
         return null;
       }
-    });
+    }, { repeatable: true });
   }
 
-  /** Replaces the stored boundary files with these. */
+  /**
+   * Replaces the stored boundary files with these, one custom XML part per request. The old parts are
+   * deleted only once every new part is in; if a part is refused, the new parts are taken out again
+   * and the old ones stay. Throws BoundaryNotKept with the reason when the files are not kept.
+   */
   async storeBoundary(files: readonly BoundaryFile[]): Promise<void> {
-    const xml = boundaryPartXml(files);
+    const parts = boundaryParts(files, { maxChars: this.options.maxBoundaryChars });
+    const names = files.map((f) => f.name).join(', ');
     await this.run(async (context) => {
       const old = context.workbook.customXmlParts.getByNamespace(BOUNDARY_NAMESPACE);
       old.load('items/id');
       await context.sync();
+      const added: CustomXmlPartLike[] = [];
+      try {
+        for (const xml of parts) {
+          added.push(context.workbook.customXmlParts.add(xml));
+          await context.sync();
+        }
+      } catch (e) {
+        for (const part of added) part.delete();
+        await context.sync().catch(() => undefined);
+        throw new BoundaryNotKept(`The boundary file (${names}) was not kept in this workbook: Excel refused to store it (${describe(e)}). Keep the file beside the workbook to run again.`);
+      }
       for (const part of old.items) part.delete();
-      context.workbook.customXmlParts.add(xml);
       await context.sync();
     });
   }
@@ -178,23 +205,33 @@ export class ExcelAdapter {
       parts.load('items/id');
       await context.sync();
       if (parts.items.length === 0) return null;
-      const xml = parts.items[0].getXml();
-      await context.sync();
-      const files = readBoundaryPart(xml.value);
+      const xmls: string[] = [];
+      // one part per response: each is at most a megabyte
+      for (const part of parts.items) {
+        const xml = part.getXml();
+        await context.sync();
+        xmls.push(xml.value);
+      }
+      const files = readBoundaryParts(xmls);
       return files.length ? files : null;
-    });
+    }, { repeatable: true });
   }
 }
 
-/** Values, number formats, styles, merges, sizes and frozen rows of one sheet: queued, not synced. */
-export function writeGrid(ws: WorksheetLike, grid: SheetGrid): void {
-  const all = ws.getRangeByIndexes(0, 0, grid.rows, grid.cols);
-  // formats first, so text such as IDs with leading zeros or a leading minus stays text
-  all.numberFormat = grid.formats;
-  all.values = grid.values;
-  grid.columnWidths.forEach((w, c) => { ws.getRangeByIndexes(0, c, 1, 1).format.columnWidth = w * POINTS_PER_CHAR; });
-  for (const [r, h] of grid.rowHeights) ws.getRangeByIndexes(r, 0, 1, 1).format.rowHeight = h;
+/** Values and number formats in row blocks, then widths, heights, merges, styles and frozen rows. */
+export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: SheetGrid): Promise<void> {
+  // formats first in every block, so text such as IDs with leading zeros or a leading minus stays text
+  await writeRows(budget, ws, 0, 0, grid.values, grid.formats);
+  for (const [c, w] of grid.columnWidths.entries()) {
+    await budget.room(0);
+    ws.getRangeByIndexes(0, c, 1, 1).format.columnWidth = w * POINTS_PER_CHAR;
+  }
+  for (const [r, h] of grid.rowHeights) {
+    await budget.room(0);
+    ws.getRangeByIndexes(r, 0, 1, 1).format.rowHeight = h;
+  }
   for (const m of grid.merges) {
+    await budget.room(0);
     const range = ws.getRangeByIndexes(m.row, m.col, 1, m.cols);
     range.merge(false);
     range.format.wrapText = true;
@@ -202,6 +239,7 @@ export function writeGrid(ws: WorksheetLike, grid: SheetGrid): void {
   }
   for (const s of grid.styles) {
     const style = STYLE[s.style];
+    await budget.room(jsonBytes(style));
     const f = ws.getRangeByIndexes(s.row, s.col, s.rows, s.cols).format;
     if (style.bold) f.font.bold = true;
     if (style.italic) f.font.italic = true;
@@ -210,7 +248,10 @@ export function writeGrid(ws: WorksheetLike, grid: SheetGrid): void {
     if (style.fill) f.fill.color = style.fill;
     if (style.wrap) f.wrapText = true;
   }
-  if (grid.freezeRows > 0) ws.freezePanes.freezeRows(grid.freezeRows);
+  if (grid.freezeRows > 0) {
+    await budget.room(0);
+    ws.freezePanes.freezeRows(grid.freezeRows);
+  }
 }
 
 function placeAt(grid: SheetGrid, im: Pick<ReportImage, 'anchor'>) {
@@ -221,15 +262,17 @@ function placeAt(grid: SheetGrid, im: Pick<ReportImage, 'anchor'>) {
  * The report's pictures as PNG shapes; on the overview, the Moran scatter becomes a native chart
  * over its points, written to the right of the report (the slope of its trend line is Moran's I).
  */
-export function writePictures(ws: WorksheetLike, grid: SheetGrid, sheet: ReportSheet, scatter?: ScatterPoints): void {
+export async function writePictures(budget: RequestBudget, ws: WorksheetLike, grid: SheetGrid, sheet: ReportSheet, scatter?: ScatterPoints): Promise<void> {
   for (const im of sheet.images ?? []) {
     const at = placeAt(grid, im);
     if (scatter && im.name === SCATTER_PICTURE) {
-      writeScatterChart(ws, grid, scatter, at, im);
+      await writeScatterChart(budget, ws, grid, scatter, at, im);
       continue;
     }
     if (!im.png.length) continue;
-    const shape = ws.shapes.addImage(toBase64(im.png));
+    const base64 = toBase64(im.png);
+    await budget.room(base64.length + 6 * 64);
+    const shape = ws.shapes.addImage(base64);
     shape.name = im.name;
     shape.altTextDescription = im.alt;
     shape.top = at.top;
@@ -239,16 +282,17 @@ export function writePictures(ws: WorksheetLike, grid: SheetGrid, sheet: ReportS
   }
 }
 
-function writeScatterChart(ws: WorksheetLike, grid: SheetGrid, s: ScatterPoints, at: { top: number; left: number }, im: ReportImage): void {
+async function writeScatterChart(budget: RequestBudget, ws: WorksheetLike, grid: SheetGrid, s: ScatterPoints, at: { top: number; left: number }, im: ReportImage): Promise<void> {
   const col = grid.cols + 1;
   const n = s.z.length;
-  const title = ws.getRangeByIndexes(0, col, 1, 1);
-  title.values = [['Points of the Moran scatter plot']];
-  title.format.font.bold = true;
-  const data = ws.getRangeByIndexes(1, col, n + 1, 2);
-  data.numberFormat = [['@', '@'], ...s.z.map(() => ['0.0000', '0.0000'])];
-  data.values = [[`${s.valueName} (standardised)`, "Neighbours' average"], ...s.z.map((z, i) => [z, s.lag[i]])];
+  // the points go in row blocks like the sheet itself: at 90,000 areas they alone pass 5 MB
+  await writeRows(budget, ws, 0, col,
+    [['Points of the Moran scatter plot', null], [`${s.valueName} (standardised)`, "Neighbours' average"], ...s.z.map((z, i) => [z, s.lag[i]])],
+    [['@', null], ['@', '@'], ...s.z.map(() => ['0.0000', '0.0000'])]);
+  await budget.room(2048);
+  ws.getRangeByIndexes(0, col, 1, 1).format.font.bold = true;
   ws.getRangeByIndexes(1, col, 1, 2).format.font.bold = true;
+  const data = ws.getRangeByIndexes(1, col, n + 1, 2);
   const chart = ws.charts.add('XYScatter', data, 'Columns');
   chart.name = 'Moran scatter';
   chart.title.text = `Moran scatter plot of ${s.valueName} (slope ${s.slope.toFixed(3)})`;

@@ -84,5 +84,17 @@ export interface WorkbookLike {
 
 export interface ContextLike { readonly workbook: WorkbookLike; sync(): Promise<void> }
 
-/** Excel.run, as the adapter calls it. */
-export type ExcelRunner = <T>(batch: (context: ContextLike) => Promise<T>) => Promise<T>;
+/**
+ * Excel.run, as the adapter calls it. `repeatable` marks a batch that may safely be sent again from
+ * the start (it only reads, or deletes what it finds): see run.ts.
+ */
+export type ExcelRunner = <T>(batch: (context: ContextLike) => Promise<T>, how?: { repeatable?: boolean }) => Promise<T>;
+
+/** The run options the add-in uses ("Delay execution while cell is being edited"; ExcelApi 1.11). */
+export interface RunOptionsLike { delayForCellEdit?: boolean }
+
+/** Excel.run as Office offers it: with or without run options. */
+export interface OfficeExcelRun {
+  <T>(batch: (context: ContextLike) => Promise<T>): Promise<T>;
+  <T>(options: RunOptionsLike, batch: (context: ContextLike) => Promise<T>): Promise<T>;
+}

@@ -10,6 +10,7 @@ import {
   gearyOfRange, lagOfRange, localMoranOfRange, moranOfRange, moranPermutationP,
 } from './logic.js';
 import { giStarRows, localMoranRows } from './local-logic.js';
+import { globalRateRows, localRateRows, rateMoranRow } from './rate-logic.js';
 
 declare const CustomFunctions: {
   associate(id: string, fn: (...args: any[]) => unknown): void;
@@ -140,6 +141,53 @@ export function giStarCells(
   return guarded(() => giStarRows(values, ids, neighbours, { permutations, seed, level, control }));
 }
 
+/**
+ * Global empirical-Bayes rates: each area's rate pulled towards the overall rate by how reliable its count makes it (Marshall 1991).
+ * @customfunction RATEGLOBAL
+ * @param events Whole numbers of events (cases, deaths, offences) per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param [per] Show rates per 1, 100, 1000 (default) or 100000 people.
+ * @param [detail] TRUE to spill four columns per area: the raw rate, the smoothed rate, the shrinkage weight (1 keeps the raw rate, 0 replaces it) and "few events" where fewer than 20 events.
+ * @returns One smoothed rate per area, spilled down in the order of the rows.
+ */
+export function rateGlobal(events: any[][], population: any[][], per?: number, detail?: boolean): any[][] {
+  return guarded(() => globalRateRows(events, population, { per, detail: detail === true }));
+}
+
+/**
+ * Local empirical-Bayes rates: each area's rate pulled towards the rate of its neighbourhood (the area and its neighbours).
+ * @customfunction RATELOCAL
+ * @param events Whole numbers of events per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param ids The area IDs, in the same rows.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row (the neighbour sheet Spillway writes).
+ * @param [per] Show rates per 1, 100, 1000 (default) or 100000 people.
+ * @param [detail] TRUE to spill four columns per area: the raw rate, the smoothed rate, the shrinkage weight and "few events" where fewer than 20 events.
+ * @returns One smoothed rate per area, spilled down in the order of the IDs.
+ */
+export function rateLocal(events: any[][], population: any[][], ids: any[][], neighbours: any[][], per?: number, detail?: boolean): any[][] {
+  return guarded(() => localRateRows(events, population, ids, neighbours, { per, detail: detail === true }));
+}
+
+/**
+ * Rate-adjusted Moran's I (Assunção & Reis 1999): clustering of rates tested fairly when populations differ, by first standardising each rate by its empirical-Bayes variance.
+ * @customfunction RATEMORAN
+ * @param events Whole numbers of events per area, in a single column. A text first cell is read as a header.
+ * @param population The population or exposure of each area, in the same rows.
+ * @param ids The area IDs, in the same rows.
+ * @param neighbours The links between areas: origin ID, neighbour ID and weight on each row.
+ * @param [detail] TRUE to spill four cells across: the statistic, z, the two-sided normal p-value and the permutation p-value.
+ * @param [permutations] With detail, how many reshufflings to draw for the permutation p-value (default 999; 0 for none).
+ * @param [seed] Whole number that fixes the random draws so the result can be repeated (default 1).
+ * @param [rowStandardise] TRUE to rescale each area's weights to sum to 1; by default the weights are used as listed.
+ * @returns The rate-adjusted Moran's I, or a row of four numbers with detail.
+ */
+export function rateMoran(
+  events: any[][], population: any[][], ids: any[][], neighbours: any[][], detail?: boolean, permutations?: number, seed?: number, rowStandardise?: boolean,
+): any[][] {
+  return guarded(() => rateMoranRow(events, population, ids, neighbours, detail === true, permutations ?? 999, seed ?? 1, { rowStandardise: rowStandardise === true }));
+}
+
 /** Ties each metadata id to its function; Office.js provides CustomFunctions in the shared runtime. */
 export function registerCellFunctions(): void {
   if (typeof CustomFunctions === 'undefined') return;
@@ -150,4 +198,7 @@ export function registerCellFunctions(): void {
   CustomFunctions.associate('GEARY', geary);
   CustomFunctions.associate('LOCALMORAN', localMoranCells);
   CustomFunctions.associate('GISTAR', giStarCells);
+  CustomFunctions.associate('RATEGLOBAL', rateGlobal);
+  CustomFunctions.associate('RATELOCAL', rateLocal);
+  CustomFunctions.associate('RATEMORAN', rateMoran);
 }

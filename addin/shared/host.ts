@@ -27,6 +27,7 @@ export interface SidebarHost {
   saveSetup(setup: SavedSetup): Promise<void>;
   /** boundary files kept in the document from an earlier run, if any */
   loadBoundary(): Promise<BoundaryFile[] | null>;
+  /** Keeps the boundary files in the document; rejects with a message for the analyst when they are not kept. */
   storeBoundary(files: BoundaryFile[]): Promise<void>;
   writeResults(output: RunOutput, engine: EngineClient, stage: (text: string) => void): Promise<WriteOutcome>;
   /** Selects a cell in the host, when it can (Excel). */

@@ -11,6 +11,7 @@ import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckResult, EngineError } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
+import { mountRateBuilder } from './rate-builder.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
 type Method = WeightsSpec['method'];
@@ -72,6 +73,17 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const model = step(4, 'Model');
   const local = step(5, 'Where is the pattern?');
   const run = step(6, 'Run');
+  // "Build a rate from two columns" sits at the top of the model step; its rates join the column lists
+  const rateBuilder = mountRateBuilder(() => (s.profile ? s.profile.numeric.filter((c) => c !== s.id) : []), () => {
+    const names = modelColumns();
+    if (s.y && !names.includes(s.y)) s.y = names[0];
+    for (const c of [...s.x]) if (!names.includes(c)) s.x.delete(c);
+    if (s.local.of.startsWith('rate:') && !rateBuilder.names().includes(s.local.of.slice(5))) s.local.of = 'outcome';
+    drawModel();
+    drawLocal();
+  });
+  /** the columns a model may use: the table's numeric columns (not the ID) and the rates built here */
+  const modelColumns = () => [...(s.profile ? s.profile.numeric.filter((c) => c !== s.id) : []), ...rateBuilder.names()];
 
   /** An error shown inline; for bad input with a row, names the cell (and in Excel offers to show it). */
   const showError = (where: HTMLElement, e: unknown) => {
@@ -100,8 +112,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const p = s.profile;
     const keep = (c?: string) => (c && source.table.headers.includes(c) ? c : undefined);
     s.id = keep(saved?.id) ?? keep(s.id) ?? p.suggestedId;
-    s.y = keep(saved?.y) ?? keep(s.y) ?? p.numeric.find((c) => c !== s.id);
-    s.x = new Set((saved?.x ?? [...s.x]).filter((c) => p.numeric.includes(c) && c !== s.y && c !== s.id));
+    rateBuilder.refresh();
+    const rate = (c?: string) => (c && rateBuilder.names().includes(c) ? c : undefined);
+    s.y = keep(saved?.y) ?? rate(saved?.y) ?? keep(s.y) ?? rate(s.y) ?? p.numeric.find((c) => c !== s.id);
+    s.x = new Set((saved?.x ?? [...s.x]).filter((c) => (p.numeric.includes(c) || rateBuilder.names().includes(c)) && c !== s.y && c !== s.id));
     drawData();
     drawAreas();
     drawModel();
@@ -291,11 +305,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     clear(model.body);
     const p = s.profile;
     if (!p) { model.body.append(h('p', { class: 'hint' }, 'Choose the data first.')); return; }
-    const candidates = p.numeric.filter((c) => c !== s.id);
+    const candidates = modelColumns();
+    const rates = rateBuilder.names();
+    const shown = (c: string) => (rates.includes(c) ? `${c} (rate built above)` : c);
     model.body.append(
-      select('y-column', 'Outcome to explain', candidates.map((c) => ({ value: c, text: c })), s.y, (v) => { s.y = v; s.x.delete(v); drawModel(); }),
+      rateBuilder.element,
+      select('y-column', 'Outcome to explain', candidates.map((c) => ({ value: c, text: shown(c) })), s.y, (v) => { s.y = v; s.x.delete(v); drawModel(); }),
       h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
-        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, c, s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); }))),
+        ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, shown(c), s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); }))),
       h('fieldset', { class: 'models' }, h('legend', {}, 'Models (the plain regression is always fitted)'),
         checkbox('model-lag', 'Spatial lag: the outcome depends on the neighbours’ outcome', s.lag, (v) => { s.lag = v; }),
         checkbox('model-error', 'Spatial error: unmeasured causes are shared with neighbours', s.error, (v) => { s.error = v; })),
@@ -317,6 +334,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         select('local-of', 'Of which values', [
           { value: 'outcome', text: `The outcome${s.y ? ` (${s.y})` : ''}` },
           { value: 'residuals', text: 'The plain regression’s residuals' },
+          ...rateBuilder.names().map((c) => ({ value: `rate:${c}`, text: `${c}, standardised (fair to small areas)` })),
           ...columns.filter((c) => c !== s.y).map((c) => ({ value: c, text: c })),
         ], l.of, (v) => { l.of = v; }),
         h('fieldset', { class: 'local-statistics' }, h('legend', {}, 'Statistics'),
@@ -359,6 +377,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
       ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
+      ...(rateBuilder.names().length ? { rates: rateBuilder.choices() } : {}),
     };
   }
 
@@ -384,16 +403,27 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
+        ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),
       } }, onProgress);
       onProgress(0.94, 'Writing the results');
       const outcome = await host.writeResults(output, engine, (text) => { stage.textContent = text; });
       await host.saveSetup(setup()).catch(() => undefined);
       const used = s.areas;
-      if (used?.kind === 'file' && !used.stored) await host.storeBoundary(used.files).catch(() => undefined);
+      // the results stand without it, but the analyst must learn that the boundary was not kept, and why
+      let notKept = '';
+      if (used?.kind === 'file' && !used.stored) {
+        await host.storeBoundary(used.files).catch((e: unknown) => { notKept = e instanceof Error ? e.message : String(e); });
+      }
       onProgress(1, 'Done');
       run.found.append(message('success', `${output.headline}. ${outcome.message}`));
+      if (notKept) run.found.append(message('warning', notKept));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
       for (const w of output.warnings) run.found.append(message('warning', w));
+      const rateMaps = output.report.sheets.find((sheet) => sheet.role === 'rates')?.images ?? [];
+      if (rateMaps.length) {
+        run.found.append(h('div', { class: 'rate-maps' }, ...rateMaps.map((m) =>
+          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+      }
       const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
       if (maps.length) {
         run.found.append(h('div', { class: 'local-maps' }, ...maps.map((m) =>
@@ -428,6 +458,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       s.robust = saved.robust ?? false;
       s.dropMissing = saved.dropMissing ?? false;
       if (saved.areas?.kind === 'points') s.areas = { kind: 'points', x: saved.areas.xColumn, y: saved.areas.yColumn };
+      rateBuilder.restore(saved.rates);
       drawNeighbourControls();
       drawModel();
       // the table may have arrived before the setup did

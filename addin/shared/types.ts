@@ -2,6 +2,7 @@
 import type { NamedBytesLike } from '../../src/pipeline/index.js';
 import type { Report } from '../../src/report/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
+import type { RateSmoothing } from '../../src/pipeline/index.js';
 
 export type SheetValue = string | number | boolean | null;
 
@@ -16,6 +17,16 @@ export interface TableSnapshot {
   rows: SheetValue[][];
   /** 1-based sheet row of each entry of rows (blank rows are left out) */
   rowNumbers: number[];
+}
+
+/** A rate built in the sidebar from two columns. */
+export interface RateDefinition { name: string; events: string; population: string; per: 1 | 100 | 1000 | 100000 }
+
+/** The sidebar's rates: their recipes, the smoothed rate the model uses, and whether flagged areas are withheld. */
+export interface RateChoices {
+  rates: RateDefinition[];
+  smoothing: RateSmoothing;
+  withholdFlagged: boolean;
 }
 
 /** What the analyst chose, saved with the workbook so the next run starts from it. */
@@ -36,6 +47,8 @@ export interface SavedSetup {
   models?: ('lag' | 'error')[];
   robust?: boolean;
   dropMissing?: boolean;
+  /** rates built from two columns, the smoothed rate modelled, and whether flagged areas are withheld */
+  rates?: RateChoices;
 }
 
 /** Points of the Moran scatter plot, for a native chart. */

@@ -6,7 +6,7 @@ import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
 import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, moranScatterData, MODEL_LABEL } from '../../src/report/index.js';
+import { buildReport, MODEL_LABEL, scatterPoints } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
@@ -87,7 +87,7 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
   scope.postMessage({ id, kind: 'progress', fraction: 0.92, stage: 'Laying out the results' });
   // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
   const report = buildReport(result);
-  const d = moranScatterData(result.y, result.weights.edges);
+  const d = scatterPoints(result); // without any withheld areas' points
   return {
     report,
     scatter: { valueName: result.request.y, z: Array.from(d.z), lag: Array.from(d.lag), slope: d.slope },

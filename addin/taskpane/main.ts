@@ -5,15 +5,20 @@
 import '../shared/sidebar.css';
 import '../functions/register.js';
 import { ExcelAdapter } from '../excel/adapter.js';
-import type { ContextLike, ExcelRunner } from '../excel/api.js';
+import type { OfficeExcelRun } from '../excel/api.js';
+import { canDelayForCellEdit, excelRunner } from '../excel/run.js';
 import { applyTheme, button, h } from '../shared/dom.js';
 import type { SidebarHost } from '../shared/host.js';
 import { drawReportPictures } from '../shared/png.js';
 import { mountSidebar } from '../shared/sidebar.js';
 import { tableAsCsv } from '../shared/table-profile.js';
 
-const run: ExcelRunner = (batch) => Excel.run((context) => batch(context as unknown as ContextLike));
-const excel = new ExcelAdapter(run);
+// Excel holds our batches while the analyst types in a cell where it can (ExcelApi 1.11); see run.ts
+const officeRun = ((...args: unknown[]) => (Excel.run as (...a: unknown[]) => Promise<unknown>)(...args)) as OfficeExcelRun;
+const excel = new ExcelAdapter(excelRunner(officeRun, () => {
+  const requirements = Office.context?.requirements;
+  return canDelayForCellEdit(requirements ? (name, version) => requirements.isSetSupported(name, version) : undefined);
+}));
 
 const host: SidebarHost = {
   kind: 'excel',

@@ -25,7 +25,13 @@ export const DISTRICT_COLUMNS: ColumnSpec[] = [
   { name: 'rent_index', width: 12, format: '0.0', meaning: 'Median monthly rent relative to the median district (= 100). Dearer districts sit near the jobs.' },
   { name: 'population', width: 12, format: '#,##0', meaning: 'Residents. Not part of the simulated process; there for maps and weighting.' },
   { name: 'clinic_wait_days', width: 16, format: '0.0', meaning: 'Average wait for a routine clinic appointment, in days. Not part of the commute model: drawn on its own with one planted cluster of long waits and one of short waits, for the local-patterns example.' },
+  { name: 'residents_70plus', width: 16, format: '#,##0', meaning: 'Residents aged 70 or over. In most districts about 14–22 % of the population; in 8 newly built districts only a few dozen, since few older people have moved in yet. For the rates example.' },
+  { name: 'fall_admissions', width: 15, format: '0', meaning: 'Hospital admissions after a fall among residents aged 70 or over, in one year: a count drawn around an underlying rate that varies smoothly across the basin. For the rates example (build the rate fall_admissions per 1,000 residents_70plus).' },
 ];
+
+/** A third stream for the rates example, so everything drawn before it stays as it was. */
+export const RATE_SEED = 90127;
+export const RATE_TRUTH = { per_1000: 50, spread: 0.25, small_districts: 8, small_min: 30, small_max: 150 };
 
 /** A second, separate stream for the planted clusters, so the commute data stay as they were. */
 export const CLUSTER_SEED = 90126;
@@ -86,9 +92,13 @@ export async function makeDistricts(): Promise<DistrictData> {
     rent_index: x.rent,
     population: x.population,
     clinic_wait_days: 0,
+    residents_70plus: 0,
+    fall_admissions: 0,
   }));
   const planted = plantClusters(cells, nb);
   rows.forEach((r, i) => { r.clinic_wait_days = planted.values[i]; });
+  const counts = fallCounts(cells, X.map((x) => x.population));
+  rows.forEach((r, i) => { r.residents_70plus = counts.older[i]; r.fall_admissions = counts.events[i]; });
   const e = stats(eps);
   const truth = {
     dataset: 'Vell Basin districts (invented)',
@@ -113,6 +123,15 @@ export async function makeDistricts(): Promise<DistrictData> {
       process: `baseline ${CLUSTER_TRUTH.baseline} + N(0, ${CLUSTER_TRUTH.sd}²) days, plus ${CLUSTER_TRUTH.shift} days in the long-wait cluster and minus ${CLUSTER_TRUTH.shift} in the short-wait cluster (a centre district and its queen neighbours)`,
       long_waits: planted.high.map((i) => rows[i].district_id),
       short_waits: planted.low.map((i) => rows[i].district_id),
+    },
+    rates_example: {
+      events: 'fall_admissions',
+      population: 'residents_70plus',
+      seed: RATE_SEED,
+      process: `residents_70plus = population × a share drawn uniformly from 14–22 %, except ${RATE_TRUTH.small_districts} newly built districts with ${RATE_TRUTH.small_min}–${RATE_TRUTH.small_max}; ` +
+        `fall_admissions ~ Poisson(residents_70plus × r), r = ${RATE_TRUTH.per_1000} per 1,000 × exp(${RATE_TRUTH.spread} × a smooth random surface of unit variance)`,
+      small_districts: counts.small.map((i) => rows[i].district_id),
+      underlying_rate_per_1000: counts.rate.map((r) => round(r * 1000, 3)),
     },
   };
   return { outline, cells, neighbours: nb, rows, truth };
@@ -141,4 +160,35 @@ function plantClusters(cells: Pt[][], nb: number[][]): { values: number[]; high:
   const { baseline, sd, shift } = CLUSTER_TRUTH;
   const values = cells.map((_, i) => round(baseline + sd * normal(rand) + (high.includes(i) ? shift : low.includes(i) ? -shift : 0), 1));
   return { values, high, low };
+}
+
+/** Knuth's multiplication method for a Poisson draw (fine for the means below 100 used here). */
+function poisson(rand: () => number, mean: number): number {
+  const limit = Math.exp(-mean);
+  let k = 0;
+  for (let p = rand(); p > limit; p *= rand()) k++;
+  return k;
+}
+
+/**
+ * The rates example: residents aged 70+ (a share of each district's population, except a few newly
+ * built districts with only a few dozen) and their fall admissions in a year, drawn around a smoothly
+ * varying underlying rate, so that smoothing has visible work to do on the small districts.
+ */
+function fallCounts(cells: Pt[][], population: number[]): { older: number[]; events: number[]; small: number[]; rate: number[] } {
+  const rand = mulberry32(RATE_SEED);
+  const field = smoothField(rand);
+  const { per_1000, spread, small_districts, small_min, small_max } = RATE_TRUTH;
+  const small: number[] = [];
+  while (small.length < small_districts) {
+    const i = Math.floor(rand() * cells.length);
+    if (!small.includes(i)) small.push(i);
+  }
+  small.sort((a, b) => a - b);
+  const older = population.map((p, i) => (small.includes(i)
+    ? small_min + Math.floor(rand() * (small_max - small_min + 1))
+    : Math.round(p * (0.14 + 0.08 * rand()))));
+  const rate = cells.map((ring) => (per_1000 / 1000) * Math.exp(spread * field(ringCentroid(ring))));
+  const events = older.map((n, i) => Math.min(n, poisson(rand, n * rate[i])));
+  return { older, events, small, rate };
 }

@@ -74,7 +74,8 @@ Neighbours
 Where the pattern is (local statistics)
   --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
   --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:lag,
-                       residuals:error, or a column of the table
+                       residuals:error, a column of the table, or rate:NAME (a --rate's
+                       empirical-Bayes standardised values; use with moran)
   --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
   --fdr-level Q        the level of that control (default 0.05)
                        --permutations and --seed apply to the local tests too (default 999 permutations)
@@ -84,6 +85,8 @@ Rates from counts
   --per N              the rate's multiplier: 1, 100, 1000 (default) or 100000
   --smooth S           which smoothed rate is modelled: global (default), local or neighbourhood
                        empirical Bayes; all three are computed and written
+  --withhold-flagged   leave the flagged areas' counts and rates blank in the --out workbook
+                       (for privacy; the run record and --json say which areas)
 
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
@@ -111,7 +114,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
-        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' },
+        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -159,7 +162,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     algebra,
     threads,
     local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
-    rates: parseRates(v.rate, v.per, v.smooth),
+    rates: parseRates(v.rate, v.per, v.smooth, v['withhold-flagged']),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -262,10 +265,10 @@ function parseLocal(list?: string, of?: string, control?: string, level?: string
   };
 }
 
-/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth. */
-function parseRates(recipes: string[] | undefined, per?: string, smooth?: string): FitArgs['rates'] {
+/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth, --withhold-flagged. */
+function parseRates(recipes: string[] | undefined, per?: string, smooth?: string, withhold?: boolean): FitArgs['rates'] {
   if (!recipes || recipes.length === 0) {
-    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : undefined;
+    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : withhold ? '--withhold-flagged' : undefined;
     if (stray) throw new InputError(`${stray} goes with --rate (e.g. --rate cases_rate=cases/residents).`);
     return undefined;
   }
@@ -273,5 +276,8 @@ function parseRates(recipes: string[] | undefined, per?: string, smooth?: string
   if (smooth !== undefined && !['global', 'local', 'neighbourhood'].includes(smooth)) {
     throw new InputError(`--smooth must be global, local or neighbourhood, not "${smooth}".`);
   }
-  return { recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing };
+  return {
+    recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing,
+    ...(withhold ? { withholdFlagged: true } : {}),
+  };
 }

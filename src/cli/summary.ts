@@ -53,6 +53,13 @@ export function formatSummary(r: AnalysisResult): string {
     lines.push('');
   }
   if (r.local) lines.push(...localBlock(r), '');
+  for (const rate of r.rates ?? []) {
+    const flagged = rate.areas.filter((x) => x.flagged).length;
+    const mp = (m: typeof rate.ebMoran) => p(m.permutationP ?? m.p);
+    lines.push(`Rate ${rate.name} = ${rate.events} / ${rate.population} per ${rate.per}; modelled where used as the ${rate.smoothing} smoothed rate`);
+    lines.push(`  ${flagged} of ${rate.areas.length} areas flagged for few events${rate.withholdFlagged ? ' (withheld in the workbook)' : ''}; overall rate ${fmt(rate.overall.rate, 4)}`);
+    lines.push(`  Moran's I of the raw rate ${fmt(rate.moranRaw.I, 4)} (p ${mp(rate.moranRaw)}); rate-adjusted (Assunção & Reis) ${fmt(rate.ebMoran.I, 4)} (p ${mp(rate.ebMoran)})`, '');
+  }
   lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
   if (r.warnings.length) {
     lines.push('', 'Warnings');

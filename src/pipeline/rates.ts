@@ -1,7 +1,7 @@
 import { InputError } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import {
-  ebGlobal, ebLocal, ebMoran, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE, RATE_MULTIPLIERS,
+  ebGlobal, ebLocal, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE, RATE_MULTIPLIERS,
   type RateMultiplier,
 } from '../stats/index.js';
 
@@ -15,13 +15,25 @@ export interface RateRecipe {
 
 export type RateSmoothing = 'global' | 'local' | 'neighbourhood';
 
+/** A Moran's I with its normal z and p, and the permutation p when permutations were drawn. */
+export interface RateMoran { I: number; z: number; p: number; permutationP?: number; permutations: number; seed: number }
+
 export interface RateResult extends RateRecipe {
   flagRule: string;
   smoothing: RateSmoothing;
+  /** the overall rate b (in the units of `per`) and the between-area variance a (per person, squared) of the global prior */
+  overall: { rate: number; variance: number };
   /** areas whose between-area variance was estimated below zero and set to 0 (global: 0 or all) */
   clippedGlobal: boolean;
   clippedLocal: number;
-  ebMoran: { I: number; z: number; p: number; permutationP?: number; permutations: number; seed: number };
+  /** the rate-adjusted Moran's I (Assunção & Reis 1999) */
+  ebMoran: RateMoran;
+  /** the plain Moran's I of the raw rate, same weights, permutations and seed, for comparison */
+  moranRaw: RateMoran;
+  /** the empirical-Bayes standardised rates zᵢ = (rᵢ − b)/√(a + b/nᵢ) that ebMoran tests; local statistics may use them */
+  standardised: Float64Array;
+  /** the written workbook leaves the flagged areas' counts and rates blank (privacy); figures here stay whole */
+  withholdFlagged: boolean;
   areas: { id: string; events: number; population: number; rate: number; flagged: boolean; ebGlobal: number; ebLocal: number; neighbourhood: number; weightGlobal: number; weightLocal: number }[];
   /** the column the model uses: the chosen smoothed rate, in the units of `per` */
   modelled: Float64Array;
@@ -46,23 +58,31 @@ export function computeRate(
   population: ArrayLike<number>,
   w: CsrMatrix,
   where: { ids: string[]; rows: number[] },
-  opts: { smoothing: RateSmoothing; permutations: number; seed: number },
+  opts: { smoothing: RateSmoothing; permutations: number; seed: number; withholdFlagged?: boolean },
 ): RateResult {
   const counts = rateFromCounts(events, population, { eventsName: recipe.events, populationName: recipe.population, rows: where.rows });
+  if (counts.events.every((d) => d === 0)) {
+    throw new InputError(`--rate ${recipe.name}: the events column "${recipe.events}" is 0 in every area, so there is no rate to smooth or test.`, { column: recipe.events });
+  }
   const flags = rateFlags(counts.events);
   const g = ebGlobal(counts.events, counts.population);
   const l = ebLocal(counts.events, counts.population, w);
   const h = neighbourhoodRate(counts.events, counts.population, w);
   const t = ebMoran(counts.events, counts.population, w, { permutations: opts.permutations, seed: opts.seed });
+  const raw = plainMoran(counts.rate, w, opts.permutations, opts.seed);
   const per = recipe.per;
   const chosen = opts.smoothing === 'global' ? g.rate : opts.smoothing === 'local' ? l.rate : h;
   return {
     ...recipe,
     flagRule: RATE_FLAG_RULE,
     smoothing: opts.smoothing,
+    overall: { rate: g.b * per, variance: g.a },
     clippedGlobal: g.clipped,
     clippedLocal: l.clipped,
     ebMoran: { I: t.I, z: t.z, p: t.p, permutationP: t.permutationP, permutations: t.permutations, seed: t.seed },
+    moranRaw: raw,
+    standardised: t.standardised,
+    withholdFlagged: opts.withholdFlagged ?? false,
     areas: where.ids.map((id, i) => ({
       id,
       events: counts.events[i],
@@ -79,16 +99,34 @@ export function computeRate(
   };
 }
 
-/** The JSON `rates` entry of one rate (the shape issue #14 sets out). */
+/** Moran's I of the raw rates; NaN (not a refusal) when every area has the same rate. */
+function plainMoran(rate: Float64Array, w: CsrMatrix, permutations: number, seed: number): RateMoran {
+  let varies = false;
+  for (let i = 1; i < rate.length && !varies; i++) varies = rate[i] !== rate[0];
+  if (!varies) return { I: NaN, z: NaN, p: NaN, permutations, seed };
+  const m = moranColumn(rate, w, { permutations, seed });
+  return { I: m.I, z: m.z, p: m.p, permutationP: m.permutationP, permutations, seed };
+}
+
+/** IDs of the areas whose counts and rates the written workbook leaves blank (none unless asked). */
+export function withheldIds(r: RateResult): string[] {
+  return r.withholdFlagged ? r.areas.filter((a) => a.flagged).map((a) => a.id) : [];
+}
+
+/** The JSON `rates` entry of one rate (the shape issue #14 sets out, plus the raw rate's Moran's I and what the workbook withholds). */
 export function rateToJson(r: RateResult): Record<string, unknown> {
+  const test = (m: RateMoran) => ({ I: m.I, z: m.z, p: m.permutationP ?? m.p, permutations: m.permutations, seed: m.seed });
   return {
     events: r.events,
     population: r.population,
     per: r.per,
     flagRule: r.flagRule,
     smoothing: r.smoothing,
-    ebMoran: { I: r.ebMoran.I, z: r.ebMoran.z, p: r.ebMoran.permutationP ?? r.ebMoran.p, permutations: r.ebMoran.permutations, seed: r.ebMoran.seed },
+    ebMoran: test(r.ebMoran),
     areas: r.areas.map((a) => ({ id: a.id, rate: a.rate, flagged: a.flagged, ebGlobal: a.ebGlobal, ebLocal: a.ebLocal, neighbourhood: a.neighbourhood })),
+    moranOfRawRate: test(r.moranRaw),
+    withholdFlagged: r.withholdFlagged,
+    withheldInWorkbook: withheldIds(r),
   };
 }
 
@@ -96,6 +134,8 @@ export function rateToJson(r: RateResult): Record<string, unknown> {
 export interface RatesRequest {
   recipes: RateRecipe[];
   smoothing?: RateSmoothing;
+  /** leave the flagged areas' counts and rates blank in the written workbook (for privacy) */
+  withholdFlagged?: boolean;
 }
 
 /** The table columns to read: every rate NAME is replaced by its events and population columns. */
@@ -124,9 +164,47 @@ export function addRates(
     if (names.has(recipe.name)) throw new InputError(`--rate ${recipe.name} is defined twice; give each rate its own name.`);
     names.add(recipe.name);
     const r = computeRate(recipe, values.get(recipe.events)!, values.get(recipe.population)!, w, where, {
-      smoothing: rates.smoothing ?? 'global', permutations: opts.permutations, seed: opts.seed,
+      smoothing: rates.smoothing ?? 'global', permutations: opts.permutations, seed: opts.seed, withholdFlagged: rates.withholdFlagged ?? false,
     });
     values.set(recipe.name, r.modelled);
     return r;
   });
+}
+
+/** The request's rates as the run record keeps them, defaults filled in. */
+export function ratesRecord(rates: RatesRequest): Required<RatesRequest> {
+  return { recipes: rates.recipes, smoothing: rates.smoothing ?? 'global', withholdFlagged: rates.withholdFlagged ?? false };
+}
+
+/** How the local statistics name a rate's empirical-Bayes standardised values: `rate:NAME`. */
+export const RATE_LOCAL_PREFIX = 'rate:';
+
+/** The rate NAME in `rate:NAME`, or undefined for any other choice. */
+export function localRateName(of: string | undefined): string | undefined {
+  return of?.startsWith(RATE_LOCAL_PREFIX) ? of.slice(RATE_LOCAL_PREFIX.length).trim() : undefined;
+}
+
+/** Refuses `rate:NAME` for a NAME that no --rate defines, before any work is done. */
+export function checkLocalRate(of: string | undefined, rates: RatesRequest | undefined): void {
+  const name = localRateName(of);
+  if (name === undefined) return;
+  const names = rates?.recipes.map((r) => r.name) ?? [];
+  if (!names.includes(name)) {
+    throw new InputError(names.length
+      ? `--local-of ${of}: no rate is called "${name}"; the rates defined are ${names.join(', ')}.`
+      : `--local-of ${of}: define the rate first with --rate ${name || 'NAME'}=EVENTS/POPULATION.`);
+  }
+}
+
+/**
+ * The values behind `rate:NAME`: the rate's empirical-Bayes standardised values (Assunção & Reis
+ * 1999), which put areas of every size on one scale so that small areas do not dominate the local
+ * statistics the way their raw rates would.
+ */
+export function localRateValues(of: string, rates: readonly RateResult[]): { values: Float64Array; label: string } | undefined {
+  const name = localRateName(of);
+  if (name === undefined) return undefined;
+  const r = rates.find((x) => x.name === name);
+  if (!r) throw new InputError(`--local-of ${of}: no rate is called "${name}".`);
+  return { values: r.standardised, label: `${name}, standardised by empirical Bayes` };
 }

@@ -15,7 +15,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
-import { addRates, columnsWithRates } from './rates.js';
+import { addRates, checkLocalRate, columnsWithRates, localRateName, localRateValues, ratesRecord } from './rates.js';
 import { readModelColumns } from './missing.js';
 import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
@@ -58,7 +58,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const boundaryId = request.boundaryId?.trim() || undefined;
   const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
-  const localColumn = local && local.of !== 'outcome' && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  checkLocalRate(local?.of, request.rates);
+  const localColumn = local && local.of !== 'outcome' && localRateName(local.of) === undefined && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
   checkModelColumns(values, joined);
   checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
@@ -173,7 +174,8 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
     }
     const residualWords = { residuals: 'residuals of the plain regression', 'residuals:lag': 'residuals of the spatial lag model', 'residuals:error': 'residuals of the spatial error model' } as const;
-    const [v, label] = of === 'outcome' ? [y, request.y] : source ? [source.residuals, residualWords[of as keyof typeof residualWords]] : [values.get(of)!, of];
+    const rate = localRateValues(of, rates ?? []);
+    const [v, label] = of === 'outcome' ? [y, request.y] : source ? [source.residuals, residualWords[of as keyof typeof residualWords]] : rate ? [rate.values, rate.label] : [values.get(of)!, of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
     lap('local');
   }
@@ -201,7 +203,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       seed, impactDraws, permutations,
       ...(alternatives.length ? { compareWeights: alternatives } : {}),
       ...(local ? { local } : {}),
-      ...(request.rates?.recipes.length ? { rates: { recipes: request.rates.recipes, smoothing: request.rates.smoothing ?? 'global' } } : {}),
+      ...(request.rates?.recipes.length ? { rates: ratesRecord(request.rates) } : {}),
     },
     inputs,
     n: joined.ids.length,

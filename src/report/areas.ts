@@ -1,6 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num } from './format.js';
+import { withheldOutcome } from './withheld.js';
 
 /** One row per area, keyed by ID, in the table's row order. */
 export function areasBlocks(result: AnalysisResult): Block[] {
@@ -22,13 +23,17 @@ export function areasBlocks(result: AnalysisResult): Block[] {
       { header: `${f.label}: neighbours' average residual`, format: 'decimal4', width: 16 },
     );
   }
+  // a withheld outcome (a rate of few events, blanked for privacy) takes its residuals with it: fitted + residual would give it back
+  const withheld = withheldOutcome(result);
   const rows: Cell[][] = result.ids.map((id, i) => {
-    const row: Cell[] = [id, result.rows[i], num(result.y[i])];
-    for (const f of fits) row.push(num(f.fitted[i]), num(f.residuals[i]), num(f.lag[i]));
+    const hide = withheld?.[i] ?? false;
+    const row: Cell[] = [id, result.rows[i], hide ? null : num(result.y[i])];
+    for (const f of fits) row.push(num(f.fitted[i]), hide ? null : num(f.residuals[i]), num(f.lag[i]));
     return row;
   });
   return [{
     kind: 'table', title: `Each area: observed ${y}, fitted values and residuals`, columns, rows,
-    note: "The neighbours' average residual is the spatial lag of the residual: the weighted sum of the neighbours' residuals under the weights used.",
+    note: "The neighbours' average residual is the spatial lag of the residual: the weighted sum of the neighbours' residuals under the weights used." +
+      (withheld ? ' The observed value and residuals of areas flagged for few events are withheld for privacy (blank).' : ''),
   }];
 }

@@ -1,6 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import { say } from './format.js';
 import { listSome } from '../errors.js';
+import { rateCautions } from './rates.js';
 
 /** Plain-language cautions that belong beside every result. */
 export function cautions(result: AnalysisResult): string[] {
@@ -9,6 +10,7 @@ export function cautions(result: AnalysisResult): string[] {
     'Results are about areas, not people. A pattern across areas need not hold for the individuals living in them (the ecological fallacy).',
     `The spatial results depend on how neighbours were defined (here: ${result.weights.description}). Another reasonable definition can give different numbers; it is worth trying one.`,
     'Rates for areas with few people or few events swing widely by chance; treat extreme values in small areas with care.',
+    ...rateCautions(result),
     'People who know these places may know reasons for a pattern that the data do not show. Their judgement should weigh alongside these numbers.',
   ];
   if (result.n < 30) list.push(`With only ${result.n} areas the tests have little power and the large-sample p-values are rough.`);

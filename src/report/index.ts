@@ -10,6 +10,7 @@ import { neighboursBlocks } from './neighbours.js';
 import { comparisonBlocks } from './comparison.js';
 import { recordBlocks } from './record.js';
 import { localPatternsSheet } from './local-patterns.js';
+import { ratesSheet } from './rates.js';
 import { layoutBlocks } from './layout.js';
 import { overviewPictures } from './pictures-for-report.js';
 import { MODEL_LABEL } from './format.js';
@@ -21,6 +22,9 @@ export type {
 export { blockHeight, layoutBlocks, BLOCK_GAP, ROW_HEIGHT_PX } from './layout.js';
 export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';
 export { interpretation } from './interpretation.js';
+export { scatterPoints } from './pictures-for-report.js';
+export { withheldOutcome } from './withheld.js';
+export { SMOOTHING_LABEL } from './rates.js';
 export * from './pictures/index.js';
 
 export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {
@@ -36,6 +40,8 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
   const local = localPatternsSheet(result, opts.renderPng);
   if (local) sheets.push({ name: 'Local patterns', role: 'local', blocks: local.blocks, images: local.images, freezeHeader: false });
+  const rates = ratesSheet(result, opts.renderPng);
+  if (rates) sheets.push({ name: 'Rates', role: 'rates', blocks: rates.blocks, images: rates.images, freezeHeader: false });
   sheets.push({ name: 'By area', role: 'areas', blocks: areasBlocks(result), freezeHeader: true });
   sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
   const compared = comparisonBlocks(result);

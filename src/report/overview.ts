@@ -5,6 +5,7 @@ import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
+import { rateUse, recipeWords } from './rates.js';
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
   const o = result.ols;
@@ -39,6 +40,8 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         ['Neighbour definition', result.weights.description, 'text'],
         ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],
         ['Areas without neighbours', result.weights.withoutNeighbours.length, 'integer'],
+        ...(result.rates ?? []).map((q): [string, Cell, 'text'] => [`Rate ${q.name}`,
+          `${recipeWords(q)}; ${rateUse(result, q)}; ${q.areas.filter((a) => a.flagged).length} areas flagged for few events${q.withholdFlagged ? ' and withheld' : ''} (sheet "Rates")`, 'text']),
       ],
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },

@@ -1,30 +1,49 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { PngRenderer, ReportImage } from './types.js';
-import { choroplethSvg, moranScatterData, moranScatterSvg, type Picture } from './pictures/index.js';
+import { choroplethSvg, moranScatterData, moranScatterSvg, type Picture, type ScatterData } from './pictures/index.js';
 import { ROW_HEIGHT_PX } from './layout.js';
 import { say } from './format.js';
+import { withheldOutcome } from './withheld.js';
+
+/**
+ * The Moran scatter plot's points of the outcome, without the areas whose outcome is withheld for
+ * privacy (their position would give the value back); the slope is the statistic of all areas.
+ */
+export function scatterPoints(result: AnalysisResult): ScatterData & { withheld: number } {
+  const d = moranScatterData(result.y, result.weights.edges);
+  const hide = withheldOutcome(result);
+  if (!hide) return { ...d, withheld: 0 };
+  const keep = Array.from(d.areas.keys()).filter((k) => !hide[d.areas[k]]);
+  return {
+    z: Float64Array.from(keep, (k) => d.z[k]), lag: Float64Array.from(keep, (k) => d.lag[k]), slope: d.slope, leftOut: d.leftOut,
+    areas: Int32Array.from(keep, (k) => d.areas[k]), withheld: d.z.length - keep.length,
+  };
+}
 
 /** The overview's pictures: maps of the outcome and of the plain regression's residuals, and the Moran scatter plot. */
 export function overviewPictures(result: AnalysisResult, firstRow: number, renderPng?: PngRenderer): ReportImage[] {
   const y = result.request.y;
   const pictures: { name: string; pic: Picture }[] = [];
+  const hide = withheldOutcome(result);
+  const shown = (v: Float64Array) => (hide ? v.map((x, i) => (hide[i] ? NaN : x)) : v);
   if (result.geometries.length === result.n) {
     pictures.push({
       name: 'map of the outcome',
-      pic: choroplethSvg({ title: `${y} by area`, valueName: y, geometries: result.geometries, values: result.y, coordinates: result.coordinates, scale: 'sequential' }),
+      pic: choroplethSvg({ title: `${y} by area`, valueName: y, geometries: result.geometries, values: shown(result.y), coordinates: result.coordinates, scale: 'sequential' }),
     });
     pictures.push({
       name: 'map of residuals',
       pic: choroplethSvg({
         title: 'Residuals of the plain regression', valueName: 'observed − fitted',
-        geometries: result.geometries, values: result.ols.residuals, coordinates: result.coordinates, scale: 'diverging',
+        geometries: result.geometries, values: shown(result.ols.residuals), coordinates: result.coordinates, scale: 'diverging',
       }),
     });
   }
-  const data = moranScatterData(result.y, result.weights.edges);
-  const slopeLabel = result.weights.transform === 'row'
+  const data = scatterPoints(result);
+  const slopeLabel = (result.weights.transform === 'row'
     ? `Slope of the line = Moran's I = ${say(data.slope)}`
-    : `Slope of the line ${say(data.slope)} (Moran's I with the weights row-standardised; with the weights used it is ${say(result.moranY.I)})`;
+    : `Slope of the line ${say(data.slope)} (Moran's I with the weights row-standardised; with the weights used it is ${say(result.moranY.I)})`) +
+    (data.withheld ? `; ${data.withheld} withheld area(s) not shown, though counted in the slope` : '');
   pictures.push({ name: 'Moran scatter plot', pic: moranScatterSvg(y, data, slopeLabel) });
 
   return placePictures(pictures, firstRow, renderPng);

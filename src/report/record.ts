@@ -2,6 +2,7 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { MODEL_LABEL, num, say, yesNo } from './format.js';
 import { describeRule } from '../weights/index.js';
+import { SMOOTHING_LABEL } from './rates.js';
 
 /** What went in and how it was run, so the result can be reproduced and checked. */
 export function recordBlocks(result: AnalysisResult): Block[] {
@@ -31,7 +32,11 @@ export function recordBlocks(result: AnalysisResult): Block[] {
         kv('Neighbour definition asked for', describeRule(r.weights)),
         kv('Neighbour definition used', result.weights.description),
         ...(result.comparison ? [kv('Also fitted, for comparison, under', result.comparison.filter((c) => !c.asRun).map((c) => c.label).join('; '))] : []),
-        ...(r.rates ? r.rates.recipes.map((q) => kv(`Rate ${q.name}`, `${q.events} / ${q.population} per ${q.per}; modelled as the ${r.rates!.smoothing} smoothed rate`)) : []),
+        ...(r.rates ? r.rates.recipes.map((q) => kv(`Rate ${q.name}`, `${q.events} / ${q.population} per ${q.per}; modelled as the ${r.rates!.smoothing} smoothed rate (${SMOOTHING_LABEL[r.rates!.smoothing]}) where the model uses it`)) : []),
+        ...(result.rates?.length ? [
+          kv('Rule for flagging rates', result.rates[0].flagRule),
+          kv('Flagged areas withheld in this workbook', r.rates?.withholdFlagged ? 'yes: their events and rates are blank, and the outcome and residuals too when the outcome is the rate' : 'no'),
+        ] : []),
         kv('Weights transform', r.transform),
         kv('Models fitted', r.models.map((m) => MODEL_LABEL[m]).join(', ')),
         kv('Robust standard errors asked for', yesNo(r.robust)),
@@ -67,6 +72,15 @@ export function recordBlocks(result: AnalysisResult): Block[] {
       kind: 'table', title: 'Rows left out for missing values',
       columns: [{ header: 'Table row', format: 'integer', width: 10 }, { header: 'Area ID', format: 'text', width: 14 }, { header: 'Missing in', format: 'text', width: 40 }],
       rows: result.droppedRows.map((d): Cell[] => [d.row, d.id, d.columns.join(', ')]),
+    });
+  }
+  const withheld = (result.rates ?? []).flatMap((q) => (q.withholdFlagged ? q.areas.map((a, i) => ({ a, i, q })).filter((x) => x.a.flagged) : []));
+  if (withheld.length) {
+    blocks.push({
+      kind: 'table', title: 'Areas withheld for privacy (their rates rest on few events)',
+      columns: [{ header: 'Rate', format: 'text', width: 16 }, { header: 'Area ID', format: 'text', width: 14 }, { header: 'Table row', format: 'integer', width: 10 }],
+      rows: withheld.map(({ a, i, q }): Cell[] => [q.name, a.id, result.rows[i]]),
+      note: 'Their events and every rate are blank on the "Rates" sheet; the figures were computed from all areas.',
     });
   }
   const timings = Object.entries(result.timings);

@@ -35,7 +35,7 @@ export interface ReportImage {
   alt: string;
 }
 
-export type SheetRole = 'overview' | 'model' | 'diagnostics' | 'impacts' | 'areas' | 'neighbours' | 'comparison' | 'local' | 'record';
+export type SheetRole = 'overview' | 'model' | 'diagnostics' | 'impacts' | 'areas' | 'neighbours' | 'comparison' | 'local' | 'rates' | 'record';
 
 export interface ReportSheet {
   /** base name, at most 31 characters; the writer makes it unique in the workbook */

@@ -15,6 +15,8 @@ export interface ScatterData {
   /** least-squares slope of lag on z through the origin: Moran's I under row-standardised weights */
   slope: number;
   leftOut: number;
+  /** the area (index in table order) of each point */
+  areas: Int32Array;
 }
 
 /**
@@ -41,7 +43,7 @@ export function moranScatterData(values: ArrayLike<number>, edges: Edges): Scatt
   const lk = Float64Array.from(keep, (i) => sum[i] / wsum[i]);
   let num = 0, den = 0;
   for (let i = 0; i < zk.length; i++) { num += zk[i] * lk[i]; den += zk[i] * zk[i]; }
-  return { z: zk, lag: lk, slope: den > 0 ? num / den : 0, leftOut: n - keep.length };
+  return { z: zk, lag: lk, slope: den > 0 ? num / den : 0, leftOut: n - keep.length, areas: Int32Array.from(keep) };
 }
 
 const SIZE = 460, M = { left: 62, right: 20, top: 44, bottom: 70 };
