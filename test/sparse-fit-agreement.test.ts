@@ -16,13 +16,12 @@ import { LanczosQuadrature } from '../src/linalg/sparse/quadrature.js';
 import { symmetricForm } from '../src/linalg/symmetric-form.js';
 import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
 import type { Design } from '../src/models/types.js';
+import { normalSampler, seededRandom } from '../src/linalg/random.js';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 
-/** Seeded linear congruential generator and Box–Muller normals (test data only). */
+/** Seeded normals for the test data, from the engine's one generator. */
 function generator(seed: number) {
-  let state = seed >>> 0;
-  const u = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) + 0.5) / 4294967296;
-  return () => Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u());
+  return normalSampler(seededRandom(seed));
 }
 
 /** y = (I − ρW)⁻¹(1 + 2x₁ − x₂ + ε) by the Neumann series (ρ^200 is below rounding for |ρ| ≤ 0.8). */
