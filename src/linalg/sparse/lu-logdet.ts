@@ -129,7 +129,7 @@ export class SparseLuLogDet implements LogDeterminant {
     const panels = this.panels!;
     const { n, perm, superCount, superFirst, rowPtr, rows } = this.symbolic;
     const y = work;
-    for (let j = 0; j < n; j++) y.set(b.subarray(perm[j] * r, perm[j] * r + r), j * r);
+    for (let j = 0; j < n; j++) for (let q = 0, from = perm[j] * r, to = j * r; q < r; q++) y[to + q] = b[from + q];
     // forward: L z = y (unit diagonal)
     for (let s = 0; s < superCount; s++) {
       const f = superFirst[s], k = superFirst[s + 1] - f;
@@ -172,7 +172,7 @@ export class SparseLuLogDet implements LogDeterminant {
         for (let q = 0; q < r; q++) y[dst + q] *= inv;
       }
     }
-    for (let j = 0; j < n; j++) x.set(y.subarray(j * r, j * r + r), perm[j] * r);
+    for (let j = 0; j < n; j++) for (let q = 0, from = j * r, to = perm[j] * r; q < r; q++) x[to + q] = y[from + q];
     return x;
   }
 
