@@ -91,7 +91,9 @@ describe('a second thread for the sparse Cholesky factor', () => {
       const a = JSON.parse(one.stdout), b = JSON.parse(two.stdout);
       expect(b.logDeterminant.logDeterminant).toMatch(/two threads/);
       expect(a.logDeterminant.logDeterminant).not.toMatch(/two threads/);
-      expect(Math.abs(a.lag.rho - b.lag.rho)).toBeLessThan(1e-9);
+      // the two factorisations differ by rounding, and each search stops within its tolerance of
+      // 1e-8 in ρ (bracket-polish.ts): agreement to that, not closer, is what the method promises
+      expect(Math.abs(a.lag.rho - b.lag.rho)).toBeLessThan(1e-8);
       expect(Math.abs(a.lag.logLik - b.lag.logLik)).toBeLessThan(1e-6);
       const bad = runCli([...base, '--threads', '3']);
       expect(bad.code).not.toBe(0);
