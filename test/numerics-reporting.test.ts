@@ -135,3 +135,25 @@ describe('F upper tail taken directly', () => {
     for (const [f, d1, d2, want] of cases) expect(Math.abs(fUpper(f, d1, d2) - want)).toBeLessThan(1e-10 * want);
   });
 });
+
+describe('a pivot that fails inside the admissible range, with no dense LU behind it', () => {
+  it('confines the search to where the LU without pivoting is stable and says so, instead of failing', async () => {
+    const { PivotError } = await import('../src/linalg/sparse/lu-front.js');
+    const base = analyticRookAlgebra(10, 10);
+    const { y, design } = lagData(base, -0.2, 6);
+    // an algebra whose exact log-determinant meets a non-positive pivot below ρ = −1/λmax = −0.35
+    // (as the sparse LU may), while the admissible range reaches lower
+    const limit = -0.35;
+    const algebra: WeightsAlgebra = {
+      ...base,
+      logdet: { ...base.logdet, evaluate: (rho: number) => { if (rho < limit) throw new PivotError(3); return base.logdet.evaluate(rho); } },
+      range: { ...base.range, eigenMax: -1 / limit },
+    };
+    const fit = fitSpatialLag(y, design, algebra);
+    const exact = fitSpatialLag(y, design, base);
+    expect(Math.abs(fit.parameter - exact.parameter)).toBeLessThan(1e-6); // ρ̂ = −0.2 lies inside the stable part
+    expect(fit.warnings.join(' ')).toMatch(/search was confined/);
+    const errorFit = (await import('../src/models/ml-error.js')).fitSpatialError(y, design, algebra);
+    expect(errorFit.warnings.join(' ')).toMatch(/search was confined/);
+  });
+});

@@ -4,7 +4,7 @@ import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/index.js'
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
-import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
+import { invertInformation, searchInterval, searchWithinPivotLimit, squaredCorrelation } from './information.js';
 import { dot, residual } from './ml-lag.js';
 import { fitOls, table } from './ols.js';
 import type { Design, OlsFit, SpatialFit } from './types.js';
@@ -69,12 +69,14 @@ export function fitSpatialError(
   const { lo, hi } = searchInterval(algebra.range);
   // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
   // evaluations; an explicit iteration limit asks for the plain search
-  const best = algebra.roughLogdet && opts.maxIterations === undefined
-    ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
-    : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+  const searched = searchWithinPivotLimit((a, b) => algebra.roughLogdet && opts.maxIterations === undefined
+    ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, a, b)
+    : brentMaximise(concentrated, a, b, { maxIterations: opts.maxIterations }), lo, hi, algebra.range, 'λ');
+  const best = searched.result;
   const lambda = best.x;
   const convergence = best.convergence;
   const warnings: string[] = [];
+  if (searched.warning) warnings.push(searched.warning);
   if (!convergence.converged || convergence.atBound) warnings.push(convergence.message);
 
   const at = filtered(lambda);

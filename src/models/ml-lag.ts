@@ -5,7 +5,7 @@ import { householderQr, qrSolve } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
-import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
+import { invertInformation, searchInterval, searchWithinPivotLimit, squaredCorrelation } from './information.js';
 import { lagCrossTrace } from './lag-cross-trace.js';
 import { fitOls, table } from './ols.js';
 import type { Convergence, Design, OlsFit, SpatialFit } from './types.js';
@@ -63,6 +63,7 @@ export function fitSpatialLag(
   let rho: number;
   let convergence: Convergence;
   let logLik: number;
+  let searchWarning: string | undefined;
   if (opts.fixedRho !== undefined) {
     rho = opts.fixedRho;
     convergence = { converged: true, iterations: 0, tolerance: 0, message: `ρ held fixed at ${rho}` };
@@ -70,14 +71,17 @@ export function fitSpatialLag(
   } else {
     // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
     // evaluations; an explicit iteration limit asks for the plain search
-    const best = algebra.roughLogdet && opts.maxIterations === undefined
-      ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
-      : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+    const searched = searchWithinPivotLimit((a, b) => algebra.roughLogdet && opts.maxIterations === undefined
+      ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, a, b)
+      : brentMaximise(concentrated, a, b, { maxIterations: opts.maxIterations }), lo, hi, algebra.range, 'ρ');
+    const best = searched.result;
     rho = best.x;
     convergence = best.convergence;
     logLik = best.value;
+    if (searched.warning) searchWarning = searched.warning;
   }
   const warnings: string[] = [];
+  if (searchWarning) warnings.push(searchWarning);
   if (!convergence.converged || convergence.atBound) warnings.push(convergence.message);
 
   const beta = b0.map((b, j) => b - rho * bL[j]);
