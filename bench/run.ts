@@ -7,7 +7,9 @@
  *  - us-atlas counties, queen and rook: weights built by the real pipeline (readBoundary +
  *    buildWeights), then the full analysis (OLS, Moran, LM, lag, error, impacts) by runAnalysis;
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
- *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder.
+ *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
+ *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
+ *    (bench/input-checks.ts).
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
  */
 import { spawnSync } from 'node:child_process';
@@ -31,6 +33,7 @@ import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
+import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 
@@ -337,6 +340,8 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'command line 300x300': cliWorkload,
   'local statistics 55x55': () => localStatisticsWorkload(55),
   'local statistics 300x300': () => localStatisticsWorkload(300),
+  'zip understating its size': understatedZipWorkload,
+  'overlap checks': overlapChecksWorkload,
 };
 
 async function main(): Promise<void> {

@@ -49,15 +49,16 @@ const demos: Demo[] = [
 
 async function runDemo(d: Demo): Promise<void> {
   const dataPath = join(samples, d.data);
+  const data = readNamedFile(dataPath, 'data');
   const result = await runAnalysis({
     ...d.request,
     boundary: readBoundaryFiles(join(samples, d.boundary)),
-    data: readNamedFile(dataPath, 'data'),
+    data,
     sheet: d.sheet,
     id: d.id,
   });
   const outPath = join(outDir, d.out);
-  await writeResultsFile(result, outPath, dataPath);
+  await writeResultsFile(result, outPath, { path: dataPath, bytes: data.bytes }, { replace: true });
   const truth = JSON.parse(readFileSync(join(samples, d.truth), 'utf8'));
   console.log(`\n${d.title}`);
   console.log(`  ${result.n} areas, ${result.weights.description}, ${result.weights.links} links`);

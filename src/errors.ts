@@ -26,3 +26,30 @@ export function listSome(items: readonly (string | number)[], max = 10): string 
   const shown = items.slice(0, max).join(', ');
   return items.length > max ? `${shown} and ${items.length - max} more` : shown;
 }
+
+/**
+ * Text safe to show on a terminal or a screen: every control character (C0 except line feed and
+ * tab, DEL, C1), the bidirectional marks, overrides and isolates, zero-width characters, the
+ * non-characters U+FFFE/U+FFFF and lone surrogates are written as \u{…} escapes, so a value read from
+ * a file can never move the cursor, retitle the window, clear the screen, reorder the text around it,
+ * fake a line of its own or hide why two IDs differ. The command line's message printer and the
+ * add-in's message bars both pass every message through it.
+ */
+export function printable(text: string, escape: (hex: string) => string = (hex) => `\\u{${hex}}`): string {
+  return text.replace(UNPRINTABLE_ALL, (c) => escape(c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')));
+}
+
+const UNPRINTABLE_ALL = /[\u0000-\u0008\u000B-\u001F\u007F-\u009F\u200B-\u200F\u202A-\u202E\u2060-\u2069\uFEFF\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g;
+
+/**
+ * A character that is not text in a value that must be written to a workbook and matched: a control
+ * character (including tab and line breaks inside the value), U+FFFE/U+FFFF (not allowed in XML) or a
+ * lone surrogate. IDs holding one are refused by name.
+ */
+export const NOT_TEXT = /[\u0000-\u001F\u007F-\u009F\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/;
+
+/** "U+0001" for the first character of `text` that NOT_TEXT matches. */
+export function firstNotText(text: string): string | null {
+  const m = NOT_TEXT.exec(text);
+  return m ? `U+${m[0].codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')}` : null;
+}

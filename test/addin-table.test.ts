@@ -45,6 +45,36 @@ describe('the data step', () => {
   });
 });
 
+describe('the sheet\'s table meets the engine\'s rules (issue #17: the same as a file\'s)', () => {
+  const codes = ['D01', 'D\u000102', 'D03', 'D04'];
+  const sheetTable = (ids: string[], extra: Partial<TableSnapshot> = {}): TableSnapshot => ({
+    sheet: 'Areas', headerRow: 1, firstColumn: 1, headers: ['code', 'y', 'x'],
+    rows: ids.map((id, i) => [id, i + 1.5, i * 2]), rowNumbers: ids.map((_, i) => i + 2), ...extra,
+  });
+  const squares = (ids: string[]) => ({
+    name: 'areas.geojson',
+    bytes: new TextEncoder().encode(JSON.stringify({
+      type: 'FeatureCollection',
+      features: ids.map((id, i) => ({ type: 'Feature', properties: { code: id }, geometry: { type: 'Polygon', coordinates: [[[i, 0], [i + 1, 0], [i + 1, 1], [i, 1], [i, 0]]] } })),
+    })),
+  });
+
+  it('an ID holding a control character is refused with its sheet row, as in a file', async () => {
+    const { runAnalysis } = await import('../src/pipeline/index.js');
+    const run = runAnalysis({
+      boundary: [squares(codes)], data: tableAsCsv(sheetTable(codes)), id: 'code', y: 'y', x: ['x'], weights: { method: 'rook' }, transform: 'row', models: ['ols'], permutations: 0,
+    });
+    await expect(run).rejects.toThrow(/sheet "Areas": the ID column "code" holds characters that are not text .*row 3 \("D\u000102": U\+0001\)/);
+  });
+
+  it('a column named after an object-prototype member is data like any other', async () => {
+    const t = await readTable(tableAsCsv({ ...sheetTable(['A', 'B']), headers: ['__proto__', 'constructor', 'toString'] }));
+    expect(t.columns).toEqual(['__proto__', 'constructor', 'toString']);
+    const layer = await readBoundary([pointsLayer({ ...sheetTable(['A', 'B']), headers: ['constructor', 'y', 'x'] }, 'constructor', 'x', 'y')]);
+    expect(layer.areas.map((a) => a.properties.constructor)).toEqual(['A', 'B']);
+  });
+});
+
 describe('a report sheet laid out for Office.js', () => {
   it('puts blocks where the report layout says, one blank row apart, with number formats beside the values', () => {
     const grid = sheetGrid({

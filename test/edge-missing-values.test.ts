@@ -63,7 +63,7 @@ describe('missing values', () => {
     await expect(runAnalysis(request({ method: 'queen' }, { y: 'x2', x: ['x1'] }))).rejects.toThrow(/Column "x2".*row 14 \(NaN\)/);
   });
 
-  for (const weights of [{ method: 'queen' }, { method: 'rook' }, { method: 'knn', k: 4 }, { method: 'band', distance: 60 }] as WeightsSpec[]) {
+  for (const weights of [{ method: 'queen' }, { method: 'rook' }, { method: 'knn', k: 4 }, { method: 'band', distance: 0.8 }] as WeightsSpec[]) {
     it(`with dropMissing, ${weights.method} weights: the same estimates as deleting the rows and their features`, async () => {
       const dropped = await runAnalysis(request(weights, { dropMissing: true }));
       const byHand = await runAnalysis(request(weights, { boundary: [codesOnly((c) => !DROP.has(c))], data: trimmed() }));

@@ -165,6 +165,6 @@ describe('readBoundary: us-atlas counties TopoJSON', () => {
     // decoding with topojson-client directly); it is closed with a warning rather than refused.
     expect(states.warnings.join(' ')).toMatch(/missed each other by one grid step.*feature 20 \(id 17\)/);
     const e = await failure(readBoundary([{ name: 'counties-10m.json', bytes }], { layer: 'provinces' }));
-    expect(e.message).toMatch(/no object "provinces"; it has "counties", "states", "nation"/);
+    expect(e.message).toMatch(/no object named "provinces"; it has "counties", "states", "nation"/);
   });
 });

@@ -20,7 +20,7 @@ describe('writeWorkbookFile', () => {
     await writeWorkbookFile(path, bytes);
     expect(new Uint8Array(await readFile(path))).toEqual(bytes);
     // replacing an existing file is one rename: the old one stays whole until then
-    await writeWorkbookFile(path, bytes.subarray(0, 10));
+    await writeWorkbookFile(path, bytes.subarray(0, 10), { replace: true });
     expect((await readFile(path)).length).toBe(10);
     expect(await readdir(dir)).toEqual(['results.xlsx']);
   });

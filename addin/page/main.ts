@@ -34,10 +34,11 @@ const host: SidebarHost = {
         status.textContent = `Opened ${f.name}.`;
         clear(sheets);
         if (isWorkbook) {
-          const { sheets: names } = await engine.call({ op: 'sheets', file: opened });
+          const { sheets: names, hidden = [] } = await engine.call({ op: 'sheets', file: opened });
           const saved = host.loadSetup && (await host.loadSetup());
-          const first = names.find((n) => n === saved?.sheet) ?? names[0];
-          sheets.append(select('sheet', 'Sheet', names.map((n) => ({ value: n, text: n })), first, (v) => { load(v).catch(fail); }));
+          // as the engine does: the first sheet the user can see, not a hidden one
+          const first = names.find((n) => n === saved?.sheet) ?? names.find((n) => !hidden.includes(n)) ?? names[0];
+          sheets.append(select('sheet', 'Sheet', names.map((n) => ({ value: n, text: hidden.includes(n) ? `${n} (hidden)` : n })), first, (v) => { load(v).catch(fail); }));
           await load(first);
         } else {
           await load();
@@ -64,7 +65,7 @@ const host: SidebarHost = {
     await drawReportPictures(output.report);
     stage('Writing the workbook');
     const base = opened?.isWorkbook ? opened.bytes : undefined;
-    const { bytes } = await engine.call({ op: 'workbook', report: output.report, base, baseName: opened?.name });
+    const { bytes, note } = await engine.call({ op: 'workbook', report: output.report, base, baseName: opened?.name });
     const stem = (opened?.name ?? 'data').replace(/\.[^.]+$/, '');
     const fileName = `${stem} with results.xlsx`;
     const url = URL.createObjectURL(new Blob([bytes as Uint8Array<ArrayBuffer>], { type: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' }));
@@ -73,7 +74,7 @@ const host: SidebarHost = {
     a.click();
     a.remove();
     return {
-      message: `The results are in ${fileName} (${output.report.sheets.length} new sheets${base ? ' after your own' : ''}).`,
+      message: `The results are in ${fileName} (${output.report.sheets.length} new sheets${base && !note ? ' after your own' : ''}).${note ? ` ${note}` : ''}`,
       download: { url, fileName },
     };
   },

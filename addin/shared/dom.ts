@@ -7,6 +7,7 @@ import '@fluentui/web-components/progress-bar.js';
 import '@fluentui/web-components/message-bar.js';
 import { setTheme } from '@fluentui/web-components';
 import { webLightTheme } from '@fluentui/tokens';
+import { printable } from '../../src/errors.js';
 
 export function applyTheme(): void {
   setTheme(webLightTheme);
@@ -70,8 +71,9 @@ export function numberInput(id: string, label: string, value: number, onChange: 
   return h('fluent-field', { 'label-position': 'above' }, h('label', { slot: 'label', for: id }, label), input);
 }
 
+/** A message bar. Its text passes through the engine's `printable`, as the command line's messages do. */
 export function message(intent: 'error' | 'warning' | 'info' | 'success', text: string, action?: HTMLElement): HTMLElement {
-  const bar = h('fluent-message-bar', { intent, layout: 'multiline', role: intent === 'error' ? 'alert' : 'status' }, h('span', { class: 'msg' }, text));
+  const bar = h('fluent-message-bar', { intent, layout: 'multiline', role: intent === 'error' ? 'alert' : 'status' }, h('span', { class: 'msg' }, printable(text)));
   if (action) { action.setAttribute('slot', 'actions'); bar.append(action); }
   return bar;
 }

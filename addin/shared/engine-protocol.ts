@@ -46,11 +46,11 @@ export type EngineJob =
   | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
 
 export type EngineAnswer =
-  | { op: 'sheets'; sheets: string[] }
+  | { op: 'sheets'; sheets: string[]; /** the hidden ones among them */ hidden?: string[] }
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }
   | { op: 'run'; output: RunOutput }
-  | { op: 'workbook'; bytes: Uint8Array };
+  | { op: 'workbook'; bytes: Uint8Array; /** why the results went to a new workbook rather than a copy of the user's */ note?: string };
 
 export interface EngineError {
   message: string;

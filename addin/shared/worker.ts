@@ -2,13 +2,12 @@
  * The engine in a Web Worker, so the sidebar stays responsive and a run can be cancelled by ending
  * the worker. Pure engine calls only: files come in as bytes, plain data goes back.
  */
-import ExcelJS from 'exceljs';
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport } from '../../src/geo/index.js';
+import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
 import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
 import { buildReport, MODEL_LABEL, scatterPoints } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
-import { writeResultsWorkbook } from '../../src/workbook/index.js';
+import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
@@ -17,16 +16,6 @@ const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessag
 function asEngineError(e: unknown): EngineError {
   if (e instanceof InputError) return { message: e.message, input: true, where: e.where, join: e instanceof JoinError ? e.report : undefined };
   return { message: e instanceof Error ? e.message : String(e), input: false };
-}
-
-async function sheetNames(bytes: Uint8Array): Promise<string[]> {
-  const wb = new ExcelJS.Workbook();
-  try {
-    await wb.xlsx.load(bytes as unknown as ArrayBuffer);
-  } catch (e) {
-    throw new InputError(`This file could not be opened as an .xlsx workbook (${e instanceof Error ? e.message : String(e)}). Save it as .xlsx and try again.`);
-  }
-  return wb.worksheets.map((w) => w.name);
 }
 
 async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string): Promise<TableSnapshot> {
@@ -40,7 +29,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   const table = await readTable(c.data, { sheet: c.sheet });
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
-    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings],
+    // what was noted reading both files stays in view when the join fails (an encoding guessed, a merged cell)
+    coordinateEvidence: layer.coordinateEvidence, coordinatesGuessed: layer.coordinatesGuessed ?? false, warnings: [...layer.warnings, ...(table.warnings ?? [])],
   };
   const idProperty = c.boundaryId ?? c.id;
   if (!layer.propertyNames.includes(idProperty)) {
@@ -57,7 +47,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
     if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
     throw e;
   }
-  const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...base.warnings, ...joined.warnings] };
+  // the joined areas carry the layer's and the table's notes already
+  const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...joined.warnings] };
   try {
     const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
     const w = buildWeights(
@@ -98,11 +89,20 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
 
 async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
   switch (job.op) {
-    case 'sheets': return { op: 'sheets', sheets: await sheetNames(job.file.bytes) };
+    case 'sheets': {
+      const sheets = await workbookSheets(job.file.bytes, job.file.name);
+      return { op: 'sheets', sheets: sheets.map((x) => x.name), hidden: sheets.filter((x) => x.hidden).map((x) => x.name) };
+    }
     case 'table': return { op: 'table', table: await tableOf(job.file, job.sheet) };
     case 'check': return { op: 'check', result: await check(job.check) };
     case 'run': return { op: 'run', output: await run(id, job) };
-    case 'workbook': return { op: 'workbook', bytes: await writeResultsWorkbook(job.report, { base: job.base, baseName: job.baseName }) };
+    case 'workbook': {
+      // as on the command line: a workbook holding parts a copy would lose is not copied
+      const risks = job.base ? baseWorkbookRisks(job.base) : [];
+      const base = risks.length ? undefined : job.base;
+      const bytes = await writeResultsWorkbook(job.report, { base, baseName: job.baseName });
+      return { op: 'workbook', bytes, ...(risks.length ? { note: `${job.baseName ?? 'Your workbook'} holds ${risks.join(', ')}, which a copy could not keep, so the results are in a new workbook of their own.` } : {}) };
+    }
   }
 }
 

@@ -2,7 +2,7 @@ import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
 import type { ModelName } from '../pipeline/types.js';
 import { InputError } from '../errors.js';
-import { parseRateRecipe, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
+import { parseRateRecipe, MAX_SEED, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS, MAX_PERMUTATIONS, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 
 export interface FitArgs {
   boundary: string;
@@ -35,6 +35,8 @@ export interface FitArgs {
   json: boolean;
   perArea: boolean;
   out?: string;
+  /** replace an existing --out file (never an input, never a read-only file) */
+  overwrite: boolean;
 }
 
 export const FIT_USAGE = `Usage:
@@ -46,7 +48,9 @@ Files
   --coordinates KIND   geographic (longitude/latitude) or projected, when the file does not say
   --data FILE          CSV or .xlsx table joined to the areas by --id (default: the boundary's own attributes)
   --sheet NAME         sheet of the .xlsx table (default: the first)
-  --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one)
+  --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one);
+                       never one of the input files
+  --overwrite          replace the --out file if it exists (a read-only file is never replaced)
 
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
@@ -91,9 +95,10 @@ Rates from counts
 Output and reproducibility
   --json               print one JSON document instead of the readable summary
   --per-area           with --json, include fitted values and residuals per area
-  --seed N             seed for permutations and simulated impacts (default 20261201)
-  --draws N            simulation draws for impact standard errors (default 1000)
-  --permutations N     permutations for Moran's I of the outcome (default 999; 0 above 10,000 areas)
+  --seed N             seed for permutations and simulated impacts, 0 to 4294967295 (default 20261201)
+  --draws N            simulation draws for impact standard errors, 2 to 100,000 (default 1000)
+  --permutations N     permutations for Moran's I of the outcome, 0 to 99,999 (default 999; 0 above
+                       10,000 areas)
   --algebra A          auto | dense | sparse log-determinant (default auto)
   --threads N          1 or 2: a second thread shares large sparse factorisations (default 2)
 `;
@@ -112,7 +117,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
-        'per-area': { type: 'boolean' }, out: { type: 'string' },
+        'per-area': { type: 'boolean' }, out: { type: 'string' }, overwrite: { type: 'boolean' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
         rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
       },
@@ -137,7 +142,15 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if (v.coordinates !== undefined && v.coordinates !== 'geographic' && v.coordinates !== 'projected') {
     throw new InputError(`--coordinates must be geographic or projected, not "${v.coordinates}".`);
   }
-  if (v.out && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  if (v.cumulative && v.order === undefined) throw new InputError('--cumulative goes with --order K (every area up to K steps away).');
+  if (v.neighbours !== undefined) {
+    const ruleOptions = (['weights', 'order', 'tolerance', 'ties', 'link-unneighboured'] as const).filter((o) => v[o] !== undefined);
+    if (ruleOptions.length) {
+      throw new InputError(`--neighbours reads the neighbours from a list, so ${ruleOptions.map((o) => `--${o}`).join(', ')} would be ignored; give either the list or a rule.`);
+    }
+  }
+  if (v.out !== undefined && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
+  if (v.overwrite && v.out === undefined) throw new InputError('--overwrite goes with --out (the results workbook to replace).');
   return {
     boundary: need('boundary'),
     layer: v.layer,
@@ -156,9 +169,9 @@ export function parseFitArgs(argv: string[]): FitArgs {
     models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
     dropMissing: v['drop-missing'] ?? false,
     robust: v.robust ?? false,
-    seed: optionalInteger('seed', v.seed, 0),
-    draws: optionalInteger('draws', v.draws, 1),
-    permutations: optionalInteger('permutations', v.permutations, 0),
+    seed: optionalInteger('seed', v.seed, 0, MAX_SEED),
+    draws: optionalInteger('draws', v.draws, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS, ' (the simulated standard errors settle long before the upper end)'),
+    permutations: optionalInteger('permutations', v.permutations, 0, MAX_PERMUTATIONS, ' (p-values resolve to 1/(N + 1): 9,999 already reaches 0.0001)'),
     algebra,
     threads,
     local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
@@ -166,6 +179,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
+    overwrite: v.overwrite ?? false,
   };
 }
 
@@ -185,9 +199,12 @@ function parseCompare(text: string | undefined, tolerance: string | undefined, t
   });
 }
 
-/** queen | rook | knn:K | band:D | idw:P[:CUTOFF] */
+/** A number as people write one: digits with an optional point and exponent (no hex, no "Infinity"). */
+const DECIMAL = /^\+?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** queen | rook | knn:K | band:D | idw:P[:CUTOFF]. Every part is read; a part the rule does not take is refused. */
 export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string, ties?: string, tiesOnlyForKnn = true): WeightsSpec {
-  const [name, ...params] = rule.trim().toLowerCase().split(':');
+  const [name, ...params] = rule.trim().toLowerCase().split(':').map((p) => p.trim());
   const tieRule = ties?.trim().toLowerCase();
   if (tieRule !== undefined && tieRule !== 'lower-row' && tieRule !== 'include') {
     throw new InputError(`--ties must be lower-row or include, not "${ties}".`);
@@ -195,36 +212,48 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
   if (tieRule !== undefined && tiesOnlyForKnn && name !== 'knn') throw new InputError('--ties applies to k-nearest neighbours (knn:K) only.');
   const num = (s: string | undefined, what: string) => {
     const n = Number(s);
-    if (s === undefined || s === '' || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number.`);
+    if (s === undefined || !DECIMAL.test(s.trim()) || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number${s ? `, not "${s}"` : ''}.`);
     return n;
   };
+  const parts = (most: number, form: string) => {
+    if (params.length > most) {
+      const extra = params.slice(most).map((p) => `"${p}"`).join(', ');
+      throw new InputError(
+        `--weights ${rule}: ${name} takes ${most === 0 ? 'no number' : most === 1 ? 'one number' : `at most ${most} numbers`} (${form}), so ${extra} cannot be read.` +
+          (most === 0 ? ` For neighbours more than one step away, add --order K (e.g. --weights ${name} --order ${params[0] || 2}).` : ''),
+      );
+    }
+  };
   if (name === 'queen' || name === 'rook') {
+    parts(0, name);
     const spec: Extract<WeightsSpec, { method: 'queen' | 'rook' }> = { method: name };
     if (order !== undefined) {
-      const k = num(order, '--order');
-      if (!Number.isInteger(k) || k < 1) throw new InputError(`--order must be a whole number of at least 1, not "${order}".`);
-      spec.order = k;
+      if (!/^\s*\d+\s*$/.test(order) || Number(order) < 1) throw new InputError(`--order must be a whole number of at least 1, not "${order}".`);
+      spec.order = Number(order);
       spec.cumulative = cumulative;
     }
     if (tolerance !== undefined) {
-      const t = num(tolerance, '--tolerance');
-      if (t < 0) throw new InputError('--tolerance cannot be negative.');
-      spec.tolerance = t;
+      if (!DECIMAL.test(tolerance.trim()) || !Number.isFinite(Number(tolerance))) throw new InputError(`--tolerance must be a number of 0 or more, not "${tolerance}".`);
+      spec.tolerance = Number(tolerance);
     }
     return spec;
   }
   if (order !== undefined) throw new InputError('--order applies to queen or rook neighbours only.');
+  if (tolerance !== undefined && tiesOnlyForKnn) throw new InputError('--tolerance applies to queen or rook neighbours only.');
   if (name === 'knn') {
+    parts(1, 'knn:K');
     const k = num(params[0], 'the number of neighbours K (knn:K)');
     if (!Number.isInteger(k) || k < 1) throw new InputError(`--weights ${rule}: K must be a whole number of at least 1.`);
     return tieRule === 'include' ? { method: 'knn', k, ties: 'include' } : { method: 'knn', k };
   }
   if (name === 'band') {
+    parts(1, 'band:DISTANCE');
     const d = num(params[0], 'the distance (band:DISTANCE)');
     if (d <= 0) throw new InputError(`--weights ${rule}: the distance must be positive.`);
     return { method: 'band', distance: d };
   }
   if (name === 'idw') {
+    parts(2, 'idw:POWER or idw:POWER:CUTOFF');
     const p = num(params[0], 'the power (idw:POWER)');
     if (p <= 0) throw new InputError(`--weights ${rule}: the power must be positive.`);
     const spec: Extract<WeightsSpec, { method: 'idw' }> = { method: 'idw', power: p };
@@ -238,10 +267,14 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
   throw new InputError(`--weights: unknown rule "${rule}"; use queen, rook, knn:K, band:DISTANCE or idw:POWER[:CUTOFF].`);
 }
 
-function optionalInteger(name: string, s: string | undefined, min: number): number | undefined {
+/** A whole number written in digits, within [min, max] (the range is stated when refused). */
+function optionalInteger(name: string, s: string | undefined, min: number, max: number, why = ''): number | undefined {
   if (s === undefined) return undefined;
-  const n = Number(s);
-  if (!Number.isInteger(n) || n < min) throw new InputError(`--${name} must be a whole number of at least ${min}, not "${s}".`);
+  const t = s.trim();
+  const n = Number(t);
+  if (!/^\d+$/.test(t) || n < min || n > max) {
+    throw new InputError(`--${name} must be a whole number from ${min} to ${max.toLocaleString('en-US')}, not "${s}"${why}.`);
+  }
   return n;
 }
 

@@ -1,8 +1,9 @@
-import { InputError } from '../errors.js';
+import { InputError, printable } from '../errors.js';
 import { runAnalysis, resultToJson } from '../pipeline/index.js';
 import { ENGINE_VERSION } from '../version.js';
 import { FIT_USAGE, parseFitArgs } from './args.js';
-import { readBoundaryFiles, readNamedFile } from './read-files.js';
+import { boundaryPaths, readBoundaryFiles, readNamedFile } from './read-files.js';
+import { planOutput, type InputPath } from './output-file.js';
 import { formatSummary } from './summary.js';
 import { startNodeHelper } from './helper-thread.js';
 
@@ -24,9 +25,16 @@ const processIo: CliIo = {
   stderr: (t) => { process.stderr.write(t); },
 };
 
+/** JSON text with the characters `printable` escapes written as JSON escapes (the document stays valid). */
+function jsonPrintable(text: string): string {
+  return printable(text, (hex) => `\\u${hex}`);
+}
+
 /** Returns the exit code: 0 done, 2 bad input or usage, 1 an internal failure. */
-export async function main(argv: string[], io: CliIo = processIo): Promise<number> {
+export async function main(argv: string[], rawIo: CliIo = processIo): Promise<number> {
   const [command, ...rest] = argv;
+  // Everything shown passes through one escaping function: values read from files cannot send terminal codes.
+  const io: CliIo = { stdout: (t) => rawIo.stdout(printable(t)), stderr: (t) => rawIo.stderr(printable(t)) };
   try {
     if (!command || command === 'help' || command === '--help' || command === '-h') {
       io.stdout(USAGE);
@@ -36,11 +44,20 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     if (command !== 'fit') throw new InputError(`Unknown command "${command}". Try: spillway fit --help`);
     if (rest.includes('--help') || rest.includes('-h')) { io.stdout(FIT_USAGE); return 0; }
     const args = parseFitArgs(rest);
+    // the output is checked before anything is read or run: against every file the run will read
+    const inputs: InputPath[] = [
+      ...boundaryPaths(args.boundary).map((path) => ({ path, option: '--boundary' })),
+      ...(args.data ? [{ path: args.data, option: '--data' }] : []),
+      ...(args.edgeList ? [{ path: args.edgeList, option: '--neighbours' }] : []),
+    ];
+    const output = args.out ? planOutput(args.out, inputs, args.overwrite) : undefined;
+    for (const note of output?.notes ?? []) io.stderr(`spillway: note: ${note}\n`);
+    const data = args.data ? readNamedFile(args.data, 'data') : undefined;
     const result = await runAnalysis({
       boundary: readBoundaryFiles(args.boundary),
       layer: args.layer,
       coordinates: args.coordinates,
-      data: args.data ? readNamedFile(args.data, 'data') : undefined,
+      data,
       sheet: args.sheet,
       id: args.id,
       boundaryId: args.boundaryId,
@@ -61,11 +78,13 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       ...(args.rates ? { rates: args.rates } : {}),
       algebra: args.algebra,
     }, args.threads === 2 ? { helper: startNodeHelper } : {});
-    if (args.out) {
+    if (output) {
       const { writeResultsFile } = await import('./write-results.js');
-      for (const note of await writeResultsFile(result, args.out, args.data)) io.stderr(`spillway: note: ${note}\n`);
+      const source = args.data && data ? { path: args.data, bytes: data.bytes } : undefined;
+      const opts = output.replaceMode !== undefined ? { replace: true, mode: output.replaceMode } : {};
+      for (const note of await writeResultsFile(result, output.target, source, opts)) io.stderr(`spillway: note: ${note}\n`);
     }
-    if (args.json) io.stdout(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2) + '\n');
+    if (args.json) rawIo.stdout(jsonPrintable(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2)) + '\n');
     else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : ''));
     return 0;
   } catch (e) {

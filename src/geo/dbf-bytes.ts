@@ -18,6 +18,10 @@ export interface DbfLayout {
   headerLength: number;
   recordLength: number;
   fields: DbfField[];
+  /** the language driver byte of the header (byte 29): the code page the writer declared, 0 when none */
+  languageDriver: number;
+  /** 1-based numbers of the records flagged deleted ("*" as their first byte) */
+  deleted: number[];
 }
 
 export function readDbfLayout(bytes: Uint8Array, file: string): DbfLayout {
@@ -50,7 +54,27 @@ export function readDbfLayout(bytes: Uint8Array, file: string): DbfLayout {
       { file },
     );
   }
-  return { recordCount, headerLength, recordLength, fields };
+  const deleted: number[] = [];
+  for (let r = 0; r < recordCount; r++) if (bytes[headerLength + r * recordLength] === 0x2a) deleted.push(r + 1);
+  return { recordCount, headerLength, recordLength, fields, languageDriver: bytes[29], deleted };
+}
+
+/**
+ * The code page a .dbf header's language driver byte names (dBASE / shapefile convention; the table
+ * of byte values is recalled from memory of the dBASE documentation): the TextDecoder label when one
+ * exists, and the code page number for messages. MS-DOS code pages without a decoder come back with
+ * `decoder` null.
+ */
+export function codePageOfDriver(byte: number): { codePage: number; decoder: string | null } | null {
+  const table: Record<number, [number, string | null]> = {
+    0x01: [437, null], 0x02: [850, null], 0x03: [1252, 'windows-1252'], 0x57: [1252, 'windows-1252'], 0x58: [1252, 'windows-1252'],
+    0x59: [1252, 'windows-1252'], 0x64: [852, null], 0x65: [866, 'ibm866'], 0x26: [866, 'ibm866'], 0x66: [865, null],
+    0x13: [932, 'shift_jis'], 0x7b: [932, 'shift_jis'], 0x4d: [936, 'gbk'], 0x7a: [936, 'gbk'], 0x4e: [949, 'euc-kr'], 0x79: [949, 'euc-kr'],
+    0x4f: [950, 'big5'], 0x78: [950, 'big5'], 0x7c: [874, 'windows-874'], 0x7d: [1255, 'windows-1255'], 0x7e: [1256, 'windows-1256'],
+    0xc8: [1250, 'windows-1250'], 0xc9: [1251, 'windows-1251'], 0xca: [1254, 'windows-1254'], 0xcb: [1253, 'windows-1253'], 0xcc: [1257, 'windows-1257'],
+  };
+  const hit = table[byte];
+  return hit ? { codePage: hit[0], decoder: hit[1] } : null;
 }
 
 function latin(b: Uint8Array): string {

@@ -18,6 +18,9 @@ export interface ConvertResult {
   warnings: string[];
 }
 
+/** Coordinates beyond this size are no map's: areas and distances computed from them overflow. */
+const MAX_COORDINATE = 1e12;
+
 const SUPPORTED = 'only polygons (Polygon, MultiPolygon) and points (Point, or a MultiPoint of one point) are supported';
 
 interface FeatureContext {
@@ -42,6 +45,8 @@ export interface ConvertOptions {
   /** Grid step [dx, dy] of quantized TopoJSON: a ring whose ends are within one step is closed by
    *  repeating its first position, with a warning (the arcs of such files can miss by one step). */
   closeWithinStep?: [number, number];
+  /** The file's own number of each feature given (when some records were left out before), for messages. */
+  featureNumbers?: number[];
 }
 
 export function featuresToAreas(root: unknown, file: string, opts: ConvertOptions = {}): ConvertResult {
@@ -57,7 +62,7 @@ export function featuresToAreas(root: unknown, file: string, opts: ConvertOption
   let firstKind: { kind: AreaGeometry['kind']; feature: number } | null = null;
 
   for (let i = 0; i < features.length; i++) {
-    const number = i + 1;
+    const number = opts.featureNumbers?.[i] ?? i + 1;
     const f = features[i] as Record<string, unknown> | null;
     if (f === null || typeof f !== 'object' || Array.isArray(f)) {
       throw new InputError(`${file}: feature ${number} is not a GeoJSON Feature object.`, { file, feature: number });
@@ -73,7 +78,10 @@ export function featuresToAreas(root: unknown, file: string, opts: ConvertOption
       throw new InputError(`${file}: feature ${number} has properties that are not an object.`, { file, feature: number });
     }
     // The GeoJSON `id` member becomes the property "id" (unless one exists) so it can serve as join key.
-    if (f.id !== undefined && f.id !== null && !('id' in properties)) properties = { id: f.id, ...properties };
+    if (f.id !== undefined && f.id !== null && !Object.hasOwn(properties, 'id')) properties = { id: f.id, ...properties };
+    // Without a prototype, a name such as "constructor" or "toString" reads as absent on a feature
+    // that lacks it, never as a function inherited from Object.
+    Object.setPrototypeOf(properties, null);
     for (const key in properties) names.add(key);
     const ctx: FeatureContext = { file, feature: number, label: featureLabel(number, properties, f.id), bounds, crossings, longRings: 0, droppedParts: 0, keepFlat: !!opts.keepFlatFeatures, flat: false, step: opts.closeWithinStep ?? null, closed: 0 };
     const geometry = convertGeometry(f.geometry, ctx);
@@ -226,6 +234,10 @@ function checkPosition(p: unknown, ctx: FeatureContext, where: string, k = -1): 
   if (typeof x !== 'number' || typeof y !== 'number' || !Number.isFinite(x) || !Number.isFinite(y)) {
     throw bad(ctx, `has a non-numeric or non-finite coordinate (${String(x)}, ${String(y)}) at ${at(where, k)}`);
   }
+  if (Math.abs(x) > MAX_COORDINATE || Math.abs(y) > MAX_COORDINATE) {
+    throw bad(ctx, `has a coordinate (${x}, ${y}) at ${at(where, k)} beyond ±1e12, larger than any map's coordinates ` +
+      '(metres around the whole Earth stay below 1e8); the file is damaged, or its numbers are not coordinates');
+  }
   const b = ctx.bounds;
   if (x < b[0]) b[0] = x;
   if (y < b[1]) b[1] = y;
@@ -264,6 +276,11 @@ function checkPolygon(polygon: unknown, index: number, multi: boolean, ctx: Feat
     last[0] = positions[0][0]; // closed within noise: make it exact so shared vertices compare equal
     last[1] = positions[0][1];
     if (isDegenerate(positions)) {
+      const extent = extentOf(positions);
+      if (extent[0] > 0 && extent[1] > 0 && extent[0] * extent[1] === 0) {
+        throw bad(ctx, `has ${where} spanning only ${extent[0]} by ${extent[1]} coordinate units, too small for its area to be computed; ` +
+          'the coordinates are in units far too large for the data (rescale them)');
+      }
       if (r === 0) return false;
       flatHoles++;
       continue;
@@ -289,7 +306,7 @@ function withinStep(ring: number[][], step: [number, number]): boolean {
   return Math.abs(a[0] - z[0]) <= step[0] * (1 + 1e-9) && Math.abs(a[1] - z[1]) <= step[1] * (1 + 1e-9);
 }
 
-function isDegenerate(ring: number[][]): boolean {
+function extentOf(ring: number[][]): [number, number] {
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
   for (const p of ring) {
     if (p[0] < minX) minX = p[0];
@@ -297,6 +314,11 @@ function isDegenerate(ring: number[][]): boolean {
     if (p[1] < minY) minY = p[1];
     if (p[1] > maxY) maxY = p[1];
   }
-  const box = (maxX - minX) * (maxY - minY);
+  return [maxX - minX, maxY - minY];
+}
+
+function isDegenerate(ring: number[][]): boolean {
+  const [width, height] = extentOf(ring);
+  const box = width * height;
   return box === 0 || Math.abs(ringSignedArea(ring)) <= 1e-12 * box;
 }

@@ -3,6 +3,8 @@ import { InputError, listSome } from '../errors.js';
 import type { AreaGeometry, AreaLayer, DataTable, JoinReport, JoinedAreas } from './types.js';
 import type { Cell } from './table-shape.js';
 import { idText, toCell, unpadded } from './ids.js';
+import { caseMessage, caseOnlyPairs, refuseIdsNotText } from './id-checks.js';
+import { formulaNote } from './formula-note.js';
 
 /** An InputError that also carries the full join report, for screens that list every problem. */
 export class JoinError extends InputError {
@@ -77,6 +79,10 @@ export function joinAreas(
       );
     }
     const rowNo = (i: number) => table.rowNumbers?.[i] ?? table.firstRow + i;
+    refuseIdsNotText(
+      table.rows.flatMap((r, i) => { const id = idText(r[col]); return id === null ? [] : [{ id, where: `${rowWord} ${rowNo(i)}` }]; }),
+      table.sourceName, idColumn,
+    );
     const byRowId = new Map<string, number[]>();
     tableIds = byRowId;
     table.rows.forEach((r, i) => {
@@ -112,6 +118,7 @@ export function joinAreas(
     });
     report.zeroPaddingSuspects = paddingSuspects(report.unmatchedRows.map((u) => u.id), report.unmatchedFeatures.map((u) => u.id));
   } else {
+    refuseIdsNotText(featureIds.flatMap((id, f) => (id === null ? [] : [{ id, where: `feature ${areas[f].feature}` }])), layer.sourceName, featureProp);
     ids = [];
     rows = [];
     featureIndex = [];
@@ -126,7 +133,9 @@ export function joinAreas(
     if (areas[f].geometry === null) report.withoutGeometry.push({ id: ids[k], row: rows[k], feature: areas[f].feature });
   });
 
-  const problems = fatalProblems(report, layer.sourceName, table?.sourceName ?? null, rowWord, tableIds);
+  const formulaRows = table?.formulasWithoutResult?.get(idColumn)?.filter((r) => report.blankRows.includes(r)) ?? [];
+  const blankNote = formulaRows.length ? ` ${formulaNote(formulaRows)}` : '';
+  const problems = fatalProblems(report, layer.sourceName, table?.sourceName ?? null, rowWord, tableIds, blankNote);
   if (problems.length > 0) {
     throw new JoinError(`Joining by "${idColumn}" failed:\n- ${problems.join('\n- ')}`, report, table?.sourceName ?? layer.sourceName);
   }
@@ -168,6 +177,8 @@ export function joinAreas(
     warnings: [...layer.warnings, ...(table?.warnings ?? []), ...warnings],
     rowKind: rowWord === 'feature' ? 'feature' : 'row',
     ...(table?.decimalComma ? { decimalComma: true } : {}),
+    ...(table?.dotDecimals ? { dotDecimals: true } : {}),
+    ...(table?.formulasWithoutResult ? { formulasWithoutResult: table.formulasWithoutResult } : {}),
   };
 }
 
@@ -216,10 +227,10 @@ function paddingMessage(report: JoinReport): string {
  * ID there, or an ID on two features that no row names, only leaves those features out (a
  * national boundary file read for one region's table, water bodies without an ID).
  */
-function fatalProblems(report: JoinReport, layerName: string, tableName: string | null, rowWord: string, tableIds: Map<string, number[]> | null): string[] {
+function fatalProblems(report: JoinReport, layerName: string, tableName: string | null, rowWord: string, tableIds: Map<string, number[]> | null, blankNote = ''): string[] {
   const p: string[] = [];
   const rowsOf = (list: number[]) => `${rowWord}${list.length > 1 ? 's' : ''} ${listSome(list)}`;
-  if (tableName && report.blankRows.length) p.push(`${tableName}: the ID is blank in ${rowsOf(report.blankRows)}.`);
+  if (tableName && report.blankRows.length) p.push(`${tableName}: the ID is blank in ${rowsOf(report.blankRows)}.${blankNote}`);
   if (!tableIds && report.blankFeatures.length) {
     p.push(`${layerName}: the ID is blank for feature${report.blankFeatures.length > 1 ? 's' : ''} ${listSome(report.blankFeatures)}.`);
   }
@@ -234,11 +245,17 @@ function fatalProblems(report: JoinReport, layerName: string, tableName: string 
   if (tableName && report.unmatchedRows.length) {
     p.push(`${tableName}: ${report.unmatchedRows.length} ${rowWord}(s) have an ID with no feature in ${layerName}: ` +
       `${listSome(report.unmatchedRows.map((u) => `${rowWord} ${u.row} (${u.id})`))}.` +
-      (report.zeroPaddingSuspects.length ? ` ${paddingMessage(report)}` : ''));
+      (report.zeroPaddingSuspects.length ? ` ${paddingMessage(report)}` : '') + caseHint(report));
   }
   if (report.withoutGeometry.length) {
     p.push(`${layerName}: these features have no geometry: ${listSome(report.withoutGeometry.map((w) => `feature ${w.feature} (${w.id}, ${rowWord} ${w.row})`))}. ` +
       'Remove their rows or repair the boundary file.');
   }
   return p;
+}
+
+/** " N of these match … when letter case is ignored …" for the unmatched rows, or "". */
+function caseHint(report: JoinReport): string {
+  const pairs = caseOnlyPairs(report.unmatchedRows.map((u) => u.id), report.unmatchedFeatures.map((u) => u.id));
+  return pairs.length ? ` ${caseMessage(pairs)}` : '';
 }

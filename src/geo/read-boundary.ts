@@ -58,9 +58,21 @@ async function readLayer(files: NamedBytes[], opts: ReadBoundaryOptions): Promis
   const byExt = (ext: string) => expanded.filter((f) => extension(f.name) === ext);
   const shps = byExt('shp');
   const dbfs = byExt('dbf');
+  const jsons = expanded.filter((f) => ['geojson', 'json', 'topojson'].includes(extension(f.name)) || (extension(f.name) !== 'shp' && extension(f.name) !== 'dbf' && looksLikeJson(f.bytes)));
+  if ((shps.length > 0 || dbfs.length > 0) && jsons.length > 0) {
+    // both kinds: the one the layer names, else say what is there rather than pick one silently
+    const named = opts.layer ? [...shps, ...jsons].filter((f) => matchesLayer(f.name, opts.layer!)) : [];
+    if (named.length === 1 && extension(named[0].name) === 'shp') return readShapefileSet(expanded, named, dbfs, zipName, opts);
+    if (named.length === 1) return readJsonFile(named[0], opts);
+    const where = zipName ? `${zipName} holds` : 'The files given are';
+    throw new InputError(
+      `${where} both a shapefile (${shps.map((f) => f.name).join(', ') || dbfs.map((f) => f.name).join(', ')}) and ${jsons.map((f) => f.name).join(', ')}; ` +
+        'which one holds the areas cannot be told. Name one as the layer (--layer and its file name without the extension), or give the files separately.',
+      { file: zipName ?? files[0].name },
+    );
+  }
   if (shps.length > 0 || dbfs.length > 0) return readShapefileSet(expanded, shps, dbfs, zipName, opts);
 
-  const jsons = expanded.filter((f) => ['geojson', 'json', 'topojson'].includes(extension(f.name)) || looksLikeJson(f.bytes));
   if (jsons.length === 0) {
     const names = files.map((f) => f.name).join(', ');
     throw new InputError(
@@ -71,14 +83,39 @@ async function readLayer(files: NamedBytes[], opts: ReadBoundaryOptions): Promis
   }
   let chosen = jsons[0];
   if (jsons.length > 1) {
-    const named = opts.layer ? jsons.find((f) => stem(f.name) === opts.layer) : undefined;
-    if (!named) throw new InputError(`Several boundary files were given (${jsons.map((f) => f.name).join(', ')}); choose one.`);
-    chosen = named;
+    const named = opts.layer ? jsons.filter((f) => matchesLayer(f.name, opts.layer!)) : [];
+    if (named.length !== 1) {
+      throw new InputError(
+        `Several boundary files were given (${jsons.map((f) => f.name).join(', ')}); choose one by naming it as the layer (its file name without the extension${zipName ? ', or its path inside the zip' : ''}).`,
+        { file: zipName ?? jsons[0].name },
+      );
+    }
+    chosen = named[0];
   }
-  const root = parseJsonBytes(chosen.bytes, chosen.name);
-  return isTopology(root)
-    ? layerFromTopology(root, chosen.name, opts.layer, opts.coordinates)
+  return readJsonFile(chosen, opts);
+}
+
+async function readJsonFile(chosen: NamedBytes, opts: ReadBoundaryOptions): Promise<AreaLayer> {
+  const notes: string[] = [];
+  const root = parseJsonBytes(chosen.bytes, chosen.name, notes);
+  const objectName = opts.layer !== undefined && matchesLayer(chosen.name, opts.layer) ? undefined : opts.layer;
+  if (objectName !== undefined && !isTopology(root)) {
+    throw new InputError(
+      `${chosen.name} is a single GeoJSON layer; the layer "${objectName}" names neither a TopoJSON object nor one of several files, so it cannot be chosen. Leave the layer out.`,
+      { file: chosen.name },
+    );
+  }
+  const layer = isTopology(root)
+    ? layerFromTopology(root, chosen.name, objectName, opts.coordinates)
     : layerFromGeoJson(root, chosen.name, opts.coordinates);
+  return notes.length ? { ...layer, warnings: [...notes, ...layer.warnings], readNotes: notes } : layer;
+}
+
+/** The layer names this file: its base name without extension, or its path (inside a zip) with or without it. */
+function matchesLayer(name: string, layer: string): boolean {
+  const inner = name.includes('.zip/') ? name.slice(name.indexOf('.zip/') + 5) : name;
+  const l = layer.trim();
+  return stem(name) === l || inner === l || inner.replace(/\.[^./]*$/, '') === l;
 }
 
 function looksLikeJson(bytes: Uint8Array): boolean {
@@ -103,23 +140,28 @@ function readShapefileSet(
   }
   let shp = shps[0];
   if (shps.length > 1) {
-    const named = opts.layer ? shps.find((f) => stem(f.name) === opts.layer) : undefined;
-    if (!named) {
+    const named = opts.layer ? shps.filter((f) => matchesLayer(f.name, opts.layer!)) : [];
+    if (named.length !== 1) {
       throw new InputError(
-        `${where} several shapefiles (${shps.map((f) => stem(f.name)).join(', ')}); choose one by name.`,
+        `${where} several shapefiles (${shps.map((f) => f.name).join(', ')}); choose one by naming it as the layer (its file name without the extension${zipName ? ', or its path inside the zip' : ''}).`,
         { file: zipName ?? shp.name },
       );
     }
-    shp = named;
+    shp = named[0];
   }
-  const base = stem(shp.name).toLowerCase();
-  const partner = (ext: string) => all.find((f) => extension(f.name) === ext && stem(f.name).toLowerCase() === base);
+  // the parts beside the .shp (same folder of the zip, same name in any letter case)
+  const withoutExt = (name: string) => name.replace(/\.[^./\\]*$/, '').toLowerCase();
+  const base = withoutExt(shp.name);
+  const partner = (ext: string) => all.find((f) => extension(f.name) === ext && withoutExt(f.name) === base);
   const dbf = partner('dbf') ?? (shps.length === 1 && dbfs.length === 1 ? dbfs[0] : undefined);
   if (!dbf) {
     throw new InputError(
       `${where} ${shp.name} but no matching .dbf file with the attributes; a shapefile needs both (.shx, .prj and .cpg are optional).`,
       { file: zipName ?? shp.name },
     );
+  }
+  if (opts.layer !== undefined && !matchesLayer(shp.name, opts.layer)) {
+    throw new InputError(`${where} one shapefile, ${shp.name}; the layer "${opts.layer}" is not its name, so it cannot be chosen. Leave the layer out.`, { file: zipName ?? shp.name });
   }
   const parts: ShapefileParts = { shp, dbf, prj: partner('prj'), cpg: partner('cpg') };
   return layerFromShapefile(parts, opts.coordinates);

@@ -5,11 +5,14 @@ import { InputError } from '../errors.js';
 import type { AreaLayer, CoordinateKind } from './types.js';
 import { featuresToAreas } from './features-to-areas.js';
 import { jsonErrorOffset } from './json-error-position.js';
+import { decodeText } from './decode-text.js';
 import { claimFromGeoJsonCrs, decideCoordinates, type CoordinateClaim } from './coordinate-kind.js';
 
-export function parseJsonBytes(bytes: Uint8Array, file: string): unknown {
-  // TextDecoder drops a leading UTF-8 byte-order mark.
-  const text = new TextDecoder('utf-8').decode(bytes);
+export function parseJsonBytes(bytes: Uint8Array, file: string, notes?: string[]): unknown {
+  const decoded = decodeText(bytes, file, { kind: 'GeoJSON or TopoJSON' });
+  notes?.push(...decoded.warnings);
+  let text = decoded.text;
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.trim() === '') throw new InputError(`${file} is empty.`, { file });
   try {
     return JSON.parse(text);
@@ -52,12 +55,12 @@ export function layerFromGeoJson(root: unknown, file: string, override?: Coordin
 
 /** Decodes one object of a topology (the named one, else the first) into areas. */
 export function layerFromTopology(topology: Topology, file: string, layer?: string, override?: CoordinateKind): AreaLayer {
-  const objects = topology.objects && typeof topology.objects === 'object' ? topology.objects : {};
+  const objects = topology.objects && typeof topology.objects === 'object' && !Array.isArray(topology.objects) ? topology.objects : {};
   const names = Object.keys(objects);
   if (names.length === 0) throw new InputError(`${file}: the TopoJSON file has no objects.`, { file });
   const name = layer ?? names[0];
-  if (!(name in objects)) {
-    throw new InputError(`${file}: the TopoJSON file has no object "${name}"; it has ${names.map((n) => `"${n}"`).join(', ')}.`, { file });
+  if (!Object.hasOwn(objects, name)) {
+    throw new InputError(`${file}: the TopoJSON file has no object named "${name}"; it has ${names.map((n) => `"${n}"`).join(', ')}.`, { file });
   }
   let decoded: unknown;
   try {

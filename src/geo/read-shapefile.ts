@@ -6,14 +6,15 @@
  *   containment (nestRings in ring-nesting.ts);
  * - it never compares the .shp and .dbf record counts, rejects line layers only implicitly, and
  *   decodes text without reporting bad bytes: see shp-bytes.ts and dbf-bytes.ts.
- * Records flagged deleted in the .dbf are read like any other (as the package does).
+ * Records flagged deleted in the .dbf are left out with their shapes (the package would read them
+ * as data), and a note names them.
  */
 import * as shapefile from 'shapefile';
 import { InputError, listSome } from '../errors.js';
 import type { AreaLayer, CoordinateKind } from './types.js';
 import { featuresToAreas } from './features-to-areas.js';
 import { claimFromPrj, decideCoordinates } from './coordinate-kind.js';
-import { encodingFromCpg, firstInvalidUtf8, readDbfLayout } from './dbf-bytes.js';
+import { codePageOfDriver, encodingFromCpg, firstInvalidUtf8, readDbfLayout } from './dbf-bytes.js';
 import { readShpLayout } from './shp-bytes.js';
 import { nestRings } from './ring-nesting.js';
 
@@ -39,6 +40,7 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   if (shpLayout.recordCount === 0) throw new InputError(`${shp.name} holds no shapes.`, { file: shp.name });
 
   const encoding = chooseEncoding(parts, dbfLayout, warnings);
+  const readNotes = [...warnings];
   let features: unknown[];
   try {
     const source = await shapefile.open(exactBuffer(shp.bytes), exactBuffer(dbf.bytes), { encoding });
@@ -77,7 +79,24 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
     );
   }
 
-  const converted = featuresToAreas({ type: 'FeatureCollection', features }, shp.name);
+  let featureNumbers: number[] | undefined;
+  if (dbfLayout.deleted.length > 0) {
+    const gone = new Set(dbfLayout.deleted);
+    featureNumbers = [];
+    const kept: unknown[] = [];
+    features.forEach((f, i) => { if (!gone.has(i + 1)) { kept.push(f); featureNumbers!.push(i + 1); } });
+    if (kept.length === 0) throw new InputError(`${dbf.name} marks every record as deleted; there are no areas left to read.`, { file: dbf.name });
+    features = kept;
+    readNotes.push(
+      `${dbf.name} marks ${dbfLayout.deleted.length} record(s) as deleted (${listSome(dbfLayout.deleted.map((k) => `feature ${k}`))}); ` +
+        'they were left out with their shapes, as they would be in a GIS. Pack the table to remove them for good, or restore them if they belong.',
+    );
+  }
+  if (dbfLayout.fields.some((f) => f.name === '__proto__')) {
+    readNotes.push(`${dbf.name} has a field named "__proto__", which cannot be read as a column; rename the field to use it.`);
+  }
+  for (const note of readNotes) if (!warnings.includes(note)) warnings.push(note);
+  const converted = featuresToAreas({ type: 'FeatureCollection', features }, shp.name, featureNumbers ? { featureNumbers } : {});
   const claim = parts.prj ? claimFromPrj(new TextDecoder('utf-8').decode(parts.prj.bytes), parts.prj.name) : null;
   if (parts.prj && !claim) warnings.push(`${parts.prj.name} was not understood; the coordinate ranges decide instead.`);
   const decision = decideCoordinates(converted.bounds, claim, shp.name, override, converted.areas);
@@ -89,9 +108,15 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
     coordinateEvidence: parts.prj || override ? decision.coordinateEvidence : `${shp.name} comes without a .prj file. ${decision.coordinateEvidence}`,
     ...(decision.guessed ? { coordinatesGuessed: true } : {}),
     warnings: [...warnings, ...converted.warnings, ...decision.warnings],
+    ...(readNotes.length ? { readNotes } : {}),
   };
 }
 
+/**
+ * The text encoding of the .dbf: the .cpg file's code page when there is one; else UTF-8 when all its
+ * text is valid UTF-8 (text in another code page almost never is); else the code page its header's
+ * language driver byte names; else Windows-1252. Every choice but the first two is noted.
+ */
 function chooseEncoding(parts: ShapefileParts, layout: ReturnType<typeof readDbfLayout>, warnings: string[]): string {
   if (parts.cpg) {
     const label = new TextDecoder('utf-8').decode(parts.cpg.bytes);
@@ -101,10 +126,19 @@ function chooseEncoding(parts: ShapefileParts, layout: ReturnType<typeof readDbf
   }
   const bad = firstInvalidUtf8(parts.dbf.bytes, layout);
   if (!bad) return 'utf-8';
+  const where = `first in field ${bad.field}${bad.record > 0 ? `, feature ${bad.record}` : ', its name'}`;
+  const declared = codePageOfDriver(layout.languageDriver);
+  if (declared?.decoder) {
+    warnings.push(
+      `${parts.dbf.name} has text that is not valid UTF-8 (${where}); it was read with code page ${declared.codePage}, which its header names. ` +
+        'If letters look wrong, add a .cpg file naming the code page.',
+    );
+    return declared.decoder;
+  }
   warnings.push(
-    `${parts.dbf.name} has text that is not valid UTF-8 (first in field ${bad.field}` +
-      `${bad.record > 0 ? `, feature ${bad.record}` : ', its name'}); it was read as Windows-1252. ` +
-      'If letters look wrong, add a .cpg file naming the code page.',
+    `${parts.dbf.name} has text that is not valid UTF-8 (${where}); it was read as Windows-1252` +
+      (declared ? ` (its header names the MS-DOS code page ${declared.codePage}, which cannot be decoded exactly here)` : '') +
+      '. If letters look wrong, add a .cpg file naming the code page.',
   );
   return 'windows-1252';
 }

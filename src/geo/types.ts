@@ -33,6 +33,8 @@ export interface AreaLayer {
   coordinatesGuessed?: boolean;
   /** Non-fatal findings worth showing the analyst (e.g. repaired ring closure). */
   warnings: string[];
+  /** The warnings about how the file was read (text encoding, code page, deleted records): added to a later refusal's message. */
+  readNotes?: string[];
 }
 
 /** A data table read from CSV or an .xlsx sheet. Cells keep their raw value; parsing to numbers happens at use. */
@@ -51,6 +53,10 @@ export interface DataTable {
   decimalComma?: boolean;
   /** Non-fatal findings while reading (e.g. text encoding fallback). */
   warnings?: string[];
+  /** .xlsx cells holding a formula without a saved result, by column name: their user-visible rows. */
+  formulasWithoutResult?: Map<string, number[]>;
+  /** For text read with decimal commas: the file also shows dots used as decimal points (and no decimal commas). */
+  dotDecimals?: boolean;
 }
 
 export interface JoinReport {
@@ -86,4 +92,8 @@ export interface JoinedAreas {
   rowKind?: 'row' | 'feature';
   /** Carried from the table: "3,5" reads as 3.5. */
   decimalComma?: boolean;
+  /** Carried from the table (see DataTable.dotDecimals). */
+  dotDecimals?: boolean;
+  /** Carried from the table: formula cells without a saved result, by column name (user-visible rows). */
+  formulasWithoutResult?: Map<string, number[]>;
 }

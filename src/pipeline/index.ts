@@ -4,3 +4,4 @@ export type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, Mod
 export type { NamedBytesLike } from './named-bytes.js';
 export { LOCAL_STATISTICS, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, describeControl, categoryCounts, type LocalPatterns, type LocalRequest, type LocalOutcome } from './local-patterns.js';
 export { parseRateRecipe, type RateResult, type RatesRequest, type RateSmoothing } from './rates.js';
+export { MAX_SEED, MAX_PERMUTATIONS, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS } from './limits.js';

@@ -1,4 +1,4 @@
-import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints } from '../geo/index.js';
+import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints, decodeText, areaShapeWarnings } from '../geo/index.js';
 import {
   buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
 } from '../weights/index.js';
@@ -17,6 +17,8 @@ import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, checkLocalRate, columnsWithRates, localRateName, localRateValues, ratesRecord } from './rates.js';
 import { readModelColumns } from './missing.js';
+import { checkRunSettings } from './limits.js';
+import { withReadNotes } from './read-notes.js';
 import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
 
@@ -56,11 +58,12 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   lap('read');
   progress(0.1, 'Joining the table to the areas');
   const boundaryId = request.boundaryId?.trim() || undefined;
-  const joinedAll = joinAreas(layer, table, request.id, { featureIdProperty: boundaryId });
+  const readNotes = [...(layer.readNotes ?? []), ...(request.data ? table.warnings ?? [] : [])];
+  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId }));
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   checkLocalRate(local?.of, request.rates);
   const localColumn = local && local.of !== 'outcome' && localRateName(local.of) === undefined && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
-  const { joined, values, dropped } = readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false);
+  const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false));
   checkModelColumns(values, joined);
   checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
   lap('join');
@@ -70,7 +73,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const points = representativePoints(joined.geometries);
   let w: SpatialWeights;
   if (request.edgeList) {
-    const text = new TextDecoder().decode(request.edgeList.bytes);
+    const text = decodeText(request.edgeList.bytes, request.edgeList.name, { kind: 'a neighbour list (CSV)', latinFallback: true }).text;
     const listOpts = { transform: request.transform, source: request.edgeList.name };
     if (dropped.length > 0) {
       // The list names the areas of the whole table: read it on all of them, then leave out the dropped rows.
@@ -169,7 +172,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     progress(0.93, 'Looking for where the pattern is');
     const of = local.of;
     const fitted = { residuals: ols, 'residuals:lag': lag, 'residuals:error': error } as const;
-    const source = of in fitted ? fitted[of as keyof typeof fitted] : undefined;
+    const source = Object.hasOwn(fitted, of) ? fitted[of as keyof typeof fitted] : undefined;
     if (of.startsWith('residuals') && !source) {
       throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
     }
@@ -180,11 +183,12 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     lap('local');
   }
 
-  const warnings = [...joined.warnings, ...ols.warnings, ...(lag?.warnings ?? []), ...(impacts?.warnings ?? []), ...(error?.warnings ?? [])];
+  const warnings = [...joined.warnings, ...areaShapeWarnings(joined, points, layer.sourceName), ...ols.warnings, ...(lag?.warnings ?? []), ...(impacts?.warnings ?? []), ...(error?.warnings ?? [])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
+  if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && permutations === 0) {
     warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
@@ -268,6 +272,7 @@ function validateRequest(r: AnalysisRequest): void {
     if (seen.has(c)) throw new InputError(`Column "${c}" is named twice among the outcome and explanatory columns.`, { column: c });
     seen.add(c);
   }
+  checkRunSettings(r);
   if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
     throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }

@@ -3,7 +3,7 @@ import { InputError, listSome } from '../errors.js';
 import type { SpatialWeights, WeightsSpec, WeightsTransform } from './types.js';
 import { contiguityNeighbours } from './contiguity.js';
 import { higherOrder } from './higher-order.js';
-import { nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet, type TieRule } from './nearest.js';
+import { EARTH_RADIUS_KM, nearestNeighbours, nearestOther, pointDistance, pointIndex, type PointSet, type TieRule } from './nearest.js';
 import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
@@ -26,6 +26,7 @@ interface Built {
   allLinkedDistance?: number;
   linkedUnneighboured?: string[];
   tiesDecided?: number;
+  notes?: string[];
 }
 
 /** Spatial weights for the areas under one neighbour rule, then transformed (row-standardised by default). */
@@ -66,6 +67,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
   if (built.allLinkedDistance !== undefined) result.allLinkedDistance = built.allLinkedDistance;
   if (built.linkedUnneighboured) result.linkedUnneighboured = built.linkedUnneighboured;
   if (built.tiesDecided !== undefined) result.tiesDecided = built.tiesDecided;
+  if (built.notes) result.notes = built.notes;
   return result;
 }
 
@@ -75,7 +77,12 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
     throw new InputError(`There are ${n} areas but ${input.geometries.length} geometries; every area needs its boundary.`);
   }
   const rule = spec.method;
+  // a tolerance across the whole map would link every pair: refused before the n² links are made
+  const shape = spec.tolerance ? layerShape(input.geometries) : null;
+  if (shape && spec.tolerance! >= shape.diagonal && n >= 4) throw everyPairByTolerance(spec.tolerance!, rule, shape.extent);
   let pattern = contiguityNeighbours(input.geometries, rule, spec.tolerance, input.coordinates === 'geographic');
+  const notes: string[] = [];
+  if (shape) checkTolerance(spec.tolerance!, shape, pattern, rule, notes);
   let description =
     rule === 'queen'
       ? 'queen contiguity (areas sharing at least one boundary point)'
@@ -112,7 +119,84 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? `neighbours up to ${order} steps away by ${description}`
       : `neighbours exactly ${order} steps away by ${description}`;
   }
-  return { base: pattern, symmetric: true, description, linkedUnneighboured };
+  return { base: pattern, symmetric: true, description, linkedUnneighboured, ...(notes.length ? { notes } : {}) };
+}
+
+/** The largest distance between any two of the points (an upper bound: the diagonal of their box, or half the Earth's circumference). */
+function spread(pts: PointSet): number {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  for (let i = 0; i < pts.x.length; i++) {
+    minX = Math.min(minX, pts.x[i]);
+    maxX = Math.max(maxX, pts.x[i]);
+    minY = Math.min(minY, pts.y[i]);
+    maxY = Math.max(maxY, pts.y[i]);
+  }
+  if (!pts.greatCircle) return Math.hypot(maxX - minX, maxY - minY);
+  const probe: PointSet = { x: Float64Array.of(minX, maxX), y: Float64Array.of(minY, maxY), greatCircle: true };
+  return pointDistance(probe, 0, 1);
+}
+
+function everyPairByBand(reach: number, unit: string, pts: PointSet, largest: number): InputError {
+  return new InputError(
+    `Under a distance band of ${plain(reach)} ${unit}, every area is a neighbour of every other (the areas lie within ${plain(spread(pts))} ${unit} of one another), ` +
+      'so the neighbours carry no geography and there is no spatial pattern to test. ' +
+      `Use a smaller distance; at ${plain(largest)} ${unit} every area has a neighbour.`,
+  );
+}
+
+interface LayerShape {
+  extent: string;
+  diagonal: number;
+  /** the median of the areas' smaller box side */
+  typicalWidth: number;
+}
+
+function layerShape(geometries: WeightsInput['geometries']): LayerShape {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  const widths: number[] = [];
+  for (const g of geometries) {
+    if (g.kind !== 'polygon') continue;
+    let a = Infinity, b = Infinity, c = -Infinity, d = -Infinity;
+    for (const polygon of g.polygons) for (const [x, y] of polygon[0]) {
+      if (x < a) a = x;
+      if (y < b) b = y;
+      if (x > c) c = x;
+      if (y > d) d = y;
+    }
+    widths.push(Math.min(c - a, d - b));
+    minX = Math.min(minX, a);
+    minY = Math.min(minY, b);
+    maxX = Math.max(maxX, c);
+    maxY = Math.max(maxY, d);
+  }
+  widths.sort((p, q) => p - q);
+  return {
+    extent: `${plain(maxX - minX)} by ${plain(maxY - minY)} coordinate units`,
+    diagonal: Math.hypot(maxX - minX, maxY - minY),
+    typicalWidth: widths.length ? widths[Math.floor(widths.length / 2)] : 0,
+  };
+}
+
+function everyPairByTolerance(tolerance: number, rule: string, extent: string): InputError {
+  return new InputError(
+    `With a snapping tolerance of ${plain(tolerance)}, every area is a ${rule} neighbour of every other (the whole map spans ${extent}), ` +
+      'so the neighbours carry no geography. The tolerance is meant to bridge slivers and small gaps: give a small fraction of an area\'s width, in coordinate units.',
+  );
+}
+
+/**
+ * A snapping tolerance bridges slivers and small gaps. One that links every pair of areas is refused;
+ * one larger than half the width of a typical area is noted (areas that do not touch get linked).
+ */
+function checkTolerance(tolerance: number, shape: LayerShape, pattern: CsrMatrix, rule: string, notes: string[]): void {
+  const n = pattern.n;
+  if (n >= 4 && pattern.rowPtr[n] === n * (n - 1)) throw everyPairByTolerance(tolerance, rule, shape.extent);
+  if (shape.typicalWidth > 0 && tolerance > shape.typicalWidth / 2) {
+    notes.push(
+      `The snapping tolerance ${plain(tolerance)} is more than half the width of a typical area (${plain(shape.typicalWidth)} coordinate units), ` +
+        'so areas that do not touch are linked as neighbours; it is meant for slivers and small gaps.',
+    );
+  }
 }
 
 function kNearest(input: WeightsInput, k: number, ties: TieRule): Built {
@@ -165,7 +249,16 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
     }
     base = allPairsInverseDistance(pts, power as number, input.ids);
   } else {
-    base = pairsWithin(pts, index, reach, weight);
+    // every pair certainly within the band: refused before the n² links are made
+    if (power === null && n >= 4 && (pts.greatCircle ? reach >= Math.PI * EARTH_RADIUS_KM : reach >= spread(pts))) throw everyPairByBand(reach, unit, pts, largest);
+    base = pairsWithin(pts, index, reach, weight, (links) => {
+      throw new InputError(
+        `${power === null ? 'A distance band' : 'An inverse-distance cut-off'} of ${plain(reach)} ${unit} links more than ${(links / 1e6).toFixed(0)} million pairs of areas ` +
+          `(more than ${Math.floor(links / n)} neighbours per area on average), too many to hold or to mean anything local. ` +
+          `Use a smaller distance; at ${plain(largest)} ${unit} every area has a neighbour.`,
+      );
+    });
+    if (power === null && n >= 4 && base.rowPtr[n] === n * (n - 1)) throw everyPairByBand(reach, unit, pts, largest);
     if (base.rowPtr[n] === 0) {
       throw new InputError(
         `No two areas are within ${plain(reach)} ${unit} of each other, so ${what} of that size links nothing. ` +

@@ -12,15 +12,23 @@ export const FULL_INVERSE_DISTANCE_LIMIT = 5000;
  * Every pair within `reach` (inclusive), value = weight(distance). Each pair is measured once
  * (from the lower index) and stored both ways, so the result is exactly symmetric.
  */
-export function pairsWithin(pts: PointSet, index: KDBush, reach: number, weight: (d: number, i: number, j: number) => number): CsrMatrix {
+/** Most links a distance rule may make (directed): about 400 MB of neighbour table, far past any useful band. */
+export const MAX_DISTANCE_LINKS = 25_000_000;
+
+export function pairsWithin(pts: PointSet, index: KDBush, reach: number, weight: (d: number, i: number, j: number) => number, onTooMany?: (links: number) => never): CsrMatrix {
   const n = pts.x.length;
   const links = new LinkList();
   const search = new TreeSearch(index, pts.greatCircle);
   const maxKey = search.radiusKey(reach, EARTH_RADIUS_KM);
+  let count = 0;
   for (let i = 0; i < n; i++) {
     for (const j of search.within(pts.x[i], pts.y[i], i, maxKey)) {
-      if (j > i) links.pushBoth(i, j, weight(pointDistance(pts, i, j), i, j));
+      if (j > i) {
+        links.pushBoth(i, j, weight(pointDistance(pts, i, j), i, j));
+        count += 2;
+      }
     }
+    if (count > MAX_DISTANCE_LINKS && onTooMany) onTooMany(count);
   }
   return csrFromLinks(n, links);
 }

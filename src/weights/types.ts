@@ -36,6 +36,8 @@ export interface SpatialWeights extends CsrMatrix {
   tiesDecided?: number;
   /** IDs of areas that had no neighbour and were linked to their nearest area on request. */
   linkedUnneighboured?: string[];
+  /** What the analyst should know about how the rule worked out (a tolerance wider than the areas). */
+  notes?: string[];
 }
 
 export interface WeightsSummary {

@@ -3,6 +3,7 @@ import ExcelJS from 'exceljs';
 import { InputError } from '../errors.js';
 import type { Report } from '../report/index.js';
 import { uniqueSheetName } from './sheet-names.js';
+import { ooxmlText } from './ooxml-text.js';
 import { writeSheet, type DeferredRows } from './write-sheet.js';
 import { STREAM_ROWS_ABOVE, streamDeferredRows, templateRowCount, type EntryDeflate } from './stream-rows.js';
 
@@ -10,6 +11,7 @@ export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.j
 export { EXCEL_FORMAT } from './number-formats.js';
 export { readWorkbook, type ReadSheet } from './read-back.js';
 export { baseWorkbookRisks } from './base-risks.js';
+export { ooxmlText } from './ooxml-text.js';
 export type { EntryDeflate } from './stream-rows.js';
 
 export interface WriteWorkbookOptions {
@@ -49,8 +51,24 @@ export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOp
     // exceljs names each sheet's part by the worksheet's id
     if (rest.length) deferred.set(`xl/worksheets/sheet${ws.id}.xml`, rest);
   }
+  // every text cell in the spreadsheet format's escaped form (ooxml-text.ts): the new sheets, and the
+  // user's own, which exceljs read back into plain text and would otherwise write changed
+  for (const ws of wb.worksheets) escapeTextCells(ws);
   const out = new Uint8Array(await wb.xlsx.writeBuffer() as ArrayBuffer);
   return deferred.size ? streamDeferredRows(out, deferred, opts.deflate) : out;
+}
+
+function escapeTextCells(ws: ExcelJS.Worksheet): void {
+  ws.eachRow({ includeEmpty: false }, (row) => row.eachCell({ includeEmpty: false }, (cell) => {
+    if (cell.isMerged && cell.master !== cell) return;
+    const v = cell.value;
+    if (typeof v === 'string') {
+      const safe = ooxmlText(v);
+      if (safe !== v) cell.value = safe;
+    } else if (v && typeof v === 'object' && 'richText' in v && Array.isArray(v.richText)) {
+      if (v.richText.some((r) => ooxmlText(r.text) !== r.text)) cell.value = { richText: v.richText.map((r) => ({ ...r, text: ooxmlText(r.text) })) };
+    }
+  }));
 }
 
 /** The sheet names the report would get in a workbook that already has `existing` sheets. */

@@ -6,10 +6,14 @@
 export const MAX_SHEET_NAME = 31;
 
 export function cleanSheetName(name: string): string {
-  let s = name.replace(/[[\]:*?/\\]/g, '').replace(/\s+/g, ' ').trim();
+  // control characters and characters XML cannot carry have no place in a sheet's name
+  let s = name.replace(/[\u0000-\u001F\u007F-\u009F\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, ' ');
+  s = s.replace(/[[\]:*?/\\]/g, '').replace(/\s+/g, ' ').trim();
   s = s.replace(/^'+|'+$/g, '').trim();
   if (!s) s = 'Results';
-  return s.slice(0, MAX_SHEET_NAME).trimEnd();
+  s = s.slice(0, MAX_SHEET_NAME);
+  if (/[\uD800-\uDBFF]$/.test(s)) s = s.slice(0, -1); // never half of a character
+  return s.trimEnd();
 }
 
 /** A cleaned name not yet in `taken` (lower-cased names); suffixes " (2)", " (3)"… and records the choice. */

@@ -13,6 +13,7 @@
  * numbers, inline strings and booleans: the only cell XML written by hand, because no kept library
  * writes rows into an existing sheet part.
  */
+import { ooxmlText } from './ooxml-text.js';
 import { Zip, ZipDeflate, unzipSync } from 'fflate';
 import type { Cell } from '../report/index.js';
 import type { DeferredRows } from './write-sheet.js';
@@ -61,12 +62,13 @@ function columnIndex(letters: string): number {
 }
 
 /**
- * Text as XML character data, the way exceljs encodes it (the five markup characters escaped,
- * control characters XML 1.0 forbids dropped), also dropping U+FFFE and U+FFFF, which XML forbids.
+ * Text as XML character data: the five markup characters as entities, and the characters XML cannot
+ * carry written as the spreadsheet format's _xHHHH_ escapes (ooxml-text.ts), as every other cell of
+ * the results is.
  */
-const ESCAPE = /[<>&'"\x00-\x08\x0B\x0C\x0E-\x1F\x7F\uFFFE\uFFFF]/g;
+const ESCAPE = /[<>&'"]/g;
 const ENTITY: Record<string, string> = { '<': '&lt;', '>': '&gt;', '&': '&amp;', "'": '&apos;', '"': '&quot;' };
-const xmlText = (s: string) => s.replace(ESCAPE, (ch) => ENTITY[ch] ?? '');
+const xmlText = (s: string) => ooxmlText(s).replace(ESCAPE, (ch) => ENTITY[ch]);
 
 /** Style number of each (column, kind) pair, read from the cells exceljs wrote for the template rows. */
 function templateStyles(sheetXml: string, d: DeferredRows): Map<string, string> {

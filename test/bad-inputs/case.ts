@@ -16,7 +16,7 @@ export interface BadInput {
   group: string;
   files: () => CaseFiles | Promise<CaseFiles>;
   /** changes to the base request (id code, y, x1 + x2, queen, row, OLS only) */
-  request?: Partial<Pick<AnalysisRequest, 'id' | 'y' | 'x' | 'weights' | 'transform' | 'layer' | 'sheet' | 'dropMissing' | 'models' | 'maxBytes'>>;
+  request?: Partial<Pick<AnalysisRequest, 'id' | 'y' | 'x' | 'weights' | 'transform' | 'layer' | 'sheet' | 'dropMissing' | 'models' | 'maxBytes' | 'seed' | 'permutations' | 'impactDraws' | 'boundaryId'>>;
   /** fragments the message must contain (each a string, case-sensitive, or a pattern) */
   expect: (string | RegExp)[];
   /** 'refuse' (default): InputError / exit 2. 'warn': the run goes on and a warning names the fault. */
@@ -28,6 +28,10 @@ export interface BadInput {
    */
   cli?: 'same' | 'skip';
   cliNote?: string;
+  /** Options added to the command line after the request's own (a later option of one name wins). */
+  cliExtra?: string[];
+  /** 'skip' for command-line syntax the engine's request cannot express (the rule "queen:2"). */
+  engine?: 'run' | 'skip';
 }
 
 export const BASE: Pick<AnalysisRequest, 'id' | 'y' | 'x' | 'weights' | 'transform' | 'models'> = {

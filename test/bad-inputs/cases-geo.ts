@@ -45,7 +45,7 @@ export const geoCases: BadInput[] = [
   {
     group: G, name: 'TopoJSON layer that is not there', request: { layer: 'parishes' },
     files: () => one(json('zones.topojson', topology({ zones: { type: 'GeometryCollection', geometries: [] } }))),
-    expect: ['has no object "parishes"', '"zones"'],
+    expect: ['has no object named "parishes"; it has "zones"'],
   },
   {
     group: G, name: 'TopoJSON arc index out of range',

@@ -4,7 +4,7 @@
  * Columbus shapefile bytes (test/fixtures/columbus). Everything is deterministic.
  */
 import { readFileSync } from 'node:fs';
-import { zipSync } from 'fflate';
+import { unzipSync, zipSync } from 'fflate';
 import ExcelJS from 'exceljs';
 import type { NamedBytes } from '../../src/geo/index.js';
 import { squareRing } from '../fixtures/weights/shapes.js';
@@ -153,4 +153,37 @@ export function dbfWithRecords(dbf: Uint8Array, count: number): Uint8Array {
   out[out.length - 1] = 0x1a;
   new DataView(out.buffer).setUint32(4, count, true);
   return out;
+}
+
+/**
+ * Changes fields of `entry`'s local and central headers in a zip (APPNOTE 6.3: general-purpose
+ * flags at offsets 6 / 8, compression method at 8 / 10, the name at 30 / 46): `flags` are OR-ed in,
+ * `method` replaces the method, `rename` replaces the name by one of the same length.
+ */
+export function patchZipEntry(zip: Uint8Array, entry: string, change: { flags?: number; method?: number; rename?: string; nth?: number }): Uint8Array {
+  const out = zip.slice();
+  const v = new DataView(out.buffer);
+  const nameBytes = enc.encode(entry);
+  const matches = (at: number, nameAt: number) => nameBytes.every((b, i) => out[at + nameAt + i] === b);
+  let seenLocal = 0, seenCentral = 0;
+  for (let at = 0; at + 46 < out.length; at++) {
+    const sig = v.getUint32(at, true);
+    const local = sig === 0x04034b50 && v.getUint16(at + 26, true) === nameBytes.length && matches(at, 30);
+    const central = sig === 0x02014b50 && v.getUint16(at + 28, true) === nameBytes.length && matches(at, 46);
+    if (!local && !central) continue;
+    const k = local ? seenLocal++ : seenCentral++;
+    if (change.nth !== undefined && k !== change.nth) continue;
+    const flagsAt = local ? 6 : 8;
+    if (change.flags) v.setUint16(at + flagsAt, v.getUint16(at + flagsAt, true) | change.flags, true);
+    if (change.method !== undefined) v.setUint16(at + flagsAt + 2, change.method, true);
+    if (change.rename) out.set(enc.encode(change.rename), at + (local ? 30 : 46));
+  }
+  return out;
+}
+
+/** Replaces text inside one part of a zip (e.g. a sheet's name in xl/workbook.xml) and zips it again. */
+export function editZipPart(zip: Uint8Array, part: string, edit: (text: string) => string): Uint8Array {
+  const entries = unzipSync(zip);
+  entries[part] = enc.encode(edit(new TextDecoder().decode(entries[part])));
+  return zipSync(entries, { level: 6 });
 }
