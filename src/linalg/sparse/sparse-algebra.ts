@@ -12,12 +12,12 @@
  * traces by solves with the LU's kept factor; tr(I − ρW)⁻¹ for the impact draws from a Chebyshev
  * interpolant over the draws' interval.
  */
-import { isNonNegative, lmTrace as traceConstant, maxAbsRowSum, traceOf, traceOfSquare, type CsrMatrix } from '../csr.js';
+import { csrMultiply, isNonNegative, lmTrace as traceConstant, maxAbsRowSum, traceOf, traceOfSquare, type CsrMatrix } from '../csr.js';
 import type { WeightsAlgebra } from '../algebra.js';
 import type { AdmissibleRange, LogDeterminant } from '../logdet.js';
 import { admissibleRange, lanczosPlan, perronRoot, rangeFromLanczos } from '../range.js';
 import { symmetricForm } from '../symmetric-form.js';
-import { chebyshevCurve } from '../trace-inverse-curve.js';
+import { chebyshevCurve, type TraceInverseCurve } from '../trace-inverse-curve.js';
 import { meanAndError, rademacher, seededRandom } from '../random.js';
 import { SparseCholeskyLogDet } from './cholesky-logdet.js';
 import { CholeskyTraces } from './traces.js';
@@ -226,7 +226,7 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
     traces: (rho: number) => tracer.traces(rho),
     tracesExact: tracer.exact,
     ...(solve ? { solve } : {}),
-    ...(direct ? { traceInverseCurve: (lo: number, hi: number) => traceInverseByFactor(n, direct, lo, hi, seed, tracer.exact, Math.min(probes, 16)) } : {}),
+    ...(direct ? { traceInverseCurve: (lo: number, hi: number) => traceInverseByFactor(w, direct, lo, hi, seed, tracer.exact, Math.min(probes, 16), radius) } : {}),
     powerTraces(count: number): Float64Array {
       let cached = powerCache.get(count);
       if (!cached) {
@@ -244,24 +244,61 @@ function generalAlgebra(w: CsrMatrix, lmTrace: number, seed: number, opts: Spars
 }
 
 /**
- * tr(I − ρW)⁻¹ over [lo, hi] from a factor at each Chebyshev point: exactly (unit vectors, blocks of
- * 16) when `exact`, else by Hutchinson's estimator with the same seeded Rademacher probes at every point.
+ * tr(I − ρW)⁻¹ over [lo, hi] for the impact draws. Exactly (unit vectors, blocks of 16) at each of a
+ * few Chebyshev points when that is affordable; otherwise by Hutchinson's estimator with the same
+ * seeded Rademacher probes throughout, and then, when the interval is narrow enough, from one
+ * factorisation at its centre c by the series
+ *   (I − ρW)⁻¹ = Σ_k δᵏ (A_c⁻¹W)ᵏ A_c⁻¹,  δ = ρ − c,  A_c = I − cW,
+ * whose ratio |δ| λmax/(1 − |c|λmax) (a bound on the spectral radius of δA_c⁻¹W for W ≥ 0) is below
+ * 1/2; the terms kept make the omitted ones smaller than 1e-10 of n (|tr Mᵏ| ≤ n ρ(M)ᵏ).
  */
-function traceInverseByFactor(
-  n: number,
+export function traceInverseByFactor(
+  w: CsrMatrix,
   direct: { solveBlock(rho: number, b: Float64Array, r: number, x: Float64Array): Float64Array },
   lo: number,
   hi: number,
   seed: number,
   exact: boolean,
   probes: number,
-) {
+  radius: number,
+): TraceInverseCurve {
+  const n = w.n;
   const block = 16;
   const rounds = exact ? n : probes;
   const probeSet: Float64Array[] = [];
   if (!exact) {
     const uniform = seededRandom(seed + 3);
     for (let q = 0; q < probes; q++) probeSet.push(rademacher(new Float64Array(n), uniform));
+  }
+  const how = `Hutchinson's estimator (${probes} Rademacher probes, seed ${seed + 3}, the same throughout) with the factor of I − ρW`;
+  const c = 0.5 * (lo + hi), half = 0.5 * (hi - lo);
+  const ratio = Math.abs(c) * radius < 1 ? (half * radius) / (1 - Math.abs(c) * radius) : Infinity;
+  if (!exact && ratio < 0.5) {
+    const terms = Math.min(60, Math.max(1, Math.ceil(Math.log(1e-10 * (1 - ratio) * (1 - Math.abs(c) * radius)) / Math.log(Math.max(ratio, 1e-300)))));
+    // moments m_k = mean over probes of zᵀ(A_c⁻¹W)ᵏA_c⁻¹z, k = 0..terms, all probes in one block
+    const r = probes;
+    const b = new Float64Array(n * r), x = new Float64Array(n * r), col = new Float64Array(n), wcol = new Float64Array(n);
+    for (let q = 0; q < r; q++) { const z = probeSet[q]; for (let i = 0; i < n; i++) b[i * r + q] = z[i]; }
+    const moments = new Float64Array(terms + 1);
+    for (let k = 0; k <= terms; k++) {
+      direct.solveBlock(c, b, r, x);
+      let sum = 0;
+      for (let q = 0; q < r; q++) {
+        const z = probeSet[q];
+        for (let i = 0; i < n; i++) { col[i] = x[i * r + q]; sum += z[i] * col[i]; }
+        if (k < terms) { csrMultiply(w, col, wcol); for (let i = 0; i < n; i++) b[i * r + q] = wcol[i]; }
+      }
+      moments[k] = sum / r;
+    }
+    return {
+      evaluate(rho: number): number {
+        const d = rho - c;
+        let s = 0;
+        for (let k = terms; k >= 0; k--) s = s * d + moments[k];
+        return s;
+      },
+      method: `tr(I − ρW)⁻¹ by ${how} at the centre ρ = ${c.toPrecision(6)} of the draws' interval [${lo.toPrecision(6)}, ${hi.toPrecision(6)}], and the series Σ_k (ρ − c)ᵏ tr((A_c⁻¹W)ᵏA_c⁻¹) to ${terms + 1} terms (ratio at most ${ratio.toPrecision(2)}; the omitted terms below 1e-10·n)`,
+    };
   }
   const b = new Float64Array(n * block), x = new Float64Array(n * block);
   const traceAt = (rho: number): number => {
@@ -270,23 +307,20 @@ function traceInverseByFactor(
       const r = Math.min(block, rounds - q0);
       const bb = b.subarray(0, n * r), xx = x.subarray(0, n * r);
       bb.fill(0);
-      for (let c = 0; c < r; c++) {
-        if (exact) bb[(q0 + c) * r + c] = 1;
-        else { const z = probeSet[q0 + c]; for (let i = 0; i < n; i++) bb[i * r + c] = z[i]; }
+      for (let col = 0; col < r; col++) {
+        if (exact) bb[(q0 + col) * r + col] = 1;
+        else { const z = probeSet[q0 + col]; for (let i = 0; i < n; i++) bb[i * r + col] = z[i]; }
       }
       direct.solveBlock(rho, bb, r, xx);
-      for (let c = 0; c < r; c++) {
-        if (exact) { per[q0 + c] = xx[(q0 + c) * r + c]; continue; }
-        const z = probeSet[q0 + c];
+      for (let col = 0; col < r; col++) {
+        if (exact) { per[q0 + col] = xx[(q0 + col) * r + col]; continue; }
+        const z = probeSet[q0 + col];
         let s = 0;
-        for (let i = 0; i < n; i++) s += z[i] * xx[i * r + c];
-        per[q0 + c] = s;
+        for (let i = 0; i < n; i++) s += z[i] * xx[i * r + col];
+        per[q0 + col] = s;
       }
     }
     return exact ? per.reduce((s, v) => s + v, 0) : meanAndError(per).mean;
   };
-  const how = exact
-    ? 'tr(I − ρW)⁻¹ exact from one solve per area with the factor of I − ρW'
-    : `tr(I − ρW)⁻¹ by Hutchinson's estimator (${probes} Rademacher probes, seed ${seed + 3}, the same at every point) with the factor of I − ρW`;
-  return chebyshevCurve(traceAt, lo, hi, how);
+  return chebyshevCurve(traceAt, lo, hi, exact ? 'tr(I − ρW)⁻¹ exact from one solve per area with the factor of I − ρW' : `tr(I − ρW)⁻¹ by ${how}`);
 }
