@@ -58,3 +58,28 @@ describe('k-nearest impacts on the 500 wheat plots', async () => {
     });
   });
 });
+
+describe('the draws\' curve where traces are estimated (large n)', () => {
+  it('one factorisation at the centre and the series in ρ − c follow the exact change of tr(I − ρW)⁻¹ to the probes\' noise', async () => {
+    const { randomKnn } = await import('../bench/grid.js');
+    const { SparseLuLogDet } = await import('../src/linalg/sparse/lu-logdet.js');
+    const { traceInverseByFactor } = await import('../src/linalg/sparse/sparse-algebra.js');
+    const g = randomKnn(1000, 5, 9);
+    const lu = new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } });
+    const direct = { solveBlock: (rho: number, b: Float64Array, r: number, x: Float64Array) => lu.solveBlock(rho, b, r, x) };
+    const series = traceInverseByFactor(g.w, direct, 0.4, 0.6, 1, false, 16, 1);
+    expect(series.method).toMatch(/series Σ_k \(ρ − c\)ᵏ/);
+    // the same probes at Chebyshev points over a wider interval (too wide for the series): the same
+    // estimator, so the two agree to the series' truncation and the interpolation (an identity)
+    const sameProbes = traceInverseByFactor(g.w, direct, 0, 0.9, 1, false, 16, 1);
+    expect(sameProbes.method).toMatch(/Chebyshev points/);
+    // the exact route (unit vectors at Chebyshev points), itself checked against ml-matrix above
+    const exact = traceInverseByFactor(g.w, direct, 0.4, 0.6, 1, true, 16, 1);
+    for (const rho of [0.4, 0.45, 0.6]) {
+      expect(Math.abs(series.evaluate(rho) - sameProbes.evaluate(rho))).toBeLessThan(1e-7 * sameProbes.evaluate(rho));
+      const got = series.evaluate(rho) - series.evaluate(0.5), want = exact.evaluate(rho) - exact.evaluate(0.5);
+      // 16 Hutchinson probes on 1,000 areas: the change is right to the probes' noise (9% at most here)
+      expect(Math.abs(got - want)).toBeLessThan(0.12 * Math.abs(want));
+    }
+  });
+});
