@@ -8,6 +8,8 @@
  *    buildWeights), then the full analysis (OLS, Moran, LM, lag, error, impacts) by runAnalysis;
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
  *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
+ *  - the results workbook (--out) against --json on the same grid, back to back (bench/results-workbook.ts);
+ *    at 500×500 only with --with-large (several minutes);
  *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
  *    (bench/input-checks.ts).
  * `node --import tsx bench/run.ts --one <name>` runs a single workload.
@@ -33,6 +35,7 @@ import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
 import { gridGeoJson } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
+import { resultsWorkbookWorkload } from './results-workbook.js';
 import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -340,9 +343,14 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'command line 300x300': cliWorkload,
   'local statistics 55x55': () => localStatisticsWorkload(55),
   'local statistics 300x300': () => localStatisticsWorkload(300),
+  'results workbook 300x300': () => resultsWorkbookWorkload(300, 3),
+  'results workbook 500x500': () => resultsWorkbookWorkload(500, 1),
   'zip understating its size': understatedZipWorkload,
   'overlap checks': overlapChecksWorkload,
 };
+
+/** Workloads left out of a full run unless asked for with --with-large. */
+const LARGE = new Set(['results workbook 500x500']);
 
 async function main(): Promise<void> {
   const at = process.argv.indexOf('--one');
@@ -355,7 +363,9 @@ async function main(): Promise<void> {
     return;
   }
   const script = fileURLToPath(import.meta.url);
+  const withLarge = process.argv.includes('--with-large');
   for (const name of Object.keys(WORKLOADS)) {
+    if (LARGE.has(name) && !withLarge) continue;
     const child = spawnSync(process.execPath, [...process.execArgv, script, '--one', name], { encoding: 'utf8', maxBuffer: 1 << 24 });
     const line = child.stdout.trim().split('\n').pop();
     if (child.status === 0 && line) console.log(line);

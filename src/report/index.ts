@@ -12,14 +12,16 @@ import { recordBlocks } from './record.js';
 import { localPatternsSheet } from './local-patterns.js';
 import { ratesSheet } from './rates.js';
 import { layoutBlocks } from './layout.js';
-import { overviewPictures } from './pictures-for-report.js';
+import { drawingNoteBlock, drawingRecordBlocks, overviewPictureList, placePictures } from './pictures-for-report.js';
 import { MODEL_LABEL } from './format.js';
 import { shortCaution } from './cautions.js';
+import { splitLongSheets } from './row-limit.js';
 
 export type {
   Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
 } from './types.js';
 export { blockHeight, layoutBlocks, BLOCK_GAP, ROW_HEIGHT_PX } from './layout.js';
+export { SHEET_ROW_LIMIT, splitLongSheets } from './row-limit.js';
 export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';
 export { interpretation } from './interpretation.js';
 export { scatterPoints } from './pictures-for-report.js';
@@ -29,8 +31,11 @@ export * from './pictures/index.js';
 
 export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {
   const overview = overviewBlocks(result, opts.title);
+  const overviewPics = overviewPictureList(result);
+  const drawingNote = drawingNoteBlock(overviewPics);
+  if (drawingNote) overview.push(drawingNote);
   const sheets: ReportSheet[] = [
-    { name: 'Summary', role: 'overview', blocks: overview, images: overviewPictures(result, layoutBlocks(overview).lastRow + 3, opts.renderPng) },
+    { name: 'Summary', role: 'overview', blocks: overview, images: placePictures(overviewPics, layoutBlocks(overview).lastRow + 3, opts.renderPng) },
     { name: MODEL_LABEL.ols, role: 'model', blocks: olsBlocks(result) },
   ];
   if (result.lag) sheets.push({ name: MODEL_LABEL.lag, role: 'model', blocks: spatialBlocks(result, result.lag) });
@@ -46,10 +51,10 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   sheets.push({ name: 'Neighbours', role: 'neighbours', blocks: neighboursBlocks(result) });
   const compared = comparisonBlocks(result);
   if (compared.length) sheets.push({ name: 'Neighbour definitions compared', role: 'comparison', blocks: compared });
-  sheets.push({ name: 'How this was made', role: 'record', blocks: recordBlocks(result) });
+  sheets.push({ name: 'How this was made', role: 'record', blocks: [...recordBlocks(result), ...drawingRecordBlocks(sheets)] });
   const reminder = shortCaution(result);
   for (const sheet of sheets) {
     if (sheet.role !== 'overview') sheet.blocks.push({ kind: 'paragraph', text: reminder, style: 'caution' });
   }
-  return { sheets };
+  return { sheets: splitLongSheets(sheets, opts.sheetRowLimit) };
 }

@@ -1,5 +1,5 @@
 import type { AnalysisResult } from '../pipeline/types.js';
-import type { PngRenderer, ReportImage } from './types.js';
+import type { Block, PngRenderer, ReportImage, ReportSheet } from './types.js';
 import { choroplethSvg, moranScatterData, moranScatterSvg, type Picture, type ScatterData } from './pictures/index.js';
 import { ROW_HEIGHT_PX } from './layout.js';
 import { say } from './format.js';
@@ -22,6 +22,11 @@ export function scatterPoints(result: AnalysisResult): ScatterData & { withheld:
 
 /** The overview's pictures: maps of the outcome and of the plain regression's residuals, and the Moran scatter plot. */
 export function overviewPictures(result: AnalysisResult, firstRow: number, renderPng?: PngRenderer): ReportImage[] {
+  return placePictures(overviewPictureList(result), firstRow, renderPng);
+}
+
+/** The overview's pictures as SVG, before they are placed on the sheet. */
+export function overviewPictureList(result: AnalysisResult): { name: string; pic: Picture }[] {
   const y = result.request.y;
   const pictures: { name: string; pic: Picture }[] = [];
   const hide = withheldOutcome(result);
@@ -45,8 +50,25 @@ export function overviewPictures(result: AnalysisResult, firstRow: number, rende
     : `Slope of the line ${say(data.slope)} (Moran's I with the weights row-standardised; with the weights used it is ${say(result.moranY.I)})`) +
     (data.withheld ? `; ${data.withheld} withheld area(s) not shown, though counted in the slope` : '');
   pictures.push({ name: 'Moran scatter plot', pic: moranScatterSvg(y, data, slopeLabel) });
+  return pictures;
+}
 
-  return placePictures(pictures, firstRow, renderPng);
+/** Each distinct way the pictures were simplified, once (the two maps of one run are drawn alike). */
+function distinctNotes(notes: (string | undefined)[]): string[] {
+  return [...new Set(notes.filter((n): n is string => !!n))];
+}
+
+/** A note above the pictures saying how they were simplified for many areas; null when none was. */
+export function drawingNoteBlock(pictures: readonly { pic: Picture }[]): Block | null {
+  const notes = distinctNotes(pictures.map((p) => p.pic.drawingNote));
+  return notes.length ? { kind: 'paragraph', style: 'note', text: `Pictures below. ${notes.join(' ')}` } : null;
+}
+
+/** For the record sheet: how each simplified picture of the report was drawn. */
+export function drawingRecordBlocks(sheets: readonly ReportSheet[]): Block[] {
+  const rows: [string, string, 'text'][] = [];
+  for (const sheet of sheets) for (const im of sheet.images ?? []) if (im.drawingNote) rows.push([`${sheet.name}: ${im.name}`, im.drawingNote, 'text']);
+  return rows.length ? [{ kind: 'keyValues', title: 'Pictures drawn simplified for the number of areas', rows }] : [];
 }
 
 /** Pictures stacked in column A from `firstRow` down, two rows apart; rendered to PNG when a renderer is given. */
@@ -54,7 +76,7 @@ export function placePictures(pictures: { name: string; pic: Picture }[], firstR
   let row = firstRow;
   return pictures.map(({ name, pic }) => {
     const image: ReportImage = {
-      name, svg: pic.svg, widthPx: pic.widthPx, heightPx: pic.heightPx, alt: pic.alt,
+      name, svg: pic.svg, widthPx: pic.widthPx, heightPx: pic.heightPx, alt: pic.alt, drawingNote: pic.drawingNote,
       png: renderPng ? renderPng(pic.svg, pic.widthPx) : new Uint8Array(0),
       anchor: { row, col: 1 },
     };

@@ -33,6 +33,8 @@ export interface ReportImage {
   /** 1-based row and column of the cell under the picture's top-left corner */
   anchor: { row: number; col: number };
   alt: string;
+  /** how the picture was simplified to draw many areas (pictures/area-shapes.ts); absent when drawn plainly */
+  drawingNote?: string;
 }
 
 export type SheetRole = 'overview' | 'model' | 'diagnostics' | 'impacts' | 'areas' | 'neighbours' | 'comparison' | 'local' | 'rates' | 'record';
@@ -57,4 +59,6 @@ export type PngRenderer = (svg: string, widthPx: number) => Uint8Array;
 export interface BuildReportOptions {
   title?: string;
   renderPng?: PngRenderer;
+  /** rows a sheet may hold before a long table goes on to another sheet (default: a worksheet's 1,048,576; lower in checks) */
+  sheetRowLimit?: number;
 }

@@ -1,7 +1,7 @@
 /** Results written as new sheets into a copy of the user's workbook (or a new one). Host-independent: bytes in, bytes out. */
 import ExcelJS from 'exceljs';
 import { InputError } from '../errors.js';
-import type { Report } from '../report/index.js';
+import { SHEET_ROW_LIMIT, layoutBlocks, type Report } from '../report/index.js';
 import { uniqueSheetName } from './sheet-names.js';
 import { ooxmlText } from './ooxml-text.js';
 import { writeSheet, type DeferredRows } from './write-sheet.js';
@@ -26,6 +26,13 @@ export interface WriteWorkbookOptions {
 }
 
 export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOptions = {}): Promise<Uint8Array> {
+  // the report splits long tables across sheets (report/row-limit.ts); a sheet still too long is refused before anything is written
+  for (const sheet of report.sheets) {
+    const rows = layoutBlocks(sheet.blocks).lastRow;
+    if (rows > SHEET_ROW_LIMIT) {
+      throw new InputError(`The results sheet "${sheet.name}" would need ${rows.toLocaleString('en-US')} rows, and a worksheet holds at most ${SHEET_ROW_LIMIT.toLocaleString('en-US')}. Nothing was written.`);
+    }
+  }
   const wb = new ExcelJS.Workbook();
   if (opts.base) {
     const name = opts.baseName ?? 'the input workbook';

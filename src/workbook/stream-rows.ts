@@ -35,15 +35,18 @@ function kindOf(v: Cell): Kind | null {
  * appears at least once: their cells carry the style numbers the streamed rows reuse.
  */
 export function templateRowCount(rows: readonly Cell[][]): number {
-  const seen = new Set<string>();
+  // one flag per (column, kind): a million-row table is scanned without building a key per cell
+  const KIND = { n: 0, s: 1, b: 2 } as const;
+  let seen = new Uint8Array(0);
   let need = Math.min(1, rows.length);
   for (let r = 0; r < rows.length; r++) {
     const row = rows[r];
+    if (row.length * 3 > seen.length) { const grown = new Uint8Array(row.length * 3); grown.set(seen); seen = grown; }
     for (let c = 0; c < row.length; c++) {
       const k = kindOf(row[c]);
       if (k === null) continue;
-      const key = `${c}:${k}`;
-      if (!seen.has(key)) { seen.add(key); need = r + 1; }
+      const at = c * 3 + KIND[k];
+      if (!seen[at]) { seen[at] = 1; need = r + 1; }
     }
   }
   return need;

@@ -1,5 +1,6 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
-import { fitFrame, pathOf } from './projection.js';
+import { fitFrame } from './projection.js';
+import { describeDrawing, drawAreas } from './area-shapes.js';
 import { c1, svgDocument, text, wrapWords } from './svg.js';
 import type { Picture } from './choropleth.js';
 
@@ -42,19 +43,10 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
     return `url(#${id})`;
   });
   const body: string[] = [`<defs>${defs.join('')}</defs>`, text(10, 24, input.title, 'font-size="16" font-weight="bold"')];
-  body.push(`<g transform="translate(0 ${TOP})" stroke="#8a8a8a" stroke-width="0.5" stroke-linejoin="round" fill-rule="evenodd">`);
   const counts = new Array(input.categories.length).fill(0);
-  for (let i = 0; i < input.geometries.length; i++) {
-    const g = input.geometries[i];
-    const k = input.category[i];
-    counts[k]++;
-    if (g.kind === 'point') {
-      body.push(`<circle cx="${c1(frame.x(g.point[0], g.point[1]))}" cy="${c1(frame.y(g.point[0], g.point[1]))}" r="4.5" fill="${paint[k]}" stroke="#444444"/>`);
-    } else {
-      body.push(`<path d="${pathOf(g, frame, c1)}" fill="${paint[k]}"/>`);
-    }
-  }
-  body.push('</g>');
+  for (let i = 0; i < input.geometries.length; i++) counts[input.category[i]]++;
+  const drawn = drawAreas(input.geometries, frame, TOP, (i) => paint[input.category[i]], { stroke: '#8a8a8a', strokeWidth: 0.5, pointRadius: 4.5, pointStroke: '#444444' });
+  body.push(...drawn.body);
   body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
   const lx = Math.max(frame.width, 200) + 20;
   let yy = TOP + 8;
@@ -75,6 +67,7 @@ export function categoryMapSvg(input: CategoryMapInput): Picture {
   }
   const width = lx + LEGEND_W;
   const height = Math.ceil(Math.max(TOP + frame.height, yy) + 12);
-  const alt = `${input.title}. ${input.legendTitle}: ${lines.join('; ')}.`;
-  return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt };
+  const drawingNote = describeDrawing(drawn.drawing, input.coordinates) ?? undefined;
+  const alt = `${input.title}. ${input.legendTitle}: ${lines.join('; ')}.${drawingNote ? ` ${drawingNote}` : ''}`;
+  return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt, drawingNote };
 }

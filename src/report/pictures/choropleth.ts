@@ -1,7 +1,8 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { type Classes, NO_VALUE, colourOf, quantileClasses, symmetricClasses } from './classes.js';
-import { fitFrame, pathOf } from './projection.js';
+import { fitFrame } from './projection.js';
 import { c1, label, svgDocument, text, wrapWords } from './svg.js';
+import { describeDrawing, drawAreas } from './area-shapes.js';
 
 export interface ChoroplethInput {
   title: string;
@@ -20,6 +21,8 @@ export interface Picture {
   heightPx: number;
   /** the legend in words, for screen readers and the sheet's alt text */
   alt: string;
+  /** how a map of many areas was simplified to draw it (also at the end of alt); absent when drawn plainly */
+  drawingNote?: string;
 }
 
 const MAP_W = 520, MAP_H = 520, LEGEND_W = 230, TOP = 40;
@@ -59,20 +62,10 @@ export function choroplethSvg(input: ChoroplethInput): Picture {
   const classes = input.scale === 'diverging' ? symmetricClasses(input.values) : quantileClasses(input.values);
   const frame = fitFrame(input.geometries, input.coordinates, MAP_W, MAP_H);
   const body: string[] = [text(10, 24, input.title, 'font-size="16" font-weight="bold"')];
-  body.push(`<g transform="translate(0 ${TOP})" stroke="#ffffff" stroke-width="0.6" stroke-linejoin="round" fill-rule="evenodd">`);
   let missing = false;
-  for (let i = 0; i < input.geometries.length; i++) {
-    const g = input.geometries[i];
-    const v = input.values[i];
-    if (!Number.isFinite(v)) missing = true;
-    const fill = colourOf(classes, v);
-    if (g.kind === 'point') {
-      body.push(`<circle cx="${c1(frame.x(g.point[0], g.point[1]))}" cy="${c1(frame.y(g.point[0], g.point[1]))}" r="4" fill="${fill}" stroke="#555555"/>`);
-    } else {
-      body.push(`<path d="${pathOf(g, frame, c1)}" fill="${fill}"/>`);
-    }
-  }
-  body.push('</g>');
+  for (let i = 0; i < input.values.length; i++) if (!Number.isFinite(input.values[i])) missing = true;
+  const drawn = drawAreas(input.geometries, frame, TOP, (i) => colourOf(classes, input.values[i]), { stroke: '#ffffff', strokeWidth: 0.6, pointRadius: 4, pointStroke: '#555555' });
+  body.push(...drawn.body);
   // outline the map area so pale classes stay visible on white
   body.push(`<rect x="0.5" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
 
@@ -90,7 +83,8 @@ export function choroplethSvg(input: ChoroplethInput): Picture {
   body.push(...leg.body);
   const width = lx + LEGEND_W;
   const height = Math.ceil(Math.max(bottom, leg.bottom) + 12);
-  const alt = `${input.title}. ${input.valueName} in classes ${leg.lines.join('; ')} (${classes.method}).`;
-  return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt };
+  const drawingNote = describeDrawing(drawn.drawing, input.coordinates) ?? undefined;
+  const alt = `${input.title}. ${input.valueName} in classes ${leg.lines.join('; ')} (${classes.method}).${drawingNote ? ` ${drawingNote}` : ''}`;
+  return { svg: svgDocument(width, height, body, input.title), widthPx: width, heightPx: height, alt, drawingNote };
 }
 

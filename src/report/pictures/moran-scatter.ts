@@ -48,8 +48,40 @@ export function moranScatterData(values: ArrayLike<number>, edges: Edges): Scatt
 
 const SIZE = 460, M = { left: 62, right: 20, top: 44, bottom: 70 };
 
+/** Above this many points the plot shows how many areas fall in each small square instead of one dot per area. */
+export const MANY_POINTS = 20_000;
+/** Side of a density square, in pixels. */
+const BIN_PX = 2;
+/** Lower edges of the density classes (areas per square) and their shades, pale to dark. */
+const DENSITY_FROM = [1, 2, 5, 15, 50];
+const DENSITY_FILL = ['#a9c6e2', '#6f9fcb', '#3f74a8', '#1b4470', '#0b2038'];
+const DENSITY_LEGEND_PX = 24;
+
+/** One path per density class: each occupied square of the plot, shaded by how many points fall in it. */
+function densitySquares(data: ScatterData, sx: (v: number) => number, sy: (v: number) => number): { body: string[]; squares: number } {
+  const side = Math.ceil(SIZE / BIN_PX);
+  const counts = new Uint32Array(side * side);
+  for (let i = 0; i < data.z.length; i++) {
+    const bx = Math.min(side - 1, Math.max(0, Math.floor((sx(data.z[i]) - M.left) / BIN_PX)));
+    const by = Math.min(side - 1, Math.max(0, Math.floor((sy(data.lag[i]) - M.top) / BIN_PX)));
+    counts[by * side + bx]++;
+  }
+  const paths: string[][] = DENSITY_FROM.map(() => []);
+  let squares = 0;
+  for (let b = 0; b < counts.length; b++) {
+    const c = counts[b];
+    if (!c) continue;
+    squares++;
+    let k = DENSITY_FROM.length - 1;
+    while (c < DENSITY_FROM[k]) k--;
+    paths[k].push(`M${M.left + (b % side) * BIN_PX} ${M.top + Math.floor(b / side) * BIN_PX}h${BIN_PX}v${BIN_PX}h-${BIN_PX}Z`);
+  }
+  return { body: paths.map((p, k) => (p.length ? `<path d="${p.join('')}" fill="${DENSITY_FILL[k]}"/>` : '')).filter(Boolean), squares };
+}
+
 export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel: string): Picture {
-  const W = M.left + SIZE + M.right, H = M.top + SIZE + M.bottom;
+  const dense = data.z.length > MANY_POINTS;
+  const W = M.left + SIZE + M.right, H = M.top + SIZE + M.bottom + (dense ? DENSITY_LEGEND_PX : 0);
   let ext = 1;
   for (let i = 0; i < data.z.length; i++) ext = Math.max(ext, Math.abs(data.z[i]), Math.abs(data.lag[i]));
   ext = Math.ceil(ext * 1.1 * 2) / 2;
@@ -71,8 +103,28 @@ export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel
   body.push(text(M.left + 6, M.top + SIZE - 8, 'low beside low', q));
   body.push(text(M.left + 6, M.top + 16, 'low beside high', q));
   body.push(text(M.left + SIZE - 6, M.top + SIZE - 8, 'high beside low', `${q} text-anchor="end"`));
-  for (let i = 0; i < data.z.length; i++) {
-    body.push(`<circle cx="${c1(sx(data.z[i]))}" cy="${c1(sy(data.lag[i]))}" r="3.5" fill="#2f6ea5" fill-opacity="0.55" stroke="#1b4470" stroke-width="0.6"/>`);
+  let drawingNote: string | undefined;
+  if (dense) {
+    const d = densitySquares(data, sx, sy);
+    body.push(...d.body);
+    const n = data.z.length.toLocaleString('en-US');
+    drawingNote = `With ${n} areas the plot shows how many areas fall in each ${BIN_PX}-pixel square (${d.squares.toLocaleString('en-US')} squares) instead of one dot per area; each area plotted is counted in its square.`;
+    // the key: one swatch per class, under the axis label
+    let x = M.left;
+    const y = M.top + SIZE + 52;
+    body.push(text(x, y + 11, 'Areas per square:', 'font-size="11" fill="#333333"'));
+    x += 100;
+    DENSITY_FROM.forEach((from, k) => {
+      const to = DENSITY_FROM[k + 1];
+      const words = to === undefined ? `${from} or more` : to - 1 === from ? String(from) : `${from}–${to - 1}`;
+      body.push(`<rect x="${x}" y="${y}" width="14" height="14" fill="${DENSITY_FILL[k]}"/>`);
+      body.push(text(x + 18, y + 11, words, 'font-size="11" fill="#333333"'));
+      x += 26 + 7 * words.length;
+    });
+  } else {
+    for (let i = 0; i < data.z.length; i++) {
+      body.push(`<circle cx="${c1(sx(data.z[i]))}" cy="${c1(sy(data.lag[i]))}" r="3.5" fill="#2f6ea5" fill-opacity="0.55" stroke="#1b4470" stroke-width="0.6"/>`);
+    }
   }
   // the fitted line through the origin, clipped to the plot square
   const b = data.slope;
@@ -83,6 +135,6 @@ export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel
   body.push(`<text x="18" y="${M.top + SIZE / 2}" font-family="sans-serif" font-size="13" text-anchor="middle" transform="rotate(-90 18 ${M.top + SIZE / 2})">${escapeXml(yl)}</text>`);
   const foot = data.leftOut ? `${slopeLabel}. ${data.leftOut} area(s) without neighbours not shown.` : `${slopeLabel}.`;
   body.push(text(10, H - 10, foot, 'font-size="12" fill="#c0601a"'));
-  const alt = `${title}: each area's standardised ${valueName} against its neighbours' average; ${foot}`;
-  return { svg: svgDocument(W, H, body, title), widthPx: W, heightPx: H, alt };
+  const alt = `${title}: each area's standardised ${valueName} against its neighbours' average; ${foot}${drawingNote ? ` ${drawingNote}` : ''}`;
+  return { svg: svgDocument(W, H, body, title), widthPx: W, heightPx: H, alt, drawingNote };
 }

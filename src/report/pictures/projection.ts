@@ -36,22 +36,3 @@ export function fitFrame(geoms: readonly AreaGeometry[], kind: CoordinateKind, m
     width, height, scale: s,
   };
 }
-
-/** SVG path data of one area (rings closed; holes are drawn by the even-odd rule). */
-export function pathOf(g: AreaGeometry, f: Frame, r1: (n: number) => string): string {
-  if (g.kind === 'point') return '';
-  const parts: string[] = [];
-  for (const poly of g.polygons) for (const ring of poly) {
-    if (ring.length < 3) continue;
-    // consecutive positions that round to the same pixel tenth add bytes and nothing visible
-    const pts: string[] = [];
-    let last = '';
-    for (const p of ring) {
-      const s = `${r1(f.x(p[0], p[1]))} ${r1(f.y(p[0], p[1]))}`;
-      if (s !== last) pts.push(s);
-      last = s;
-    }
-    if (pts.length >= 3) parts.push(`M${pts.join('L')}Z`);
-  }
-  return parts.join('');
-}

@@ -1,6 +1,7 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { NO_VALUE, colourOf, quantileClasses } from './classes.js';
-import { fitFrame, pathOf } from './projection.js';
+import { fitFrame } from './projection.js';
+import { MANY_AREAS, areaPaths, describeDrawing, drawAreas, type MapDrawing } from './area-shapes.js';
 import { c1, label, svgDocument, text, wrapWords } from './svg.js';
 import type { Picture } from './choropleth.js';
 
@@ -39,24 +40,25 @@ export function rateMapsSvg(input: RateMapsInput): Picture {
   const defs = `<defs><pattern id="flaghatch" width="7" height="7" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">` +
     `<rect width="1.6" height="7" fill="${HATCH}"/><rect x="1.6" width="1.4" height="7" fill="#ffffff"/></pattern></defs>`;
   const body: string[] = [defs, text(10, 24, `${input.valueName}: raw and smoothed`, 'font-size="16" font-weight="bold"')];
+  const paths = areaPaths(input.geometries, frame);
+  let drawing: MapDrawing | undefined;
   const panel = (x0: number, title: string, values: ArrayLike<number>) => {
     body.push(text(x0 + 4, TOP - 10, title, 'font-size="13" font-weight="bold"'));
-    body.push(`<g transform="translate(${x0} ${TOP})" stroke="#ffffff" stroke-width="0.6" stroke-linejoin="round" fill-rule="evenodd">`);
+    const drawn = drawAreas(input.geometries, frame, TOP, (i) => (input.withheld[i] ? NO_VALUE : colourOf(classes, values[i])), { stroke: '#ffffff', strokeWidth: 0.6, pointRadius: 4, pointStroke: '#555555' }, x0);
+    body.push(...drawn.body);
+    drawing = drawn.drawing;
+    // the hatch over the flagged areas, drawn over the fills
     const hatched: string[] = [];
     for (let i = 0; i < n; i++) {
+      if (!input.flagged[i] || input.withheld[i]) continue;
       const g = input.geometries[i];
-      const fill = input.withheld[i] ? NO_VALUE : colourOf(classes, values[i]);
       if (g.kind === 'point') {
-        const cx = c1(frame.x(g.point[0], g.point[1])), cy = c1(frame.y(g.point[0], g.point[1]));
-        body.push(`<circle cx="${cx}" cy="${cy}" r="4" fill="${fill}" stroke="#555555"/>`);
-        if (input.flagged[i] && !input.withheld[i]) hatched.push(`<circle cx="${cx}" cy="${cy}" r="6.5" fill="none" stroke="${HATCH}" stroke-width="1.4"/>`);
-      } else {
-        const d = pathOf(g, frame, c1);
-        body.push(`<path d="${d}" fill="${fill}"/>`);
-        if (input.flagged[i] && !input.withheld[i]) hatched.push(`<path d="${d}" fill="url(#flaghatch)" stroke="${HATCH}" stroke-width="0.8"/>`);
+        hatched.push(`<circle cx="${c1(frame.x(g.point[0], g.point[1]))}" cy="${c1(frame.y(g.point[0], g.point[1]))}" r="6.5" fill="none" stroke="${HATCH}" stroke-width="1.4"/>`);
+      } else if (paths[i]) {
+        hatched.push(`<path d="${paths[i]}" fill="url(#flaghatch)" stroke="${HATCH}" stroke-width="0.8"/>`);
       }
     }
-    body.push(...hatched, '</g>');
+    if (hatched.length) body.push(`<g transform="translate(${x0} ${TOP})" stroke-linejoin="round" fill-rule="${n > MANY_AREAS ? 'nonzero' : 'evenodd'}">`, ...hatched, '</g>');
     body.push(`<rect x="${x0 + 0.5}" y="${TOP + 0.5}" width="${frame.width - 1}" height="${frame.height - 1}" fill="none" stroke="#dddddd"/>`);
   };
   panel(0, 'Raw rate (as counted)', input.raw);
@@ -98,6 +100,7 @@ export function rateMapsSvg(input: RateMapsInput): Picture {
   const width = lx + LEGEND_W;
   const height = Math.ceil(Math.max(TOP + frame.height, yy) + 12);
   const title = `${input.valueName}: raw rate and ${input.smoothedName}, side by side`;
-  const alt = `${title}. Shared classes ${lines.join('; ')}.`;
-  return { svg: svgDocument(width, height, body, title), widthPx: width, heightPx: height, alt };
+  const drawingNote = drawing ? describeDrawing(drawing, input.coordinates) ?? undefined : undefined;
+  const alt = `${title}. Shared classes ${lines.join('; ')}.${drawingNote ? ` ${drawingNote}` : ''}`;
+  return { svg: svgDocument(width, height, body, title), widthPx: width, heightPx: height, alt, drawingNote };
 }
