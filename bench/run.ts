@@ -93,7 +93,7 @@ function lagData(w: CsrMatrix, seed = 12345) {
     csrMultiply(w, term, next);
     for (let i = 0; i < n; i++) { term[i] = 0.5 * next[i]; y[i] += term[i]; }
   }
-  return { y, x1, x2, design: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
+  return { y, x1, x2, design: { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
 }
 
 /** The algebra with its exact log-determinant counted. */
@@ -185,14 +185,14 @@ async function analysisWorkload(name: string, request: Parameters<typeof runAnal
   }
   const reportSeconds = median(runs);
   sample();
-  const r = result as unknown as { n: number; timings: Record<string, number>; lag?: { convergence: { iterations: number; message: string } }; error?: { convergence: { iterations: number } }; algebra?: { logDeterminant: string } };
+  const r = result as unknown as { n: number; timings: Record<string, number>; fits: { lag?: { convergence: { iterations: number; message: string } } }; algebra?: { logDeterminant: string } };
   return {
     workload: name,
     n: r.n,
     weightsSeconds: weightsSeconds === null ? null : round(weightsSeconds),
     reportSeconds: round(reportSeconds),
     stageSeconds: Object.fromEntries(Object.entries(r.timings).map(([k, v]) => [k, round(v)])),
-    lagSearch: r.lag?.convergence.message,
+    lagSearch: r.fits.lag?.convergence.message,
     peakRssMB: peakMB(),
     method: r.algebra?.logDeterminant,
   };

@@ -1,8 +1,7 @@
 #!/usr/bin/env node
 // Import-boundary check: the engine's stages import one another only in pipeline order, and never
-// reach downward into a later stage; linalg is entered only through src/linalg/index.ts. Prints each offending import and exits 1 when there is one.
-// Rules that do not hold yet are listed in KNOWN and reported without failing, so they can be removed
-// one by one as the code is moved.
+// reach downward into a later stage; linalg is entered only through src/linalg/index.ts, and core and
+// linalg never import each other. Prints each offending import and exits 1 when there is one.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative, dirname, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -12,7 +11,8 @@ const src = join(root, 'src');
 
 /** For each stage, the stages it must never import. */
 const FORBIDDEN = {
-  linalg: ['geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
+  core: ['linalg', 'geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
+  linalg: ['core', 'geo', 'weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   geo: ['weights', 'models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   weights: ['models', 'stats', 'pipeline', 'report', 'workbook', 'cli'],
   stats: ['models', 'pipeline', 'report', 'workbook', 'cli'],
@@ -22,8 +22,6 @@ const FORBIDDEN = {
 };
 /** Stages whose only door is their index.ts: a file outside the stage imports nothing else of it. */
 const DOORS = ['linalg'];
-/** Known exceptions still to be removed (stats reads the design and test types from models). */
-const KNOWN = [{ from: 'stats', to: 'models/types.ts' }];
 
 function files(dir) {
   return readdirSync(dir).flatMap((name) => {
@@ -33,7 +31,6 @@ function files(dir) {
 }
 
 const problems = [];
-const known = [];
 for (const file of files(src)) {
   const stage = relative(src, file).split(sep)[0];
   const banned = FORBIDDEN[stage] ?? [];
@@ -46,12 +43,9 @@ for (const file of files(src)) {
       continue;
     }
     if (!banned.includes(targetStage)) continue;
-    const line = `${relative(root, file)} imports ${m[1]}`;
-    if (KNOWN.some((k) => k.from === stage && target.split(sep).join('/') === k.to)) known.push(line);
-    else problems.push(line);
+    problems.push(`${relative(root, file)} imports ${m[1]}`);
   }
 }
-if (known.length) console.log(`import boundaries: ${known.length} known exception(s) still to move (stats → models/types.ts).`);
 if (problems.length) {
   console.error(`import boundaries: ${problems.length} import(s) against the stage order:\n  ${problems.join('\n  ')}`);
   process.exit(1);

@@ -73,7 +73,7 @@ async function runDemo(d: Demo): Promise<void> {
 }
 
 function recovered(r: AnalysisResult, model: 'lag' | 'error', truth: Record<string, any>): string {
-  const fit = model === 'lag' ? r.lag! : r.error!;
+  const fit = r.fits[model]!;
   const symbol = model === 'lag' ? 'ρ' : 'λ';
   const simulated = model === 'lag' ? truth.rho : truth.lambda;
   const off = Math.abs(fit.parameter - simulated) / fit.parameterSe;

@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runAnalysis } from '../src/pipeline/index.js';
-import type { AnalysisRequest } from '../src/pipeline/types.js';
+import type { AnalysisRequest, WeightsComparison } from '../src/pipeline/types.js';
 import { suggestedAlternatives } from '../src/pipeline/compare-weights.js';
 import { buildReport } from '../src/report/index.js';
 import { readWorkbook, writeResultsWorkbook } from '../src/workbook/index.js';
@@ -27,6 +27,8 @@ const request = (extra: Partial<AnalysisRequest> = {}): AnalysisRequest => ({
   models: ['ols', 'lag', 'error'], permutations: 0, impactDraws: 50, ...extra,
 });
 const golden = readGolden();
+/** ρ or λ of a comparison row's lag or error model */
+const param = (r: WeightsComparison, model: 'lag' | 'error') => r.fits[model]!.parameters[0];
 const sig6 = (a: number, b: number) => expect(Math.abs(a - b) / Math.max(Math.abs(b), 1e-300), `${a} vs ${b}`).toBeLessThan(5e-6);
 
 describe('neighbour definitions compared (Columbus)', async () => {
@@ -35,8 +37,8 @@ describe('neighbour definitions compared (Columbus)', async () => {
 
   it('the first row is the run itself; the run\'s own definition asked again is not repeated', () => {
     expect(rows.map((r) => r.asRun)).toEqual([true, false, false]);
-    expect(rows[0].lag!.parameter).toBe(result.lag!.parameter);
-    expect(rows[0].error!.parameter).toBe(result.error!.parameter);
+    expect(param(rows[0], 'lag').estimate).toBe(result.fits.lag!.parameter);
+    expect(param(rows[0], 'error').estimate).toBe(result.fits.error!.parameter);
     expect(rows[0].moran.I).toBe(result.ols.moran.I);
     expect(result.request.compareWeights).toEqual([{ method: 'knn', k: 4 }, { method: 'rook' }]);
   });
@@ -47,28 +49,28 @@ describe('neighbour definitions compared (Columbus)', async () => {
     expect(r.links).toBe(g.weights.links);
     for (const f of ['I', 'z', 'p'] as const) sig6(r.moran[f], g.ols.moran[f]);
     for (const f of ['error', 'lag', 'robustError', 'robustLag'] as const) sig6(r.lmP[f], g.ols.lm[f].p);
-    sig6(r.lag!.parameter, g.lag.rho); sig6(r.lag!.se, g.lag.rhoSe); sig6(r.lag!.logLik, g.lag.logLik); sig6(r.lag!.aic, g.lag.aic);
-    sig6(r.error!.parameter, g.error.lambda); sig6(r.error!.se, g.error.lambdaSe); sig6(r.error!.logLik, g.error.logLik); sig6(r.error!.aic, g.error.aic);
+    sig6(param(r, 'lag').estimate, g.lag.rho); sig6(param(r, 'lag').se, g.lag.rhoSe); sig6(r.fits.lag!.logLik!, g.lag.logLik); sig6(r.fits.lag!.aic!, g.lag.aic);
+    sig6(param(r, 'error').estimate, g.error.lambda); sig6(param(r, 'error').se, g.error.lambdaSe); sig6(r.fits.error!.logLik!, g.error.logLik); sig6(r.fits.error!.aic!, g.error.aic);
   });
 
   it('rook contiguity has the reference\'s 200 links and the figures of a run made with rook alone', async () => {
     const alone = await runAnalysis(request({ weights: { method: 'rook' } }));
     const r = rows[2];
     expect(r.links).toBe(200);
-    expect(r.lag!.parameter).toBe(alone.lag!.parameter);
-    expect(r.error!.se).toBe(alone.error!.parameterSe);
+    expect(param(r, 'lag').estimate).toBe(alone.fits.lag!.parameter);
+    expect(param(r, 'error').se).toBe(alone.fits.error!.parameterSe);
     expect(r.lmP.robustLag).toBe(alone.ols.lm.robustLag.p);
     expect(r.suggestion).toBe(alone.ols.recommendation.choice);
     // the lag model's effects with the same draws and seed as a run of its own
-    expect(r.impacts).toEqual(alone.impacts!.impacts);
-    expect(rows[0].impacts).toEqual(result.impacts!.impacts);
+    expect(r.fits.lag!.impacts).toEqual(alone.fits.lag!.impacts!.impacts);
+    expect(rows[0].fits.lag!.impacts).toEqual(result.fits.lag!.impacts!.impacts);
   });
 
   it('a definition that links nothing is reported in its row, not fatal', async () => {
     const r = await runAnalysis(request({ models: ['ols', 'lag'], compareWeights: [{ method: 'band', distance: 0.1 }] }));
     expect(r.comparison![1].failed).toMatch(/links nothing/);
     expect(Number.isNaN(r.comparison![1].moran.I)).toBe(true);
-    expect(r.lag).toBeDefined();
+    expect(r.fits.lag).toBeDefined();
   });
 
   it('refuses more than six alternatives, saying how many fit', async () => {
@@ -96,7 +98,7 @@ describe('neighbour definitions compared (Columbus)', async () => {
     expect(summary).toMatch(/Under other neighbour definitions \(sheet "Neighbour definitions compared"\): Across the 3 definitions/);
     const json = resultToJson(result) as { comparison: { asRun: boolean; lag: { rho: number } }[] };
     expect(json.comparison).toHaveLength(3);
-    expect(json.comparison[1].lag.rho).toBe(rows[1].lag!.parameter);
+    expect(json.comparison[1].lag.rho).toBe(param(rows[1], 'lag').estimate);
   });
 
   it('the workbook carries the sheet: every number of the two tables reads back as written (exceljs)', async () => {
@@ -104,7 +106,7 @@ describe('neighbour definitions compared (Columbus)', async () => {
     const sheets = await readWorkbook(await writeResultsWorkbook(report));
     const written = sheets.find((s) => s.name === 'Neighbour definitions compared')!;
     const cells = new Set(written.rows.flat().filter((c): c is number => typeof c === 'number'));
-    for (const r of rows) for (const v of [r.moran.I, r.lmP.robustLag, r.lag!.parameter, r.lag!.se, r.error!.aic]) expect(cells.has(v), String(v)).toBe(true);
+    for (const r of rows) for (const v of [r.moran.I, r.lmP.robustLag, param(r, 'lag').estimate, param(r, 'lag').se, r.fits.error!.aic!]) expect(cells.has(v), String(v)).toBe(true);
   });
 
   it('the command line takes --compare and names a bad rule in plain words', () => {

@@ -17,7 +17,7 @@ describe('the demo recovers the simulated spatial parameters', () => {
       id: 'district_id', y: 'long_commute_pct', x: ['broadband_pct', 'rail_km', 'rent_index'],
       weights: { method: 'queen' }, transform: 'row', models: ['ols', 'lag'],
     });
-    expect(Math.abs(r.lag!.parameter - truth.rho)).toBeLessThan(3 * r.lag!.parameterSe);
+    expect(Math.abs(r.fits.lag!.parameter - truth.rho)).toBeLessThan(3 * r.fits.lag!.parameterSe);
   });
 
   it('villages: spatial error λ within 3 SE of the simulated value (5 nearest neighbours)', async () => {
@@ -27,6 +27,6 @@ describe('the demo recovers the simulated spatial parameters', () => {
       id: 'village_id', y: 'new_business_per_1000', x: ['broadband_pct', 'town_km'],
       weights: { method: 'knn', k: 5 }, transform: 'row', models: ['ols', 'error'],
     });
-    expect(Math.abs(r.error!.parameter - truth.lambda)).toBeLessThan(3 * r.error!.parameterSe);
+    expect(Math.abs(r.fits.error!.parameter - truth.lambda)).toBeLessThan(3 * r.fits.error!.parameterSe);
   });
 });

@@ -1,6 +1,6 @@
 /**
  * End to end in a real browser (Debian's Chromium driven by playwright-core): the no-install page
- * opens the Vell Basin workbook and district boundaries, runs a spatial lag model in its worker,
+ * opens the Vell Basin workbook and district boundaries, runs the plain regression and every spatial model (the default) in its worker,
  * and downloads the result workbook, which is read back with exceljs.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,6 +11,7 @@ import type { PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
+import { MODELS } from '../src/models/index.js';
 
 // The page.evaluate callbacks run in the browser; this file is type-checked without the DOM library.
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -55,7 +56,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(csp).not.toContain('unsafe-eval');
   });
 
-  it('opens the workbook and the boundaries, runs a spatial lag model, and downloads a workbook with the results', async () => {
+  it('opens the workbook and the boundaries, runs the models (all ticked by default), and downloads a workbook with the results', async () => {
     await page.goto(`${origin}/page/index.html`);
     await page.setInputFiles('#data-file', XLSX);
     await page.getByText(/150 rows/).waitFor();
@@ -68,6 +69,9 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
 
     await page.selectOption('#y-column', 'long_commute_pct');
     for (const x of ['broadband_pct', 'rail_km', 'rent_index']) await page.click(`#x-${x}`);
+    // the models offered are the engine's registry, every one ticked by default (the plain regression is always fitted)
+    const offered = await page.evaluate(() => [...document.querySelectorAll('fieldset.models fluent-checkbox')].map((b: any) => [b.id, b.checked]));
+    expect(offered).toEqual(MODELS.filter((m) => !m.baseline).map((m) => [`model-${m.key}`, true]));
     await page.click('#compare');
     await page.click('#local-on');
     await page.selectOption('#local-of', 'clinic_wait_days');

@@ -48,9 +48,9 @@ function estimates(r: AnalysisResult) {
   return {
     n: r.n, ids: r.ids,
     ols: r.ols.coefficients.map((c) => [c.estimate, c.se]), olsLogLik: r.ols.logLik, moran: r.ols.moran.I, lm: r.ols.lm.lag.stat,
-    rho: r.lag!.parameter, lagLogLik: r.lag!.logLik, lag: r.lag!.coefficients.map((c) => [c.estimate, c.se]),
-    lambda: r.error!.parameter, error: r.error!.coefficients.map((c) => [c.estimate, c.se]),
-    impacts: r.impacts!.impacts.map((i) => [i.direct, i.indirect, i.total]),
+    rho: r.fits.lag!.parameter, lagLogLik: r.fits.lag!.logLik, lag: r.fits.lag!.coefficients.map((c) => [c.estimate, c.se]),
+    lambda: r.fits.error!.parameter, error: r.fits.error!.coefficients.map((c) => [c.estimate, c.se]),
+    impacts: r.fits.lag!.impacts!.impacts.map((i) => [i.direct, i.indirect, i.total]),
     links: [Array.from(r.weights.edges.from), Array.from(r.weights.edges.to), Array.from(r.weights.edges.weight)],
     moranY: r.moranY.I,
   };

@@ -62,7 +62,7 @@ describe('near-collinear design (condition number ≈ 1e8)', () => {
   const x1 = col(1).map((v, i) => v + 2 * col(2)[i]);
   const x2 = x1.map((v, i) => v + delta * col(3)[i]);
   const beta = [3, -2, 5];
-  const x: Design = { names: ['constant', 'x1', 'x2'], columns: [col(0), x1, x2] };
+  const x: Design = { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [col(0), x1, x2] };
   const y = Float64Array.from({ length: n }, (_, i) => beta[0] + beta[1] * x1[i] + beta[2] * x2[i] + c * col(4)[i]);
 
   it('is solved to the exact answer within cond·ε, agrees with ml-matrix SVD, and carries a warning', () => {
@@ -87,7 +87,7 @@ describe('variables of magnitude 1e9 and 1e-9', () => {
   const n = w.n;
   const a = normals(u, n), b = normals(u, n).map((v) => v + 2);
   const y0 = lagData(w, a.map((v, i) => 1 + 2 * v - b[i]), 0.45, normals(u, n));
-  const design = (sa: number, sb: number): Design => ({ names: ['constant', 'a', 'b'], columns: [new Float64Array(n).fill(1), a.map((v) => v * sa), b.map((v) => v * sb)] });
+  const design = (sa: number, sb: number): Design => ({ intercept: 0, names: ['constant', 'a', 'b'], columns: [new Float64Array(n).fill(1), a.map((v) => v * sa), b.map((v) => v * sb)] });
   const SY = 1e9, SA = 1e-9, SB = 1e9;
   const unit = { y: y0, x: design(1, 1) };
   const scaled = { y: y0.map((v) => v * SY), x: design(SA, SB) };
@@ -124,7 +124,7 @@ describe('ρ near either end of its range', () => {
     it(`ρ = ${rho}: converges inside the range, finite standard error, and no nearby ρ beats the maximum`, () => {
       const u = lcg(rho > 0 ? 5 : 6);
       const xcol = normals(u, w.n);
-      const x: Design = { names: ['constant', 'x'], columns: [new Float64Array(w.n).fill(1), xcol] };
+      const x: Design = { intercept: 0, names: ['constant', 'x'], columns: [new Float64Array(w.n).fill(1), xcol] };
       const y = lagData(w, xcol.map((v) => 2 + 3 * v), rho, normals(u, w.n).map((v) => 0.5 * v));
       const fit = fitSpatialLag(y, x, algebra);
       expect(algebra.range.lower).toBeCloseTo(-1, 6);
@@ -160,7 +160,7 @@ describe('an optimiser that hits a bound, or stops early, says so', () => {
       data: csvFile('cells.csv', ['code', 'y', 'x'], codes.map((c, i) => [c, yv[i], xv[i]])),
       id: 'code', y: 'y', x: ['x'], weights: { method: 'rook' }, transform: 'row', models: ['ols', 'lag'], permutations: 0, impactDraws: 20,
     });
-    const lag = result.lag!;
+    const lag = result.fits.lag!;
     expect(lag.convergence.atBound).toBe('lower');
     expect(lag.parameter).toBeLessThan(-0.99);
     expect(lag.convergence.message).toMatch(/lower end of the admissible range/);
@@ -175,7 +175,7 @@ describe('an optimiser that hits a bound, or stops early, says so', () => {
     expect(best.convergence.message).toMatch(/stopped after 3 iterations without meeting the tolerance/);
     const w = gridWeights(5, 5, 'queen');
     const algebra = denseAlgebra(w, symmetricForm(w));
-    const x: Design = { names: ['constant', 'x'], columns: [new Float64Array(25).fill(1), normals(lcg(8), 25)] };
+    const x: Design = { intercept: 0, names: ['constant', 'x'], columns: [new Float64Array(25).fill(1), normals(lcg(8), 25)] };
     const y = lagData(w, x.columns[1].map((v) => 1 + v), 0.5, normals(lcg(9), 25));
     for (const fit of [fitSpatialLag(y, x, algebra, undefined, { maxIterations: 2 }), fitSpatialError(y, x, algebra, undefined, { maxIterations: 2 })]) {
       expect(fit.convergence.converged).toBe(false);
@@ -184,8 +184,8 @@ describe('an optimiser that hits a bound, or stops early, says so', () => {
   });
 
   it('the report says so when a fit did not converge', () => {
-    const failed = { ...result.lag!, convergence: { converged: false, iterations: 2, tolerance: 0.5, message: 'Brent search stopped after 2 iterations without meeting the tolerance' } };
-    const report = JSON.stringify(buildReport({ ...result, lag: failed }));
+    const failed = { ...result.fits.lag!, convergence: { converged: false, iterations: 2, tolerance: 0.5, message: 'Brent search stopped after 2 iterations without meeting the tolerance' } };
+    const report = JSON.stringify(buildReport({ ...result, fits: { ...result.fits, lag: failed } }));
     expect(report).toMatch(/did not converge: Brent search stopped after 2 iterations/);
   });
 });

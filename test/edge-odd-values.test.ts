@@ -47,7 +47,7 @@ describe('a directed edge list (each link in one direction only) gives a result'
     expect(r.ols.moran.I).toBeCloseTo((n / n) * eWe / ee, 10); // row-standardised: S0 = n
 
     // Lag model log-likelihood at the reported ρ, recomputed densely (Ord 1975 concentrated form).
-    const lag = r.lag!;
+    const lag = r.fits.lag!;
     expect(Number.isFinite(lag.logLik)).toBe(true);
     const rho = lag.parameter;
     const A = Matrix.eye(n).sub(W.clone().mul(rho));
@@ -59,7 +59,7 @@ describe('a directed edge list (each link in one direction only) gives a result'
     const ll = -n / 2 * (Math.log(2 * Math.PI) + Math.log(s2) + 1) + logdet;
     expect(lag.logLik).toBeCloseTo(ll, 6);
     expect(lag.sigma2).toBeCloseTo(s2, 8);
-    expect(Number.isFinite(r.error!.logLik)).toBe(true);
+    expect(Number.isFinite(r.fits.error!.logLik)).toBe(true);
   });
 
   it('explanatory values of size 1e60 are carried: estimates scale by 1e-60 (identity of least squares)', async () => {

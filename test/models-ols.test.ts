@@ -11,7 +11,7 @@ function randomDesign(n: number, k: number, seed: number): { y: Float64Array; x:
   const columns = [new Float64Array(n).fill(1)];
   for (let j = 1; j < k; j++) columns.push(Float64Array.from({ length: n }, () => normal() * (j + 1) + j));
   const y = Float64Array.from({ length: n }, (_, i) => 2 + columns.slice(1).reduce((s, c, j) => s + (j % 2 ? -0.5 : 1.5) * c[i], 0) + normal());
-  return { y, x: { names: ['constant', ...Array.from({ length: k - 1 }, (_, j) => `x${j + 1}`)], columns } };
+  return { y, x: { intercept: 0, names: ['constant', ...Array.from({ length: k - 1 }, (_, j) => `x${j + 1}`)], columns } };
 }
 
 const asMatrix = (x: Design): Matrix => new Matrix(Array.from({ length: x.columns[0].length }, (_, i) => x.columns.map((c) => c[i])));
@@ -74,7 +74,7 @@ describe('OLS input checks', () => {
   };
 
   it('n ≤ k names n and k', () => {
-    const small = { names: x.names, columns: x.columns.map((c) => c.slice(0, 3)) };
+    const small = { ...x, columns: x.columns.map((c) => c.slice(0, 3)) };
     expectInput(() => fitOls(y.slice(0, 3), small), /n = 3, k = 3/);
   });
 
@@ -83,19 +83,19 @@ describe('OLS input checks', () => {
   });
 
   it('constant regressor other than the intercept is named', () => {
-    const bad = { names: [...x.names, 'flat'], columns: [...x.columns, new Float64Array(30).fill(7)] };
+    const bad = { ...x, names: [...x.names, 'flat'], columns: [...x.columns, new Float64Array(30).fill(7)] };
     expectInput(() => fitOls(y, bad), /"flat"/);
   });
 
   it('perfect collinearity names the column and the columns it is built from', () => {
     const combo = x.columns[1].map((v, i) => 2 * v - 3 * x.columns[2][i]);
-    const bad = { names: [...x.names, 'combo'], columns: [...x.columns, combo] };
+    const bad = { ...x, names: [...x.names, 'combo'], columns: [...x.columns, combo] };
     expectInput(() => fitOls(y, bad), /"combo" is an exact combination of "x1", "x2"/);
   });
 
   it('condition number above 30 gives a warning (Belsley, Kuh & Welsch rule of thumb, common practice)', () => {
     const near = x.columns[1].map((v, i) => v + 1e-4 * Math.sin(i));
-    const fit = fitOls(y, { names: [...x.names, 'nearly x1'], columns: [...x.columns, near] });
+    const fit = fitOls(y, { ...x, names: [...x.names, 'nearly x1'], columns: [...x.columns, near] });
     expect(fit.conditionNumber).toBeGreaterThan(30);
     expect(fit.warnings.join(' ')).toMatch(/condition number/);
   });

@@ -13,7 +13,7 @@ function design(n: number, seed: number): { x: Design; normal: () => number } {
   const normal = normalSampler(seededRandom(seed));
   const x1 = Float64Array.from({ length: n }, () => normal());
   const x2 = Float64Array.from({ length: n }, () => 2 * normal() + 1);
-  return { x: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] }, normal };
+  return { x: { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] }, normal };
 }
 const BETA = [1, 2, -1];
 const xb = (x: Design): Float64Array => x.columns[0].map((_, i) => BETA.reduce((s, b, j) => s + b * x.columns[j][i], 0));

@@ -142,7 +142,7 @@ describe('lag fit on binary 4-nearest-neighbour weights', () => {
     // y = (I − 0.15W)⁻¹ e by ml-matrix's solve (|0.15|·4 < 1)
     const W = dense(w);
     const y = Float64Array.from(new LuDecomposition(Matrix.eye(n).sub(W.clone().mul(0.15))).solve(Matrix.columnVector(Array.from(e))).getColumn(0));
-    const design = { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1] };
+    const design = { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1], intercept: 0 };
     const sparse = sparseAlgebra(w, null);
     const full = denseAlgebra(w, null);
     const a = fitSpatialLag(y, design, sparse), b = fitSpatialLag(y, design, full);

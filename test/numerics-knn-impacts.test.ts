@@ -23,7 +23,7 @@ describe('k-nearest impacts on the 500 wheat plots', async () => {
   const w = buildWeights({ ids: layer.areas.map((a) => String(a.properties.SP_ID)), geometries, coordinates: 'projected', points }, { method: 'knn', k: 4 }, { transform: 'row' });
   const column = (name: string) => Float64Array.from(layer.areas, (a) => Number(a.properties[name]));
   const y = column('yield');
-  const design = { names: ['constant', 'lat1', 'lon'], columns: [new Float64Array(n).fill(1), column('lat1'), column('lon')] };
+  const design = { names: ['constant', 'lat1', 'lon'], columns: [new Float64Array(n).fill(1), column('lat1'), column('lon')], intercept: 0 };
 
   it('builds the curve once; it equals the dense inverse\'s trace; draws need no per-draw traces', () => {
     const algebra = chooseAlgebra(w, null, { coordinates: points });

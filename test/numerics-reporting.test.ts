@@ -24,7 +24,7 @@ function lagData(algebra: WeightsAlgebra, rho: number, seed: number) {
   const x1 = new Float64Array(n).map(normal);
   const e = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] + normal());
   const y = solveShifted(algebra.w, rho, e).x;
-  return { y, design: { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1] } };
+  return { y, design: { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1], intercept: 0 } };
 }
 
 describe('impacts when the information matrix is not positive definite', () => {

@@ -25,7 +25,7 @@ function normals(u: () => number, n: number): Float64Array {
 function design(u: () => number, n: number, k: number, scale = 1): Design {
   const columns = [new Float64Array(n).fill(1)];
   for (let j = 1; j < k; j++) columns.push(normals(u, n).map((v) => (v * (j + 1) + j) * scale));
-  return { names: ['constant', ...Array.from({ length: k - 1 }, (_, j) => `x${j + 1}`)], columns };
+  return { intercept: 0, names: ['constant', ...Array.from({ length: k - 1 }, (_, j) => `x${j + 1}`)], columns };
 }
 
 const weightsCache = new Map<string, SpatialWeights>();

@@ -37,8 +37,8 @@ function summary(r: AnalysisResult): number[] {
     ...r.ols.coefficients.flatMap((c) => [c.estimate, c.se, c.p]), r.ols.r2, r.ols.logLik, r.ols.conditionNumber,
     r.ols.moran.I, r.ols.moran.z, r.ols.lm.lag.stat, r.ols.lm.error.stat, r.ols.lm.robustLag.stat, r.ols.lm.robustError.stat,
     r.ols.breuschPagan.stat, r.ols.jarqueBera.stat,
-    r.lag!.parameter, r.lag!.parameterSe, r.lag!.logLik, ...r.lag!.coefficients.flatMap((c) => [c.estimate, c.se]),
-    r.error!.parameter, r.error!.parameterSe, r.error!.logLik, ...r.error!.coefficients.flatMap((c) => [c.estimate, c.se]),
+    r.fits.lag!.parameter, r.fits.lag!.parameterSe, r.fits.lag!.logLik, ...r.fits.lag!.coefficients.flatMap((c) => [c.estimate, c.se]),
+    r.fits.error!.parameter, r.fits.error!.parameterSe, r.fits.error!.logLik, ...r.fits.error!.coefficients.flatMap((c) => [c.estimate, c.se]),
     r.moranY.I, r.weights.links,
   ];
 }
@@ -60,7 +60,7 @@ describe('property: shuffling rows with their geometry', () => {
           const shuffled = await run(order, weights);
           const got = summary(shuffled);
           got.forEach((v, i) => expect(Math.abs(v - ref[i]), `quantity ${i}`).toBeLessThanOrEqual(TOLERANCE(i, got.length) * Math.max(1, Math.abs(ref[i]))));
-          const a = byId(reference, reference.lag!.residuals), b = byId(shuffled, shuffled.lag!.residuals);
+          const a = byId(reference, reference.fits.lag!.residuals), b = byId(shuffled, shuffled.fits.lag!.residuals);
           for (const [id, v] of a) expect(Math.abs(b.get(id)! - v)).toBeLessThanOrEqual(1e-6 * Math.max(1, Math.abs(v)));
         }),
         { seed: 77, numRuns: RUNS.shuffle },

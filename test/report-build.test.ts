@@ -55,7 +55,7 @@ describe('buildReport', () => {
     });
     const lag = table(report, 'Spatial lag model', 'Coefficients');
     const last = lag.rows[lag.rows.length - 1];
-    expect(last.slice(1, 5)).toEqual([result.lag!.parameter, result.lag!.parameterSe, result.lag!.parameterZ, result.lag!.parameterP]);
+    expect(last.slice(1, 5)).toEqual([result.fits.lag!.parameter, result.fits.lag!.parameterSe, result.fits.lag!.parameterZ, result.fits.lag!.parameterP]);
   });
 
   it('keys the per-area sheet by ID in table order, residual = observed − fitted, lag = W·residual', () => {
@@ -122,8 +122,8 @@ describe('buildReport', () => {
     expect(texts).toContain('vacancy_rate explained by median_rent, distance_km');
     const cmp = table(report, 'Summary', 'How the models compare');
     expect(cmp.rows.map((r) => r[0])).toEqual(['Plain regression', 'Spatial lag model', 'Spatial error model']);
-    expect(cmp.rows[1].slice(1, 10)).toEqual([result.lag!.logLik, result.lag!.aic, result.lag!.bic, result.lag!.lr.stat, result.lag!.lr.p,
-      result.lag!.parameter, result.lag!.parameterSe, result.lag!.parameterP, result.lag!.pseudoR2]);
+    expect(cmp.rows[1].slice(1, 10)).toEqual([result.fits.lag!.logLik, result.fits.lag!.aic, result.fits.lag!.bic, result.fits.lag!.lr.stat, result.fits.lag!.lr.p,
+      result.fits.lag!.parameter, result.fits.lag!.parameterSe, result.fits.lag!.parameterP, result.fits.lag!.pseudoR2]);
     const lm = table(report, 'Summary', 'Evidence of spatial dependence in the plain regression');
     expect(lm.rows.map((r) => r[1])).toEqual([result.ols.lm.error.stat, result.ols.lm.lag.stat, result.ols.lm.robustError.stat, result.ols.lm.robustLag.stat, result.ols.lm.joint.stat]);
     const joined = texts.join('\n');
@@ -137,8 +137,8 @@ describe('buildReport', () => {
 
   it('reports convergence trouble and bound hits as warnings', () => {
     const r = fakeResult();
-    r.lag!.convergence = { converged: false, iterations: 200, tolerance: 0.01, message: 'iteration limit reached' };
-    r.error!.convergence = { converged: true, iterations: 30, tolerance: 1e-8, atBound: 'upper', message: 'converged' };
+    r.fits.lag!.convergence = { converged: false, iterations: 200, tolerance: 0.01, message: 'iteration limit reached' };
+    r.fits.error!.convergence = { converged: true, iterations: 30, tolerance: 1e-8, atBound: 'upper', message: 'converged' };
     const texts = allText(buildReport(r)).join('\n');
     expect(texts).toMatch(/spatial lag model did not converge: iteration limit reached/);
     expect(texts).toMatch(/spatial error model's spatial parameter ended at the upper end/);

@@ -37,7 +37,7 @@ function lagProcess(w: CsrMatrix, rho: number, seed: number): { y: Float64Array;
     csrMultiply(w, term, next);
     for (let i = 0; i < n; i++) { term[i] = rho * next[i]; y[i] += term[i]; }
   }
-  return { y, design: { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
+  return { y, design: { intercept: 0, names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2] } };
 }
 
 /** The same algebra without its cheap log-determinant: every step of the search is exact. */

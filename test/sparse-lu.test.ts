@@ -124,7 +124,7 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
     const y = base.slice();
     const term = base.slice(), next = new Float64Array(n);
     for (let it = 0; it < 200; it++) { csrMultiply(g.w, term, next); for (let i = 0; i < n; i++) { term[i] = 0.6 * next[i]; y[i] += term[i]; } }
-    const design = { names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1] };
+    const design = { intercept: 0, names: ['constant', 'x1'], columns: [new Float64Array(n).fill(1), x1] };
     const sparse = sparseAlgebra(g.w, null, { coordinates: { x: g.x, y: g.y } });
     const dense: WeightsAlgebra = Object.assign(Object.create(sparse) as WeightsAlgebra, { logdet: new DenseLuLogDet(g.w), roughLogdet: undefined });
     const lagS = fitSpatialLag(y, design, sparse), lagD = fitSpatialLag(y, design, dense);

@@ -109,7 +109,7 @@ describe("Moran's I of regression residuals", () => {
     const w = csrFromNeighbours(nb, 'row');
     const algebra = denseAlgebra(w, null);
     const normal = normalSampler(seededRandom(77));
-    const x = { names: ['constant', 'a', 'b'], columns: [new Float64Array(n).fill(1), Float64Array.from({ length: n }, () => normal()), Float64Array.from({ length: n }, () => normal())] };
+    const x = { intercept: 0, names: ['constant', 'a', 'b'], columns: [new Float64Array(n).fill(1), Float64Array.from({ length: n }, () => normal()), Float64Array.from({ length: n }, () => normal())] };
     const y = Float64Array.from({ length: n }, (_, i) => x.columns[1][i] - x.columns[2][i] + normal());
     const ols = fitOls(y, x);
     const res = moranResidualTest(ols, x, algebra);

@@ -86,9 +86,10 @@ describe('k nearest neighbours', () => {
     expect(() => buildWeights(input(p, 'projected'), { method: 'knn', k: 0 })).toThrow(/whole number/);
   });
 
-  it('points are required, and a missing location names the area', () => {
+  it('without points given, the areas\' own representative points serve; a missing location names the area', () => {
     const p = randomPoints(5, 3);
-    expect(() => buildWeights({ ...input(p, 'projected'), points: undefined }, { method: 'knn', k: 2 })).toThrow(/representative point/);
+    const own = buildWeights({ ...input(p, 'projected'), points: undefined }, { method: 'knn', k: 2 });
+    expect(Array.from(own.colIdx)).toEqual(Array.from(buildWeights(input(p, 'projected'), { method: 'knn', k: 2 }).colIdx));
     p.x[2] = NaN;
     expect(() => buildWeights(input(p, 'projected'), { method: 'knn', k: 2 })).toThrow(/Z003/);
   });

@@ -7,7 +7,7 @@ import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
 import { buildReport, layoutBlocks, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
 import { renderPng } from '../src/report/render-png.js';
-import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, plannedSheetNames, baseWorkbookRisks, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
+import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, baseWorkbookRisks, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
 import { runAnalysis } from '../src/pipeline/index.js';
 import { InputError } from '../src/errors.js';
 import { fakeResult } from './helpers/fake-result.js';
@@ -105,7 +105,8 @@ describe('writeResultsWorkbook', () => {
     const after = await readWorkbook(await writeResultsWorkbook(report, { base }));
     expect(after.slice(0, before.length)).toEqual(before.map((s) => ({ ...s })));
     const names = after.map((s) => s.name);
-    expect(names.slice(before.length)).toEqual(plannedSheetNames(report, before.map((s) => s.name)));
+    const taken = new Set(before.map((s) => s.name.toLowerCase()));
+    expect(names.slice(before.length)).toEqual(report.sheets.map((s) => uniqueSheetName(s.name, taken)));
     expect(names).toContain('Summary (3)');
     expect(names).toContain('By area (2)');
     expect(new Set(names.map((n) => n.toLowerCase())).size).toBe(names.length);

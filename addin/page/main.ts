@@ -21,7 +21,7 @@ const host: SidebarHost = {
     const status = h('p', { class: 'hint' }, 'Open the workbook (.xlsx) or CSV file with one row per area. It is read on this computer only.');
     const load = async (sheet?: string) => {
       const { table } = await engine.call({ op: 'table', file: opened!, sheet });
-      const source: TableSource = { table, file: { name: opened!.name, bytes: opened!.bytes }, sheet: opened!.isWorkbook ? table.sheet : undefined };
+      const source: TableSource = { table, origin: 'file', file: { name: opened!.name, bytes: opened!.bytes }, sheet: opened!.isWorkbook ? table.sheet : undefined };
       provide(source);
     };
     input.addEventListener('change', async () => {

@@ -38,7 +38,18 @@ export interface CheckResult {
   warnings: string[];
 }
 
+/** One model of the engine's registry, as the sidebar offers it. */
+export interface ModelChoice {
+  key: string;
+  label: string;
+  /** what the model says, in a few plain words */
+  about: string;
+  /** fitted on every run (the plain regression) */
+  baseline: boolean;
+}
+
 export type EngineJob =
+  | { op: 'models' }
   | { op: 'sheets'; file: NamedBytesLike }
   | { op: 'table'; file: NamedBytesLike; sheet?: string }
   | { op: 'check'; check: CheckRequest }
@@ -46,6 +57,7 @@ export type EngineJob =
   | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
 
 export type EngineAnswer =
+  | { op: 'models'; models: ModelChoice[] }
   | { op: 'sheets'; sheets: string[]; /** the hidden ones among them */ hidden?: string[] }
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }

@@ -5,6 +5,11 @@ import type { BoundaryFile, RunOutput, SavedSetup, TableSnapshot } from './types
 
 export interface TableSource {
   table: TableSnapshot;
+  /**
+   * 'sheet': read from a sheet of the open workbook, so the engine's row numbers are that sheet's rows
+   * and a problem can be shown at its cell; 'file': read from a file the user opened.
+   */
+  origin: 'sheet' | 'file';
   /** the bytes the engine reads the table from, and the sheet within them */
   file: NamedBytesLike;
   sheet?: string;

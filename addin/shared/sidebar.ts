@@ -4,11 +4,11 @@
  * writes the results. The engine runs in a worker (EngineClient).
  */
 import type { JoinReport } from '../../src/geo/index.js';
-import type { NamedBytesLike } from '../../src/pipeline/index.js';
+import type { ModelKey, NamedBytesLike } from '../../src/pipeline/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
 import { button, checkbox, clear, h, message, numberInput, select, setDisabled, some } from './dom.js';
 import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
-import type { CheckResult, EngineError } from './engine-protocol.js';
+import type { CheckResult, EngineError, ModelChoice } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import { mountRateBuilder } from './rate-builder.js';
@@ -36,7 +36,11 @@ interface State {
   compare: boolean;
   y?: string;
   x: Set<string>;
-  lag: boolean; error: boolean; robust: boolean; dropMissing: boolean;
+  /** the engine's models (from its registry), once it has said */
+  modelChoices: ModelChoice[] | null;
+  /** the models ticked beyond the always-fitted ones; null: every model (the default) */
+  models: Set<string> | null;
+  robust: boolean; dropMissing: boolean;
   /** where is the pattern? local statistics of one column */
   local: { on: boolean; of: string; moran: boolean; gi: boolean; gistar: boolean; permutations: number; seed: number; control: 'fdr' | 'bonferroni' | 'none'; level: number };
   running: boolean;
@@ -54,7 +58,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
     areas: null, method: 'queen', k: 5, distance: 10000, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
-    x: new Set(), lag: true, error: false, robust: false, dropMissing: false, running: false,
+    x: new Set(), modelChoices: null, models: null, robust: false, dropMissing: false, running: false,
     local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
   let saved: SavedSetup | null = null;
@@ -93,7 +97,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     let action: HTMLElement | undefined;
     let text = detail.input ? detail.message : `Something went wrong inside Spillway: ${detail.message}`;
     const t = s.source?.table;
-    if (t && detail.where?.row && s.source?.file.name.startsWith('sheet ') && (detail.where.file === undefined || detail.where.file === s.source.file.name)) {
+    if (t && detail.where?.row && s.source?.origin === 'sheet' && (detail.where.file === undefined || detail.where.file === s.source.file.name)) {
       const cell = cellOf(t, detail.where.row, detail.where.column);
       text += ` (cell ${cell} on sheet "${t.sheet}")`;
       if (host.showCell) action = button(`Show ${cell}`, () => { void host.showCell!(t.sheet, cell); });
@@ -313,14 +317,33 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       select('y-column', 'Outcome to explain', candidates.map((c) => ({ value: c, text: shown(c) })), s.y, (v) => { s.y = v; s.x.delete(v); drawModel(); }),
       h('fieldset', { class: 'xs' }, h('legend', {}, 'Explained by'),
         ...candidates.filter((c) => c !== s.y).map((c) => checkbox(`x-${c.replace(/\W/g, '_')}`, shown(c), s.x.has(c), (v) => { if (v) s.x.add(c); else s.x.delete(c); }))),
-      h('fieldset', { class: 'models' }, h('legend', {}, 'Models (the plain regression is always fitted)'),
-        checkbox('model-lag', 'Spatial lag: the outcome depends on the neighbours’ outcome', s.lag, (v) => { s.lag = v; }),
-        checkbox('model-error', 'Spatial error: unmeasured causes are shared with neighbours', s.error, (v) => { s.error = v; })),
+      modelChoice(),
       checkbox('robust', 'Standard errors robust to unequal spread', s.robust, (v) => { s.robust = v; }),
       checkbox('drop-missing', 'Leave out rows with missing values', s.dropMissing, (v) => { s.dropMissing = v; }),
     );
   }
   drawModel();
+
+  /** The engine's models: the always-fitted ones named in the legend, a tick box for each of the others. */
+  function modelChoice(): HTMLElement {
+    const choices = s.modelChoices;
+    if (!choices) return h('fieldset', { class: 'models' }, h('legend', {}, 'Models'), h('p', { class: 'hint' }, 'Asking the engine which models it fits…'));
+    const always = choices.filter((c) => c.baseline).map((c) => c.label.toLowerCase());
+    const ticked = tickedModels(choices);
+    return h('fieldset', { class: 'models' }, h('legend', {}, `Models (the ${always.join(' and ')} ${always.length > 1 ? 'are' : 'is'} always fitted)`),
+      ...choices.filter((c) => !c.baseline).map((c) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {
+        const now = tickedModels(choices);
+        if (v) now.add(c.key); else now.delete(c.key);
+        s.models = now;
+      })));
+  }
+
+  /** The ticked models beyond the always-fitted ones (by default every one). */
+  function tickedModels(choices: ModelChoice[]): Set<string> {
+    return new Set(s.models ?? choices.filter((c) => !c.baseline).map((c) => c.key));
+  }
+
+  void engine.call({ op: 'models' }).then(({ models }) => { s.modelChoices = models; drawModel(); }, () => undefined);
 
   // ---- 5 Where is the pattern? (local statistics)
   function drawLocal() {
@@ -376,7 +399,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
       ...(s.coordinates ? { coordinates: s.coordinates } : {}),
-      models: [...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])], robust: s.robust, dropMissing: s.dropMissing,
+      ...(s.models ? { models: [...s.models] } : {}), robust: s.robust, dropMissing: s.dropMissing,
       ...(rateBuilder.names().length ? { rates: rateBuilder.choices() } : {}),
     };
   }
@@ -391,6 +414,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     let boundary: NamedBytesLike[] | null;
     try { boundary = boundaryFiles(); } catch (e) { showError(run.errors, e); return; }
     if (!boundary) { run.errors.append(message('error', 'Choose both coordinate columns (step 2).')); return; }
+    let choices: ModelChoice[];
+    try { choices = s.modelChoices ?? (await engine.call({ op: 'models' })).models; } catch (e) { showError(run.errors, e); return; }
+    const ticked = tickedModels(choices);
     s.running = true;
     setDisabled(runButton, true); setDisabled(cancelButton, false);
     progress.value = 0;
@@ -400,7 +426,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
-        models: ['ols', ...(s.lag ? ['lag' as const] : []), ...(s.error ? ['error' as const] : [])],
+        models: choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key as ModelKey),
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(localRequest() ? { local: localRequest(), seed: s.local.seed } : {}),
         ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),
@@ -453,8 +479,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       s.linkUnneighboured = saved.linkUnneighboured ?? false;
       s.coordinates = saved.coordinates ?? '';
       s.compare = saved.compare ?? false;
-      s.lag = saved.models?.includes('lag') ?? true;
-      s.error = saved.models?.includes('error') ?? false;
+      s.models = saved.models ? new Set(saved.models) : null;
       s.robust = saved.robust ?? false;
       s.dropMissing = saved.dropMissing ?? false;
       if (saved.areas?.kind === 'points') s.areas = { kind: 'points', x: saved.areas.xColumn, y: saved.areas.yColumn };

@@ -44,7 +44,8 @@ export interface SavedSetup {
   coordinates?: 'geographic' | 'projected';
   /** also fit under the usual alternative neighbour definitions */
   compare?: boolean;
-  models?: ('lag' | 'error')[];
+  /** registry keys of the models ticked (the plain regression is always fitted) */
+  models?: string[];
   robust?: boolean;
   dropMissing?: boolean;
   /** rates built from two columns, the smoothed rate modelled, and whether flagged areas are withheld */

@@ -3,12 +3,14 @@
  * the worker. Pure engine calls only: files come in as bytes, plain data goes back.
  */
 import { InputError } from '../../src/errors.js';
-import { readBoundary, readTable, joinAreas, representativePoints, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
-import { runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, MODEL_LABEL, scatterPoints } from '../../src/report/index.js';
+import { readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
+import { fittedInOrder } from '../../src/models/index.js';
+import { readLayerAndTable, runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
+import { buildReport, scatterPoints } from '../../src/report/index.js';
 import { buildWeights, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import { modelChoices } from './model-choices.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
@@ -25,8 +27,7 @@ async function tableOf(file: { name: string; bytes: Uint8Array }, sheet?: string
 }
 
 async function check(c: CheckRequest): Promise<CheckResult> {
-  const layer = await readBoundary(c.boundary, { layer: c.layer, coordinates: c.coordinates });
-  const table = await readTable(c.data, { sheet: c.sheet });
+  const { layer, table } = await readLayerAndTable(c);
   const base = {
     features: layer.areas.length, propertyNames: layer.propertyNames, coordinates: layer.coordinates,
     // what was noted reading both files stays in view when the join fails (an encoding guessed, a merged cell)
@@ -50,9 +51,8 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   // the joined areas carry the layer's and the table's notes already
   const result: CheckResult = { ...base, matched: joined.ids.length, join: joined.report, warnings: [...joined.warnings] };
   try {
-    const needsPoints = c.weights.method === 'knn' || c.weights.method === 'band' || c.weights.method === 'idw';
     const w = buildWeights(
-      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? representativePoints(joined.geometries) : undefined },
+      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates },
       c.weights,
       { transform: c.transform, linkUnneighboured: c.linkUnneighboured },
     );
@@ -65,8 +65,10 @@ async function check(c: CheckRequest): Promise<CheckResult> {
 
 function headline(r: AnalysisResult): string {
   const parts = [`${r.n} areas`, `Moran's I of ${r.request.y} ${r.moranY.I.toFixed(3)}`];
-  if (r.lag) parts.push(`${MODEL_LABEL.lag}: ρ = ${r.lag.parameter.toFixed(3)}`);
-  if (r.error) parts.push(`${MODEL_LABEL.error}: λ = ${r.error.parameter.toFixed(3)}`);
+  for (const { entry, fit } of fittedInOrder(r.fits)) {
+    const { parameters } = entry.headline(fit);
+    if (parameters.length) parts.push(`${entry.label}: ${parameters.map((q) => `${q.symbol} = ${q.estimate.toFixed(3)}`).join(', ')}`);
+  }
   return parts.join(' · ');
 }
 
@@ -89,6 +91,7 @@ async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunO
 
 async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
   switch (job.op) {
+    case 'models': return { op: 'models', models: modelChoices() };
     case 'sheets': {
       const sheets = await workbookSheets(job.file.bytes, job.file.name);
       return { op: 'sheets', sheets: sheets.map((x) => x.name), hidden: sheets.filter((x) => x.hidden).map((x) => x.name) };

@@ -23,7 +23,7 @@ const excel = new ExcelAdapter(excelRunner(officeRun, () => {
 const host: SidebarHost = {
   kind: 'excel',
   dataSource(slot, provide, fail) {
-    const read = () => excel.readActiveTable().then((table) => provide({ table, file: tableAsCsv(table) }), fail);
+    const read = () => excel.readActiveTable().then((table) => provide({ table, origin: 'sheet', file: tableAsCsv(table) }), fail);
     slot.append(
       h('p', { class: 'hint' }, 'Open the sheet with one row per area (column names in the first row), then read it.'),
       h('div', { class: 'buttons' }, button('Read the active sheet', () => void read(), { id: 'read-sheet', primary: true })),

@@ -1,6 +1,6 @@
 import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
-import type { ModelName } from '../pipeline/types.js';
+import { MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { parseRateRecipe, MAX_SEED, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS, MAX_PERMUTATIONS, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 
@@ -19,7 +19,7 @@ export interface FitArgs {
   compare?: WeightsSpec[] | 'suggested';
   transform: WeightsTransform;
   linkUnneighboured: boolean;
-  models: ModelName[];
+  models: ModelKey[];
   dropMissing: boolean;
   robust: boolean;
   seed?: number;
@@ -57,7 +57,7 @@ Model
   --boundary-id NAME   the boundary file's ID property, when it is named differently from --id
   --y COLUMN           the outcome to explain
   --x COL1,COL2        explanatory columns, comma-separated
-  --models LIST        any of ols,lag,error (default: ols,lag,error)
+  --models LIST        ${modelsHelp()}
   --robust             also report heteroskedasticity-robust standard errors for the plain regression
   --drop-missing       leave out rows with missing values (default: stop and list them)
 
@@ -77,9 +77,9 @@ Neighbours
 
 Where the pattern is (local statistics)
   --local LIST         any of moran,gi,gistar: local Moran's I, Getis–Ord Gi, Gi* per area
-  --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:lag,
-                       residuals:error, a column of the table, or rate:NAME (a --rate's
-                       empirical-Bayes standardised values; use with moran)
+  --local-of WHAT      outcome (default), residuals (of the plain regression), residuals:MODEL
+                       (a model's, spelt as in --models, e.g. residuals:lag), a column of the table,
+                       or rate:NAME (a --rate's empirical-Bayes standardised values; use with moran)
   --multiple-testing M fdr (default: Benjamini–Hochberg false discovery rate), bonferroni or none
   --fdr-level Q        the level of that control (default 0.05)
                        --permutations and --seed apply to the local tests too (default 999 permutations)
@@ -133,8 +133,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
   };
   const transform = (v.transform ?? 'row') as WeightsTransform;
   if (transform !== 'row' && transform !== 'binary') throw new InputError(`--transform must be row or binary, not "${v.transform}".`);
-  const models = (v.models ?? 'ols,lag,error').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
-  for (const m of models) if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`--models: unknown model "${m}"; choose from ols, lag, error.`);
+  const models = parseModels(v.models);
   const algebra = (v.algebra ?? 'auto') as FitArgs['algebra'];
   if (!['auto', 'dense', 'sparse'].includes(algebra)) throw new InputError(`--algebra must be auto, dense or sparse, not "${v.algebra}".`);
   const threads = v.threads === undefined ? 2 : Number(v.threads.trim());
@@ -166,7 +165,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     compare: parseCompare(v.compare, v.tolerance, v.ties),
     transform,
     linkUnneighboured: v['link-unneighboured'] ?? false,
-    models: (models.includes('ols') ? models : ['ols', ...models]) as ModelName[],
+    models,
     dropMissing: v['drop-missing'] ?? false,
     robust: v.robust ?? false,
     seed: optionalInteger('seed', v.seed, 0, MAX_SEED),
@@ -181,6 +180,30 @@ export function parseFitArgs(argv: string[]): FitArgs {
     out: v.out,
     overwrite: v.overwrite ?? false,
   };
+}
+
+/** The --models line of the help: every model of the registry. */
+function modelsHelp(): string {
+  return `any of ${spellings().join(',')}, or all (default: all; ${baselineModel().cli} is always fitted)`;
+}
+
+/** How --models spells each model of the registry, in registry order (a function: the help text is built at load). */
+function spellings(): string[] {
+  return MODELS.map((m) => m.cli);
+}
+
+/** --models: the registry's spellings, comma-separated, or "all"; the plain regression is always among them. */
+function parseModels(text: string | undefined): ModelKey[] {
+  const known = spellings();
+  const asked = (text ?? 'all').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
+  if (asked.length === 0) throw new InputError(`--models needs at least one of ${known.join(', ')}, or all.`);
+  if (asked.includes('all')) return withBaseline(MODELS.map((m) => m.key));
+  const keys = asked.map((spelling) => {
+    const entry = MODELS.find((m) => m.cli === spelling);
+    if (!entry) throw new InputError(`--models: unknown model "${spelling}"; choose from ${known.join(', ')}, or all.`);
+    return entry.key;
+  });
+  return withBaseline(keys);
 }
 
 /** --compare: comma-separated rules (contiguity ones take --tolerance), or "suggested". */

@@ -1,6 +1,7 @@
-import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult } from '../pipeline/index.js';
+import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type ComparedFit, type WeightsComparison } from '../pipeline/index.js';
 import type { LocalCategory } from '../stats/index.js';
-import type { Coefficient, SpatialFit } from '../models/types.js';
+import type { Coefficient } from '../models/types.js';
+import { MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
 export function formatSummary(r: AnalysisResult): string {
@@ -31,23 +32,30 @@ export function formatSummary(r: AnalysisResult): string {
   ]));
   lines.push(`  Guidance: ${o.recommendation.text}`);
   lines.push('');
-  if (r.lag) lines.push(...spatialBlock('Spatial lag model (maximum likelihood): the outcome spills over', r.lag, 'rho'), '');
-  if (r.impacts) {
-    lines.push(`Spillover effects of the lag model (standard errors from ${r.impacts.draws} simulated draws, seed ${r.impacts.seed})`);
-    lines.push(...table(['term', 'in the area itself', 'SE', 'in the other areas', 'SE', 'total', 'SE'],
-      r.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
-    lines.push('');
+  for (const { entry, fit } of fittedInOrder(r.fits)) {
+    if (entry.baseline) continue;
+    lines.push(...modelBlock(entry, fit), '');
+    if (fit.impacts) {
+      lines.push(`Spillover effects of the ${entry.label.toLowerCase()} (standard errors from ${fit.impacts.draws} simulated draws, seed ${fit.impacts.seed})`);
+      lines.push(...table(['term', 'in the area itself', 'SE', 'in the other areas', 'SE', 'total', 'SE'],
+        fit.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
+      lines.push('');
+    }
   }
-  if (r.error) lines.push(...spatialBlock('Spatial error model (maximum likelihood): spatially patterned omitted causes', r.error, 'lambda'), '');
   if (r.comparison) {
     lines.push('The same question under other neighbour definitions');
-    const pick = (f: { parameter: number } | undefined) => (f ? fmt(f.parameter, 4) : '');
-    lines.push(...table(['definition', "Moran's I p", 'suggested', ...(r.lag ? ['ρ'] : []), ...(r.error ? ['λ'] : [])],
+    // one column per spatial parameter of each model fitted
+    const fitted = MODELS.filter((m) => !m.baseline && (r.request.models as readonly string[]).includes(m.key));
+    const columns = fitted.flatMap((m) => m.parameters.map((q) => ({
+      head: q.symbol,
+      pick: (c: WeightsComparison) => (c.fits as Record<string, ComparedFit | undefined>)[m.key]?.parameters.find((x) => x.key === q.key)?.estimate,
+    })));
+    lines.push(...table(['definition', "Moran's I p", 'suggested', ...columns.map((c) => c.head)],
       r.comparison.map((c) => [
         `${c.label}${c.asRun ? ' (this run)' : ''}`,
         c.failed ? 'could not be built' : p(c.moran.p),
         c.suggestion ? SUGGESTION[c.suggestion] : '',
-        ...(r.lag ? [pick(c.lag)] : []), ...(r.error ? [pick(c.error)] : []),
+        ...columns.map((col) => { const v = col.pick(c); return v === undefined ? '' : fmt(v, 4); }),
       ])));
     for (const c of r.comparison) if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
     lines.push('');
@@ -76,15 +84,18 @@ export const CAUTION =
   'people in them; a different neighbour definition can change the answers; rates for areas with few people are unstable. ' +
   'Check the results with people who know the places.';
 
-function spatialBlock(title: string, f: SpatialFit, symbol: 'rho' | 'lambda'): string[] {
-  const name = symbol === 'rho' ? 'ρ (spillover of the outcome)' : 'λ (spillover of the errors)';
-  const out = [title];
-  out.push(`  ${name} ${fmt(f.parameter, 6)}, SE ${fmt(f.parameterSe, 4)}, z ${fmt(f.parameterZ, 4)}, p ${p(f.parameterP)}`);
+/** One model's block: its spatial parameters, coefficients, fit figures, test against the plain regression and search. */
+function modelBlock(entry: ModelEntry, f: Fitted): string[] {
+  const h = entry.headline(f);
+  const out = [`${entry.label} (${entry.method}): ${entry.about}`];
+  for (const q of h.parameters) out.push(`  ${q.symbol} (${q.name}) ${fmt(q.estimate, 6)}, SE ${fmt(q.se, 4)}, z ${fmt(q.z, 4)}, p ${p(q.p)}`);
   out.push(...coefficientTable(f.coefficients, 'z'));
-  out.push(`  log-likelihood ${fmt(f.logLik, 6)}; AIC ${fmt(f.aic, 6)}; BIC ${fmt(f.bic, 6)}; σ² ${fmt(f.sigma2, 5)}; squared correlation of observed and fitted ${fmt(f.pseudoR2, 4)}`);
-  out.push(`  Likelihood-ratio test against the plain regression: ${fmt(f.lr.stat, 5)} (df ${f.lr.df}), p ${p(f.lr.p)}`);
-  if (f.lmRemainingError) out.push(`  Spatial error pattern left after the lag: Lagrange multiplier ${fmt(f.lmRemainingError.stat, 4)}, p ${p(f.lmRemainingError.p)}`);
-  out.push(`  Search: ${f.convergence.message}`);
+  const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
+  out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
+  if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
+  const remaining = (f as { lmRemainingError?: { stat: number; p: number } }).lmRemainingError;
+  if (remaining) out.push(`  Spatial error pattern left after the lag: Lagrange multiplier ${fmt(remaining.stat, 4)}, p ${p(remaining.p)}`);
+  if (h.convergence) out.push(`  Search: ${h.convergence.message}`);
   return out;
 }
 

@@ -36,7 +36,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   const n = algebra.n;
   const k = x.columns.length;
   const warnings: string[] = [];
-  const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.name !== 'constant');
+  const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.j !== x.intercept);
   const beta = fit.coefficients.map((c) => c.estimate);
   const rhoHat = fit.parameter;
   const tracesHat = algebra.traces(rhoHat);

@@ -44,7 +44,7 @@ export function fitSpatialError(
     const xs = x.columns.map((c, j) => c.map((v, i) => v - lambda * wx[j][i]));
     const qr = householderQr(xs);
     const beta = qrSolve(qr, ys);
-    const eps = residual(ys, { names: x.names, columns: xs }, beta);
+    const eps = residual(ys, { names: x.names, columns: xs, intercept: null }, beta);
     return { qr, beta, eps, ssr: dot(eps, eps) };
   };
   // ε'ε at any λ from one QR of the n×2(k+1) matrix [X, y, WX, Wy] = QR: [BX, By] = QR·[I; −λI],
@@ -102,7 +102,7 @@ export function fitSpatialError(
     covariance[k * p + k] = NaN;
     covariance[(k + 1) * p + k + 1] = NaN;
   }
-  const coefficients = table(x.names, at.beta, (j) => Math.sqrt(covariance[j * p + j]), null);
+  const coefficients = table(x, at.beta, (j) => Math.sqrt(covariance[j * p + j]), null);
   const lambdaSe = Math.sqrt(covariance[k * p + k]);
   const lambdaZ = lambda / lambdaSe;
   const aicParameters = k + 1; // β's and λ; σ² not counted (common convention)

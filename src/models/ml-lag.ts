@@ -123,7 +123,7 @@ export function fitSpatialLag(
   const cov = invertInformation(info, p);
   const covariance = cov ?? new Float64Array(p * p).fill(NaN);
   if (!cov) warnings.push('The information matrix is not positive definite at the estimate, so standard errors are not available.');
-  const coefficients = table(x.names, beta, (j) => Math.sqrt(covariance[j * p + j]), null);
+  const coefficients = table(x, beta, (j) => Math.sqrt(covariance[j * p + j]), null);
   const rhoVar = covariance[k * p + k];
   const rhoSe = Math.sqrt(rhoVar);
   const rhoZ = rho / rhoSe;

@@ -11,6 +11,11 @@ import {
 } from '../stats/index.js';
 import type { Coefficient, Design, OlsFit } from './types.js';
 
+/** A design with an intercept first (named "constant", marked by its index 0), then the given columns in order. */
+export function designWithIntercept(names: string[], columns: Float64Array[], n = columns[0]?.length ?? 0): Design {
+  return { names: ['constant', ...names], columns: [new Float64Array(n).fill(1), ...columns], intercept: 0 };
+}
+
 /** Relative tolerance on |R_jj| / ‖x_j‖ below which a column counts as a combination of earlier ones. */
 const RANK_TOLERANCE = 1e-10;
 /** Belsley, Kuh & Welsch's rule of thumb (common practice): above 30, multicollinearity is a concern. */
@@ -49,7 +54,7 @@ export function fitOls(y: Float64Array, x: Design, opts: { robust?: boolean } = 
   for (let i = 0; i < n; i++) tss += (y[i] - mean) ** 2;
   const sigma2 = ssr / (n - k);
   const cov = inverseCrossProduct(qr);
-  const coefficients = table(x.names, beta, (j) => Math.sqrt(sigma2 * cov[j * k + j]), n - k);
+  const coefficients = table(x, beta, (j) => Math.sqrt(sigma2 * cov[j * k + j]), n - k);
   const r2 = 1 - ssr / tss;
   const adjR2 = 1 - ((1 - r2) * (n - 1)) / (n - k);
   const fStat = k > 1 ? (r2 / (k - 1)) / ((1 - r2) / (n - k)) : NaN;
@@ -84,16 +89,19 @@ export function fitOls(y: Float64Array, x: Design, opts: { robust?: boolean } = 
   };
   if (opts.robust) {
     const robust = whiteCovariance(qr, residuals);
-    fit.robustCoefficients = table(x.names, beta, (j) => Math.sqrt(robust[j * k + j]), n - k);
+    fit.robustCoefficients = table(x, beta, (j) => Math.sqrt(robust[j * k + j]), n - k);
   }
   return fit;
 }
 
-export function table(names: string[], beta: Float64Array, se: (j: number) => number, df: number | null): Coefficient[] {
-  return names.map((name, j) => {
+/** One row per column of the design (the intercept's marked as such); Student t with df, normal z when df is null. */
+export function table(x: Design, beta: Float64Array, se: (j: number) => number, df: number | null): Coefficient[] {
+  return x.names.map((name, j) => {
     const s = se(j);
     const stat = beta[j] / s;
-    return { name, estimate: beta[j], se: s, stat, p: df === null ? normalTwoSided(stat) : studentTwoSided(stat, df) };
+    const c: Coefficient = { name, estimate: beta[j], se: s, stat, p: df === null ? normalTwoSided(stat) : studentTwoSided(stat, df) };
+    if (j === x.intercept) c.intercept = true;
+    return c;
   });
 }
 
@@ -132,6 +140,9 @@ function checkDesign(y: Float64Array, x: Design): void {
   const n = y.length;
   const k = x.columns.length;
   if (x.names.length !== k) throw new Error(`design has ${k} columns but ${x.names.length} names`);
+  if (x.intercept !== null && !(x.intercept >= 0 && x.intercept < k && x.columns[x.intercept].every((v) => v === 1))) {
+    throw new Error(`design's intercept ${x.intercept} is not a column of ones`);
+  }
   for (let j = 0; j < k; j++) {
     if (x.columns[j].length !== n) {
       throw new InputError(`Column "${x.names[j]}" has ${x.columns[j].length} values but the outcome has ${n}; every column needs one value per area.`, { column: x.names[j] });
@@ -149,7 +160,7 @@ function checkDesign(y: Float64Array, x: Design): void {
   for (let j = 0; j < k; j++) {
     const c = x.columns[j];
     const isConstant = c.every((v) => v === c[0]);
-    if (isConstant && x.names[j] !== 'constant') {
+    if (isConstant && j !== x.intercept) {
       throw new InputError(
         `Column "${x.names[j]}" has the same value (${c[0]}) in every area, so its effect cannot be told apart from the intercept; remove it.`,
         { column: x.names[j] },

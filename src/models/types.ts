@@ -1,32 +1,11 @@
-/** Regressors: column vectors, the intercept first and named "constant". */
-export interface Design {
-  names: string[];
-  columns: Float64Array[];
-}
+import type { Coefficient, RegressionResiduals, TestResult } from '../core/types.js';
 
-export interface Coefficient {
-  name: string;
-  estimate: number;
-  se: number;
-  /** t for OLS, z for ML models */
-  stat: number;
-  p: number;
-}
+export type { Coefficient, Design, LmTests, MoranTest, RegressionResiduals, TestResult } from '../core/types.js';
 
-export interface TestResult {
-  stat: number;
-  df: number;
-  p: number;
-}
-
-export interface OlsFit {
-  n: number;
-  k: number;
+export interface OlsFit extends RegressionResiduals {
   coefficients: Coefficient[];
   /** heteroskedasticity-robust (White, HC0) coefficients when asked for */
   robustCoefficients?: Coefficient[];
-  residuals: Float64Array;
-  fitted: Float64Array;
   r2: number;
   adjR2: number;
   f: TestResult & { df2: number };
@@ -42,23 +21,6 @@ export interface OlsFit {
   breuschPagan: TestResult;
   breuschPaganStudentised: TestResult;
   warnings: string[];
-}
-
-export interface MoranTest {
-  I: number;
-  expected: number;
-  variance: number;
-  z: number;
-  /** two-sided normal p */
-  p: number;
-}
-
-export interface LmTests {
-  error: TestResult;
-  lag: TestResult;
-  robustError: TestResult;
-  robustLag: TestResult;
-  joint: TestResult;
 }
 
 export interface Recommendation {

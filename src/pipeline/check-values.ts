@@ -5,6 +5,7 @@
  */
 import { InputError } from '../errors.js';
 import type { SpatialWeights } from '../weights/types.js';
+import { areasNeeded, type ModelEntry } from '../models/index.js';
 
 /**
  * Largest magnitude accepted in a model column or a weight. Sums of squares of n values of size m
@@ -115,22 +116,17 @@ export function perfectFitError(y: string, x: string[]): InputError {
   );
 }
 
-/** ML spatial models need spare observations beyond the coefficients, σ² and ρ or λ. */
-export function checkSpatialModelSize(n: number, k: number, models: string[]): void {
-  const spatial = models.filter((m) => m === 'lag' || m === 'error');
-  if (spatial.length > 0 && n < k + 3) {
+/**
+ * Spatial models need spare observations beyond their coefficients, the residual variance and their
+ * spatial parameters (`models`: the asked-for models with spatial parameters).
+ */
+export function checkSpatialModelSize(n: number, k: number, models: readonly ModelEntry[]): void {
+  const short = models.filter((m) => n < areasNeeded(m, k));
+  if (short.length > 0) {
+    const needed = Math.max(...short.map((m) => areasNeeded(m, k)));
     throw new InputError(
-      `There are ${n} areas for ${k} coefficients (n = ${n}, k = ${k}): the spatial ${spatial.join(' and ')} model${spatial.length > 1 ? 's' : ''} also estimate the error variance and a spatial parameter, ` +
-      `which needs at least ${k + 3} areas. Use more areas, fewer explanatory columns, or only the plain regression.`,
-    );
-  }
-}
-
-/** A fitted model whose likelihood is not a finite number describes nothing; refuse it by name. */
-export function checkFittedLikelihood(label: string, logLik: number, n: number, k: number): void {
-  if (!Number.isFinite(logLik)) {
-    throw new InputError(
-      `The ${label} could not be estimated on these data (its log-likelihood is ${logLik}; n = ${n}, k = ${k}): the areas are too few or the neighbour links too sparse for the spatial parameter. Use more areas or run only the plain regression.`,
+      `There are ${n} areas for ${k} coefficients (n = ${n}, k = ${k}): the ${labels(short)} also estimate${short.length > 1 ? '' : 's'} the error variance and a spatial parameter, ` +
+      `which needs at least ${needed} areas. Use more areas, fewer explanatory columns, or only the plain regression.`,
     );
   }
 }
@@ -139,12 +135,17 @@ export function checkFittedLikelihood(label: string, logLik: number, n: number, 
  * Directed links that never lead back to an area (a chain, a tree) make W nilpotent: every eigenvalue
  * is 0, ln|I − ρW| = 0 for every ρ and the spatial parameter has no bounded range to search.
  */
-export function checkSpatialRange(range: { lower: number; upper: number }, ruleWords: string, models: string[]): void {
-  const spatial = models.filter((m) => m === 'lag' || m === 'error');
-  if (spatial.length === 0 || (Number.isFinite(range.lower) && Number.isFinite(range.upper))) return;
+export function checkSpatialRange(range: { lower: number; upper: number }, ruleWords: string, models: readonly ModelEntry[]): void {
+  if (models.length === 0 || (Number.isFinite(range.lower) && Number.isFinite(range.upper))) return;
   throw new InputError(
     `Under ${ruleWords} the links never lead back to an area they started from (no loop: every eigenvalue of the weights is 0), ` +
-    `so the spatial parameter has no bounded range and the spatial ${spatial.join(' and ')} model${spatial.length > 1 ? 's' : ''} cannot be estimated. ` +
+    `so the spatial parameter has no bounded range and the ${labels(models)} cannot be estimated. ` +
     `List each link in both directions, or run only the plain regression and its tests.`,
   );
+}
+
+/** "the spatial lag model", "the spatial lag model and spatial error model" */
+function labels(models: readonly ModelEntry[]): string {
+  const words = models.map((m) => m.label.toLowerCase());
+  return words.length <= 1 ? words.join('') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
 }

@@ -4,15 +4,14 @@
  * by side. The plain regression does not depend on the neighbours and is fitted once.
  */
 import type { JoinedAreas } from '../geo/types.js';
-import { buildWeights, describeRule, summarizeWeights, symmetricForm } from '../weights/index.js';
+import { buildWeights, describeRule, summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
-import { chooseAlgebra } from '../linalg/index.js';
 import type { StartHelperThread } from '../linalg/index.js';
-import { fitSpatialError, fitSpatialLag, lagImpacts, recommendModel } from '../models/index.js';
-import type { Design, Impact, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit } from '../models/types.js';
-import { lmTests, moranResidualTest } from '../stats/index.js';
+import { fittedInOrder, type FittedModels, type ModelKey } from '../models/index.js';
+import type { LmTests, MoranTest, Recommendation } from '../models/types.js';
 import { InputError } from '../errors.js';
-import type { ModelName, WeightsComparison } from './types.js';
+import { fitUnderWeights, type BaseFit } from './fit-under-weights.js';
+import type { ComparedFit, WeightsComparison } from './types.js';
 
 /** At most this many alternatives in one run (each is a full set of spatial fits). */
 export const MAX_ALTERNATIVES = 6;
@@ -46,14 +45,14 @@ export interface CompareContext {
   joined: JoinedAreas;
   /** one point per area (distance rules, and the orderings of large factorisations) */
   points: { x: Float64Array; y: Float64Array };
-  y: Float64Array;
-  design: Design;
-  ols: OlsFit;
-  models: ModelName[];
+  /** the outcome, the design and the plain regression, fitted once */
+  base: BaseFit;
+  models: readonly ModelKey[];
+  robust?: boolean;
   transform?: WeightsTransform;
   linkUnneighboured?: boolean;
   seed: number;
-  /** simulation draws for the lag model's effects */
+  /** simulation draws for the spillover effects */
   impactDraws: number;
   /** dense or sparse algebra, as for the run's own definition */
   method?: 'auto' | 'dense' | 'sparse';
@@ -68,9 +67,7 @@ export interface OwnFigures {
   moran: MoranTest;
   lm: LmTests;
   recommendation: Recommendation;
-  lag?: SpatialFit;
-  error?: SpatialFit;
-  impacts?: Impact[];
+  fits: FittedModels;
 }
 
 /** One row per definition: the run's own first, then each alternative refitted. */
@@ -90,27 +87,31 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), failed: e.message }); continue; }
       throw e;
     }
-    const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: ctx.method ?? 'auto', seed: ctx.seed, helper: ctx.helper });
+    let found;
     try {
-      const lm = lmTests(ctx.ols, ctx.design, algebra);
-      const lag = ctx.models.includes('lag') ? fitSpatialLag(ctx.y, ctx.design, algebra, ctx.ols) : undefined;
-      rows.push(rowOf(describeRule(spec), false, {
-        spec, description: w.description, summary: summarizeWeights(w), moran: moranResidualTest(ctx.ols, ctx.design, algebra), lm, recommendation: recommendModel(lm),
-        lag,
-        impacts: lag ? lagImpacts(lag, ctx.design, algebra, { draws: ctx.impactDraws, seed: ctx.seed }).impacts : undefined,
-        error: ctx.models.includes('error') ? fitSpatialError(ctx.y, ctx.design, algebra, ctx.ols) : undefined,
-      }));
-    } finally {
-      algebra.dispose?.();
+      found = fitUnderWeights(ctx.base, w, ctx.models, { points, method: ctx.method, helper: ctx.helper, robust: ctx.robust, seed: ctx.seed, impactDraws: ctx.impactDraws });
+    } catch (e) {
+      // so is one under which a model cannot be estimated (no bounded range, no finite likelihood)
+      if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), description: w.description, failed: e.message }); continue; }
+      throw e;
     }
+    rows.push(rowOf(describeRule(spec), false, { spec, description: w.description, summary: summarizeWeights(w), ...found }));
   }
   return rows;
 }
 
 function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison {
-  const model = (fit: SpatialFit | undefined) => fit && {
-    parameter: fit.parameter, se: fit.parameterSe, p: fit.parameterP, logLik: fit.logLik, aic: fit.aic, converged: fit.convergence.converged && !fit.convergence.atBound,
-  };
+  const fits: WeightsComparison['fits'] = {};
+  for (const { entry, fit } of fittedInOrder(f.fits)) {
+    if (entry.baseline) continue;
+    const h = entry.headline(fit);
+    const compared: ComparedFit = {
+      parameters: h.parameters.map((q) => ({ ...q })), logLik: h.logLik, aic: h.aic,
+      converged: h.convergence ? h.convergence.converged && !h.convergence.atBound : true,
+      ...(fit.impacts ? { impacts: fit.impacts.impacts.map((i) => ({ ...i })) } : {}),
+    };
+    fits[entry.key as ModelKey] = compared;
+  }
   const { summary, moran, lm } = f;
   return {
     label, description: f.description, asRun,
@@ -118,14 +119,13 @@ function rowOf(label: string, asRun: boolean, f: OwnFigures): WeightsComparison 
     moran: { I: moran.I, z: moran.z, p: moran.p },
     lmP: { error: lm.error.p, lag: lm.lag.p, robustError: lm.robustError.p, robustLag: lm.robustLag.p },
     suggestion: f.recommendation.choice,
-    lag: model(f.lag), error: model(f.error),
-    ...(f.impacts ? { impacts: f.impacts.map((i) => ({ ...i })) } : {}),
+    fits,
   };
 }
 
 function emptyRow(label: string): WeightsComparison {
   return {
     label, description: label, asRun: false, links: NaN, meanNeighbours: NaN, withoutNeighbours: NaN, components: NaN,
-    moran: { I: NaN, z: NaN, p: NaN }, lmP: { error: NaN, lag: NaN, robustError: NaN, robustLag: NaN },
+    moran: { I: NaN, z: NaN, p: NaN }, lmP: { error: NaN, lag: NaN, robustError: NaN, robustLag: NaN }, fits: {},
   };
 }

@@ -1,36 +1,30 @@
-import { readBoundary, readTable, tableFromLayer, joinAreas, representativePoints, decodeText, areaShapeWarnings } from '../geo/index.js';
-import {
-  buildWeights, readEdgeList, subsetWeights, summarizeWeights, symmetricForm, spatialLag,
-} from '../weights/index.js';
+import { representativePoints, areaShapeWarnings } from '../geo/index.js';
+import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { chooseAlgebra } from '../linalg/index.js';
-import {
-  fitOls, fitSpatialLag, fitSpatialError, lagImpacts, recommendModel,
-} from '../models/index.js';
-import { moranResidualTest, lmTests, moranColumn } from '../stats/index.js';
-import type { Design } from '../models/types.js';
+import { baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
+import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
-import { sha256Hex } from './hash.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
-import { addRates, checkLocalRate, columnsWithRates, localRateName, localRateValues, ratesRecord } from './rates.js';
-import { readModelColumns } from './missing.js';
+import { addRates, checkLocalRate, localRateName, localRateValues, ratesRecord } from './rates.js';
 import { checkRunSettings } from './limits.js';
-import { withReadNotes } from './read-notes.js';
-import { checkFittedLikelihood, checkModelColumns, checkSpatialModelSize, checkSpatialRange, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
-import type { AnalysisRequest, AnalysisResult, AnalysisRuntime, InputRecord, ModelName } from './types.js';
+import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
+import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
+import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
+import type { AnalysisRequest, AnalysisResult, AnalysisRuntime } from './types.js';
 
 const DEFAULT_SEED = 20261201;
 export const PERMUTATION_AREA_LIMIT = 10_000;
 
 /**
  * The whole job in one call: read the boundaries and the table, join them by ID, build the
- * neighbours, fit the plain regression and its spatial diagnostics, then the spatial lag and error
- * models and the lag model's impacts. Pure: bytes in, numbers out; the CLI and the add-in share it.
- * `runtime` carries what the platform offers beyond that (a second thread) and never changes a figure
- * beyond rounding.
+ * neighbours, fit the plain regression and the tests on its residuals, then every asked-for model of
+ * the registry (with its spillover effects), the comparison of neighbour definitions and the local
+ * statistics when asked. Pure: bytes in, numbers out; the CLI and the add-in share it. `runtime`
+ * carries what the platform offers beyond that (a second thread) and never changes a figure beyond
+ * rounding.
  */
 export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRuntime = {}): Promise<AnalysisResult> {
   const timings: Record<string, number> = {};
@@ -40,55 +34,28 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const progress = request.onProgress ?? (() => {});
   const seed = request.seed ?? DEFAULT_SEED;
   const impactDraws = request.impactDraws ?? 1000;
-  const models = request.models.length ? request.models : ['ols', 'lag', 'error'];
   validateRequest(request);
+  const models = withBaseline(request.models.length ? request.models : MODEL_KEYS);
+  const spatial = entriesOf(models).filter((m) => m.parameters.length > 0);
 
   progress(0.02, 'Reading the files');
-  const inputs: InputRecord[] = [];
-  for (const f of request.boundary) inputs.push(await record('boundary', f));
-  if (request.data) inputs.push(await record('data', request.data));
-  if (request.edgeList) inputs.push(await record('edge list', request.edgeList));
-
-  const maxBytes = request.maxBytes;
-  const layer = await readBoundary(request.boundary, { layer: request.layer, coordinates: request.coordinates, maxBytes });
-  const table = request.data ? await readTable(request.data, { sheet: request.sheet, maxBytes }) : tableFromLayer(layer);
-  if (request.edgeList && maxBytes !== undefined && request.edgeList.bytes.length > maxBytes) {
-    throw new InputError(`${request.edgeList.name} is ${request.edgeList.bytes.length} bytes, over the ${maxBytes}-byte limit for neighbour lists.`, { file: request.edgeList.name });
-  }
-  lap('read');
-  progress(0.1, 'Joining the table to the areas');
-  const boundaryId = request.boundaryId?.trim() || undefined;
-  const readNotes = [...(layer.readNotes ?? []), ...(request.data ? table.warnings ?? [] : [])];
-  const joinedAll = withReadNotes(readNotes, () => joinAreas(layer, table, request.id, { featureIdProperty: boundaryId }));
   const local = request.local ? normaliseLocalRequest(request.local) : undefined;
   checkLocalRate(local?.of, request.rates);
-  const localColumn = local && local.of !== 'outcome' && localRateName(local.of) === undefined && !['residuals', 'residuals:lag', 'residuals:error'].includes(local.of) && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
-  const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...localColumn], request.rates), request.dropMissing ?? false));
-  checkModelColumns(values, joined);
-  checkSpatialModelSize(joined.ids.length, request.x.length + 1, models);
-  lap('join');
+  const residualsOf = local ? residualSource(local.of) : undefined;
+  if (local && residualsOf && !(models as readonly string[]).includes(residualsOf.key)) {
+    throw new InputError(`--local-of ${local.of}: the ${residualsOf.label.toLowerCase()} was not fitted; add it to the models or choose residuals (of the plain regression).`);
+  }
+  const localColumn = local && local.of !== 'outcome' && !residualsOf && localRateName(local.of) === undefined && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
+  const areas = await prepareAreas(request, localColumn, (stage) => {
+    lap(stage);
+    if (stage === 'read') progress(0.1, 'Joining the table to the areas');
+  });
+  const { joined, values, dropped } = areas;
+  checkSpatialModelSize(joined.ids.length, request.x.length + 1, spatial);
 
   progress(0.2, 'Finding neighbours');
-  const needsPoints = request.weights.method === 'knn' || request.weights.method === 'band' || request.weights.method === 'idw';
   const points = representativePoints(joined.geometries);
-  let w: SpatialWeights;
-  if (request.edgeList) {
-    const text = decodeText(request.edgeList.bytes, request.edgeList.name, { kind: 'a neighbour list (CSV)', latinFallback: true }).text;
-    const listOpts = { transform: request.transform, source: request.edgeList.name };
-    if (dropped.length > 0) {
-      // The list names the areas of the whole table: read it on all of them, then leave out the dropped rows.
-      const position = new Map(joinedAll.ids.map((id, i) => [id, i]));
-      w = subsetWeights(readEdgeList(text, joinedAll.ids, listOpts), joined.ids.map((id) => position.get(id)!));
-    } else {
-      w = readEdgeList(text, joined.ids, listOpts);
-    }
-  } else {
-    w = buildWeights(
-      { ids: joined.ids, geometries: joined.geometries, coordinates: joined.coordinates, points: needsPoints ? points : undefined },
-      request.weights,
-      { transform: request.transform, linkUnneighboured: request.linkUnneighboured },
-    );
-  }
+  const w = neighboursOf(request, areas, points);
   checkWeights(w, w.description);
   const summary = summarizeWeights(w);
   lap('weights');
@@ -96,120 +63,51 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     ? addRates(request.rates, values, w, { ids: joined.ids, rows: joined.rows }, { permutations: request.permutations ?? 999, seed })
     : undefined;
 
-  progress(0.3, 'Preparing the log-determinant');
-  const algebra = chooseAlgebra(w, symmetricForm(w), { coordinates: points, method: request.algebra ?? 'auto', seed, helper: runtime.helper });
-  // A refusal after this point frees the algebra (it may hold a second thread's factor).
-  const unlessRefused = (check: () => void) => { try { check(); } catch (e) { algebra.dispose?.(); throw e; } };
-  unlessRefused(() => checkSpatialRange(algebra.range, w.description, models));
-  lap('algebra');
-
-  const y = values.get(request.y)!;
+  progress(0.3, 'Fitting the plain regression');
+  const base = plainRegression(request, areas);
+  const { y } = base;
   // Above PERMUTATION_AREA_LIMIT areas the randomisation p-value is accurate and 999 shuffles of n
   // values cost more than the whole model fit, so the permutation test runs only when asked for.
   const permutations = request.permutations ?? (y.length <= PERMUTATION_AREA_LIMIT ? 999 : 0);
-  if (y.length > 0 && y.every((v) => v === y[0])) {
-    throw new InputError(
-      `The outcome column "${request.y}" has the same value (${y[0]}) in every ${joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
-      { column: request.y },
-    );
-  }
-  const design: Design = {
-    names: ['constant', ...request.x],
-    columns: [new Float64Array(y.length).fill(1), ...request.x.map((c) => values.get(c)!)],
-  };
-
-  progress(0.4, 'Fitting the plain regression');
-  const ols = fitOls(y, design, { robust: request.robust });
-  unlessRefused(() => { if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x); });
-  const moran = moranResidualTest(ols, design, algebra);
-  const lm = lmTests(ols, design, algebra);
-  const recommendation = recommendModel(lm);
-  const olsResidualLag = spatialLag(w, ols.residuals);
   const moranY = moranColumn(y, w, { permutations, seed });
   lap('ols');
 
-  let lag: AnalysisResult['lag'];
-  let error: AnalysisResult['error'];
-  let impacts: AnalysisResult['impacts'];
-  let comparison: AnalysisResult['comparison'];
-  try {
-    if (models.includes('lag')) {
-      progress(0.5, 'Fitting the spatial lag model');
-      const fit = fitSpatialLag(y, design, algebra, ols);
-      checkFittedLikelihood('spatial lag model', fit.logLik, y.length, design.columns.length);
-      lag = { ...fit, residualLag: spatialLag(w, fit.residuals) };
-      lap('lag');
-      progress(0.7, 'Simulating the spillover effects');
-      impacts = lagImpacts(fit, design, algebra, { draws: impactDraws, seed });
-      lap('impacts');
-    }
-    if (models.includes('error')) {
-      progress(0.8, 'Fitting the spatial error model');
-      const fit = fitSpatialError(y, design, algebra, ols);
-      checkFittedLikelihood('spatial error model', fit.logLik, y.length, design.columns.length);
-      error = { ...fit, residualLag: spatialLag(w, fit.residuals) };
-      lap('error');
-    }
-  } finally {
-    algebra.dispose?.();
-  }
-  const asked = request.compareWeights === 'suggested'
-    ? suggestedAlternatives(w.spec, joined.geometries.some((g) => g.kind === 'polygon'))
-    : request.compareWeights ?? [];
-  const alternatives = asked.filter((spec) => w.spec.method === 'edge-list' || !sameSpec(spec, w.spec as WeightsSpec));
-  if (alternatives.length > 0) {
-    progress(0.9, 'Refitting under the other neighbour definitions');
-    comparison = compareWeights(
-      { spec: w.spec, description: w.description, summary, moran, lm, recommendation, lag, error, impacts: impacts?.impacts },
-      alternatives,
-      { joined, points, y, design, ols, models: models as ModelName[], transform: request.transform, linkUnneighboured: request.linkUnneighboured, seed, impactDraws, method: request.algebra, helper: runtime.helper },
-    );
-    lap('comparison');
-  }
+  const fitOptions = { robust: request.robust, seed, impactDraws, points, method: request.algebra, helper: runtime.helper };
+  const own = fitUnderWeights(base, w, models, {
+    ...fitOptions,
+    onProgress: (f, stage) => progress(0.35 + 0.5 * f, stage),
+    onStepDone: lap,
+  });
+
+  const comparison = compareDefinitions(request, w, summary, own, { joined, base, models, ...fitOptions }, progress, lap);
 
   let localResult: AnalysisResult['local'];
   if (local) {
     progress(0.93, 'Looking for where the pattern is');
-    const of = local.of;
-    const fitted = { residuals: ols, 'residuals:lag': lag, 'residuals:error': error } as const;
-    const source = Object.hasOwn(fitted, of) ? fitted[of as keyof typeof fitted] : undefined;
-    if (of.startsWith('residuals') && !source) {
-      throw new InputError(`--local-of ${of}: the ${of === 'residuals:lag' ? 'spatial lag' : 'spatial error'} model was not fitted; add it to the models or choose residuals (of the plain regression).`);
-    }
-    const residualWords = { residuals: 'residuals of the plain regression', 'residuals:lag': 'residuals of the spatial lag model', 'residuals:error': 'residuals of the spatial error model' } as const;
-    const rate = localRateValues(of, rates ?? []);
-    const [v, label] = of === 'outcome' ? [y, request.y] : source ? [source.residuals, residualWords[of as keyof typeof residualWords]] : rate ? [rate.values, rate.label] : [values.get(of)!, of];
+    const rate = localRateValues(local.of, rates ?? []);
+    const [v, label] = local.of === 'outcome' ? [y, request.y]
+      : residualsOf ? [(own.fits as Record<string, { residuals: Float64Array }>)[residualsOf.key].residuals, `residuals of the ${residualsOf.label.toLowerCase()}`]
+      : rate ? [rate.values, rate.label]
+      : [values.get(local.of)!, local.of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));
     lap('local');
   }
-
-  const warnings = [...joined.warnings, ...areaShapeWarnings(joined, points, layer.sourceName), ...ols.warnings, ...(lag?.warnings ?? []), ...(impacts?.warnings ?? []), ...(error?.warnings ?? [])];
-  if (summary.withoutNeighbours.length > 0) {
-    warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
-  }
-  if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
-  if (w.notes) warnings.push(...w.notes);
-  if (request.permutations === undefined && permutations === 0) {
-    warnings.push(`With ${y.length} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
-  }
-  if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
-  if (dropped.length > 0) warnings.push(`${dropped.length} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
 
   progress(1, 'Done');
   return {
     engineVersion: ENGINE_VERSION,
     createdAt: new Date().toISOString(),
     request: {
-      id: request.id, ...(boundaryId ? { boundaryId } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
+      id: request.id, ...(areas.boundaryId ? { boundaryId: areas.boundaryId } : {}), y: request.y, x: [...request.x], sheet: request.sheet,
       weights: request.edgeList ? { method: 'edge-list', source: request.edgeList.name } : request.weights,
-      transform: w.transform, models: [...models] as AnalysisResult['request']['models'],
+      transform: w.transform, models: [...models],
       dropMissing: request.dropMissing ?? false, robust: request.robust ?? false,
       seed, impactDraws, permutations,
-      ...(alternatives.length ? { compareWeights: alternatives } : {}),
+      ...(comparison ? { compareWeights: comparison.alternatives } : {}),
       ...(local ? { local } : {}),
       ...(request.rates?.recipes.length ? { rates: ratesRecord(request.rates) } : {}),
     },
-    inputs,
+    inputs: areas.inputs,
     n: joined.ids.length,
     ids: joined.ids,
     rows: joined.rows,
@@ -231,28 +129,82 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
       summary,
       edges: edgesOf(w),
     },
-    algebra: {
-      logDeterminant: algebra.logdet.method,
-      accuracy: algebra.logdet.accuracy,
-      traces: algebra.traceMethod,
-      range: { lower: algebra.range.lower, upper: algebra.range.upper, method: algebra.range.method },
-    },
-    ols: { ...ols, moran, lm, recommendation },
-    olsResidualLag,
-    lag,
-    error,
-    impacts,
+    algebra: own.algebra,
+    ols: { ...base.ols, moran: own.moran, lm: own.lm, recommendation: own.recommendation },
+    fits: own.fits,
     moranY,
-    ...(comparison ? { comparison } : {}),
+    ...(comparison ? { comparison: comparison.rows } : {}),
     ...(localResult ? { local: localResult } : {}),
     ...(rates ? { rates } : {}),
-    warnings,
+    warnings: runWarnings(request, { joined, shapes: areaShapeWarnings(joined, points, areas.boundaryName), dropped, w, summary, fits: own.fits, permutations, n: y.length }),
     timings,
   };
 }
 
-async function record(role: InputRecord['role'], f: { name: string; bytes: Uint8Array }): Promise<InputRecord> {
-  return { role, name: f.name, bytes: f.bytes.length, sha256: await sha256Hex(f.bytes) };
+/** The outcome, the design and the plain regression on them, refusing an outcome that cannot be explained. */
+function plainRegression(request: AnalysisRequest, areas: PreparedAreas): BaseFit {
+  const y = areas.values.get(request.y)!;
+  if (y.length > 0 && y.every((v) => v === y[0])) {
+    throw new InputError(
+      `The outcome column "${request.y}" has the same value (${y[0]}) in every ${areas.joined.rowKind === 'feature' ? 'feature' : 'row'}, so there is nothing to explain; choose an outcome that varies.`,
+      { column: request.y },
+    );
+  }
+  const design = designOf(request.x, areas.values, y.length);
+  const ols = fitOls(y, design, { robust: request.robust });
+  if (isPerfectFit(y, ols.residuals)) throw perfectFitError(request.y, request.x);
+  return { y, design, ols };
+}
+
+/** The same question under the other neighbour definitions asked for (none: undefined). */
+function compareDefinitions(
+  request: AnalysisRequest, w: SpatialWeights, summary: ReturnType<typeof summarizeWeights>, own: UnderWeights,
+  ctx: Parameters<typeof compareWeights>[2], progress: (f: number, stage: string) => void, lap: (stage: string) => void,
+): { alternatives: WeightsSpec[]; rows: NonNullable<AnalysisResult['comparison']> } | undefined {
+  const asked = request.compareWeights === 'suggested'
+    ? suggestedAlternatives(w.spec, ctx.joined.geometries.some((g) => g.kind === 'polygon'))
+    : request.compareWeights ?? [];
+  const alternatives = asked.filter((spec) => w.spec.method === 'edge-list' || !sameSpec(spec, w.spec as WeightsSpec));
+  if (alternatives.length === 0) return undefined;
+  progress(0.9, 'Refitting under the other neighbour definitions');
+  const rows = compareWeights({ spec: w.spec, description: w.description, summary, ...own }, alternatives, ctx);
+  lap('comparison');
+  return { alternatives, rows };
+}
+
+/** `--local-of residuals` (the plain regression's) or `residuals:MODEL` (a model's, by its command-line spelling); undefined for a column. */
+function residualSource(of: string): ModelEntry | undefined {
+  if (of === 'residuals') return baselineModel();
+  if (!of.startsWith('residuals:')) return undefined;
+  const spelling = of.slice('residuals:'.length);
+  const entry = modelByCli(spelling);
+  if (!entry) throw new InputError(`--local-of ${of}: no model is called "${spelling}"; choose residuals or residuals: followed by one of ${MODELS.filter((m) => !m.baseline).map((m) => m.cli).join(', ')}.`);
+  return entry;
+}
+
+/** Warnings from every stage of the run, in the order the stages ran. */
+function runWarnings(
+  request: AnalysisRequest,
+  r: {
+    joined: { warnings: string[] }; shapes: string[]; dropped: { row: number }[]; w: SpatialWeights;
+    summary: ReturnType<typeof summarizeWeights>; fits: FittedModels; permutations: number; n: number;
+  },
+): string[] {
+  const { summary, w, dropped } = r;
+  // each model's warnings, then those of its spillover effects (e.g. no standard errors when the
+  // covariance of (β, ρ) is not positive definite)
+  const warnings = [...r.joined.warnings, ...r.shapes, ...fittedInOrder(r.fits).flatMap(({ fit }) => [...fit.warnings, ...(fit.impacts?.warnings ?? [])])];
+  if (summary.withoutNeighbours.length > 0) {
+    warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
+  }
+  if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
+  if (w.notes) warnings.push(...w.notes);
+  if (request.permutations === undefined && r.permutations === 0) {
+    warnings.push(`With ${r.n} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
+  }
+  if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
+  if (dropped.length > 0) warnings.push(`${dropped.length} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
+  return warnings;
 }
 
 function edgesOf(w: SpatialWeights) {
@@ -276,7 +228,5 @@ function validateRequest(r: AnalysisRequest): void {
   if (Array.isArray(r.compareWeights) && r.compareWeights.length > MAX_ALTERNATIVES) {
     throw new InputError(`${r.compareWeights.length} neighbour definitions were asked for the comparison; at most ${MAX_ALTERNATIVES} fit in one run.`);
   }
-  for (const m of r.models) {
-    if (!['ols', 'lag', 'error'].includes(m)) throw new InputError(`Unknown model "${m}": choose from ols, lag, error.`);
-  }
+  entriesOf(r.models);
 }

@@ -1,5 +1,5 @@
 import { rateToJson } from './rates.js';
-import type { Coefficient, SpatialFit, TestResult } from '../models/types.js';
+import { MODELS, baselineModel, fittedInOrder, testJson as test, type ModelEntry } from '../models/index.js';
 import type { AnalysisResult, ComparedFit } from './types.js';
 import type { LocalStatisticKind } from '../stats/index.js';
 
@@ -33,19 +33,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     },
     logDeterminant: r.algebra,
     ols: {
-      coefficients: ols.coefficients.map(coef),
-      ...(ols.robustCoefficients ? { robustCoefficients: ols.robustCoefficients.map(coef) } : {}),
-      r2: ols.r2,
-      adjR2: ols.adjR2,
-      f: { stat: ols.f.stat, df: ols.f.df, df2: ols.f.df2, p: ols.f.p },
-      sigma2: ols.sigma2,
-      logLik: ols.logLik,
-      aic: ols.aic,
-      bic: ols.bic,
-      conditionNumber: ols.conditionNumber,
-      jarqueBera: test(ols.jarqueBera),
-      breuschPagan: test(ols.breuschPagan),
-      breuschPaganStudentised: test(ols.breuschPaganStudentised),
+      ...baselineModel().json(r.fits.ols!),
       moran: { I: ols.moran.I, expected: ols.moran.expected, variance: ols.moran.variance, z: ols.moran.z, p: ols.moran.p },
       lm: {
         error: test(ols.lm.error),
@@ -65,22 +53,32 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     warnings: r.warnings,
     seed: r.request.seed,
   };
-  if (r.lag) out.lag = spatial(r.lag, 'rho');
-  if (r.error) out.error = spatial(r.error, 'lambda');
-  if (r.impacts) {
-    out.impacts = r.impacts.impacts.map((i) => ({ ...i }));
-    out.impactsMethod = { draws: r.impacts.draws, seed: r.impacts.seed, method: r.impacts.method };
+  const fitted = fittedInOrder(r.fits).filter(({ entry }) => !entry.baseline);
+  for (const { entry, fit } of fitted) out[entry.key] = entry.json(fit);
+  for (const { entry, fit } of fitted) {
+    if (!fit.impacts) continue;
+    const impacts = { impacts: fit.impacts.impacts.map((i) => ({ ...i })), impactsMethod: { draws: fit.impacts.draws, seed: fit.impacts.seed, method: fit.impacts.method } };
+    if (entry.impactsAtTop) Object.assign(out, impacts);
+    else Object.assign(out[entry.key] as Record<string, unknown>, impacts);
   }
   if (r.comparison) {
-    const fit = (f: ComparedFit | undefined, key: 'rho' | 'lambda') => f && {
-      [key]: f.parameter, [`${key}Se`]: f.se, [`${key}P`]: f.p, logLik: f.logLik, aic: f.aic, converged: f.converged,
+    const spatial = MODELS.filter((m) => !m.baseline);
+    const fit = (f: ComparedFit | undefined, entry: ModelEntry) => f && {
+      ...Object.fromEntries(f.parameters.flatMap((q) => [[q.key, q.estimate], [`${q.key}Se`, q.se], [`${q.key}P`, q.p]])),
+      logLik: f.logLik, aic: f.aic, converged: f.converged,
+      ...(f.impacts && !entry.impactsAtTop ? { impacts: f.impacts.map((i) => ({ ...i })) } : {}),
     };
-    out.comparison = r.comparison.map((c) => ({
-      label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
-      moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, lag: fit(c.lag, 'rho'), error: fit(c.error, 'lambda'),
-      ...(c.impacts ? { impacts: c.impacts.map((i) => ({ ...i })) } : {}),
-      ...(c.failed ? { failed: c.failed } : {}),
-    }));
+    out.comparison = r.comparison.map((c) => {
+      const fits = c.fits as Record<string, ComparedFit | undefined>;
+      const atTop = spatial.find((m) => m.impactsAtTop && fits[m.key]?.impacts);
+      return {
+        label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
+        moran: c.moran, lmP: c.lmP, suggestion: c.suggestion,
+        ...Object.fromEntries(spatial.map((m) => [m.key, fit(fits[m.key], m)])),
+        ...(atTop ? { impacts: fits[atTop.key]!.impacts!.map((i) => ({ ...i })) } : {}),
+        ...(c.failed ? { failed: c.failed } : {}),
+      };
+    });
   }
   if (r.local) out.local = localToJson(r);
   if (r.rates) out.rates = Object.fromEntries(r.rates.map((x) => [x.name, rateToJson(x)]));
@@ -89,44 +87,10 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
       id,
       row: r.rows[i],
       observed: r.y[i],
-      olsFitted: r.ols.fitted[i],
-      olsResidual: r.ols.residuals[i],
-      ...(r.lag ? { lagFitted: r.lag.fitted[i], lagResidual: r.lag.residuals[i] } : {}),
-      ...(r.error ? { errorFitted: r.error.fitted[i], errorResidual: r.error.residuals[i] } : {}),
+      ...Object.fromEntries(fittedInOrder(r.fits).flatMap(({ entry, fit }) => [[`${entry.key}Fitted`, fit.fitted[i]], [`${entry.key}Residual`, fit.residuals[i]]])),
     }));
   }
   return out;
-}
-
-function coef(c: Coefficient) {
-  return { name: c.name, estimate: c.estimate, se: c.se, stat: c.stat, p: c.p };
-}
-
-function test(t: TestResult) {
-  return { stat: t.stat, df: t.df, p: t.p };
-}
-
-function spatial(f: SpatialFit, key: 'rho' | 'lambda') {
-  return {
-    [key]: f.parameter,
-    [`${key}Se`]: f.parameterSe,
-    [`${key}Z`]: f.parameterZ,
-    [`${key}P`]: f.parameterP,
-    coefficients: f.coefficients.map(coef),
-    sigma2: f.sigma2,
-    logLik: f.logLik,
-    aic: f.aic,
-    bic: f.bic,
-    lr: test(f.lr),
-    pseudoR2: f.pseudoR2,
-    ...(f.lmRemainingError ? { lmRemainingError: test(f.lmRemainingError) } : {}),
-    ...(f.lmRemainingLag ? { lmRemainingLag: test(f.lmRemainingLag) } : {}),
-    breuschPagan: test(f.breuschPagan),
-    range: f.range,
-    logDeterminant: f.logDeterminantMethod,
-    convergence: f.convergence,
-    warnings: f.warnings,
-  };
 }
 
 /** `local`: one object per statistic (moran, gi, gistar), each with its areas in table order; NaN becomes null. */

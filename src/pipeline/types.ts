@@ -2,13 +2,14 @@ import type { StartHelperThread } from '../linalg/index.js';
 import type { NamedBytesLike } from './named-bytes.js';
 import type { WeightsSpec, WeightsTransform, WeightsSummary } from '../weights/types.js';
 import type {
-  Coefficient, Convergence, Impact, ImpactsResult, LmTests, MoranTest, OlsFit, Recommendation, SpatialFit, TestResult,
+  Coefficient, Convergence, Impact, LmTests, MoranTest, OlsFit, Recommendation, TestResult,
 } from '../models/types.js';
+import type { FittedModels, ModelKey, ParameterEstimate } from '../models/index.js';
 import type { AreaGeometry, JoinReport, CoordinateKind } from '../geo/types.js';
 import type { LocalPatterns, LocalRequest } from './local-patterns.js';
 import type { RateResult, RatesRequest } from './rates.js';
 
-export type ModelName = 'ols' | 'lag' | 'error';
+export type { ModelKey };
 
 /** One analysis as the user asked for it. Files come as bytes so the same request runs in Node and the browser. */
 /** What the platform offers the engine beyond bytes in (not part of the request: no figure depends on it). */
@@ -42,7 +43,8 @@ export interface AnalysisRequest {
   edgeList?: NamedBytesLike;
   transform: WeightsTransform;
   linkUnneighboured?: boolean;
-  models: ModelName[];
+  /** registry keys of the models to fit (the plain regression is always fitted); empty: every model */
+  models: ModelKey[];
   /** Drop rows with missing values (and re-build the weights on the remaining areas) instead of refusing. */
   dropMissing?: boolean;
   robust?: boolean;
@@ -76,7 +78,7 @@ export interface AnalysisResult {
     id: string; boundaryId?: string; y: string; x: string[]; sheet?: string;
     weights: WeightsSpec | { method: 'edge-list'; source: string };
     transform: WeightsTransform | 'as given';
-    models: ModelName[]; dropMissing: boolean; robust: boolean;
+    models: ModelKey[]; dropMissing: boolean; robust: boolean;
     seed: number; impactDraws: number; permutations: number;
     compareWeights?: WeightsSpec[];
     local?: Required<LocalRequest>;
@@ -109,12 +111,10 @@ export interface AnalysisResult {
     edges: { from: Int32Array; to: Int32Array; weight: Float64Array };
   };
   algebra: { logDeterminant: string; accuracy: string; traces: string; range: { lower: number; upper: number; method: string } };
+  /** the plain regression with the tests on its residuals that every spatial model starts from */
   ols: OlsFit & { moran: MoranTest; lm: LmTests; recommendation: Recommendation };
-  /** spatial lag of the OLS residuals, per area */
-  olsResidualLag: Float64Array;
-  lag?: SpatialFit & { residualLag: Float64Array };
-  error?: SpatialFit & { residualLag: Float64Array };
-  impacts?: ImpactsResult;
+  /** every model fitted, by registry key (the plain regression too), each with its neighbours' average residual and its effects */
+  fits: FittedModels;
   /** Moran's I of y itself (randomisation and permutation) for the scatter plot and overview. */
   moranY: MoranTest & { permutationP?: number; permutations?: number };
   /** the run's neighbour definition and each asked-for alternative, when alternatives were asked for */
@@ -129,15 +129,17 @@ export interface AnalysisResult {
 
 export type { Coefficient, Convergence, TestResult };
 
-/** A spatial model's headline figures under one neighbour definition. */
+/** A model's headline figures under one neighbour definition. */
 export interface ComparedFit {
-  parameter: number;
-  se: number;
-  p: number;
-  logLik: number;
-  aic: number;
+  /** its spatial parameters (ρ, λ) */
+  parameters: ParameterEstimate[];
+  /** absent for estimators without a likelihood */
+  logLik?: number;
+  aic?: number;
   /** converged inside the admissible range */
   converged: boolean;
+  /** direct, indirect and total effects per explanatory column (simulated SEs, same draws and seed as the run) */
+  impacts?: Impact[];
 }
 
 /** One neighbour definition in the comparison (NaN where it could not be built; `failed` says why). */
@@ -157,9 +159,7 @@ export interface WeightsComparison {
   /** p-values of the Lagrange-multiplier tests */
   lmP: { error: number; lag: number; robustError: number; robustLag: number };
   suggestion?: Recommendation['choice'];
-  lag?: ComparedFit;
-  error?: ComparedFit;
-  /** the lag model's direct, indirect and total effects per explanatory column (simulated SEs, same draws and seed as the run) */
-  impacts?: Impact[];
+  /** the spatial models under this definition, by registry key */
+  fits: { [K in ModelKey]?: ComparedFit };
   failed?: string;
 }

@@ -1,16 +1,13 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
-import { MODEL_LABEL, num } from './format.js';
+import { num } from './format.js';
+import { fittedInOrder } from '../models/index.js';
 import { withheldOutcome } from './withheld.js';
 
 /** One row per area, keyed by ID, in the table's row order. */
 export function areasBlocks(result: AnalysisResult): Block[] {
   const y = result.request.y;
-  const fits: { label: string; fitted: Float64Array; residuals: Float64Array; lag: Float64Array }[] = [
-    { label: MODEL_LABEL.ols, fitted: result.ols.fitted, residuals: result.ols.residuals, lag: result.olsResidualLag },
-  ];
-  if (result.lag) fits.push({ label: MODEL_LABEL.lag, fitted: result.lag.fitted, residuals: result.lag.residuals, lag: result.lag.residualLag });
-  if (result.error) fits.push({ label: MODEL_LABEL.error, fitted: result.error.fitted, residuals: result.error.residuals, lag: result.error.residualLag });
+  const fits = fittedInOrder(result.fits).map(({ entry, fit }) => ({ label: entry.label, fitted: fit.fitted, residuals: fit.residuals, lag: fit.residualLag }));
   const columns: TableColumn[] = [
     { header: 'Area ID', format: 'text', width: 14 },
     { header: 'Table row', format: 'integer', width: 9 },

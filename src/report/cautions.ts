@@ -1,6 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import { say } from './format.js';
 import { listSome } from '../errors.js';
+import { fittedInOrder } from '../models/index.js';
 import { rateCautions } from './rates.js';
 
 /** Plain-language cautions that belong beside every result. */
@@ -25,14 +26,15 @@ export function shortCaution(result: AnalysisResult): string {
 
 /** Warnings from every stage, plus our own readings of the numbers, without repeats. */
 export function collectWarnings(result: AnalysisResult): string[] {
-  const out: string[] = [...result.warnings, ...result.ols.warnings];
-  for (const fit of [result.lag, result.error]) {
-    if (!fit) continue;
+  const out: string[] = [...result.warnings];
+  for (const { entry, fit } of fittedInOrder(result.fits)) {
     out.push(...fit.warnings);
-    const label = fit.model === 'lag' ? 'spatial lag model' : 'spatial error model';
-    if (!fit.convergence.converged) out.push(`The ${label} did not converge: ${fit.convergence.message}. Its estimates are not reliable.`);
-    if (fit.convergence.atBound) {
-      out.push(`The ${label}'s spatial parameter ended at the ${fit.convergence.atBound} end of its admissible range (${say(fit.range.lower)} to ${say(fit.range.upper)}); the model may not suit these data or this neighbour definition.`);
+    const label = entry.label.toLowerCase();
+    const { convergence, range } = entry.headline(fit);
+    if (!convergence) continue;
+    if (!convergence.converged) out.push(`The ${label} did not converge: ${convergence.message}. Its estimates are not reliable.`);
+    if (convergence.atBound && range) {
+      out.push(`The ${label}'s spatial parameter ended at the ${convergence.atBound} end of its admissible range (${say(range.lower)} to ${say(range.upper)}); the model may not suit these data or this neighbour definition.`);
     }
   }
   // A condition number above 30 signals troublesome collinearity: common practice.

@@ -1,6 +1,17 @@
 import type { AnalysisResult, ComparedFit, WeightsComparison } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
-import { CHOICE_LABEL, MODEL_LABEL, num, say, sayList } from './format.js';
+import { CHOICE_LABEL, num, say, sayList } from './format.js';
+import { MODELS, type ModelEntry, type ParameterEstimate } from '../models/index.js';
+
+type Compared = { entry: ModelEntry; of: (r: WeightsComparison) => ComparedFit | undefined };
+
+/** The spatial models fitted under at least one of the definitions, in registry order. */
+function comparedModels(rows: WeightsComparison[]): Compared[] {
+  return MODELS
+    .filter((entry) => !entry.baseline)
+    .map((entry) => ({ entry, of: (r: WeightsComparison) => (r.fits as Record<string, ComparedFit | undefined>)[entry.key] }))
+    .filter((m) => rows.some((r) => !r.failed && m.of(r)));
+}
 
 /** The run's question refitted under other neighbour definitions, side by side. */
 export function comparisonBlocks(result: AnalysisResult): Block[] {
@@ -39,23 +50,31 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
       note: 'The four tests are the Lagrange-multiplier tests of the plain regression for a spatial error and a spatial lag, and their forms robust to the other kind.',
     },
   ];
-  const hasLag = built.some((r) => r.lag), hasError = built.some((r) => r.error);
-  if (hasLag || hasError) {
-    const fitCells = (f: ComparedFit | undefined): Cell[] => (f ? [num(f.parameter), num(f.se), num(f.p), num(f.aic)] : [null, null, null, null]);
+  const models = comparedModels(rows);
+  if (models.length) {
+    const fitCells = (m: Compared, f: ComparedFit | undefined): Cell[] => [
+      ...m.entry.parameters.flatMap((q): Cell[] => {
+        const e = f?.parameters.find((x) => x.key === q.key);
+        return [num(e?.estimate), num(e?.se), num(e?.p)];
+      }),
+      num(f?.aic),
+    ];
     const columns: TableColumn[] = [{ header: 'Neighbour definition', format: 'text', width: 30 }];
-    if (hasLag) columns.push(...fitColumns('ρ'));
-    if (hasError) columns.push(...fitColumns('λ'));
+    for (const m of models) columns.push(...fitColumns(m.entry));
+    const belongs = models.filter((m) => m.entry.parameters.length)
+      .map((m, i) => `${sayList(m.entry.parameters.map((q) => q.symbol))}${i === 0 ? ' belongs' : ''} to the ${m.entry.label.toLowerCase()}`);
     blocks.push({
       kind: 'table', title: 'The spatial models under each definition',
       columns,
-      rows: rows.map((r): Cell[] => [name(r), ...(hasLag ? fitCells(r.lag) : []), ...(hasError ? fitCells(r.error) : [])]),
-      note: `ρ belongs to the ${MODEL_LABEL.lag.toLowerCase()}, λ to the ${MODEL_LABEL.error.toLowerCase()}. AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
+      rows: rows.map((r): Cell[] => [name(r), ...models.flatMap((m) => fitCells(m, m.of(r)))]),
+      note: `${belongs.length ? `${belongs.join(', ')}. ` : ''}AIC compares definitions only for the same model and the same areas: lower is a better balance of fit and simplicity.`,
     });
   }
-  const withEffects = built.filter((r) => r.impacts?.length);
-  if (withEffects.length) {
+  for (const m of models) {
+    const withEffects = built.filter((r) => m.of(r)?.impacts?.length);
+    if (!withEffects.length) continue;
     blocks.push({
-      kind: 'table', title: `Spillover effects of the ${MODEL_LABEL.lag.toLowerCase()} under each definition`,
+      kind: 'table', title: `Spillover effects of the ${m.entry.label.toLowerCase()} under each definition`,
       columns: [
         { header: 'Neighbour definition', format: 'text', width: 30 },
         { header: 'Explanatory column', format: 'text', width: 11 },
@@ -66,12 +85,12 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
         { header: 'Total', format: 'decimal4', width: 11 },
         { header: 'Standard error', format: 'decimal4', width: 11 },
       ],
-      rows: withEffects.flatMap((r) => r.impacts!.map((i): Cell[] => [name(r), i.name, num(i.direct), num(i.indirect), num(i.indirectSe), num(i.indirectP), num(i.total), num(i.totalSe)])),
+      rows: withEffects.flatMap((r) => m.of(r)!.impacts!.map((i): Cell[] => [name(r), i.name, num(i.direct), num(i.indirect), num(i.indirectSe), num(i.indirectP), num(i.total), num(i.totalSe)])),
       note: 'The part in other areas is the spillover: the effect that a change in one area\'s column has, through the outcome, on all the other areas together, averaged over the areas where the change could start. Standard errors are simulated with the same draws and seed under every definition.',
     });
   }
   blocks.push({ kind: 'paragraph', style: 'interpretation', text: comparisonReading(rows) });
-  const unsettled = built.filter((r) => [r.lag, r.error].some((f) => f && !f.converged));
+  const unsettled = built.filter((r) => models.some((m) => m.of(r)?.converged === false));
   if (unsettled.length) {
     blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${sayList(unsettled.map((r) => r.label))} a model's search stopped early or at an end of the admissible range; read those figures with care.` });
   }
@@ -85,12 +104,15 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
   return blocks;
 }
 
-function fitColumns(symbol: string): TableColumn[] {
+function fitColumns(entry: ModelEntry): TableColumn[] {
+  const symbols = entry.parameters.map((q) => q.symbol);
   return [
-    { header: symbol, format: 'decimal4', width: 11 },
-    { header: `${symbol}: standard error`, format: 'decimal4', width: 11 },
-    { header: `${symbol}: p-value`, format: 'pvalue', width: 11 },
-    { header: `AIC with ${symbol}`, format: 'decimal4', width: 11 },
+    ...symbols.flatMap((symbol): TableColumn[] => [
+      { header: symbol, format: 'decimal4', width: 11 },
+      { header: `${symbol}: standard error`, format: 'decimal4', width: 11 },
+      { header: `${symbol}: p-value`, format: 'pvalue', width: 11 },
+    ]),
+    { header: symbols.length ? `AIC with ${sayList(symbols)}` : `AIC: ${entry.label.toLowerCase()}`, format: 'decimal4', width: 11 },
   ];
 }
 
@@ -98,12 +120,15 @@ function fitColumns(symbol: string): TableColumn[] {
 export function comparisonReading(rows: WeightsComparison[]): string {
   const built = rows.filter((r) => !r.failed);
   const parts: string[] = [];
-  const spread = (pick: (r: WeightsComparison) => ComparedFit | undefined, symbol: string) => {
-    const v = built.map(pick).filter((f): f is ComparedFit => !!f).map((f) => f.parameter);
-    if (v.length > 1) parts.push(`${symbol} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
-  };
-  spread((r) => r.lag, 'ρ');
-  spread((r) => r.error, 'λ');
+  const models = comparedModels(rows);
+  for (const m of models) {
+    for (const q of m.entry.parameters) {
+      const v = built.map((r) => m.of(r)?.parameters.find((x) => x.key === q.key)).filter((x): x is ParameterEstimate => !!x).map((x) => x.estimate);
+      // a symbol shared by several models is named with its model
+      const shared = models.filter((o) => o.entry.parameters.some((x) => x.symbol === q.symbol)).length > 1;
+      if (v.length > 1) parts.push(`${q.symbol}${shared ? ` (${m.entry.label.toLowerCase()})` : ''} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
+    }
+  }
   const significant = built.filter((r) => r.moran.p < 0.05).length;
   parts.push(`Moran's I of the residuals is significant at the 5% level under ${significant} of them`);
   const suggestions = [...new Set(built.map((r) => r.suggestion).filter((s) => s !== undefined))];

@@ -1,19 +1,9 @@
 import type { AnalysisResult } from '../pipeline/types.js';
-import type { TestResult } from '../models/types.js';
-import type { Block, Cell, TableColumn } from './types.js';
-import { MODEL_LABEL, num } from './format.js';
-
-const TEST_COLUMNS: TableColumn[] = [
-  { header: 'Check', format: 'text', width: 44 },
-  { header: 'Statistic', format: 'decimal4', width: 12 },
-  { header: 'Degrees of freedom', format: 'integer', width: 10 },
-  { header: 'p-value', format: 'pvalue', width: 11 },
-  { header: 'What it asks', format: 'text', width: 24 },
-];
-
-function testRow(label: string, t: TestResult | undefined, meaning: string): Cell[] {
-  return [label, num(t?.stat), num(t?.df), num(t?.p), meaning];
-}
+import type { Block, Cell } from './types.js';
+import { num } from './format.js';
+import { fittedInOrder } from '../models/index.js';
+import { blocksOf } from './model-blocks.js';
+import { TEST_COLUMNS, testRow } from './test-rows.js';
 
 /** The five Lagrange-multiplier tests on the plain regression's residuals, one plain sentence each. */
 export function lmTestRows(result: AnalysisResult): Cell[][] {
@@ -60,14 +50,9 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
     },
     lmTable(result, 'Lagrange-multiplier tests for spatial dependence'),
   ];
-  for (const fit of [result.lag, result.error]) {
-    if (!fit) continue;
-    const rows: Cell[][] = [
-      testRow('Breusch–Pagan test of constant variance', fit.breuschPagan, 'Does the spread of the residuals change with the explanatory columns?'),
-    ];
-    if (fit.lmRemainingError) rows.push(testRow('Lagrange multiplier: remaining error dependence', fit.lmRemainingError, 'Is error dependence left over after the spatial lag is modelled?'));
-    if (fit.lmRemainingLag) rows.push(testRow('Lagrange multiplier: remaining lag dependence', fit.lmRemainingLag, 'Is lag dependence left over after the spatial error is modelled?'));
-    blocks.push({ kind: 'table', title: `Checks on the ${MODEL_LABEL[fit.model].toLowerCase()}`, columns: TEST_COLUMNS, rows });
+  for (const { entry, fit } of fittedInOrder(result.fits)) {
+    const rows = blocksOf(entry.key).checks?.(fit);
+    if (rows?.length) blocks.push({ kind: 'table', title: `Checks on the ${entry.label.toLowerCase()}`, columns: TEST_COLUMNS, rows });
   }
   return blocks;
 }

@@ -1,16 +1,13 @@
 import type { Cell } from './types.js';
-import type { ModelName } from '../pipeline/types.js';
+import { MODELS, type ModelKey } from '../models/index.js';
 
 /** A number cell, or empty when the value is not finite (a host cannot store NaN). */
 export function num(x: number | undefined | null): Cell {
   return typeof x === 'number' && Number.isFinite(x) ? x : null;
 }
 
-export const MODEL_LABEL: Record<ModelName, string> = {
-  ols: 'Plain regression',
-  lag: 'Spatial lag model',
-  error: 'Spatial error model',
-};
+/** Each model's plain label, by registry key. */
+export const MODEL_LABEL = Object.fromEntries(MODELS.map((m) => [m.key, m.label])) as Record<ModelKey, string>;
 
 /** The suggested model in words. */
 export const CHOICE_LABEL = {

@@ -1,11 +1,12 @@
 import type { AnalysisResult } from '../pipeline/types.js';
+import type { Fitted, SpatialFit } from '../models/index.js';
 import type { Block, Cell } from './types.js';
 import { num, say, sayP } from './format.js';
 
 /** Direct, indirect and total impacts of the lag model, with one careful sentence per regressor. */
-export function impactsBlocks(result: AnalysisResult): Block[] {
-  const im = result.impacts;
-  if (!im || !result.lag) return [];
+export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): Block[] {
+  const im = fit.impacts;
+  if (!im) return [];
   const y = result.request.y;
   const col = (header: string, format: 'decimal4' | 'pvalue') => ({ header, format, width: 12 });
   const blocks: Block[] = [

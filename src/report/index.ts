@@ -2,9 +2,9 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { BuildReportOptions, Report, ReportSheet } from './types.js';
 import { overviewBlocks } from './overview.js';
-import { olsBlocks, spatialBlocks } from './model-tables.js';
 import { diagnosticsBlocks } from './diagnostics.js';
-import { impactsBlocks } from './impacts.js';
+import { blocksOf } from './model-blocks.js';
+import { fittedInOrder } from '../models/index.js';
 import { areasBlocks } from './areas.js';
 import { neighboursBlocks } from './neighbours.js';
 import { comparisonBlocks } from './comparison.js';
@@ -13,7 +13,6 @@ import { localPatternsSheet } from './local-patterns.js';
 import { ratesSheet } from './rates.js';
 import { layoutBlocks } from './layout.js';
 import { drawingNoteBlock, drawingRecordBlocks, overviewPictureList, placePictures } from './pictures-for-report.js';
-import { MODEL_LABEL } from './format.js';
 import { shortCaution } from './cautions.js';
 import { splitLongSheets } from './row-limit.js';
 
@@ -21,6 +20,7 @@ export type {
   Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
 } from './types.js';
 export { blockHeight, layoutBlocks, BLOCK_GAP, ROW_HEIGHT_PX } from './layout.js';
+export { MODEL_BLOCKS, type ModelBlocks } from './model-blocks.js';
 export { SHEET_ROW_LIMIT, splitLongSheets } from './row-limit.js';
 export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';
 export { interpretation } from './interpretation.js';
@@ -36,12 +36,11 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   if (drawingNote) overview.push(drawingNote);
   const sheets: ReportSheet[] = [
     { name: 'Summary', role: 'overview', blocks: overview, images: placePictures(overviewPics, layoutBlocks(overview).lastRow + 3, opts.renderPng) },
-    { name: MODEL_LABEL.ols, role: 'model', blocks: olsBlocks(result) },
   ];
-  if (result.lag) sheets.push({ name: MODEL_LABEL.lag, role: 'model', blocks: spatialBlocks(result, result.lag) });
-  if (result.error) sheets.push({ name: MODEL_LABEL.error, role: 'model', blocks: spatialBlocks(result, result.error) });
+  const fitted = fittedInOrder(result.fits);
+  for (const { entry, fit } of fitted) sheets.push({ name: entry.label, role: 'model', blocks: blocksOf(entry.key).sheet(result, fit, entry) });
   sheets.push({ name: 'Checks on residuals', role: 'diagnostics', blocks: diagnosticsBlocks(result) });
-  const impacts = impactsBlocks(result);
+  const impacts = fitted.flatMap(({ entry, fit }) => blocksOf(entry.key).impacts?.(result, fit, entry) ?? []);
   if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
   const local = localPatternsSheet(result, opts.renderPng);
   if (local) sheets.push({ name: 'Local patterns', role: 'local', blocks: local.blocks, images: local.images, freezeHeader: false });

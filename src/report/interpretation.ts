@@ -1,15 +1,14 @@
-import type { AnalysisResult, ModelName } from '../pipeline/types.js';
+import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient } from '../models/types.js';
-import { MODEL_LABEL, SOME_LEVEL, say, sayList, sayP } from './format.js';
+import { fittedInOrder } from '../models/index.js';
+import { SOME_LEVEL, say, sayList, sayP } from './format.js';
 
-/** The models that were fitted, in a fixed order, with their headline figures. */
-export function fittedModels(result: AnalysisResult): { name: ModelName; logLik: number; aic: number; bic: number; coefficients: Coefficient[] }[] {
-  const out: { name: ModelName; logLik: number; aic: number; bic: number; coefficients: Coefficient[] }[] = [
-    { name: 'ols', logLik: result.ols.logLik, aic: result.ols.aic, bic: result.ols.bic, coefficients: result.ols.coefficients },
-  ];
-  if (result.lag) out.push({ name: 'lag', logLik: result.lag.logLik, aic: result.lag.aic, bic: result.lag.bic, coefficients: result.lag.coefficients });
-  if (result.error) out.push({ name: 'error', logLik: result.error.logLik, aic: result.error.aic, bic: result.error.bic, coefficients: result.error.coefficients });
-  return out;
+/** The models that were fitted, in registry order, with their headline figures (AIC and the like absent for estimators without a likelihood). */
+export function fittedModels(result: AnalysisResult): { name: string; label: string; logLik?: number; aic?: number; bic?: number; coefficients: Coefficient[] }[] {
+  return fittedInOrder(result.fits).map(({ entry, fit }) => {
+    const h = entry.headline(fit);
+    return { name: entry.key, label: entry.label, logLik: h.logLik, aic: h.aic, bic: h.bic, coefficients: fit.coefficients };
+  });
 }
 
 function pattern(I: number, p: number): string {
@@ -36,30 +35,31 @@ export function interpretation(result: AnalysisResult): string {
   const preferred = fitted.find((f) => f.name === choice) ?? fitted[0];
   const phrases: string[] = [];
   for (const c of preferred.coefficients) {
-    if (c.name === 'constant') continue;
+    if (c.intercept) continue;
     if (c.p < SOME_LEVEL) {
       phrases.push(`areas with higher ${c.name} tend to have ${c.estimate > 0 ? 'higher' : 'lower'} ${y} (estimate ${say(c.estimate)} per unit, ${sayP(c.p)})`);
     } else {
       phrases.push(`${c.name} shows no clear association with ${y} (${sayP(c.p)})`);
     }
   }
-  if (phrases.length) parts.push(`In the ${MODEL_LABEL[preferred.name].toLowerCase()}, ${phrases.join('; ')}.`);
+  if (phrases.length) parts.push(`In the ${preferred.label.toLowerCase()}, ${phrases.join('; ')}.`);
 
-  if (preferred.name === 'lag' && result.lag) {
-    const f = result.lag;
+  if (preferred.name === 'lag' && result.fits.lag) {
+    const f = result.fits.lag;
     parts.push(f.parameterP < SOME_LEVEL
       ? `An area's ${y} moves with the average ${y} of its neighbours even after the explanatory columns are accounted for (spatial parameter ${say(f.parameter)}, ${sayP(f.parameterP)}); the spillover sheet splits each column's association into the part in the area itself and the part spread over other areas.`
       : `The spatial parameter of the lag model is not clearly different from zero (${say(f.parameter)}, ${sayP(f.parameterP)}).`);
   }
-  if (preferred.name === 'error' && result.error) {
-    const f = result.error;
+  if (preferred.name === 'error' && result.fits.error) {
+    const f = result.fits.error;
     parts.push(f.parameterP < SOME_LEVEL
       ? `The unexplained part of ${y} is shared between neighbouring areas (spatial parameter ${say(f.parameter)}, ${sayP(f.parameterP)}), which hints at something missing from the data that varies smoothly across the map.`
       : `The spatial parameter of the error model is not clearly different from zero (${say(f.parameter)}, ${sayP(f.parameterP)}).`);
   }
-  if (fitted.length > 1) {
-    const best = fitted.reduce((a, b) => (b.aic < a.aic ? b : a));
-    parts.push(`Of the models fitted, the ${MODEL_LABEL[best.name].toLowerCase()} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
+  const ranked = fitted.filter((f): f is typeof f & { aic: number } => f.aic !== undefined);
+  if (ranked.length > 1) {
+    const best = ranked.reduce((a, b) => (b.aic < a.aic ? b : a));
+    parts.push(`Of the models fitted, the ${best.label.toLowerCase()} has the lowest AIC (${say(best.aic)}), the best balance of fit and simplicity by that measure.`);
   }
   return parts.join(' ');
 }

@@ -1,7 +1,9 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, SpatialFit } from '../models/types.js';
+import type { Fitted, ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { MARK_NOTE, MODEL_LABEL, evidenceMark, num, yesNo } from './format.js';
+import { testRow } from './test-rows.js';
 
 function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
   return {
@@ -75,6 +77,35 @@ export function spatialBlocks(result: AnalysisResult, fit: SpatialFit): Block[] 
   return [
     { kind: 'title', text: `${MODEL_LABEL[fit.model]}: ${result.request.y} by maximum likelihood` },
     coefficientTable('Coefficients', 'z-value', fit.coefficients, [paramRow]),
+    { kind: 'keyValues', title: 'Fit', rows },
+  ];
+}
+
+/** The lag and error models' rows on the checks sheet. */
+export function spatialChecks(fit: SpatialFit): Cell[][] {
+  const rows: Cell[][] = [
+    testRow('Breusch–Pagan test of constant variance', fit.breuschPagan, 'Does the spread of the residuals change with the explanatory columns?'),
+  ];
+  if (fit.lmRemainingError) rows.push(testRow('Lagrange multiplier: remaining error dependence', fit.lmRemainingError, 'Is error dependence left over after the spatial lag is modelled?'));
+  if (fit.lmRemainingLag) rows.push(testRow('Lagrange multiplier: remaining lag dependence', fit.lmRemainingLag, 'Is lag dependence left over after the spatial error is modelled?'));
+  return rows;
+}
+
+/** Any model's sheet from its registry headline: coefficients, spatial parameters and fit figures. */
+export function headlineBlocks(result: AnalysisResult, fit: Fitted, entry: ModelEntry): Block[] {
+  const h = entry.headline(fit);
+  const paramRows = h.parameters.map((q): Cell[] => [q.symbol, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
+  const rows: [string, Cell, NumberFormat?][] = [
+    ['Areas', result.n, 'integer'],
+    ['R² or squared correlation of observed and fitted', num(h.r2), 'decimal4'],
+    ['Residual variance', num(h.sigma2), 'decimal4'],
+  ];
+  if (h.logLik !== undefined) rows.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
+  if (h.lr) rows.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
+  if (h.convergence) rows.push(['Search converged', yesNo(h.convergence.converged), 'text'], ['Search note', h.convergence.message, 'text']);
+  return [
+    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
+    coefficientTable('Coefficients', 'z-value', fit.coefficients, paramRows),
     { kind: 'keyValues', title: 'Fit', rows },
   ];
 }

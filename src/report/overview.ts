@@ -1,6 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
-import { CHOICE_LABEL, MODEL_LABEL, num, question } from './format.js';
+import { CHOICE_LABEL, num, question } from './format.js';
+import { fittedInOrder } from '../models/index.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
@@ -8,14 +9,16 @@ import { comparisonReading } from './comparison.js';
 import { rateUse, recipeWords } from './rates.js';
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
-  const o = result.ols;
-  const rows: Cell[][] = [[MODEL_LABEL.ols, num(o.logLik), num(o.aic), num(o.bic), null, null, null, null, null, num(o.r2)]];
-  for (const fit of [result.lag, result.error]) {
-    if (!fit) continue;
-    rows.push([MODEL_LABEL[fit.model], num(fit.logLik), num(fit.aic), num(fit.bic), num(fit.lr.stat), num(fit.lr.p),
-      num(fit.parameter), num(fit.parameterSe), num(fit.parameterP), num(fit.pseudoR2)]);
-  }
-  return rows;
+  // one row per model and spatial parameter (a model with two has a second row for the second)
+  return fittedInOrder(result.fits).flatMap(({ entry, fit }) => {
+    const h = entry.headline(fit);
+    const [first, ...more] = h.parameters;
+    const parameter = (q: typeof first | undefined): Cell[] => (q ? [num(q.estimate), num(q.se), num(q.p)] : [null, null, null]);
+    return [
+      [entry.label, num(h.logLik), num(h.aic), num(h.bic), num(h.lr?.stat), num(h.lr?.p), ...parameter(first), num(h.r2)],
+      ...more.map((q): Cell[] => [`${entry.label}: ${q.symbol}`, null, null, null, null, null, ...parameter(q), null]),
+    ];
+  });
 }
 
 /** What the coordinates were read as, and whether that was stated or guessed. */

@@ -1,5 +1,5 @@
 import { householderQr, qrSolve } from '../linalg/index.js';
-import type { Design } from '../models/types.js';
+import type { Design } from '../core/types.js';
 
 /**
  * Explained and total sums of squares (about the mean) of the least-squares regression of g on the

@@ -1,4 +1,4 @@
-import type { Design, TestResult } from '../models/types.js';
+import type { Design, TestResult } from '../core/types.js';
 import { explainedSumOfSquares } from './auxiliary-regression.js';
 import { chiSquareUpper } from './distributions.js';
 

@@ -1,6 +1,6 @@
 import { SingularValueDecomposition, Matrix } from 'ml-matrix';
 import { householderQr } from '../linalg/index.js';
-import type { Design } from '../models/types.js';
+import type { Design } from '../core/types.js';
 
 /**
  * Condition number of the design (Belsley, Kuh & Welsch 1980, Regression Diagnostics, ch. 3):

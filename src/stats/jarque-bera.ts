@@ -1,4 +1,4 @@
-import type { TestResult } from '../models/types.js';
+import type { TestResult } from '../core/types.js';
 import { chiSquareUpper } from './distributions.js';
 
 /**

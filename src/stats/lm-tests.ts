@@ -1,6 +1,6 @@
 import { csrMultiply } from '../linalg/index.js';
 import type { WeightsAlgebra } from '../linalg/index.js';
-import type { Design, LmTests, OlsFit, TestResult } from '../models/types.js';
+import type { Design, LmTests, RegressionResiduals, TestResult } from '../core/types.js';
 import { chiSquareUpper } from './distributions.js';
 import { dot, residualQuadratic } from './residual-maker.js';
 
@@ -14,7 +14,7 @@ import { dot, residualQuadratic } from './residual-maker.js';
  *   robust LM lag   = (d_lag − d_err)² / (nJ − T)
  *   joint           = (d_lag − d_err)² / (nJ − T) + d_err² / T, 2 df; the rest 1 df.
  */
-export function lmTests(ols: OlsFit, x: Design, algebra: WeightsAlgebra): LmTests {
+export function lmTests(ols: RegressionResiduals, x: Design, algebra: WeightsAlgebra): LmTests {
   const { n, residuals: e, fitted } = ols;
   const w = algebra.w;
   const y = new Float64Array(n);

@@ -1,6 +1,6 @@
 import { csrMultiply, type CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
-import type { MoranTest } from '../models/types.js';
+import type { MoranTest } from '../core/types.js';
 import { normalTwoSided } from './distributions.js';
 import { seededRandom } from './random.js';
 import { centred, weightsSums } from './weights-sums.js';

@@ -1,6 +1,6 @@
 import { csrMultiply } from '../linalg/index.js';
 import type { WeightsAlgebra } from '../linalg/index.js';
-import type { Design, MoranTest, OlsFit } from '../models/types.js';
+import type { Design, MoranTest, RegressionResiduals } from '../core/types.js';
 import { normalTwoSided } from './distributions.js';
 import { dot, residualMakerTraces, weightsTotal } from './residual-maker.js';
 
@@ -11,7 +11,7 @@ import { dot, residualMakerTraces, weightsTotal } from './residual-maker.js';
  *   Var[I] = (n/S₀)² [tr(MWMWᵀ) + tr((MW)²) + (tr MW)²] / ((n − k)(n − k + 2)) − E[I]²,
  * M = I − X(X'X)⁻¹X'. z = (I − E[I]) / √Var[I], two-sided normal p.
  */
-export function moranResidualTest(ols: OlsFit, x: Design, algebra: WeightsAlgebra): MoranTest {
+export function moranResidualTest(ols: RegressionResiduals, x: Design, algebra: WeightsAlgebra): MoranTest {
   const { n, k, residuals: e } = ols;
   const w = algebra.w;
   const scale = n / weightsTotal(w);

@@ -1,7 +1,7 @@
 import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../linalg/index.js';
 import { householderQr, thinQ } from '../linalg/index.js';
 import { csrEntry as entry } from '../linalg/index.js';
-import type { Design } from '../models/types.js';
+import type { Design } from '../core/types.js';
 
 /**
  * Traces of products of W with the residual maker M = I − X(X'X)⁻¹X' = I − QQᵀ (Q the thin QR

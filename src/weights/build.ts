@@ -7,7 +7,6 @@ import { EARTH_RADIUS_KM, nearestNeighbours, nearestOther, pointDistance, pointI
 import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, pairsWithin } from './distance.js';
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
-import { representativePoints } from '../geo/index.js';
 import { checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
 
 export interface BuildOptions {
@@ -88,10 +87,8 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
       ? 'queen contiguity (areas sharing at least one boundary point)'
       : 'rook contiguity (areas sharing a stretch of boundary)';
   if (spec.tolerance) description += `, gaps up to ${plain(spec.tolerance)} coordinate units bridged`;
-  // points only matter for areas without neighbours: the caller's points when given, else the same
-  // area-weighted centroids the distance rules use (with their ±180° handling), never box centres,
-  // whose longitude is near 0 for an area straddling the antimeridian
-  const points = () => checkedPoints(input.points ? input : { ...input, points: representativePoints(input.geometries) }, 'contiguity');
+  // points only matter for areas without neighbours
+  const points = () => checkedPoints(input, 'contiguity');
   if (pattern.rowPtr[n] === 0) {
     const pts = points();
     const { distance } = nearestOther(pts);

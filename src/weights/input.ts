@@ -1,4 +1,5 @@
 import type { AreaGeometry, CoordinateKind } from '../geo/types.js';
+import { representativePoints } from '../geo/index.js';
 import { InputError } from '../errors.js';
 import type { PointSet } from './nearest.js';
 
@@ -6,7 +7,10 @@ export interface WeightsInput {
   ids: string[];
   geometries: AreaGeometry[];
   coordinates: CoordinateKind;
-  /** One representative point per area; required for k-nearest, distance band and inverse distance. */
+  /**
+   * One representative point per area, for the distance rules (and contiguity's areas without
+   * neighbours); when absent, the areas' own representative points (area-weighted centroids).
+   */
   points?: { x: Float64Array; y: Float64Array };
 }
 
@@ -26,11 +30,14 @@ export function checkIds(ids: string[]): void {
   });
 }
 
-/** The areas' points, checked: one per area, finite, and plausible longitudes/latitudes when geographic. */
+/**
+ * The areas' points, checked: one per area, finite, and plausible longitudes/latitudes when
+ * geographic. The caller's points when given, else the same area-weighted centroids (with their
+ * ±180° handling), never box centres, whose longitude is near 0 for an area straddling the antimeridian.
+ */
 export function checkedPoints(input: WeightsInput, method: string): PointSet {
   const n = input.ids.length;
-  const p = input.points;
-  if (!p) throw new InputError(`Neighbours by ${method} need a representative point for every area; none were given.`);
+  const p = input.points ?? representativePoints(input.geometries);
   if (p.x.length !== n || p.y.length !== n) {
     throw new InputError(`There are ${n} areas but ${p.x.length} representative points; every area needs exactly one.`);
   }

@@ -77,9 +77,3 @@ function escapeTextCells(ws: ExcelJS.Worksheet): void {
     }
   }));
 }
-
-/** The sheet names the report would get in a workbook that already has `existing` sheets. */
-export function plannedSheetNames(report: Report, existing: readonly string[] = []): string[] {
-  const taken = new Set(existing.map((s) => s.toLowerCase()));
-  return report.sheets.map((s) => uniqueSheetName(s.name, taken));
-}

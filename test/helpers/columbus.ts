@@ -25,6 +25,6 @@ export async function columbusData(): Promise<{ y: Float64Array; x: Design }> {
   const col = (name: string) => Float64Array.from(rows, (r) => Number(r[name]));
   return {
     y: col('CRIME'),
-    x: { names: ['constant', 'INC', 'HOVAL'], columns: [new Float64Array(rows.length).fill(1), col('INC'), col('HOVAL')] },
+    x: { intercept: 0, names: ['constant', 'INC', 'HOVAL'], columns: [new Float64Array(rows.length).fill(1), col('INC'), col('HOVAL')] },
   };
 }

@@ -6,7 +6,7 @@
  */
 import { createHash } from 'node:crypto';
 import { Matrix, solve } from 'ml-matrix';
-import type { AnalysisResult, ModelName } from '../../src/pipeline/types.js';
+import type { AnalysisResult, ModelKey } from '../../src/pipeline/types.js';
 import type { AreaGeometry } from '../../src/geo/types.js';
 import type { Coefficient, SpatialFit } from '../../src/models/types.js';
 
@@ -14,7 +14,7 @@ export const GRID = 5;
 
 export interface FakeOptions {
   coordinates?: 'projected' | 'geographic';
-  models?: ModelName[];
+  models?: ModelKey[];
 }
 
 function sha256(bytes: Uint8Array): string {
@@ -79,7 +79,7 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
   const ses = [1.9, 0.0018, 0.21];
   const coefs = (scale: number, zName: boolean): Coefficient[] => names.map((name, k) => {
     const estimate = beta[k] * scale, se = ses[k];
-    return { name, estimate, se, stat: estimate / se, p: zName ? 0.0004 * (k + 1) : 0.0012 * (k + 1) };
+    return { name, estimate, se, stat: estimate / se, p: zName ? 0.0004 * (k + 1) : 0.0012 * (k + 1), ...(k === 0 ? { intercept: true as const } : {}) };
   });
   const ybar = y.reduce((a, b) => a + b, 0) / n;
   const z = y.map((v) => v - ybar);
@@ -102,6 +102,15 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
     };
   };
 
+  const ols: AnalysisResult['ols'] = {
+    n, k: 3, coefficients: coefs(1, false), residuals, fitted, r2: 0.74, adjR2: 0.716, f: { stat: 31.3, df: 2, df2: 22, p: 3.4e-7 },
+    sigma2: 0.41, sigma2ML: 0.37, logLik: -21.55, aic: 49.1, bic: 52.76, conditionNumber: 42.7,
+    jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, breuschPaganStudentised: { stat: 2.9, df: 2, p: 0.2346 },
+    warnings: [],
+    moran: { I: 0.231, expected: -1 / 24, variance: 0.0152, z: 2.21, p: 0.027 },
+    lm: { error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 } },
+    recommendation: { choice: 'lag', text: 'Only the robust lag test is significant, so the spatial lag model is suggested.', rule: 'LM decision rule (plain tests first, robust tests to break ties)', alpha: 0.05 },
+  };
   const result: AnalysisResult = {
     engineVersion: '0.1.0', createdAt: '2024-05-06T07:08:09.000Z',
     request: {
@@ -124,23 +133,15 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
       edges,
     },
     algebra: { logDeterminant: 'eigenvalues (dense)', accuracy: 'exact to rounding', traces: 'exact', range: { lower: -1, upper: 1, method: 'extreme eigenvalues' } },
-    ols: {
-      n, k: 3, coefficients: coefs(1, false), residuals, fitted, r2: 0.74, adjR2: 0.716, f: { stat: 31.3, df: 2, df2: 22, p: 3.4e-7 },
-      sigma2: 0.41, sigma2ML: 0.37, logLik: -21.55, aic: 49.1, bic: 52.76, conditionNumber: 42.7,
-      jarqueBera: { stat: 0.81, df: 2, p: 0.667 }, breuschPagan: { stat: 3.2, df: 2, p: 0.2019 }, breuschPaganStudentised: { stat: 2.9, df: 2, p: 0.2346 },
-      warnings: [],
-      moran: { I: 0.231, expected: -1 / 24, variance: 0.0152, z: 2.21, p: 0.027 },
-      lm: { error: { stat: 3.1, df: 1, p: 0.078 }, lag: { stat: 6.9, df: 1, p: 0.0086 }, robustError: { stat: 0.4, df: 1, p: 0.527 }, robustLag: { stat: 4.2, df: 1, p: 0.040 }, joint: { stat: 7.3, df: 2, p: 0.026 } },
-      recommendation: { choice: 'lag', text: 'Only the robust lag test is significant, so the spatial lag model is suggested.', rule: 'LM decision rule (plain tests first, robust tests to break ties)', alpha: 0.05 },
-    },
-    olsResidualLag: spatialLag(edges, residuals),
+    ols,
+    fits: { ols: { ...ols, residualLag: spatialLag(edges, residuals) } },
     moranY: { I: moranIY, expected: -1 / 24, variance: 0.0152, z: (moranIY + 1 / 24) / Math.sqrt(0.0152), p: 0.0001, permutationP: 0.001, permutations: 999 },
     warnings: [],
     timings: { read: 0.003, weights: 0.001, models: 0.012 }, // seconds, as the pipeline reports them
   };
   if (models.includes('lag')) {
-    result.lag = spatial('lag', 0.41);
-    result.impacts = {
+    result.fits.lag = spatial('lag', 0.41);
+    result.fits.lag.impacts = {
       impacts: names.slice(1).map((name, k) => {
         const direct = beta[k + 1] * 0.95, indirect = beta[k + 1] * 0.6;
         return { name, direct, indirect, total: direct + indirect, directSe: Math.abs(direct) / 4, indirectSe: Math.abs(indirect) / 2, totalSe: Math.abs(direct + indirect) / 3, directP: 0.0002, indirectP: 0.046, totalP: 0.0031 };
@@ -148,6 +149,6 @@ export function fakeResult(opts: FakeOptions = {}): AnalysisResult {
       draws: 1000, seed: 20240506, method: 'simulation from the asymptotic distribution, exact traces',
     };
   }
-  if (models.includes('error')) result.error = spatial('error', 0.37);
+  if (models.includes('error')) result.fits.error = spatial('error', 0.37);
   return result;
 }

@@ -52,7 +52,7 @@ export function largeReport(side: number): { report: Report; scatter: ScatterPoi
   for (let i = 0; i < n; i++) for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) lag[i] += values[p] * residuals[colIdx[p]];
   const result = {
     request: { y: 'clinic_visits' }, ids, rows: ids.map((_, i) => i + 2), y,
-    ols: { fitted, residuals }, olsResidualLag: lag,
+    ols: { fitted, residuals }, fits: { ols: { fitted, residuals, residualLag: lag } },
     weights: { description: w.description, transform: 'row', summary, edges: { from, to: colIdx, weight: values } },
   } as unknown as AnalysisResult;
   const z = Array.from(residuals, (v) => v / 0.6);
