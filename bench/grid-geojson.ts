@@ -5,11 +5,11 @@
  * The outcome follows y = (I − ρW)⁻¹(1 + 2·x1 − x2 + ε) with rook weights, ρ = 0.5, summed by the
  * Neumann series (60 terms; 0.5⁶⁰ is below rounding).
  */
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 export function gridGeoJson(rows: number, cols: number, seed = 17): string {
   const n = rows * cols;
-  const u = seededUniform(seed);
+  const u = seededRandom(seed);
   const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
   const x1 = new Float64Array(n).map(normal);
   const x2 = new Float64Array(n).map(normal);

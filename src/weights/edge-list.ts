@@ -1,5 +1,5 @@
 import Papa from 'papaparse';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
 import { LinkList, csrFromLinks, isSymmetric, symmetricBehind } from './pattern.js';

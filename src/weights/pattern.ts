@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 
 /**
  * Growable list of directed links (i, j, value) on typed arrays. Links are gathered here from
@@ -104,8 +104,11 @@ export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
   return { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) };
 }
 
+/** One symmetry check for the engine, with one tolerance (src/linalg/csr.ts). */
+export { isSymmetric } from '../linalg/index.js';
+
 /** Position of entry (i, j) in colIdx, or -1; binary search since rows are sorted by column. */
-export function findEntry(m: CsrMatrix, i: number, j: number): number {
+function findEntry(m: CsrMatrix, i: number, j: number): number {
   let lo = m.rowPtr[i];
   let hi = m.rowPtr[i + 1] - 1;
   while (lo <= hi) {
@@ -116,24 +119,6 @@ export function findEntry(m: CsrMatrix, i: number, j: number): number {
     else hi = mid - 1;
   }
   return -1;
-}
-
-/**
- * True when the matrix equals its transpose: same pattern, and values agreeing to a relative
- * 1e-12 (values computed from the same distance in either direction may differ in the last bit).
- */
-export function isSymmetric(m: CsrMatrix): boolean {
-  for (let i = 0; i < m.n; i++) {
-    for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
-      const j = m.colIdx[p];
-      const q = findEntry(m, j, i);
-      if (q < 0) return false;
-      const a = m.values[p];
-      const b = m.values[q];
-      if (Math.abs(a - b) > 1e-12 * Math.max(Math.abs(a), Math.abs(b))) return false;
-    }
-  }
-  return true;
 }
 
 /**
