@@ -1,5 +1,6 @@
 /**
- * Builds and serves the add-in (task pane + cell functions) and the no-install browser page.
+ * Builds and serves the add-in (task pane + cell functions) and the no-install browser page; the
+ * cell functions' own script and metadata come from vite.functions.config.ts, run after this build.
  *   npm run build:addin   → dist-addin/
  *   npm run serve         → http://localhost:3000 (the browser page: no certificate, no sudo)
  *   npm run serve:excel   → https://localhost:3000 with the Office development certificate (mode "excel"; Excel
@@ -13,9 +14,9 @@
 import { defineConfig, type Plugin, type UserConfig } from 'vite';
 import { fileURLToPath } from 'node:url';
 import { dirname, resolve } from 'node:path';
+import { functionMetadata, functionsScript } from './vite.functions.config.js';
 
 const ROOT = dirname(fileURLToPath(import.meta.url));
-const FUNCTIONS_SOURCE = resolve(ROOT, 'functions/functions.ts');
 const FUNCTIONS_ENTRY = resolve(ROOT, 'functions/register.ts');
 
 /** The browser page sends nothing anywhere: every fetch, image and script comes from this origin. */
@@ -60,22 +61,13 @@ function cspFor(url: string, dev = false): string | undefined {
   return undefined;
 }
 
-/** functions.json from the JSDoc of functions.ts (custom-functions-metadata), at build and in the dev server. */
+/** functions.json in the dev server (the build writes it with functions.js: vite.functions.config.ts). */
 function cellFunctionMetadata(): Plugin {
-  const generate = async (): Promise<string> => {
-    const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
-    const r = await generateCustomFunctionsMetadata(FUNCTIONS_SOURCE);
-    if (r.errors.length) throw new Error(`cell function metadata: ${r.errors.join('; ')}`);
-    return r.metadataJson;
-  };
   return {
     name: 'spillway-cell-function-metadata',
-    async generateBundle() {
-      this.emitFile({ type: 'asset', fileName: 'functions.json', source: await generate() });
-    },
     configureServer(server) {
       server.middlewares.use('/functions.json', (_req, res, next) => {
-        generate().then((json) => { res.setHeader('Content-Type', 'application/json'); res.end(json); }, next);
+        functionMetadata().then((json) => { res.setHeader('Content-Type', 'application/json'); res.end(json); }, next);
       });
     },
   };
@@ -150,7 +142,7 @@ const GLOBAL_LOOKUP = /Function\(\s*['"]return this['"]\s*\)\(\)/g;
 const STRING_CALLBACK = /new Function\(\s*""\s*\+\s*(\w+)\s*\)/g;
 const DYNAMIC_CODE = /(?<![\w$.])(?:new\s+)?Function\s*\(|(?<![\w$.])eval\s*\(/;
 
-function noDynamicCode(): Plugin {
+export function noDynamicCode(): Plugin {
   return {
     name: 'spillway-no-dynamic-code',
     transform(code, id) {
@@ -202,7 +194,7 @@ export default defineConfig(async ({ command, mode }): Promise<UserConfig> => {
     resolve: {
       alias: [{ find: /^exceljs$/, replacement: 'exceljs/dist/exceljs.bare.js' }],
     },
-    plugins: [securityHeaders(), cellFunctionMetadata(), devFunctionsScript(), noDynamicCode()],
+    plugins: [securityHeaders(), cellFunctionMetadata(), devFunctionsScript(), noDynamicCode(), functionsScript()],
     optimizeDeps: { entries: SCANNED_ENTRIES },
     worker: {
       format: 'es',
@@ -219,11 +211,9 @@ export default defineConfig(async ({ command, mode }): Promise<UserConfig> => {
           taskpane: resolve(ROOT, 'taskpane/index.html'),
           page: resolve(ROOT, 'page/index.html'),
           help: resolve(ROOT, 'help/index.html'),
-          functions: FUNCTIONS_ENTRY,
         },
-        output: {
-          entryFileNames: (chunk) => (chunk.name === 'functions' ? 'functions.js' : 'assets/[name]-[hash].js'),
-        },
+        // functions.js is built on its own, as one classic script (functionsScript, vite.functions.config.ts)
+        output: { entryFileNames: 'assets/[name]-[hash].js' },
       },
     },
     server: { port: 3000, strictPort: true, https, host: 'localhost' },

@@ -12,7 +12,7 @@ import { fitModel, fitOls } from '../src/models/index.js';
 import { csrMultiply } from '../src/linalg/csr.js';
 import { rookGrid } from './grid.js';
 import { withBuiltCommandLineAndGrid } from './grid-geojson.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/index.js';
 
 const seconds = (t0: number) => +((performance.now() - t0) / 1000).toFixed(3);
 const median = (v: number[]) => { const s = [...v].sort((a, b) => a - b); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
@@ -21,7 +21,7 @@ const median = (v: number[]) => { const s = [...v].sort((a, b) => a - b); const 
 export function familyFitsWorkload(rows = 300): Record<string, unknown> {
   const g = rookGrid(rows, rows);
   const n = g.w.n;
-  const u = seededUniform(5);
+  const u = seededRandom(5);
   const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
   const x1 = new Float64Array(n).map(normal), x2 = new Float64Array(n).map(normal);
   const base = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] - x2[i] + normal());

@@ -10,11 +10,11 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 export function gridGeoJson(rows: number, cols: number, seed = 17): string {
   const n = rows * cols;
-  const u = seededUniform(seed);
+  const u = seededRandom(seed);
   const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
   const x1 = new Float64Array(n).map(normal);
   const x2 = new Float64Array(n).map(normal);

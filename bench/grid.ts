@@ -1,6 +1,6 @@
 /** Rook-contiguity grids for benchmarks and tests: binary B, row-standardised W, S = D^-1/2 B D^-1/2. */
 import type { CsrMatrix } from '../src/linalg/csr.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 export interface GridWeights {
   w: CsrMatrix;
@@ -52,7 +52,7 @@ export function rookGrid(rows: number, cols: number): GridWeights {
 
 /** Irregular planar-like graph: random points, each linked to points within a radius (symmetric). */
 export function randomGeometric(n: number, radius: number, seed: number) {
-  const u = seededUniform(seed);
+  const u = seededRandom(seed);
   const x = new Float64Array(n), y = new Float64Array(n);
   for (let i = 0; i < n; i++) { x[i] = u(); y[i] = u(); }
   const nb: number[][] = Array.from({ length: n }, () => []);
@@ -74,7 +74,7 @@ export function randomGeometric(n: number, radius: number, seed: number) {
 
 /** k-nearest-neighbour weights (row-standardised, not symmetric) on random points. */
 export function randomKnn(n: number, k: number, seed: number): { w: CsrMatrix; x: Float64Array; y: Float64Array } {
-  const u = seededUniform(seed);
+  const u = seededRandom(seed);
   const x = new Float64Array(n), y = new Float64Array(n);
   for (let i = 0; i < n; i++) { x[i] = u(); y[i] = u(); }
   const rowPtr = new Int32Array(n + 1);

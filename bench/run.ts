@@ -8,6 +8,7 @@
  *    buildWeights), then the full analysis (OLS, Moran, LM, lag, error, impacts) by runAnalysis;
  *  - Columbus (the shapefile under test/fixtures): the full analysis in process;
  *  - the command line end to end on a 300×300 grid GeoJSON written to a temporary folder;
+ *  - the model cell functions on cell ranges (Columbus; 3,000 areas): first call and recalculation.
  *  - the results workbook (--out) against --json on the same grid, back to back (bench/results-workbook.ts);
  *    at 500×500 only with --with-large (several minutes);
  *  - the input checks: refusing a zip entry that understates its size, and the overlap checks
@@ -30,12 +31,13 @@ import { readBoundary } from '../src/geo/index.js';
 import { buildWeights, symmetricForm } from '../src/weights/index.js';
 import { runAnalysis } from '../src/pipeline/run-analysis.js';
 import { rookGrid } from './grid.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { normalSampler, seededRandom } from '../src/linalg/random.js';
 import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
 import { withBuiltCommandLineAndGrid } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
 import { commandLineLagErrorWorkload, familyFitsWorkload } from './family.js';
+import { columbusCellsWorkload, gridCellsWorkload } from './cell-functions.js';
 import { resultsWorkbookWorkload } from './results-workbook.js';
 import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
 
@@ -76,10 +78,9 @@ function runScipy(s: CsrMatrix, rhos: number[]): { seconds: number; logdets: num
 }
 
 /** Seeded normals (test data only). */
+/** Standard normals from the engine's one seeded generator. */
 function normals(seed: number) {
-  let state = seed >>> 0;
-  const u = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) + 0.5) / 4294967296;
-  return () => Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u());
+  return normalSampler(seededRandom(seed));
 }
 
 /** y = (I − 0.5W)⁻¹(1 + 2x₁ − x₂ + ε) by the Neumann series (60 terms). */
@@ -263,7 +264,7 @@ function cliWorkload(): Record<string, unknown> {
 
 /** k-nearest-neighbour weights (no symmetric form) on invented random points: the exact sparse LU. */
 async function knnWorkload(n: number, k: number): Promise<Record<string, unknown>> {
-  const u = seededUniform(31);
+  const u = seededRandom(31);
   const x = new Float64Array(n).map(() => u()), y = new Float64Array(n).map(() => u());
   let a = performance.now();
   const { pattern } = nearestNeighbours({ x, y, greatCircle: false }, k);
@@ -298,6 +299,30 @@ async function knnWorkload(n: number, k: number): Promise<Record<string, unknown
   };
 }
 
+/**
+ * The full analysis (OLS, Moran, LM tests, lag with its 1,000 impact draws, error) through
+ * runAnalysis under k-nearest-neighbour weights, row-standardised: on the 500-plot wheat trial
+ * (test/fixtures/wheat, its yields against the plot coordinates) or on invented random points given
+ * as GeoJSON, the outcome a lag process on their k-nearest weights (ρ = 0.5). Targets: 500 areas
+ * under 2 s, 20,000 under 10 s.
+ */
+async function knnAnalysisWorkload(n: number | 'wheat', k: number): Promise<Record<string, unknown>> {
+  if (n === 'wheat') {
+    const dir = join(ROOT, 'test/fixtures/wheat');
+    const boundary = ['wheat.shp', 'wheat.dbf', 'wheat.shx'].map((f) => ({ name: f, bytes: new Uint8Array(readFileSync(join(dir, f))) }));
+    return analysisWorkload(`knn ${k} full run, 500 wheat plots`, { boundary, id: 'SP_ID', y: 'yield', x: ['lat1', 'lon'], coordinates: 'projected', weights: { method: 'knn', k } as never, transform: 'row', models: ['ols', 'lag', 'error'] }, null, 1, 3);
+  }
+  const u = seededRandom(47);
+  const x = new Float64Array(n).map(() => 1000 * u()), y = new Float64Array(n).map(() => 1000 * u());
+  const { pattern } = nearestNeighbours({ x, y, greatCircle: false }, k);
+  const { y: outcome, x1, x2 } = lagData(applyTransform(pattern, 'row'));
+  const features = Array.from({ length: n }, (_, i) =>
+    `{"type":"Feature","properties":{"id":"p${i}","y":${outcome[i]},"x1":${x1[i]},"x2":${x2[i]}},"geometry":{"type":"Point","coordinates":[${x[i] + 500000},${y[i] + 4000000}]}}`);
+  const bytes = new TextEncoder().encode(`{"type":"FeatureCollection","features":[${features.join(',')}]}`);
+  const boundary = [{ name: 'invented-points.geojson', bytes }];
+  return analysisWorkload(`knn ${k} full run, ${n} random points`, { boundary, id: 'id', y: 'y', x: ['x1', 'x2'], coordinates: 'projected', weights: { method: 'knn', k } as never, transform: 'row', models: ['ols', 'lag', 'error'] }, null, n > 5000 ? 0 : 1, 1);
+}
+
 const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<string, unknown>> = {
   'columbus': columbusWorkload,
   'rook grid 56x56': () => gridWorkload(56, [0.2, 0.5, 0.8, -0.3, 0.9, 0.95, 0.6], [0.2, 0.5, 0.8, 0.9, 0.95]),
@@ -307,11 +332,16 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'rook grid 500x500': () => gridWorkload(500, [0.2, 0.5, 0.8], [0.5, 0.8]),
   'knn 6 of 90000 points': () => knnWorkload(90000, 6),
   'knn 6 of 20000 points': () => knnWorkload(20000, 6),
+  'knn 4 full run, wheat plots': () => knnAnalysisWorkload('wheat', 4),
+  'knn 4 full run, 500 points': () => knnAnalysisWorkload(500, 4),
+  'knn 6 full run, 20000 points': () => knnAnalysisWorkload(20000, 6),
   'command line 300x300': cliWorkload,
   'model family 300x300': () => familyFitsWorkload(300),
   'command line 300x300 lag-and-error': commandLineLagErrorWorkload,
   'local statistics 55x55': () => localStatisticsWorkload(55),
   'local statistics 300x300': () => localStatisticsWorkload(300),
+  'cell functions Columbus': columbusCellsWorkload,
+  'cell functions 3000 areas': () => gridCellsWorkload(50, 60),
   'results workbook 300x300': () => resultsWorkbookWorkload(300, 3),
   'results workbook 500x500': () => resultsWorkbookWorkload(500, 1),
   'zip understating its size': understatedZipWorkload,

@@ -3,7 +3,8 @@
  * polygons, queen neighbours, all three models, local statistics, a rate built from counts
  * (`--rate falls_per_1000=fall_admissions/residents_70plus`), the results workbook — then the villages sample
  * with 5-nearest neighbours. Prints a short summary, how well the simulated parameters came back,
- * and the output paths.
+ * and the output paths. Last, the no-install browser page as one file (sample-workbooks/out/spillway.html),
+ * to hand to anyone who cannot install anything.
  */
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
@@ -89,9 +90,17 @@ function foundClusters(r: AnalysisResult, planted: { column: string; long_waits:
   return `  Planted clusters in ${planted.column}: local Moran finds ${high} of ${planted.long_waits.length} long-wait and ${low} of ${planted.short_waits.length} short-wait districts (false discovery rate 0.05)`;
 }
 
+/** The one-file browser page, built into the demo's output folder (nothing else there is touched). */
+async function buildOneFilePage(): Promise<void> {
+  const { build } = await import('vite');
+  await build({ configFile: join(root, 'addin/vite.page.config.ts'), logLevel: 'warn', build: { outDir, emptyOutDir: false } });
+  console.log(`\nThe browser page as one file: ${relative(process.cwd(), join(outDir, 'spillway.html'))} (open it in a browser; no server, no installation)`);
+}
+
 mkdirSync(outDir, { recursive: true });
 try {
   for (const d of demos) await runDemo(d);
+  await buildOneFilePage();
   console.log('\nRead with care: associations between areas, not proof of cause; see the README\'s cautions.');
 } catch (e) {
   console.error(e instanceof InputError ? `demo: ${e.message}` : e);

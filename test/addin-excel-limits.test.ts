@@ -288,4 +288,15 @@ describe('the boundary file kept in the workbook', () => {
     excel.newPart(`<boundaries xmlns="${BOUNDARY_NAMESPACE}" set="k1" part="1" parts="2"><file name="a.shp" size="9" piece="1" pieces="2">AAAA</file></boundaries>`);
     await expect(adapter.loadBoundary()).rejects.toThrow(/incomplete \(1 of 2 parts found\)/);
   });
+
+  it('says why a kept boundary cannot be read: Excel refusing to hand it back, or bytes that do not inflate', async () => {
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const adapter = new ExcelAdapter(excel.run);
+    // four zero bytes are no deflate stream (RFC 1950: the header's check bits fail)
+    excel.newPart(`<boundaries xmlns="${BOUNDARY_NAMESPACE}"><file name="old.geojson" size="9">AAAAAA==</file></boundaries>`);
+    await expect(adapter.loadBoundary()).rejects.toThrow(/^The boundary file kept in this workbook is damaged \(.+\); open the original file again\.$/);
+    excel.failWhen = (c) => c.kind === 'load';
+    await expect(adapter.loadBoundary()).rejects.toThrow(/^Excel did not hand back the boundary file kept in this workbook \(The load request failed\..*GeneralException.*\); open the original file again\.$/);
+  });
 });

@@ -182,6 +182,21 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(districts.getCell('A1').value).toBe('district_id');
   }, 60_000);
 
+  it('saves the areas with their results as GeoJSON ("Save areas with results")', async () => {
+    const download = page.waitForEvent('download', { timeout: 20_000 });
+    await page.click('#save-areas');
+    const file = await download;
+    expect(file.suggestedFilename()).toBe('vell-basin areas with results.geojson');
+    const saved = join(out, 'areas.geojson');
+    await file.saveAs(saved);
+    const fc = JSON.parse(readFileSync(saved, 'utf8'));
+    expect(fc.type).toBe('FeatureCollection');
+    expect(fc.features).toHaveLength(150);
+    expect(Object.keys(fc.features[0].properties)).toEqual(expect.arrayContaining(['district_id', 'long_commute_pct', 'plain_regression_residual', 'spatial_lag_fitted', 'local_moran_group']));
+    await page.getByText(/150 areas with their fitted values/).waitFor();
+    await expectAccessible('the areas saved');
+  });
+
   it('the whole job by keyboard alone: every stop on the way has a name in the screen-reader tree', async () => {
     // as a first-time user: no setup kept from the run before
     await page.evaluate(() => localStorage.clear());
@@ -231,6 +246,11 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.getByText(/Moran's I of the plain regression's residuals/).waitFor();
     // back on Run when it is done (Cancel, which had the focus during the run, is gone)
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('run');
+    // "Save areas with results" after the run is a stop of its own and answers Enter
+    await tabTo('save-areas');
+    const areasFile = page.waitForEvent('download', { timeout: 20_000 });
+    await page.keyboard.press('Enter');
+    expect((await areasFile).suggestedFilename()).toBe('vell-basin areas with results.geojson');
     const unnamed = stops.filter((st) => !st.name.trim());
     expect(unnamed, JSON.stringify(unnamed)).toEqual([]);
     // no hidden file input is a stop of its own

@@ -14,6 +14,7 @@ import { build, type PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
 import ExcelJS from 'exceljs';
 import { buildAndServe, chromiumPresent, closeBoth, launchChromium, ROOT } from './helpers/browser.js';
+import { BOUNDARY_NAMESPACE } from '../addin/excel/boundary-part.js';
 import { accessibilityProblems } from './helpers/a11y.js';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -99,7 +100,9 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
     expect(await accessibilityProblems(page), 'the sheet read').toBe('');
     expect(await page.inputValue('#y-column')).toBe(''); // the outcome is the analyst's to choose
-    expect(await page.evaluate(() => window.__associated)).toEqual(['MORAN', 'MORANPERM', 'LAG', 'MORANBYAREA', 'GEARY', 'LOCALMORAN', 'GISTAR', 'RATEGLOBAL', 'RATELOCAL', 'RATEMORAN']);
+    // every function the metadata lists is registered in the pane's runtime
+    const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.map((f) => f.id);
+    expect([...(await page.evaluate(() => window.__associated))].sort()).toEqual([...listed].sort());
 
     await page.setInputFiles('#boundary-file', GEOJSON);
     await page.getByText(/150 matched to rows by district_id/).waitFor();
@@ -142,6 +145,27 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     }
   }, 60_000);
 
+  it('lists the cell functions with a worked example on the demo sheet', async () => {
+    // reached and opened by keyboard: Tab from Run arrives at the guide's heading, Enter opens it
+    await page.focus('#run');
+    let reached = false;
+    for (let i = 0; i < 40 && !reached; i++) {
+      await page.keyboard.press('Tab');
+      reached = await page.evaluate(() => document.activeElement?.matches('#functions-help summary') ?? false);
+    }
+    expect(reached).toBe(true);
+    await page.keyboard.press('Enter');
+    expect(await page.evaluate(() => document.querySelector('#functions-help').open)).toBe(true);
+    await page.getByText(/=SPILL\.FIT\(C1:C151, D1:F151, A1:A151, K1#, "lag"\)/).waitFor();
+    const listed = (JSON.parse(readFileSync(join(out, 'dist', 'functions.json'), 'utf8')) as { functions: { id: string }[] }).functions.length;
+    expect(await page.locator('#functions-help .function-list li').count()).toBe(listed);
+    expect(await accessibilityProblems(page), 'the cell functions guide open').toBe('');
+    const shots = process.env.SPILLWAY_SCREENSHOTS === '1' ? join(ROOT, 'docs/screenshots') : out;
+    await page.evaluate(() => document.activeElement?.blur());
+    await page.locator('#functions-help').screenshot({ path: join(shots, 'excel-taskpane-cell-functions.png') });
+    expect(problems).toEqual([]);
+  });
+
   it('reopened, the pane finds the kept boundary file and the last setup in the workbook, and runs again without the file', async () => {
     await page.evaluate(() => {
       const x = window.__excel;
@@ -173,6 +197,24 @@ describe.skipIf(!ready)('the Excel task pane over a stand-in for Office.js', () 
     expect(await page.getByText(/Keep the file beside the workbook to run again/).count()).toBe(1);
     expect(await page.evaluate(() => window.__excel.xmlParts.length)).toBe(0);
     if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'boundary-not-kept.png'), fullPage: true });
+    expect(problems).toEqual([]);
+  }, 60_000);
+
+  it('says plainly when the kept boundary file cannot be read at start-up, and the rest of the pane works', async () => {
+    // a workbook whose kept boundary lost one of its two parts
+    const damaged = `<boundaries xmlns="${BOUNDARY_NAMESPACE}" set="k1" part="1" parts="2"><file name="districts.shp" size="9" piece="1" pieces="2">AAAA</file></boundaries>`;
+    await page.evaluate((xml) => sessionStorage.setItem('seed', JSON.stringify({ settings: [], parts: [xml] })), damaged);
+    await page.reload();
+    await page.getByText(/Sheet "Districts": 150 rows/).waitFor();
+    const note = page.locator('#stored-boundary-note');
+    await note.getByText(/The boundary file kept in this workbook is incomplete \(1 of 2 parts found\); open the original file again\. The table and the other settings work as before\./).waitFor();
+    if (process.env.SPILLWAY_SHOT_DIR) await page.screenshot({ path: join(process.env.SPILLWAY_SHOT_DIR, 'kept-boundary-unreadable.png'), fullPage: true });
+    expect(await accessibilityProblems(page), 'the kept boundary unreadable').toBe('');
+    // opening the file again goes on as usual, and the note goes
+    await page.setInputFiles('#boundary-file', GEOJSON);
+    await page.getByText(/150 matched to rows by district_id/).waitFor();
+    expect(await note.textContent()).toBe('');
+    await page.evaluate(() => sessionStorage.removeItem('seed'));
     expect(problems).toEqual([]);
   }, 60_000);
 });

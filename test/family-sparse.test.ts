@@ -10,7 +10,7 @@ import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { denseAlgebra } from '../src/linalg/dense-algebra.js';
 import { sparseAlgebra } from '../src/linalg/choose-algebra.js';
 import { csrMultiply, type CsrMatrix } from '../src/linalg/csr.js';
-import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { solveShifted } from '../src/linalg/index.js';
 import { fitOls, type PreparedInputs } from '../src/models/index.js';
 import { fitLagError } from '../src/models/lag-error.js';
 import { fitDurbin, fitDurbinError } from '../src/models/durbin.js';

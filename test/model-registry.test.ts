@@ -55,6 +55,8 @@ const { FIT_USAGE, parseFitArgs } = await import('../src/cli/args.js');
 const { formatSummary } = await import('../src/cli/summary.js');
 const { modelChoices } = await import('../addin/shared/model-choices.js');
 const { InputError } = await import('../src/errors.js');
+const { fitRows, effectsRows } = await import('../addin/functions/model-logic.js');
+const { resultsGeoJson } = await import('../src/report/index.js');
 
 const jStat = jstatModule as unknown as { chisquare: { cdf(x: number, df: number): number } };
 const ROOT = join(import.meta.dirname, '..');
@@ -119,6 +121,31 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
     const beta = solve(X, Matrix.columnVector(Array.from(result.y))).getColumn(0);
     expect(extra.coefficients.map((c) => c.name)).toEqual(['constant', 'INC', 'HOVAL', "neighbours' average of INC", "neighbours' average of HOVAL"]);
     extra.coefficients.forEach((c, j) => expect(Math.abs(c.estimate - beta[j])).toBeLessThan(1e-9 * Math.max(1, Math.abs(beta[j]))));
+  });
+
+  it('the cell function SPILL.FIT fits it by its key or its command-line spelling, with the run\'s coefficients; SPILL.EFFECTS says it has none', async () => {
+    const { x } = await columbusData(); // the .dbf's rows in order, as the run read them (checked above)
+    const { from, to } = result.weights.edges;
+    const ids = result.ids;
+    const links = [['origin', 'neighbour'], ...Array.from(from, (f, e) => [ids[f], ids[to[e]]])];
+    const yr = [['CRIME'], ...Array.from(result.y, (v) => [v])];
+    const xr = [['INC', 'HOVAL'], ...Array.from(result.y, (_, i) => [x.columns[1][i], x.columns[2][i]])];
+    const idr = [['POLYID'], ...ids.map((id) => [id])];
+    for (const model of [EXTRA, 'Neighbour-Columns']) {
+      const rows = fitRows(yr, xr, idr, links, model);
+      expect(rows[0]).toEqual(['term', 'estimate', 'standard error', 't', 'p']);
+      extra.coefficients.forEach((c, j) => expect(Math.abs((rows[1 + j][1] as number) - c.estimate)).toBeLessThan(1e-9 * Math.max(1, Math.abs(c.estimate))));
+      expect(rows.find((r) => r[0] === 'log-likelihood')![1]).toBeCloseTo(extra.logLik, 9);
+    }
+    expect(() => effectsRows(yr, xr, idr, links, EXTRA)).toThrow(/has no separate direct and indirect effects.*effects are given for "lag"/);
+  });
+
+  it('the areas as GeoJSON carry its fitted values and residuals under a name from its label', () => {
+    const props = (resultsGeoJson(result).features[0] as { properties: Record<string, number> }).properties;
+    expect(props.model_with_neighbours_columns_fitted).toBe(extra.fitted[0]);
+    expect(props.model_with_neighbours_columns_residual).toBe(extra.residuals[0]);
+    expect(props.model_with_neighbours_columns_neighbours_residual).toBe(extra.residualLag[0]);
+    expect(props.spatial_lag_fitted).toBe(result.fits.lag!.fitted[0]);
   });
 
   it('the JSON carries its object under its key and its per-area columns; the existing models\' JSON is untouched', () => {

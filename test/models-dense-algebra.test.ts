@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, LuDecomposition, Matrix } from 'ml-matrix';
 import { denseAlgebra } from '../src/linalg/dense-algebra.js';
 import { symmetricEigenvalues } from '../src/linalg/dense-eigen.js';
-import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { solveShifted } from '../src/linalg/iterative.js';
 import { seededRandom } from '../src/stats/random.js';
 import { csrFromNeighbours, rookGrid, rookNeighbours, toDenseRows } from './helpers/grid.js';
 

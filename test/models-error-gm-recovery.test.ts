@@ -14,7 +14,7 @@
 import { describe, expect, it } from 'vitest';
 import { denseAlgebra } from '../src/linalg/dense-algebra.js';
 import { chooseAlgebra } from '../src/linalg/choose-algebra.js';
-import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { solveShifted } from '../src/linalg/index.js';
 import { fitOls, fitSpatialError, type PreparedInputs } from '../src/models/index.js';
 import { fitErrorGm } from '../src/models/error-gm.js';
 import { normalSampler, seededRandom } from '../src/stats/index.js';

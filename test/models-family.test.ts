@@ -18,7 +18,7 @@ import { fitErrorGm } from '../src/models/error-gm.js';
 import { columbusData, readGolden } from './helpers/columbus.js';
 import { csrFromNeighbours, rookGrid } from './helpers/grid.js';
 import { chooseAlgebra } from '../src/linalg/choose-algebra.js';
-import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { solveShifted } from '../src/linalg/index.js';
 import { csrMultiply } from '../src/linalg/csr.js';
 import { normalSampler, seededRandom } from '../src/stats/index.js';
 

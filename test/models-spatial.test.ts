@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { denseAlgebra } from '../src/linalg/dense-algebra.js';
 import { csrMultiply } from '../src/linalg/csr.js';
-import { solveShifted } from '../src/linalg/dense-iterative.js';
+import { solveShifted } from '../src/linalg/iterative.js';
 import { fitOls, fitSpatialError, fitSpatialLag, lagImpacts, recommendModel } from '../src/models/index.js';
 import type { Design, LmTests } from '../src/models/types.js';
 import { normalSampler, seededRandom } from '../src/stats/random.js';

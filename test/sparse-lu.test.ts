@@ -14,7 +14,7 @@ import { DenseLuLogDet } from '../src/linalg/dense-lu-logdet.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import type { WeightsAlgebra } from '../src/linalg/algebra.js';
 import { fitSpatialError, fitSpatialLag } from '../src/models/index.js';
-import { seededUniform } from '../src/linalg/sparse/random.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(1e-300, Math.abs(b));
 
@@ -50,7 +50,7 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
   it('solves with the kept factor equal ml-matrix\'s dense LU solve (1e-10 relative), one right-hand side and a block of three', () => {
     const g = randomKnn(700, 6, 8);
     const lu = new SparseLuLogDet(g.w, { coordinates: { x: g.x, y: g.y } });
-    const u = seededUniform(4);
+    const u = seededRandom(4);
     for (const rho of [-0.8, 0.45, 0.97]) {
       const dense = new LuDecomposition(shifted(g.w, rho));
       const b = new Float64Array(3 * g.w.n).map(() => u() - 0.5);
@@ -97,20 +97,27 @@ describe('sparse LU of I − ρW for weights without a symmetric form', () => {
     expect(estimated.describe()).toMatch(/solves with the sparse LU factor; standard errors/);
   });
 
-  it('serves the algebra above 1,500 areas when the rows of W sum to one; binary weights keep the Monte Carlo series', () => {
+  it('serves the algebra above 1,500 areas for row-standardised and for binary weights (W ≥ 0: an H-matrix for |ρ|λmax < 1)', () => {
     const g = randomKnn(1550, 6, 5);
     const alg = sparseAlgebra(g.w, null, { coordinates: { x: g.x, y: g.y } });
     expect(alg.logdet.method).toMatch(/exact, sparse LU/);
     expect(alg.logdet.accuracy).toMatch(/exact/);
-    expect(alg.roughLogdet?.method).toMatch(/Monte Carlo/);
+    // one evaluation is cheap here (well under 2e7 multiply-adds): the exact search needs no series
+    expect(alg.roughLogdet).toBeUndefined();
+    // binary k-nearest weights used to fall back to the series; now the exact LU serves them too,
+    // checked against the dense LU with partial pivoting (its own check: ml-matrix, above)
     const binary: CsrMatrix = { ...g.w, values: new Float64Array(g.w.values.length).fill(1) };
-    expect(sparseAlgebra(binary, null).logdet.method).toMatch(/Monte Carlo/);
+    const b = sparseAlgebra(binary, null);
+    expect(b.logdet.method).toMatch(/exact, sparse LU.*H-matrix for \|ρ\| < 0\.166667/);
+    expect(b.range.upper).toBeCloseTo(1 / 6, 14);
+    const denseLu = new DenseLuLogDet(binary);
+    for (const rho of [0.1, 0.16, -0.1]) expect(rel(b.logdet.evaluate(rho), denseLu.evaluate(rho))).toBeLessThan(1e-10);
   });
 
   it('gives the lag estimate of the dense LU at every step to 1e-7 (1,550 areas, 6 nearest neighbours)', () => {
     const g = randomKnn(1550, 6, 5);
     const n = g.w.n;
-    const u = seededUniform(21);
+    const u = seededRandom(21);
     const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
     const x1 = new Float64Array(n).map(normal);
     const base = new Float64Array(n).map((_, i) => 1 + 2 * x1[i] + normal());

@@ -4,7 +4,7 @@
  * G = W A⁻¹ formed densely, determinants from its LU decomposition.
  */
 import { describe, expect, it } from 'vitest';
-import { LuDecomposition, Matrix, inverse } from 'ml-matrix';
+import { EigenvalueDecomposition, LuDecomposition, Matrix, inverse } from 'ml-matrix';
 import { randomGeometric, randomKnn, rookGrid } from '../bench/grid.js';
 import type { CsrMatrix } from '../src/linalg/csr.js';
 import { SparseCholeskyLogDet } from '../src/linalg/sparse/cholesky-logdet.js';
@@ -12,7 +12,7 @@ import { CholeskyTraces } from '../src/linalg/sparse/traces.js';
 import { GeneralTraces } from '../src/linalg/sparse/general-traces.js';
 import { powerTraces } from '../src/linalg/sparse/power-traces.js';
 import { SeriesLogDet } from '../src/linalg/sparse/series-logdet.js';
-import { symmetricForm } from '../src/linalg/sparse/similarity.js';
+import { symmetricForm } from '../src/linalg/symmetric-form.js';
 import { chooseAlgebra, sparseAlgebra } from '../src/linalg/choose-algebra.js';
 
 function dense(a: CsrMatrix): Matrix {
@@ -122,13 +122,17 @@ describe('k-nearest neighbours (no symmetric form)', () => {
     for (const key of ['trG', 'trG2', 'trGtG', 'trAinv'] as const) expect(rel(got[key], want[key])).toBeLessThan(1e-8);
   });
 
-  it('range is (−1, 1) for row-standardised W (spectral radius 1, Perron–Frobenius)', () => {
+  it('range is (1/λmin, 1) for row-standardised W, λmin the most negative real eigenvalue (ml-matrix, all eigenvalues)', () => {
     const alg = sparseAlgebra(knn.w, null);
-    expect(alg.range.lower).toBe(-1);
+    const evd = new EigenvalueDecomposition(W);
+    let min = Infinity;
+    evd.realEigenvalues.forEach((r, i) => { if (Math.abs(evd.imaginaryEigenvalues[i]) < 1e-10) min = Math.min(min, r); });
+    expect(Math.abs(alg.range.lower - 1 / min)).toBeLessThan(1e-8);
+    expect(alg.range.lower).toBeLessThan(-1); // wider than the (−1, 1) of the spectral radius
     expect(alg.range.upper).toBe(1);
-    // up to 1,500 areas the log-determinant is the exact dense LU; the series only brackets ρ
-    expect(alg.logdet.method).toMatch(/exact, LU/);
-    expect(alg.roughLogdet?.method).toMatch(/Monte Carlo/);
+    // the exact sparse LU, cheap enough at 300 areas that no series brackets ρ first
+    expect(alg.logdet.method).toMatch(/exact, sparse LU/);
+    expect(alg.roughLogdet).toBeUndefined();
   });
 });
 

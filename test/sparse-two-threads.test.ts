@@ -11,7 +11,7 @@ import { SparseCholeskyLogDet } from '../src/linalg/sparse/cholesky-logdet.js';
 import { CholeskyTraces } from '../src/linalg/sparse/traces.js';
 import { NotPositiveDefiniteError } from '../src/linalg/sparse/frontal.js';
 import { planSplit } from '../src/linalg/sparse/split.js';
-import { symmetricForm } from '../src/linalg/sparse/similarity.js';
+import { symmetricForm } from '../src/linalg/symmetric-form.js';
 import { sparseAlgebra } from '../src/linalg/sparse/sparse-algebra.js';
 import { startNodeHelper } from '../src/cli/helper-thread.js';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -62,7 +62,7 @@ describe('a second thread for the sparse Cholesky factor', () => {
     const budget = { exactBudget: 0, probes: 20, seed: 5 };
     const a = new CholeskyTraces(one, form.s, form.t, budget, g.w).traces(0.6);
     const b = new CholeskyTraces(two, form.s, form.t, budget, g.w).traces(0.6);
-    for (const key of Object.keys(a) as (keyof typeof a)[]) expect(Math.abs(a[key] - b[key])).toBeLessThanOrEqual(1e-12 * Math.abs(a[key]));
+    for (const key of ['trG', 'trG2', 'trGtG', 'trAinv', 'trWtG', 'trWG'] as const) expect(Math.abs(a[key] - b[key])).toBeLessThanOrEqual(1e-12 * Math.abs(a[key]));
   });
 
   it('runs the range\'s Lanczos on the helper with the same result as here, even when a factorisation is asked for first', () => {
@@ -91,7 +91,9 @@ describe('a second thread for the sparse Cholesky factor', () => {
       const a = JSON.parse(one.stdout), b = JSON.parse(two.stdout);
       expect(b.logDeterminant.logDeterminant).toMatch(/two threads/);
       expect(a.logDeterminant.logDeterminant).not.toMatch(/two threads/);
-      expect(Math.abs(a.lag.rho - b.lag.rho)).toBeLessThan(1e-9);
+      // the two factorisations differ by rounding, and each search stops within its tolerance of
+      // 1e-8 in ρ (bracket-polish.ts): agreement to that, not closer, is what the method promises
+      expect(Math.abs(a.lag.rho - b.lag.rho)).toBeLessThan(1e-8);
       expect(Math.abs(a.lag.logLik - b.lag.logLik)).toBeLessThan(1e-6);
       const bad = runCli([...base, '--threads', '3']);
       expect(bad.code).not.toBe(0);

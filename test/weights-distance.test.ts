@@ -4,7 +4,7 @@ import { buildWeights, summarizeWeights } from '../src/weights/index.js';
 import { assertWellFormed, haversineKm, lcg, row } from './fixtures/weights/shapes.js';
 
 // All checks here compare with brute force: every pair's distance computed directly
-// (Euclidean, or the haversine formula on a 6371 km sphere), then sorted or filtered.
+// (Euclidean, or the haversine formula on a 6371.0088 km sphere), then sorted or filtered.
 
 const ids = (n: number) => Array.from({ length: n }, (_, i) => `Z${String(i + 1).padStart(3, '0')}`);
 

@@ -84,3 +84,30 @@ describe('bad edge lists name the line', () => {
     expect(message(() => readEdgeList(head, places, { source: 'empty.csv' }))).toMatch(/empty.csv has no links/);
   });
 });
+
+describe('a list written already row-standardised', () => {
+  // The sidebar's Neighbours sheet and --neighbours files carry W = D⁻¹B itself. Read with rows
+  // standardised, it must keep a symmetric form (the identity B = D·W) so that the exact algebra for
+  // symmetric forms applies, and give the same weights as the binary list.
+  it('is recognised as the row-standardised form of symmetric links (Columbus queen, numpy reference links)', async () => {
+    const { readGolden } = await import('./helpers/columbus.js');
+    const { symmetricForm } = await import('../src/weights/index.js');
+    const nbs = readGolden().weights.neighbours as number[][];
+    const ids = nbs.map((_, i) => `A${i}`);
+    const binary = nbs.flatMap((nb, i) => nb.map((j) => `${ids[i]},${ids[j]},1`)).join('\n');
+    const standardised = nbs.flatMap((nb, i) => nb.map((j) => `${ids[i]},${ids[j]},${1 / nb.length}`)).join('\n');
+    const a = readEdgeList(binary, ids);
+    const b = readEdgeList(standardised, ids);
+    expect(b.symmetricBase).not.toBeNull();
+    Array.from(a.values).forEach((v, p) => expect(b.values[p]).toBeCloseTo(v, 15));
+    const sa = symmetricForm(a)!, sb = symmetricForm(b)!;
+    Array.from(sa.values).forEach((v, p) => expect(sb.values[p]).toBeCloseTo(v, 12));
+  });
+
+  it('a list whose weights no symmetric links explain has none (one link weighed differently)', () => {
+    const ids = ['A', 'B', 'C'];
+    // the ratios w_ij / w_ji around the triangle A→B→C→A (1 · 5 · 0.9/0.5) do not multiply to 1
+    const text = 'A,B,0.5\nA,C,0.5\nB,A,0.5\nB,C,0.5\nC,A,0.9\nC,B,0.1';
+    expect(readEdgeList(text, ids).symmetricBase).toBeNull();
+  });
+});

@@ -25,7 +25,7 @@ const geometries: AreaGeometry[] = [
 function haversineKm(lon1: number, lat1: number, lon2: number, lat2: number): number {
   const r = Math.PI / 180;
   const h = Math.sin(((lat2 - lat1) * r) / 2) ** 2 + Math.cos(lat1 * r) * Math.cos(lat2 * r) * Math.sin(((lon2 - lon1) * r) / 2) ** 2;
-  return 2 * 6371 * Math.asin(Math.sqrt(h));
+  return 2 * 6371.0088 * Math.asin(Math.sqrt(h));
 }
 
 describe('linking areas without neighbours across ±180°', () => {

@@ -200,22 +200,36 @@ export class ExcelAdapter {
     });
   }
 
+  /**
+   * The boundary files kept by an earlier run, or null when there are none. Throws with the reason in
+   * words when they are there but cannot be read (Excel refused to hand them back, or they are damaged).
+   */
   async loadBoundary(): Promise<BoundaryFile[] | null> {
-    return this.run(async (context) => {
+    const xmls = await this.run(async (context) => {
       const parts = context.workbook.customXmlParts.getByNamespace(BOUNDARY_NAMESPACE);
       parts.load('items/id');
       await context.sync();
-      if (parts.items.length === 0) return null;
-      const xmls: string[] = [];
+      const texts: string[] = [];
       // one part per response: each is at most a megabyte
       for (const part of parts.items) {
         const xml = part.getXml();
         await context.sync();
-        xmls.push(xml.value);
+        texts.push(xml.value);
       }
-      const files = readBoundaryParts(xmls);
-      return files.length ? files : null;
-    }, { repeatable: true });
+      return texts;
+    }, { repeatable: true }).catch((e: unknown) => {
+      throw new Error(`Excel did not hand back the boundary file kept in this workbook (${describe(e)}); open the original file again.`);
+    });
+    if (xmls.length === 0) return null;
+    let files: BoundaryFile[];
+    try {
+      files = readBoundaryParts(xmls);
+    } catch (e) {
+      // the reader's own messages name the file; a decoder's do not
+      if (e instanceof Error && /boundary file/.test(e.message)) throw e;
+      throw new Error(`The boundary file kept in this workbook is damaged (${describe(e)}); open the original file again.`);
+    }
+    return files.length ? files : null;
   }
 }
 
@@ -277,7 +291,14 @@ function placeAt(grid: SheetGrid, im: Pick<ReportImage, 'anchor'>) {
 export async function writePictures(budget: RequestBudget, ws: WorksheetLike, grid: SheetGrid, sheet: ReportSheet, scatter?: ScatterPoints): Promise<void> {
   for (const im of sheet.images ?? []) {
     const at = placeAt(grid, im);
-    if (scatter && im.name === SCATTER_PICTURE) {
+    const chart = scatter !== undefined && im.name === SCATTER_PICTURE;
+    // the picture described in words in the cell above it, as the .xlsx files written by exceljs have it
+    await budget.room(2 * im.alt.length + 256);
+    const caption = ws.getRangeByIndexes(Math.max(0, im.anchor.row - 2), im.anchor.col - 1, 1, 1);
+    caption.values = [[im.png.length || chart ? `Picture: ${im.alt}` : `Picture not drawn here (no PNG renderer): ${im.alt}`]];
+    caption.format.font.italic = true;
+    caption.format.font.color = STYLE.note.color!;
+    if (chart) {
       await writeScatterChart(budget, ws, grid, scatter, at, im);
       continue;
     }

@@ -9,6 +9,7 @@ import {
   ebGlobal, ebLocal, ebMoran, rateFlags, rateFromCounts, RATE_MULTIPLIERS, type RateMultiplier,
 } from '../../src/stats/index.js';
 import { readColumns, weightsFromRange, type Grid, type NeighbourOptions } from './logic.js';
+import { trimTogether } from './ranges.js';
 
 export interface RateCellOptions {
   /** the multiplier: 1, 100, 1000 (default) or 100000 */
@@ -26,7 +27,9 @@ function multiplier(per: number | undefined): RateMultiplier {
 }
 
 /** The IDs and the two count columns, read by the same rules as every cell function (a text first row is a header). */
-function readCounts(events: Grid, population: Grid, ids: Grid): { ids: string[]; events: Float64Array; population: Float64Array } {
+function readCounts(eventsRange: Grid, populationRange: Grid, idsRange: Grid): { ids: string[]; events: Float64Array; population: Float64Array } {
+  // blank rows at the end of the three ranges (whole columns) are cut together
+  const [events, population, ids] = trimTogether([eventsRange, populationRange, idsRange], ['The events range', 'The population range', 'The ID range']);
   const e = readColumns(events, ids);
   const p = readColumns(population, ids);
   // a header in one range and not in the other leaves them a row apart
@@ -67,7 +70,8 @@ function spill(raw: Float64Array, smoothed: Float64Array, weight: Float64Array, 
  */
 export function globalRateRows(events: Grid, population: Grid, o: RateCellOptions = {}): (number | string)[][] {
   multiplier(o.per);
-  const c = readCounts(events, population, placeholderIds(events));
+  const [ev, pop] = trimTogether([events, population], ['The events range', 'The population range']);
+  const c = readCounts(ev, pop, placeholderIds(ev));
   const g = ebGlobal(c.events, c.population);
   return spill(rawRates(c), g.rate, g.weight, c.events, o);
 }

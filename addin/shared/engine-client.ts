@@ -1,5 +1,6 @@
 /** Talks to the engine worker: one call per job, progress callbacks, and cancel (which ends the worker). */
 import type { EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
+import { startEngineWorker } from './engine-worker.js';
 
 export class EngineFailure extends Error {
   constructor(readonly detail: EngineError) {
@@ -23,7 +24,7 @@ export class EngineClient {
   private readonly pending = new Map<number, Pending>();
 
   private spawn(): Worker {
-    const w = new Worker(new URL('./worker.ts', import.meta.url), { type: 'module', name: 'spillway-engine' });
+    const w = startEngineWorker();
     w.onmessage = (e: MessageEvent<WorkerMessage>) => {
       const m = e.data;
       const p = this.pending.get(m.id);

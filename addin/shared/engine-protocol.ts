@@ -59,7 +59,9 @@ export type EngineJob =
   | { op: 'table'; file: NamedBytesLike; sheet?: string }
   | { op: 'check'; check: CheckRequest }
   | { op: 'run'; request: Omit<AnalysisRequest, 'onProgress'> }
-  | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string };
+  | { op: 'workbook'; report: Report; base?: Uint8Array; baseName?: string }
+  /** the areas of the last run with their results, as GeoJSON */
+  | { op: 'geojson' };
 
 export type EngineAnswer =
   | { op: 'models'; models: ModelChoice[] }
@@ -67,7 +69,8 @@ export type EngineAnswer =
   | { op: 'table'; table: TableSnapshot }
   | { op: 'check'; result: CheckResult }
   | { op: 'run'; output: RunOutput }
-  | { op: 'workbook'; bytes: Uint8Array; /** why the results went to a new workbook rather than a copy of the user's */ note?: string };
+  | { op: 'workbook'; bytes: Uint8Array; /** why the results went to a new workbook rather than a copy of the user's */ note?: string }
+  | { op: 'geojson'; text: string; areas: number; note: string | null };
 
 export interface EngineError {
   message: string;

@@ -9,6 +9,8 @@ import { button, checkbox, clear, h, message, numberInput, select, setDisabled, 
 import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckRequest, CheckResult, EngineError, ModelChoice } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
+import { saveAreasButton } from './save-areas.js';
+import { functionsHelp } from './functions-help.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import { joinProblemLines } from './join-lines.js';
 import { builtRateParts, rateParts } from './rate-parts.js';
@@ -166,10 +168,13 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const pointsButton = button('Use coordinate columns instead', () => { s.areas = { kind: 'points' }; newPlaces(); drawAreas(); }, { id: 'use-points' });
   areas.body.append(h('p', { class: 'hint' }, 'GeoJSON, TopoJSON or a zipped shapefile. It stays on this computer.'), h('div', { class: 'buttons' }, openButton, pointsButton), fileInput);
   const areaChoice = h('div');
-  areas.body.append(areaChoice);
+  // why a boundary kept in the workbook could not be read; stays until another choice is made
+  const storedNote = h('div', { id: 'stored-boundary-note' });
+  areas.body.append(storedNote, areaChoice);
 
   function drawAreas() {
     clear(areaChoice);
+    if (s.areas) clear(storedNote);
     if (s.areas?.kind === 'file') {
       areaChoice.append(h('p', {}, `Boundaries: ${s.areas.files.map((f) => f.name).join(', ')}${s.areas.stored ? ' (kept in this workbook from an earlier run)' : ''}.`));
     } else if (s.areas?.kind === 'points' && s.profile) {
@@ -534,6 +539,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       showDone(output.summary, outcome.message);
       if (notKept) run.found.append(message('warning', notKept));
       if (outcome.download) run.found.append(h('p', {}, h('a', { href: outcome.download.url, download: outcome.download.fileName, id: 'download' }, `Save ${outcome.download.fileName} again`)));
+      run.found.append(saveAreasButton(engine, host.kind === 'page' ? (s.source?.file.name ?? 'data').replace(/\.[^.]+$/, '') : s.source?.table.sheet ?? 'sheet'));
       for (const w of output.warnings) run.found.append(message('warning', w));
       const rateMaps = output.report.sheets.find((sheet) => sheet.role === 'rates')?.images ?? [];
       if (rateMaps.length) {
@@ -569,6 +575,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     run.found.append(h('details', {}, h('summary', {}, 'Why this model'), h('p', {}, summary.suggestion.text)));
   }
 
+  // the cell functions, where there are cells (Excel)
+  if (host.kind === 'excel') root.append(functionsHelp());
+
   // ---- the last setup, and boundaries kept in the document
   void (async () => {
     saved = await host.loadSetup().catch(() => null);
@@ -595,7 +604,14 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       // the table may have arrived before the setup did
       if (s.source) useTable(s.source);
     }
-    const stored = await host.loadBoundary().catch(() => null);
+    // a kept boundary that cannot be read is said plainly; the table, the setup and a new file still work
+    const stored = await host.loadBoundary().catch((e: unknown) => {
+      // the adapter's reasons name the kept file and end by asking for the original again
+      const why = (e instanceof Error ? e.message : String(e)).trim();
+      const tail = /open the original file again/i.test(why) ? '' : ' Open the boundary file again to run.';
+      if (!s.areas) clear(storedNote, message('warning', `${why}${tail} The table and the other settings work as before.`));
+      return null;
+    });
     if (stored && !s.areas) {
       s.areas = { kind: 'file', files: stored, stored: true, idProperty: saved?.areas?.kind === 'file' ? saved.areas.idProperty : undefined };
       drawAreas();

@@ -5,7 +5,7 @@
 import { InputError } from '../../src/errors.js';
 import { readTable, joinAreas, JoinError, idPropertyCandidates, emptyJoinReport, workbookSheets } from '../../src/geo/index.js';
 import { readLayerAndTable, runAnalysis, type AnalysisResult } from '../../src/pipeline/index.js';
-import { buildReport, scatterPoints } from '../../src/report/index.js';
+import { buildReport, projectedNote, resultsGeoJsonText, scatterPoints } from '../../src/report/index.js';
 import type { WeightsSpec } from '../../src/weights/index.js';
 import { buildWeights, suggestBandDistance, summarizeWeights, tieWarning } from '../../src/weights/index.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
@@ -69,11 +69,21 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   return result;
 }
 
+/** The last run's result, kept for "Save areas with results". */
+let lastResult: AnalysisResult | null = null;
+
+function areasGeoJson(): EngineAnswer {
+  if (!lastResult) throw new InputError('There are no results yet: run the analysis first.');
+  return { op: 'geojson', text: resultsGeoJsonText(lastResult), areas: lastResult.n, note: projectedNote(lastResult) };
+}
+
 async function run(id: number, request: EngineJob & { op: 'run' }): Promise<RunOutput> {
+  lastResult = null;
   const result = await runAnalysis({
     ...request.request,
     onProgress: (fraction, stage) => scope.postMessage({ id, kind: 'progress', fraction: 0.9 * fraction, stage }),
   });
+  lastResult = result;
   scope.postMessage({ id, kind: 'progress', fraction: 0.92, stage: 'Laying out the results' });
   // The pictures come back as SVG; the page draws them to PNG (a worker has no SVG decoder).
   const report = buildReport(result);
@@ -105,6 +115,7 @@ async function answer(id: number, job: EngineJob): Promise<EngineAnswer> {
       const bytes = await writeResultsWorkbook(job.report, { base, baseName: job.baseName });
       return { op: 'workbook', bytes, ...(risks.length ? { note: `${job.baseName ?? 'Your workbook'} holds ${risks.join(', ')}, which a copy could not keep, so the results are in a new workbook of their own.` } : {}) };
     }
+    case 'geojson': return areasGeoJson();
   }
 }
 

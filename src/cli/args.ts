@@ -37,7 +37,11 @@ export interface FitArgs {
   json: boolean;
   perArea: boolean;
   out?: string;
-  /** replace an existing --out file (never an input, never a read-only file) */
+  /** per-area results joined to the shapes, as GeoJSON */
+  outGeojson?: string;
+  /** folder for the maps and plots as SVG and PNG files */
+  pictures?: string;
+  /** replace an existing --out, --out-geojson or picture file (never an input, never a read-only file) */
   overwrite: boolean;
 }
 
@@ -52,7 +56,10 @@ Files
   --sheet NAME         sheet of the .xlsx table (default: the first)
   --out FILE.xlsx      write the results workbook (a copy of the --data workbook, or a new one);
                        never one of the input files
-  --overwrite          replace the --out file if it exists (a read-only file is never replaced)
+  --out-geojson FILE   write each area's shape with its results (fitted values, residuals, local
+                       statistics) as GeoJSON, for mapping in any GIS
+  --pictures DIR       write the maps and plots as separate SVG and PNG files into DIR
+  --overwrite          replace an output file that exists (a read-only file is never replaced)
 
 Model
   --id COLUMN          column that identifies each area, in the table and the boundary file
@@ -125,7 +132,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         transform: { type: 'string' }, models: { type: 'string' }, 'drop-missing': { type: 'boolean' },
         robust: { type: 'boolean' }, seed: { type: 'string' }, draws: { type: 'string' },
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
-        'per-area': { type: 'boolean' }, out: { type: 'string' }, overwrite: { type: 'boolean' },
+        'per-area': { type: 'boolean' }, out: { type: 'string' }, 'out-geojson': { type: 'string' }, pictures: { type: 'string' }, overwrite: { type: 'boolean' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
         rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
       },
@@ -157,7 +164,11 @@ export function parseFitArgs(argv: string[]): FitArgs {
     }
   }
   if (v.out !== undefined && !/\.xlsx$/i.test(v.out)) throw new InputError(`--out must name an .xlsx file, not "${v.out}".`);
-  if (v.overwrite && v.out === undefined) throw new InputError('--overwrite goes with --out (the results workbook to replace).');
+  if (v['out-geojson'] !== undefined && !/\.(geo)?json$/i.test(v['out-geojson'])) throw new InputError(`--out-geojson must name a .geojson (or .json) file, not "${v['out-geojson']}".`);
+  if (v.pictures !== undefined && !v.pictures.trim()) throw new InputError('--pictures needs a folder name.');
+  if (v.overwrite && v.out === undefined && v['out-geojson'] === undefined && v.pictures === undefined) {
+    throw new InputError('--overwrite goes with --out, --out-geojson or --pictures (the output files to replace).');
+  }
   return {
     boundary: need('boundary'),
     layer: v.layer,
@@ -188,6 +199,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
+    outGeojson: v['out-geojson'],
+    pictures: v.pictures,
     overwrite: v.overwrite ?? false,
   };
 }

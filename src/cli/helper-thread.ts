@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import type { HelperInit, StartHelperThread } from '../linalg/sparse/index.js';
+import type { HelperInit, StartHelperThread } from '../linalg/index.js';
 
 export const startNodeHelper: StartHelperThread = (init: HelperInit): void => {
   const fromSource = fileURLToPath(import.meta.url).endsWith('.ts');

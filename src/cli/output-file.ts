@@ -1,7 +1,8 @@
 /**
- * Where the results workbook may go. Checked before the analysis runs (a refusal costs the user no
- * waiting) and the write itself never replaces a file it was not allowed to:
- * - the --out path is resolved to the file it would really write (after `..`, symlinks and letter
+ * Where an output file may go: the results workbook (--out), the areas as GeoJSON (--out-geojson), each
+ * picture (--pictures). Checked before the analysis runs where the name is known then (a refusal costs
+ * the user no waiting) and the write itself never replaces a file it was not allowed to:
+ * - the path is resolved to the file it would really write (after `..`, symlinks and letter
  *   case on file systems that ignore it) and compared with every input by path and by file identity
  *   (device and inode, which also catches hard links): an input is never overwritten;
  * - an existing file is replaced only with --overwrite, never when it is read-only (its permissions
@@ -32,7 +33,11 @@ export interface OutputPlan {
   notes: string[];
 }
 
-export function planOutput(out: string, inputs: InputPath[], overwrite: boolean): OutputPlan {
+/**
+ * Checks one output path against the inputs and what is already there. `option` names the option in
+ * messages ("--out", "--out-geojson", "--pictures"); the stale temporary files of its folder are swept.
+ */
+export function planOutput(out: string, inputs: InputPath[], overwrite: boolean, option = '--out'): OutputPlan {
   const given = out;
   const full = resolve(out);
   let link: Stats | null = null;
@@ -40,7 +45,7 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean)
     link = lstatSync(full);
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
-    if (code !== 'ENOENT' && code !== 'ENOTDIR') throw new InputError(`Cannot use --out "${given}" (${code ?? 'error'}).`, { file: given });
+    if (code !== 'ENOENT' && code !== 'ENOTDIR') throw new InputError(`Cannot use ${option} "${given}" (${code ?? 'error'}).`, { file: given });
   }
   let target: string;
   let existing: Stats | null = null;
@@ -52,7 +57,7 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean)
       if (!statSync(realFolder).isDirectory()) throw Object.assign(new Error('not a folder'), { code: 'ENOTDIR' });
     } catch {
       const why = whyMissing(out);
-      throw new InputError(`Cannot write --out "${given}": ${why || `the folder "${dirname(out)}" does not exist`}. Create the folder or choose another output path.`, { file: given });
+      throw new InputError(`Cannot write ${option} "${given}": ${why || `the folder "${dirname(out)}" does not exist`}. Create the folder or choose another output path.`, { file: given });
     }
     target = join(realFolder, basename(full));
     // on a file system that ignores letter case, "Book.xlsx" may already be "book.xlsx"
@@ -66,7 +71,7 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean)
       target = realpathSync(full);
       existing = statSync(target);
     } catch {
-      throw new InputError(`Cannot write --out "${given}": it is a link to a file that does not exist. Remove the link or choose another output path.`, { file: given });
+      throw new InputError(`Cannot write ${option} "${given}": it is a link to a file that does not exist. Remove the link or choose another output path.`, { file: given });
     }
   }
 
@@ -82,8 +87,10 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean)
     const same = realInput === target || (existing !== null && st.dev === existing.dev && st.ino === existing.ino);
     if (same) {
       throw new InputError(
-        `--out "${given}" is the same file as the ${input.option} file "${input.path}"; Spillway never writes over its inputs. ` +
-          `Name a new file for the results, e.g. --out ${suggestName(input.path)}.`,
+        `${option} "${given}" is the same file as the ${input.option} file "${input.path}"; Spillway never writes over its inputs. ` +
+          (option === '--pictures'
+            ? 'Name another folder for the pictures.'
+            : `Name a new file for the results, e.g. ${option} ${suggestName(input.path, extname(given))}.`),
         { file: given },
       );
     }
@@ -91,9 +98,9 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean)
 
   let replaceMode: number | undefined;
   if (existing) {
-    if (existing.isDirectory()) throw new InputError(`Cannot write --out "${given}": it is a folder. Name a file inside it, e.g. --out ${join(given, 'results.xlsx')}.`, { file: given });
+    if (existing.isDirectory()) throw new InputError(`Cannot write ${option} "${given}": it is a folder. Name a file inside it, e.g. ${option} ${join(given, `results${extname(given) || '.xlsx'}`)}.`, { file: given });
     const kind = specialKind(existing);
-    if (kind) throw new InputError(`Cannot write --out "${given}": it is ${kind}, not a regular file. Name a file.`, { file: given });
+    if (kind) throw new InputError(`Cannot write ${option} "${given}": it is ${kind}, not a regular file. Name a file.`, { file: given });
     const what = `"${given}" already exists (${formatBytes(existing.size)}, last changed ${existing.mtime.toISOString().slice(0, 16).replace('T', ' ')} UTC)`;
     if (isReadOnly(target, existing)) {
       throw new InputError(
@@ -123,9 +130,9 @@ function formatBytes(n: number): string {
   return n >= 2 ** 20 ? `${(n / 2 ** 20).toFixed(1)} MiB` : n >= 1024 ? `${(n / 1024).toFixed(0)} KiB` : `${n} bytes`;
 }
 
-function suggestName(inputPath: string): string {
+function suggestName(inputPath: string, ext: string): string {
   const stem = basename(inputPath, extname(inputPath));
-  return join(dirname(inputPath), `${stem}-results.xlsx`);
+  return join(dirname(inputPath), `${stem}-results${ext || '.xlsx'}`);
 }
 
 /** Removes our own temporary files left by runs that were killed before they could clean up. */
@@ -150,4 +157,61 @@ export function sweepStaleParts(folder: string): string[] {
   return removed.length
     ? [`removed ${removed.length} unfinished temporary file(s) left in ${folder} by an earlier run that was stopped: ${removed.join(', ')}.`]
     : [];
+}
+
+export interface PictureFolder {
+  /** the folder as the user gave it (for messages) */
+  given: string;
+  /** the folder that will really hold the pictures (links followed; made after the run when missing) */
+  folder: string;
+  exists: boolean;
+  notes: string[];
+}
+
+/**
+ * Checks the --pictures folder before the run: an existing folder (stale temporary files swept), or
+ * a new one (made after the run) whose parent exists and is writable; missing parents are not made, as a
+ * typing slip should not leave a tree of folders. A file, a named pipe or a path through a file is
+ * refused by name. The
+ * picture files themselves are checked one by one once their names are known, before any is written.
+ */
+export function planPictureFolder(dir: string): PictureFolder {
+  const given = dir;
+  const full = resolve(dir);
+  const statOrNull = (f: (p: string) => Stats): Stats | null => {
+    try {
+      return f(full);
+    } catch {
+      return null; // missing, or a path through a file: told apart below
+    }
+  };
+  const link = statOrNull((p) => lstatSync(p));
+  const st = link ? statOrNull((p) => statSync(p)) : null;
+  if (link && !st) throw new InputError(`Cannot use --pictures "${given}": it is a link to a folder that does not exist. Remove the link or name another folder.`, { file: given });
+  if (st) {
+    if (!st.isDirectory()) {
+      const kind = specialKind(st);
+      throw new InputError(`--pictures "${given}" is ${kind ?? 'a file'}, not a folder; name a folder for the pictures (it is made when missing).`, { file: given });
+    }
+    const folder = realpathSync(full);
+    return { given, folder, exists: true, notes: sweepStaleParts(folder) };
+  }
+  const parent = dirname(full);
+  let parentIsFolder = false;
+  try {
+    parentIsFolder = statSync(parent).isDirectory();
+  } catch {
+    parentIsFolder = false;
+  }
+  if (!parentIsFolder) {
+    const why = whyMissing(dir);
+    throw new InputError(`Cannot make the --pictures folder "${given}": ${why || `the folder "${dirname(dir)}" does not exist`}. Create it or name another folder.`, { file: given });
+  }
+  const realParent = realpathSync(parent);
+  try {
+    accessSync(realParent, constants.W_OK);
+  } catch {
+    throw new InputError(`Cannot make the --pictures folder "${given}": the folder "${dirname(dir)}" is not writable. Name another folder.`, { file: given });
+  }
+  return { given, folder: join(realParent, basename(full)), exists: false, notes: [] };
 }

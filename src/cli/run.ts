@@ -3,7 +3,7 @@ import { runAnalysis, resultToJson } from '../pipeline/index.js';
 import { ENGINE_VERSION } from '../version.js';
 import { FIT_USAGE, parseFitArgs } from './args.js';
 import { boundaryPaths, readBoundaryFiles, readNamedFile } from './read-files.js';
-import { planOutput, type InputPath } from './output-file.js';
+import { planOutput, planPictureFolder, type InputPath } from './output-file.js';
 import { formatSummary } from './summary.js';
 import { startNodeHelper } from './helper-thread.js';
 
@@ -51,7 +51,12 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
       ...(args.edgeList ? [{ path: args.edgeList, option: '--neighbours' }] : []),
     ];
     const output = args.out ? planOutput(args.out, inputs, args.overwrite) : undefined;
-    for (const note of output?.notes ?? []) io.stderr(`spillway: note: ${note}\n`);
+    const geojson = args.outGeojson ? planOutput(args.outGeojson, inputs, args.overwrite, '--out-geojson') : undefined;
+    const pictures = args.pictures ? planPictureFolder(args.pictures) : undefined;
+    if (output && geojson && output.target === geojson.target) {
+      throw new InputError(`--out-geojson "${geojson.given}" is the same file as --out "${output.given}"; name two different files.`, { file: geojson.given });
+    }
+    for (const note of [...output?.notes ?? [], ...geojson?.notes ?? [], ...pictures?.notes ?? []]) io.stderr(`spillway: note: ${note}\n`);
     const data = args.data ? readNamedFile(args.data, 'data') : undefined;
     const result = await runAnalysis({
       boundary: readBoundaryFiles(args.boundary),
@@ -80,14 +85,24 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
       ...(args.rates ? { rates: args.rates } : {}),
       algebra: args.algebra,
     }, args.threads === 2 ? { helper: startNodeHelper } : {});
+    // the pictures' names are known once they are drawn: all are checked before any output is written
+    const picturePlan = pictures ? (await import('./write-extras.js')).planPictureFiles(result, pictures, inputs, args.overwrite) : undefined;
     if (output) {
       const { writeResultsFile } = await import('./write-results.js');
       const source = args.data && data ? { path: args.data, bytes: data.bytes } : undefined;
       const opts = output.replaceMode !== undefined ? { replace: true, mode: output.replaceMode } : {};
       for (const note of await writeResultsFile(result, output.target, source, opts)) io.stderr(`spillway: note: ${note}\n`);
     }
+    if (geojson) {
+      const { writeGeoJsonFile } = await import('./write-extras.js');
+      for (const note of await writeGeoJsonFile(result, geojson)) io.stderr(`spillway: note: ${note}\n`);
+    }
+    if (picturePlan) {
+      const { writePictureFiles } = await import('./write-extras.js');
+      io.stderr(`spillway: pictures in ${picturePlan.pictures.given}: ${(await writePictureFiles(picturePlan)).join(', ')}\n`);
+    }
     if (args.json) rawIo.stdout(jsonPrintable(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2)) + '\n');
-    else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : ''));
+    else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : '') + (args.outGeojson ? `Areas with results (GeoJSON): ${args.outGeojson}\n` : ''));
     return 0;
   } catch (e) {
     if (e instanceof InputError) {

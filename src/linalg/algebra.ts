@@ -1,5 +1,6 @@
 import type { CsrMatrix } from './csr.js';
 import type { AdmissibleRange, LogDeterminant } from './logdet.js';
+import type { TraceInverseCurve } from './trace-inverse-curve.js';
 
 /** Traces needed by the ML information matrices and by impacts, at one value of ρ (or λ). */
 export interface TracesAt {
@@ -15,6 +16,8 @@ export interface TracesAt {
   trWtG?: number;
   /** tr WG (optional, as trWtG) */
   trWG?: number;
+  /** Set when an iterative solve behind these traces stopped short of its tolerance: how many, how far. */
+  unconverged?: string;
 }
 
 /**
@@ -32,8 +35,10 @@ export interface WeightsAlgebra {
   traces(rho: number): TracesAt;
   /** tr(Wᵏ) for k = 1..count (index 0 holds k = 1), for series expansions of impacts. */
   powerTraces(count: number): Float64Array;
-  /** How traces are computed ("exact ..." or an estimate with its precision). */
+  /** How traces are computed (exact, or an estimate with its precision), for the report. */
   readonly traceMethod: string;
+  /** Whether `traces` are exact (to rounding and solver tolerance) rather than stochastic estimates. */
+  readonly tracesExact: boolean;
   /**
    * Optional: a cheap approximation of the log-determinant, used only to bracket the maximum of a
    * concentrated likelihood before exact evaluations polish it (its method and accuracy say what it is).
@@ -41,8 +46,12 @@ export interface WeightsAlgebra {
   readonly roughLogdet?: LogDeterminant;
   /** Optional: x = (I − ρW)⁻¹ b by a direct method (e.g. the factor kept from `traces` at that ρ). */
   solve?(rho: number, b: Float64Array): Float64Array;
-  /** Optional: fast tr(I − ρW)⁻¹ at many ρ (impact simulations), when `traces` is costly per ρ. */
-  readonly traceInverse?: { evaluate(rho: number): number; readonly method: string };
+  /**
+   * Optional: fast tr(I − ρW)⁻¹ at many ρ within [lo, hi] (the impact draws), when `traces` is
+   * costly per ρ. Built once per call; its level may be an estimate (impacts anchor it to the
+   * traces at ρ̂), its change with ρ is what the draws use.
+   */
+  traceInverseCurve?(lo: number, hi: number): TraceInverseCurve;
   /** Optional: lets go of what outlives a run (a helper thread); the algebra stays usable on one thread. */
   dispose?(): void;
 }

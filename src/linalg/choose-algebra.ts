@@ -1,19 +1,18 @@
 /**
  * One place decides how the weights algebra is computed, by size and by whether W has a symmetric
  * form S (W = T S T⁻¹, T diagonal — contiguity and other symmetric links, row-standardised or not):
- *  - with S: all eigenvalues (dense) up to 500 areas; above, the exact sparse Cholesky of I − ρS.
- *    Both are exact; measured on this kind of machine (random planar-like graphs, eigenvalues and
- *    traces vs factorisation, eight evaluations and traces): 0.20 s vs 0.36 s at 300 areas,
- *    0.56 s vs 0.33 s at 600, 2.2 s vs 0.36 s at 1,000 — dense grows as n³.
+ *  - with S: all eigenvalues (dense) up to 500 areas; above, the exact sparse Cholesky of I − ρS
+ *    (dense work grows as n³; bench/README.md has the crossover measured);
  *  - without S (e.g. k-nearest neighbours): all complex eigenvalues (dense, ml-matrix) up to 150
- *    areas (0.35 s at 150, 0.96 s at 300); exact dense LU per evaluation up to 1,500 (9 ms at 600);
- *    above, the Monte Carlo series with its stated error bound.
+ *    areas; above, the exact sparse LU (sparse/sparse-algebra.ts).
+ * Whichever serves, the admissible range follows the one rule of range.ts, so it does not move
+ * where the method changes.
  */
 import type { CsrMatrix } from './csr.js';
 import type { WeightsAlgebra } from './algebra.js';
 import { denseAlgebra } from './dense-algebra.js';
 import { sparseAlgebra as sparse, type SparseOptions } from './sparse/sparse-algebra.js';
-import { symmetricForm } from './sparse/similarity.js';
+import { symmetricForm } from './symmetric-form.js';
 
 /** Largest n served by dense eigenvalues when W has a symmetric form. */
 export const DENSE_LIMIT = 500;

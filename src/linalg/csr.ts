@@ -43,3 +43,128 @@ export function csrEntry(a: CsrMatrix, i: number, j: number): number {
   }
   return 0;
 }
+
+/** The one tolerance for "rows sum to one": |Σ_j w_ij − 1| ≤ 1e-10 (row standardisation rounds far below it). */
+export const ROW_SUM_TOLERANCE = 1e-10;
+
+/** Σ_j a_ij for every row i. */
+export function rowSums(a: CsrMatrix): Float64Array {
+  const out = new Float64Array(a.n);
+  for (let i = 0; i < a.n; i++) {
+    let s = 0;
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) s += a.values[p];
+    out[i] = s;
+  }
+  return out;
+}
+
+/** True when every entry is ≥ 0. */
+export function isNonNegative(a: CsrMatrix): boolean {
+  for (let p = 0; p < a.rowPtr[a.n]; p++) if (!(a.values[p] >= 0)) return false;
+  return true;
+}
+
+/**
+ * Entries nonnegative and every row summing to one within ROW_SUM_TOLERANCE (then λmax = 1). Rows
+ * without entries (areas without neighbours) pass unless `allowEmptyRows` is false.
+ */
+export function isRowStochastic(a: CsrMatrix, opts: { allowEmptyRows?: boolean } = {}): boolean {
+  const allowEmpty = opts.allowEmptyRows ?? true;
+  for (let i = 0; i < a.n; i++) {
+    let s = 0;
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) {
+      if (!(a.values[p] >= 0)) return false;
+      s += a.values[p];
+    }
+    if (a.rowPtr[i + 1] === a.rowPtr[i] && allowEmpty) continue;
+    if (Math.abs(s - 1) > ROW_SUM_TOLERANCE) return false;
+  }
+  return true;
+}
+
+/** max_i Σ_j |a_ij| (the ∞-norm, a bound on the spectral radius). */
+export function maxAbsRowSum(a: CsrMatrix): number {
+  let best = 0;
+  for (let i = 0; i < a.n; i++) {
+    let s = 0;
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) s += Math.abs(a.values[p]);
+    if (s > best) best = s;
+  }
+  return best;
+}
+
+/** Aᵀ in CSR (rows visited in order, so each row of Aᵀ comes out sorted by column). */
+export function transpose(a: CsrMatrix): CsrMatrix {
+  const n = a.n, nnz = a.rowPtr[n];
+  const rowPtr = new Int32Array(n + 1);
+  for (let p = 0; p < nnz; p++) rowPtr[a.colIdx[p] + 1]++;
+  for (let i = 0; i < n; i++) rowPtr[i + 1] += rowPtr[i];
+  const colIdx = new Int32Array(nnz), values = new Float64Array(nnz);
+  const next = rowPtr.slice(0, n);
+  for (let i = 0; i < n; i++) {
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) {
+      const q = next[a.colIdx[p]]++;
+      colIdx[q] = i;
+      values[q] = a.values[p];
+    }
+  }
+  return { n, rowPtr, colIdx, values };
+}
+
+/**
+ * True when A equals its transpose: same pattern, values agreeing to 1e-12 relative (values
+ * computed from the same distance in either direction may differ in the last bit).
+ */
+export function isSymmetric(a: CsrMatrix): boolean {
+  for (let i = 0; i < a.n; i++) {
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) {
+      const j = a.colIdx[p];
+      let lo = a.rowPtr[j], hi = a.rowPtr[j + 1] - 1, q = -1;
+      while (lo <= hi) {
+        const mid = (lo + hi) >> 1;
+        if (a.colIdx[mid] === i) { q = mid; break; }
+        if (a.colIdx[mid] < i) lo = mid + 1;
+        else hi = mid - 1;
+      }
+      if (q < 0) return false;
+      const x = a.values[p], y = a.values[q];
+      if (Math.abs(x - y) > 1e-12 * Math.max(Math.abs(x), Math.abs(y))) return false;
+    }
+  }
+  return true;
+}
+
+/** tr A = Σ a_ii. */
+export function traceOf(a: CsrMatrix): number {
+  let t = 0;
+  for (let i = 0; i < a.n; i++) for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) if (a.colIdx[p] === i) t += a.values[p];
+  return t;
+}
+
+/** tr A² = Σ_ij a_ij a_ji. */
+export function traceOfSquare(a: CsrMatrix): number {
+  let t = 0;
+  for (let i = 0; i < a.n; i++) {
+    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) t += a.values[p] * csrEntry(a, a.colIdx[p], i);
+  }
+  return t;
+}
+
+/** tr AᵀA = Σ_ij a_ij². */
+export function frobeniusSquared(a: CsrMatrix): number {
+  let t = 0;
+  for (let p = 0; p < a.rowPtr[a.n]; p++) t += a.values[p] * a.values[p];
+  return t;
+}
+
+/** tr(WᵀW + WW), the constant T of the Lagrange-multiplier tests. */
+export function lmTrace(w: CsrMatrix): number {
+  let sum = 0;
+  for (let i = 0; i < w.n; i++) {
+    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
+      const v = w.values[p];
+      sum += v * v + v * csrEntry(w, w.colIdx[p], i);
+    }
+  }
+  return sum;
+}

@@ -1,8 +1,10 @@
 import type { TracesAt, WeightsAlgebra } from './algebra.js';
-import { csrEntry, csrMultiply, type CsrMatrix } from './csr.js';
+import { csrMultiply, isSymmetric, lmTrace, type CsrMatrix } from './csr.js';
 import { csrToDense, generalEigenvalues, symmetricEigenvalues } from './dense-eigen.js';
-import { shiftedSolver } from './dense-iterative.js';
-import type { AdmissibleRange, LogDeterminant } from './logdet.js';
+import { shiftedSolver } from './iterative.js';
+import type { LogDeterminant } from './logdet.js';
+import { rangeFromAllEigenvalues } from './range.js';
+import { symmetricForm } from './symmetric-form.js';
 
 /**
  * Weights algebra from all eigenvalues of W, for n up to about 2,000 (Ord 1975: ln|I − ρW| =
@@ -25,7 +27,7 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
   let re: Float64Array;
   let im: Float64Array | null = null;
   let source: string;
-  const s = wSymmetric ? w : symmetric ? similarSymmetric(w, symmetric) : null;
+  const s = wSymmetric ? w : symmetricForm(w, symmetric)?.s ?? null;
   if (s) {
     re = symmetricEigenvalues(csrToDense(s), n);
     source = wSymmetric ? 'eigenvalues of W (symmetric)' : 'eigenvalues of the symmetric matrix similar to W';
@@ -36,26 +38,7 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
     source = 'real and complex eigenvalues of W';
   }
   const imag = im;
-  const isReal = (i: number): boolean => imag === null || Math.abs(imag[i]) <= 1e-10 * Math.max(1, Math.abs(re[i]));
-
-  let eigenMin = Infinity;
-  let eigenMax = -Infinity;
-  let radius = 0;
-  for (let i = 0; i < n; i++) {
-    radius = Math.max(radius, imag ? Math.hypot(re[i], imag[i]) : Math.abs(re[i]));
-    if (!isReal(i)) continue;
-    eigenMin = Math.min(eigenMin, re[i]);
-    eigenMax = Math.max(eigenMax, re[i]);
-  }
-  if (!(eigenMin < 0)) eigenMin = -radius;
-  if (!(eigenMax > 0)) eigenMax = radius;
-  const range: AdmissibleRange = {
-    lower: 1 / eigenMin,
-    upper: 1 / eigenMax,
-    eigenMin,
-    eigenMax,
-    method: `exact, ${source}`,
-  };
+  const range = rangeFromAllEigenvalues(re, im, source);
 
   const logdet: LogDeterminant = {
     evaluate(rho: number): number {
@@ -99,14 +82,17 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
         trG2 += gRe * gRe - gIm * gIm;
       }
     }
-    let cached: number | undefined;
+    let cached: { value: number; unconverged?: string } | undefined;
+    const gtg = () => (cached ??= wSymmetric ? { value: trG2 } : traceGtG(w, rho));
     return {
       trAinv,
       trG,
       trG2,
       get trGtG(): number {
-        if (cached === undefined) cached = wSymmetric ? trG2 : traceGtG(w, rho);
-        return cached;
+        return gtg().value;
+      },
+      get unconverged(): string | undefined {
+        return cached?.unconverged;
       },
     };
   }
@@ -135,6 +121,7 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
     range,
     lmTrace: lmTrace(w),
     traces,
+    tracesExact: true,
     powerTraces,
     traceMethod: wSymmetric
       ? `exact, ${source}`
@@ -142,110 +129,21 @@ export function denseAlgebra(w: CsrMatrix, symmetric: CsrMatrix | null): Weights
   };
 }
 
-/** tr(WᵀW + WW) = Σ w_ij² + Σ w_ij w_ji, straight from the CSR entries: O(nnz log). */
-export function lmTrace(w: CsrMatrix): number {
-  let sum = 0;
-  for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
-      const v = w.values[p];
-      sum += v * v + v * entry(w, w.colIdx[p], i);
-    }
-  }
-  return sum;
-}
-
-/** W[i, j]: one lookup shared with the rest of linalg. */
-export const entry = csrEntry;
-
-function isSymmetric(w: CsrMatrix): boolean {
-  for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) {
-      const v = w.values[p];
-      if (Math.abs(v - entry(w, w.colIdx[p], i)) > 1e-12 * Math.abs(v)) return false;
-    }
-  }
-  return true;
-}
-
-/**
- * Returns S symmetric with W = E⁻¹SE (E diagonal). Accepts S itself (checked entrywise with the
- * scaling recovered from W_ij/S_ij) or the symmetric base C of W = D⁻¹C (then S = D^-½CD^-½).
- * Throws when `symmetric` is neither: the caller passed weights that do not belong together.
- */
-function similarSymmetric(w: CsrMatrix, sym: CsrMatrix): CsrMatrix {
-  if (sym.n !== w.n) throw new Error(`symmetric matrix has order ${sym.n}, W has ${w.n}`);
-  const n = w.n;
-  const rowSum = new Float64Array(n);
-  for (let i = 0; i < n; i++) for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) rowSum[i] += sym.values[p];
-  // the base C: W_ij = C_ij / Σ_j C_ij
-  let isBase = true;
-  for (let i = 0; i < n && isBase; i++) {
-    for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) {
-      const expected = sym.values[p] / rowSum[i];
-      if (Math.abs(entry(w, i, sym.colIdx[p]) - expected) > 1e-10 * Math.abs(expected)) {
-        isBase = false;
-        break;
-      }
-    }
-  }
-  if (isBase && sameNonzeros(w, sym)) {
-    const scale = rowSum.map((d) => (d > 0 ? 1 / Math.sqrt(d) : 0));
-    const values = new Float64Array(sym.values.length);
-    for (let i = 0; i < n; i++) {
-      for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) values[p] = sym.values[p] * scale[i] * scale[sym.colIdx[p]];
-    }
-    return { n, rowPtr: sym.rowPtr, colIdx: sym.colIdx, values };
-  }
-  // S itself: W_ij = S_ij e_j / e_i; check that W's entries are all explained by one scaling
-  const e = new Float64Array(n).fill(NaN);
-  for (let start = 0; start < n; start++) {
-    if (!Number.isNaN(e[start])) continue;
-    e[start] = 1;
-    const stack = [start];
-    while (stack.length > 0) {
-      const i = stack.pop()!;
-      for (let p = sym.rowPtr[i], pEnd = sym.rowPtr[i + 1]; p < pEnd; p++) {
-        const j = sym.colIdx[p];
-        if (!Number.isNaN(e[j])) continue;
-        e[j] = (entry(w, i, j) / sym.values[p]) * e[i];
-        stack.push(j);
-      }
-    }
-  }
-  const probe = new Float64Array(n);
-  for (let i = 0; i < n; i++) probe[i] = 1 + ((i * 7919) % 13) / 13;
-  // W v against E⁻¹ S E v on a fixed probe vector, plus identical sparsity
-  const wv = csrMultiply(w, probe);
-  const ev = probe.map((v, i) => v * e[i]);
-  const sev = csrMultiply(sym, ev);
-  let ok = sameNonzeros(w, sym) && e.every((x) => Number.isFinite(x) && x > 0);
-  for (let i = 0; ok && i < n; i++) {
-    if (Math.abs(wv[i] - sev[i] / e[i]) > 1e-9 * (Math.abs(wv[i]) + 1e-300) + 1e-14) ok = false;
-  }
-  if (!ok) throw new Error('the symmetric matrix given is not similar to W by a diagonal scaling');
-  return sym;
-}
-
-function sameNonzeros(a: CsrMatrix, b: CsrMatrix): boolean {
-  if (a.colIdx.length !== b.colIdx.length) return false;
-  for (let i = 0; i <= a.n; i++) if (a.rowPtr[i] !== b.rowPtr[i]) return false;
-  for (let p = 0; p < a.colIdx.length; p++) if (a.colIdx[p] !== b.colIdx[p]) return false;
-  return true;
-}
-
 /** tr GᵀG = Σ_i ‖W (I − ρW)⁻¹ e_i‖², one iterative solve per column. */
-function traceGtG(w: CsrMatrix, rho: number): number {
+function traceGtG(w: CsrMatrix, rho: number): { value: number; unconverged?: string } {
   const n = w.n;
   const unit = new Float64Array(n);
   const g = new Float64Array(n);
   const solve = shiftedSolver(w, rho);
-  let sum = 0;
+  let sum = 0, missed = 0, worst = 0;
   for (let i = 0; i < n; i++) {
     unit.fill(0);
     unit[i] = 1;
-    const { x } = solve(unit);
-    csrMultiply(w, x, g);
+    const solved = solve(unit);
+    if (!solved.converged) { missed++; worst = Math.max(worst, solved.relativeResidual); }
+    csrMultiply(w, solved.x, g);
     for (let t = 0; t < n; t++) sum += g[t] * g[t];
   }
-  return sum;
+  if (missed === 0) return { value: sum };
+  return { value: sum, unconverged: `${missed} of the ${n} GMRES solves behind tr GᵀG at ρ = ${rho} stopped short of relative residual 1e-12 (worst ${worst.toExponential(1)})` };
 }

@@ -7,8 +7,8 @@ import type { CsrMatrix } from './csr.js';
  * Wilkinson & Reinsch, Handbook for Automatic Computation vol. II, procedure tql1).
  *
  * Written by hand because only the eigenvalues are needed: ml-matrix's decomposition always
- * accumulates eigenvectors on nested arrays and took ~12 s at n = 1,000 on this kind of machine,
- * while this one works in place on one Float64Array and skips the vectors.
+ * accumulates eigenvectors on nested arrays (many times slower at n = 1,000; bench/README.md), while
+ * this one works in place on one Float64Array and skips the vectors.
  *
  * @param a symmetric n×n matrix, row-major; it is overwritten.
  */

@@ -12,6 +12,10 @@ export interface LogDeterminant {
   readonly method: string;
   /** "exact" or a stated error bound. */
   readonly accuracy: string;
+  /** Optional: the error bound at one ρ (an approximation quotes it at the estimate, never elsewhere). */
+  accuracyAt?(rho: number): string;
+  /** Optional: the interval outside which an approximation means nothing (a series' radius of convergence). */
+  readonly domain?: { lower: number; upper: number };
 }
 
 /** What a log-determinant strategy is built from. */

@@ -1,4 +1,4 @@
-import type { LogDeterminant } from '../linalg/logdet.js';
+import { NotPositiveDefiniteError, PivotError, type LogDeterminant } from '../linalg/index.js';
 import { brentMaximise } from './brent.js';
 import type { Convergence } from './types.js';
 
@@ -38,11 +38,16 @@ export function bracketAndPolish(
     best.convergence.message += ` (exact log-determinant at every step: ${why})`;
     return { ...best, exactEvaluations: evaluations };
   };
-  const start = brentMaximise((r) => cheap(r) + rough.evaluate(r), lo, hi, { tolerance: 1e-12 });
+  // the approximation is searched only where it means something (a series inside its radius of
+  // convergence); a maximum at the edge of that domain sends the search to the exact evaluations
+  const roughLo = Math.max(lo, rough.domain ? rough.domain.lower + 1e-6 * Math.abs(rough.domain.lower) : lo);
+  const roughHi = Math.min(hi, rough.domain ? rough.domain.upper - 1e-6 * Math.abs(rough.domain.upper) : hi);
+  const start = brentMaximise((r) => cheap(r) + rough.evaluate(r), roughLo, roughHi, { tolerance: 1e-12 });
   const rho0 = start.x;
   const width = hi - lo;
   const h = Math.min(1e-3 * Math.max(1, Math.abs(rho0)), 0.01 * width);
   if (rho0 - 2 * h <= lo || rho0 + 2 * h >= hi) return fullSearch('the approximate maximum lies at an end of the range');
+  if (rho0 - 2 * h <= roughLo || rho0 + 2 * h >= roughHi) return fullSearch('the approximate maximum lies where the approximation stops converging');
 
   // closest spacing of model points: rounding in g (at most ≈ 1e-16 · n) divided by it stays far
   // below the likelihood's curvature (≈ n)
@@ -92,8 +97,10 @@ export function bracketAndPolish(
       currentValue = cheap(next) + add(next);
     }
   } catch (e) {
-    // e.g. a pivot that is not positive at a point the approximation wrongly thought admissible
-    return fullSearch(`the polish failed: ${(e as Error).message}`);
+    // a pivot that is not positive at a point the approximation wrongly thought admissible; any
+    // other error is a fault and goes on up
+    if (!(e instanceof PivotError || e instanceof NotPositiveDefiniteError)) throw e;
+    return fullSearch(`the polish failed: ${e.message}`);
   }
 }
 

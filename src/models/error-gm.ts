@@ -1,6 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
-import { csrMultiply } from '../linalg/csr.js';
-import { applyQ, applyQt, householderQr, qrSolve, type HouseholderQr } from '../linalg/dense-qr.js';
+import { applyQ, applyQt, csrMultiply, csrMultiplyTransposed, householderQr, qrSolve, transpose, type CsrMatrix, type HouseholderQr } from '../linalg/index.js';
 import { chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { searchInterval, squaredCorrelation } from './information.js';
@@ -225,8 +223,8 @@ function momentVariance(u: Float64Array, lambda: number, qrZ: HouseholderQr, o: 
   const sigma = eps.map((e) => e * e);
   // B₁ε = 2(Wᵀ(Wε) − d∘ε), B₂ε = Wε + Wᵀε − 2 diag(W) ε
   const we = csrMultiply(w, eps);
-  const wtwe = transposeTimes(w, we);
-  const wte = transposeTimes(w, eps);
+  const wtwe = csrMultiplyTransposed(w, we);
+  const wte = csrMultiplyTransposed(w, eps);
   const b1e = eps.map((e, i) => 2 * (wtwe[i] - o.dWtW[i] * e));
   const b2e = eps.map((e, i) => we[i] + wte[i] - 2 * o.dW[i] * e);
   const a1 = project(qrZ, b1e).map((v) => -v);
@@ -249,7 +247,7 @@ function momentVariance(u: Float64Array, lambda: number, qrZ: HouseholderQr, o: 
  */
 function pairTraces(w: CsrMatrix, sigma: Float64Array, o: MomentOperators): { t11: number; t12: number; t22: number } {
   const n = w.n;
-  const wt = transposeCsr(w);
+  const wt = transpose(w);
   const b2 = new Float64Array(n);
   const wtw = new Float64Array(n);
   const touched: number[] = [];
@@ -306,29 +304,4 @@ function inverse2(m: number[]): number[] | null {
   const det = m[0] * m[3] - m[1] * m[2];
   if (!(Math.abs(det) > 0) || !Number.isFinite(det)) return null;
   return [m[3] / det, -m[1] / det, -m[2] / det, m[0] / det];
-}
-
-function transposeTimes(w: CsrMatrix, v: Float64Array): Float64Array {
-  const out = new Float64Array(w.n);
-  for (let i = 0; i < w.n; i++) for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) out[w.colIdx[p]] += w.values[p] * v[i];
-  return out;
-}
-
-function transposeCsr(w: CsrMatrix): CsrMatrix {
-  const n = w.n;
-  const count = new Int32Array(n + 1);
-  for (let p = 0; p < w.colIdx.length; p++) count[w.colIdx[p] + 1]++;
-  for (let i = 0; i < n; i++) count[i + 1] += count[i];
-  const rowPtr = Int32Array.from(count);
-  const colIdx = new Int32Array(w.colIdx.length);
-  const values = new Float64Array(w.values.length);
-  const next = Int32Array.from(count.subarray(0, n));
-  for (let i = 0; i < n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
-      const q = next[w.colIdx[p]]++;
-      colIdx[q] = i;
-      values[q] = w.values[p];
-    }
-  }
-  return { n, rowPtr, colIdx, values };
 }

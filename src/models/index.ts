@@ -4,7 +4,7 @@ export { fitSpatialLag } from './ml-lag.js';
 export { fitSpatialError } from './ml-error.js';
 export { lagImpacts } from './impacts.js';
 export { recommendModel } from './recommend.js';
-export { denseAlgebra } from '../linalg/dense-algebra.js';
+export { denseAlgebra } from '../linalg/index.js';
 export { MODELS, type ModelKey, type FitOf, type FittedModels } from './registry.js';
 export { MODEL_KEYS, DEFAULT_MODEL_KEYS, inSentence, modelEntry, entriesOf, baselineModel, modelByCli, fittedInOrder, withBaseline, areasNeeded, fitModel, addNestedTests } from './lookup.js';
 export { coefficientJson, testJson } from './model-entry.js';

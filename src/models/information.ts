@@ -1,4 +1,5 @@
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
+import { PivotError, type AdmissibleRange } from '../linalg/index.js';
 
 /**
  * Inverts a symmetric positive-definite information matrix (row-major, p×p) through its Cholesky
@@ -39,4 +40,32 @@ export function squaredCorrelation(a: Float64Array, b: Float64Array): number {
     sbb += (b[i] - mb) ** 2;
   }
   return (sab * sab) / (saa * sbb);
+}
+
+/**
+ * Runs `search` over [lo, hi]. When the exact log-determinant meets a pivot that is not positive —
+ * the sparse LU without pivoting below −1/λmax, where above 1,500 areas no dense LU with pivoting
+ * backs it up — the search runs again on the part of the range where that LU is stable
+ * (|ρ|λmax < 1, an H-matrix), and a warning says so: nothing is lost, and the narrower interval is
+ * stated rather than hidden.
+ */
+export function searchWithinPivotLimit<T>(
+  search: (lo: number, hi: number) => T,
+  lo: number,
+  hi: number,
+  range: AdmissibleRange,
+  symbol: string,
+): { result: T; warning?: string } {
+  try {
+    return { result: search(lo, hi) };
+  } catch (e) {
+    if (!(e instanceof PivotError)) throw e;
+    const stable = -1 / range.eigenMax;
+    const from = Math.max(lo, stable + 1e-6 * Math.abs(stable));
+    if (!(from > lo)) throw e;
+    return {
+      result: search(from, hi),
+      warning: `The exact log-determinant could not be evaluated below ${symbol} = ${from.toPrecision(4)} (a pivot of the LU without pivoting was not positive there), so the search was confined to ${from.toPrecision(4)} to ${hi.toPrecision(4)} although the admissible range reaches down to ${range.lower.toPrecision(4)}; an estimate at ${from.toPrecision(4)} means the maximum may lie below it.`,
+    };
+  }
 }

@@ -1,7 +1,4 @@
-import type { WeightsAlgebra } from '../linalg/algebra.js';
-import { csrMultiply } from '../linalg/csr.js';
-import { shiftedSolver } from '../linalg/dense-iterative.js';
-import { seededRandom } from '../stats/index.js';
+import { csrMultiply, isSymmetric, rademacher, seededRandom, shiftedSolver, type WeightsAlgebra } from '../linalg/index.js';
 
 /** Up to this n the cross trace tr(HᵀG) is exact (two solves per area); above it, a stochastic estimate. */
 const EXACT_LIMIT = 2000;
@@ -51,7 +48,7 @@ export function lagErrorCrossTraces(algebra: WeightsAlgebra, rho: number, lambda
   const probe = (r: number, uniform: () => number): Float64Array => {
     const z = new Float64Array(n);
     if (exact) z[r] = 1;
-    else for (let i = 0; i < n; i++) z[i] = uniform() < 0.5 ? -1 : 1;
+    else rademacher(z, uniform);
     return z;
   };
   // H z for every probe first (one factor at λ), then G z (one at ρ)
@@ -82,16 +79,4 @@ export function lagErrorCrossTraces(algebra: WeightsAlgebra, rho: number, lambda
     exact: false,
     method: `tr GH a divided difference of tr G at ρ and at λ; tr HᵀG estimated from ${count} random probes (Hutchinson), ${mean.toPrecision(6)} with standard error ${se.toPrecision(2)}`,
   };
-}
-
-function isSymmetric(w: { n: number; rowPtr: Int32Array; colIdx: Int32Array; values: Float64Array }): boolean {
-  for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) {
-      const j = w.colIdx[p];
-      let found = NaN;
-      for (let q = w.rowPtr[j]; q < w.rowPtr[j + 1]; q++) if (w.colIdx[q] === i) { found = w.values[q]; break; }
-      if (!(Math.abs(found - w.values[p]) <= 1e-12 * Math.abs(w.values[p]))) return false;
-    }
-  }
-  return true;
 }

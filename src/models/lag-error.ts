@@ -1,7 +1,4 @@
-import type { WeightsAlgebra, TracesAt } from '../linalg/algebra.js';
-import { csrMultiply } from '../linalg/csr.js';
-import { solveShifted } from '../linalg/dense-iterative.js';
-import { householderQr, qrSolve } from '../linalg/dense-qr.js';
+import { csrMultiply, householderQr, qrSolve, solveShifted, type TracesAt, type WeightsAlgebra } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { invertInformation, searchInterval, squaredCorrelation } from './information.js';

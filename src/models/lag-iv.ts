@@ -1,6 +1,4 @@
-import { csrMultiply } from '../linalg/csr.js';
-import { solveShifted } from '../linalg/dense-iterative.js';
-import { applyQ, applyQt, firstDependentColumn, householderQr, inverseCrossProduct, qrSolve } from '../linalg/dense-qr.js';
+import { applyQ, applyQt, csrMultiply, firstDependentColumn, householderQr, inverseCrossProduct, qrSolve, solveShifted } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { chiSquareUpper, fUpper, normalTwoSided } from '../stats/index.js';
 import { squaredCorrelation } from './information.js';

@@ -2,7 +2,7 @@
  * The neighbours' averages of the explanatory columns (the WX terms of the models with lagged
  * columns): one per column but the intercept, named in plain words and marked `lagged`.
  */
-import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
+import { csrMultiply, type CsrMatrix } from '../linalg/index.js';
 import type { Coefficient, Design } from './types.js';
 import { InputError } from '../errors.js';
 import { fitOls } from './ols.js';

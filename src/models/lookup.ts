@@ -1,5 +1,5 @@
 /** Looking up the registry: by key, by command-line spelling, the fitted models in order; and fitting one model. */
-import { csrMultiply } from '../linalg/csr.js';
+import { csrMultiply } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { chiSquareUpper } from '../stats/index.js';
 import { MODELS, type FittedModels, type ModelKey } from './registry.js';

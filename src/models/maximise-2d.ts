@@ -1,4 +1,4 @@
-import type { LogDeterminant } from '../linalg/logdet.js';
+import { NotPositiveDefiniteError, PivotError, type LogDeterminant } from '../linalg/index.js';
 import { brentMaximise } from './brent.js';
 import type { Convergence } from './types.js';
 
@@ -182,8 +182,9 @@ export function polishSeparable2d(
       add(cy);
     }
   } catch (e) {
-    // e.g. a pivot that is not positive at a point the approximation wrongly thought admissible
-    return fullSearch(`the polish failed: ${(e as Error).message}`);
+    // a pivot that is not positive at a point the approximation wrongly thought admissible; anything else is a fault
+    if (!(e instanceof PivotError || e instanceof NotPositiveDefiniteError)) throw e;
+    return fullSearch(`the polish failed: ${e.message}`);
   }
 }
 

@@ -1,10 +1,10 @@
-import { csrMultiply } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
-import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/dense-qr.js';
+import { csrMultiply } from '../linalg/index.js';
+import type { WeightsAlgebra } from '../linalg/index.js';
+import { householderQr, inverseCrossProduct, qrSolve } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
-import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
+import { invertInformation, searchInterval, searchWithinPivotLimit, squaredCorrelation } from './information.js';
 import { dot, residual } from './ml-lag.js';
 import { fitOls, table } from './ols.js';
 import type { Design, OlsFit, SpatialFit } from './types.js';
@@ -69,12 +69,14 @@ export function fitSpatialError(
   const { lo, hi } = searchInterval(algebra.range);
   // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
   // evaluations; an explicit iteration limit asks for the plain search
-  const best = algebra.roughLogdet && opts.maxIterations === undefined
-    ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
-    : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+  const searched = searchWithinPivotLimit((a, b) => algebra.roughLogdet && opts.maxIterations === undefined
+    ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, a, b)
+    : brentMaximise(concentrated, a, b, { maxIterations: opts.maxIterations }), lo, hi, algebra.range, 'λ');
+  const best = searched.result;
   const lambda = best.x;
   const convergence = best.convergence;
   const warnings: string[] = [];
+  if (searched.warning) warnings.push(searched.warning);
   if (!convergence.converged || convergence.atBound) warnings.push(convergence.message);
 
   const at = filtered(lambda);
@@ -85,6 +87,7 @@ export function fitSpatialError(
   const xtxInv = inverseCrossProduct(at.qr);
   for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) covariance[a * p + b] = sigma2 * xtxInv[a * k + b];
   const tr = algebra.traces(lambda);
+  if (tr.unconverged) warnings.push(`Traces for the standard errors: ${tr.unconverged}.`);
   const block = invertInformation(
     Float64Array.from([tr.trG2 + tr.trGtG, tr.trG / sigma2, tr.trG / sigma2, n / (2 * sigma2 * sigma2)]),
     2,
@@ -126,7 +129,7 @@ export function fitSpatialError(
     breuschPagan: breuschPagan(at.eps, x),
     covariance,
     range: { lower: algebra.range.lower, upper: algebra.range.upper },
-    logDeterminantMethod: algebra.logdet.method,
+    logDeterminantMethod: algebra.logdet.accuracyAt ? `${algebra.logdet.method}; ${algebra.logdet.accuracyAt(lambda)}` : algebra.logdet.method,
     convergence,
     warnings,
   };

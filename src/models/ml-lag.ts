@@ -1,11 +1,11 @@
-import { csrMultiply } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
-import { solveShifted } from '../linalg/dense-iterative.js';
-import { householderQr, qrSolve } from '../linalg/dense-qr.js';
+import { csrMultiply } from '../linalg/index.js';
+import type { WeightsAlgebra } from '../linalg/index.js';
+import { solveShifted } from '../linalg/index.js';
+import { householderQr, qrSolve } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
-import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
+import { invertInformation, searchInterval, searchWithinPivotLimit, squaredCorrelation } from './information.js';
 import { lagCrossTrace } from './lag-cross-trace.js';
 import { fitOls, table } from './ols.js';
 import type { Convergence, Design, OlsFit, SpatialFit } from './types.js';
@@ -63,6 +63,7 @@ export function fitSpatialLag(
   let rho: number;
   let convergence: Convergence;
   let logLik: number;
+  let searchWarning: string | undefined;
   if (opts.fixedRho !== undefined) {
     rho = opts.fixedRho;
     convergence = { converged: true, iterations: 0, tolerance: 0, message: `ρ held fixed at ${rho}` };
@@ -70,14 +71,17 @@ export function fitSpatialLag(
   } else {
     // with a costly exact log-determinant, bracket with the cheap one and polish with a few exact
     // evaluations; an explicit iteration limit asks for the plain search
-    const best = algebra.roughLogdet && opts.maxIterations === undefined
-      ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, lo, hi)
-      : brentMaximise(concentrated, lo, hi, { maxIterations: opts.maxIterations });
+    const searched = searchWithinPivotLimit((a, b) => algebra.roughLogdet && opts.maxIterations === undefined
+      ? bracketAndPolish(cheap, algebra.logdet, algebra.roughLogdet, a, b)
+      : brentMaximise(concentrated, a, b, { maxIterations: opts.maxIterations }), lo, hi, algebra.range, 'ρ');
+    const best = searched.result;
     rho = best.x;
     convergence = best.convergence;
     logLik = best.value;
+    if (searched.warning) searchWarning = searched.warning;
   }
   const warnings: string[] = [];
+  if (searchWarning) warnings.push(searchWarning);
   if (!convergence.converged || convergence.atBound) warnings.push(convergence.message);
 
   const beta = b0.map((b, j) => b - rho * bL[j]);
@@ -89,6 +93,7 @@ export function fitSpatialLag(
   for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) xb[i] += beta[j] * x.columns[j][i];
   // traces first: a sparse algebra factors I − ρW there and reuses the factor for the solve
   const tr = algebra.traces(rho);
+  if (tr.unconverged) warnings.push(`Traces for the standard errors: ${tr.unconverged}.`);
   let fitted: Float64Array;
   if (algebra.solve) {
     fitted = algebra.solve(rho, xb);
@@ -129,8 +134,17 @@ export function fitSpatialLag(
   const we = csrMultiply(w, e);
   const t22 = algebra.lmTrace;
   const cross = lagCrossTrace(algebra, rho);
-  if (cross.method !== 'exact') warnings.push(`The trace tr(WᵀG + WG) in the test for remaining error dependence was ${cross.method}.`);
-  const lmStat = (dot(e, we) / sigma2) ** 2 / (t22 - cross.value * cross.value * rhoVar);
+  if (!cross.exact) warnings.push(`The trace tr(WᵀG + WG) in the test for remaining error dependence was ${cross.method}.`);
+  if (cross.unconverged) warnings.push(`Test for remaining error dependence: ${cross.unconverged}.`);
+  // the variance term T₂₂ − T₂₁² Var ρ̂ must be positive; when it is not (or Var ρ̂ is missing) the
+  // test is not reported rather than given a p-value of 1
+  const denominator = t22 - cross.value * cross.value * rhoVar;
+  const lmStat = denominator > 0 ? (dot(e, we) / sigma2) ** 2 / denominator : NaN;
+  if (!(denominator > 0)) {
+    warnings.push(Number.isFinite(denominator)
+      ? `The test for remaining error dependence is not reported: its variance term T₂₂ − T₂₁²·Var ρ̂ = ${denominator.toPrecision(4)} is not positive.`
+      : 'The test for remaining error dependence is not reported: the variance of ρ̂ is not available.');
+  }
 
   return {
     model: 'lag',
@@ -147,11 +161,11 @@ export function fitSpatialLag(
     pseudoR2: squaredCorrelation(y, fitted),
     residuals: e,
     fitted,
-    lmRemainingError: { stat: lmStat, df: 1, p: chiSquareUpper(lmStat, 1) },
+    lmRemainingError: { stat: lmStat, df: 1, p: Number.isNaN(lmStat) ? NaN : chiSquareUpper(lmStat, 1) },
     breuschPagan: breuschPagan(e, x),
     covariance,
     range: { lower: algebra.range.lower, upper: algebra.range.upper },
-    logDeterminantMethod: algebra.logdet.method,
+    logDeterminantMethod: algebra.logdet.accuracyAt ? `${algebra.logdet.method}; ${algebra.logdet.accuracyAt(rho)}` : algebra.logdet.method,
     convergence,
     warnings,
   };

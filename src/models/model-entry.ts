@@ -3,8 +3,7 @@
  * headline figures every model reports in one shape, and the JSON pieces the entries share. The
  * entries themselves are in `registry.ts`.
  */
-import type { CsrMatrix } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
+import type { CsrMatrix, WeightsAlgebra } from '../linalg/index.js';
 import type { Coefficient, Convergence, Design, ImpactsResult, OlsFit, SpatialFit, TestResult } from './types.js';
 
 /** What every model is fitted on: arrays and the neighbours, no files. */

@@ -1,5 +1,5 @@
 import { InputError, listSome } from '../errors.js';
-import { firstDependentColumn, householderQr, inverseCrossProduct, qrSolve, thinQ, type HouseholderQr } from '../linalg/dense-qr.js';
+import { firstDependentColumn, householderQr, inverseCrossProduct, qrSolve, thinQ, type HouseholderQr } from '../linalg/index.js';
 import {
   breuschPagan,
   conditionNumber,

@@ -1,4 +1,4 @@
-import { householderQr, inverseCrossProduct } from '../linalg/dense-qr.js';
+import { householderQr, inverseCrossProduct } from '../linalg/index.js';
 import { chiSquareUpper, studentTwoSided } from '../stats/index.js';
 import type { PreparedInputs } from './model-entry.js';
 import { laggedCount, laggedDesign, markLagged } from './lagged-columns.js';

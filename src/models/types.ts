@@ -116,4 +116,6 @@ export interface ImpactsResult {
   draws: number;
   seed: number;
   method: string;
+  /** what the user must know about these figures (e.g. no standard errors, and why) */
+  warnings?: string[];
 }

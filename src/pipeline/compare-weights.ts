@@ -6,7 +6,7 @@
 import type { JoinedAreas } from '../geo/types.js';
 import { buildWeights, describeRule, summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
-import type { StartHelperThread } from '../linalg/sparse/index.js';
+import type { StartHelperThread } from '../linalg/index.js';
 import { fittedInOrder, type FittedModels, type ModelKey } from '../models/index.js';
 import type { LmTests, MoranTest, Recommendation } from '../models/types.js';
 import { InputError } from '../errors.js';

@@ -4,8 +4,8 @@
  * they lead to, and each asked-for model from the registry. The run's own definition and every
  * alternative in the comparison go through here; so can a caller holding arrays in memory.
  */
-import { chooseAlgebra } from '../linalg/choose-algebra.js';
-import type { StartHelperThread } from '../linalg/sparse/index.js';
+import { chooseAlgebra } from '../linalg/index.js';
+import type { StartHelperThread } from '../linalg/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
 import { inSentence, addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels } from '../models/index.js';

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import {
   controlMultipleTests, getisOrd, localMoranCategories, localMoranTest, PERMUTATION_RULE,
   type LocalCategory, type LocalStatistic, type LocalStatisticKind, type MultipleTestingControl,

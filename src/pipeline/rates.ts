@@ -1,5 +1,5 @@
 import { InputError } from '../errors.js';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import {
   ebGlobal, ebLocal, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE, RATE_MULTIPLIERS,
   type RateMultiplier,

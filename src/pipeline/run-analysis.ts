@@ -194,7 +194,9 @@ function runWarnings(
   },
 ): string[] {
   const { summary, w, dropped } = r;
-  const warnings = [...r.joined.warnings, ...r.shapes, ...fittedInOrder(r.fits).flatMap(({ fit }) => fit.warnings)];
+  // each model's warnings, then those of its spillover effects (e.g. no standard errors when the
+  // covariance of (β, ρ) is not positive definite)
+  const warnings = [...r.joined.warnings, ...r.shapes, ...fittedInOrder(r.fits).flatMap(({ fit }) => [...fit.warnings, ...(fit.impacts?.warnings ?? [])])];
   if (summary.withoutNeighbours.length > 0) {
     warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }

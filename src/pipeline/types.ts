@@ -1,4 +1,4 @@
-import type { StartHelperThread } from '../linalg/sparse/index.js';
+import type { StartHelperThread } from '../linalg/index.js';
 import type { NamedBytesLike } from './named-bytes.js';
 import type { WeightsSpec, WeightsTransform, WeightsSummary } from '../weights/types.js';
 import type {

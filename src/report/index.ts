@@ -61,3 +61,4 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   }
   return { sheets: splitLongSheets(sheets, opts.sheetRowLimit) };
 }
+export { resultsGeoJson, resultsGeoJsonText, projectedNote } from './geojson.js';

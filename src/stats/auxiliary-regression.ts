@@ -1,4 +1,4 @@
-import { householderQr, qrSolve } from '../linalg/dense-qr.js';
+import { householderQr, qrSolve } from '../linalg/index.js';
 import type { Design } from '../core/types.js';
 
 /**

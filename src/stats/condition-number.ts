@@ -1,5 +1,5 @@
 import { SingularValueDecomposition, Matrix } from 'ml-matrix';
-import { householderQr } from '../linalg/dense-qr.js';
+import { householderQr } from '../linalg/index.js';
 import type { Design } from '../core/types.js';
 
 /**

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { ebMoments } from './eb-moments.js';
 import { moranColumn } from './moran-column.js';
 

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { normalTwoSided } from './distributions.js';
 import { centred, weightsSums } from './weights-sums.js';

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { conditionalPermutationP } from './conditional-permutation.js';
 import { normalTwoSided } from './distributions.js';

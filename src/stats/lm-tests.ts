@@ -1,5 +1,5 @@
-import { csrMultiply } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
+import { csrMultiply } from '../linalg/index.js';
+import type { WeightsAlgebra } from '../linalg/index.js';
 import type { Design, LmTests, RegressionResiduals, TestResult } from '../core/types.js';
 import { chiSquareUpper } from './distributions.js';
 import { dot, residualQuadratic } from './residual-maker.js';

@@ -1,4 +1,4 @@
-import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
+import { csrMultiply, type CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { conditionalPermutationP } from './conditional-permutation.js';
 import { normalTwoSided } from './distributions.js';

@@ -1,4 +1,4 @@
-import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
+import { csrMultiply, type CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import type { MoranTest } from '../core/types.js';
 import { normalTwoSided } from './distributions.js';

@@ -1,5 +1,5 @@
-import { csrMultiply } from '../linalg/csr.js';
-import type { WeightsAlgebra } from '../linalg/algebra.js';
+import { csrMultiply } from '../linalg/index.js';
+import type { WeightsAlgebra } from '../linalg/index.js';
 import type { Design, MoranTest, RegressionResiduals } from '../core/types.js';
 import { normalTwoSided } from './distributions.js';
 import { dot, residualMakerTraces, weightsTotal } from './residual-maker.js';

@@ -1,6 +1,6 @@
-import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../linalg/csr.js';
-import { householderQr, thinQ } from '../linalg/dense-qr.js';
-import { entry } from '../linalg/dense-algebra.js';
+import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../linalg/index.js';
+import { householderQr, thinQ } from '../linalg/index.js';
+import { csrEntry as entry } from '../linalg/index.js';
 import type { Design } from '../core/types.js';
 
 /**

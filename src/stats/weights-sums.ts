@@ -1,5 +1,5 @@
-import type { CsrMatrix } from '../linalg/csr.js';
-import { lmTrace } from '../linalg/dense-algebra.js';
+import type { CsrMatrix } from '../linalg/index.js';
+import { lmTrace } from '../linalg/index.js';
 
 /**
  * The constants of the randomisation moments (Cliff & Ord 1981, §1.5):

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError, listSome } from '../errors.js';
 import type { SpatialWeights, WeightsSpec, WeightsTransform } from './types.js';
 import { contiguityNeighbours } from './contiguity.js';

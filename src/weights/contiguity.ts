@@ -1,5 +1,5 @@
 import type { AreaGeometry } from '../geo/types.js';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { BoxIndex } from './box-index.js';
 import { csrFromSortedPairs } from './pattern.js';

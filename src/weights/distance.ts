@@ -1,5 +1,5 @@
 import type KDBush from 'kdbush';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { LinkList, csrFromLinks } from './pattern.js';
 import { EARTH_RADIUS_KM, pointDistance, type PointSet } from './nearest.js';

@@ -1,8 +1,8 @@
 import Papa from 'papaparse';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
-import { LinkList, csrFromLinks, isSymmetric } from './pattern.js';
+import { LinkList, csrFromLinks, isSymmetric, symmetricBehind } from './pattern.js';
 import { applyTransform } from './transform.js';
 
 export interface EdgeListOptions {
@@ -79,7 +79,8 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
     description: `neighbours read from ${source}; ${note}`,
     spec: { method: 'edge-list', source },
     transform,
-    symmetricBase: isSymmetric(base) ? base : null,
+    // a list written row-standardised from symmetric links keeps its symmetric form (exact algebra)
+    symmetricBase: isSymmetric(base) ? base : transform === 'row' ? symmetricBehind(base) : null,
   };
 }
 

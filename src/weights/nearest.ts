@@ -1,10 +1,10 @@
 import KDBush from 'kdbush';
-import { distance as greatCircleKm } from 'geokdbush';
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
+import { EARTH_RADIUS_KM, greatCircleKm } from '../geo/index.js';
 import { TreeSearch } from './tree-search.js';
 
-/** Earth radius used by geokdbush's distance (km). */
-export const EARTH_RADIUS_KM = 6371;
+/** The engine's one Earth radius (the IUGG mean radius, src/geo/points.ts), for search reaches in km. */
+export { EARTH_RADIUS_KM };
 
 export interface PointSet {
   x: Float64Array;
@@ -13,7 +13,7 @@ export interface PointSet {
   greatCircle: boolean;
 }
 
-/** Straight-line distance (coordinate units) or great-circle distance in km (haversine, radius 6371 km). */
+/** Straight-line distance (coordinate units) or great-circle distance in km (haversine on the mean Earth radius). */
 export function pointDistance(pts: PointSet, i: number, j: number): number {
   return pts.greatCircle
     ? greatCircleKm(pts.x[i], pts.y[i], pts.x[j], pts.y[j])

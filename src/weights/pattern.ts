@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 
 /**
  * Growable list of directed links (i, j, value) on typed arrays. Links are gathered here from
@@ -104,8 +104,11 @@ export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
   return { n, rowPtr, colIdx, values: new Float64Array(rowPtr[n]).fill(1) };
 }
 
+/** One symmetry check for the engine, with one tolerance (src/linalg/csr.ts). */
+export { isSymmetric } from '../linalg/index.js';
+
 /** Position of entry (i, j) in colIdx, or -1; binary search since rows are sorted by column. */
-export function findEntry(m: CsrMatrix, i: number, j: number): number {
+function findEntry(m: CsrMatrix, i: number, j: number): number {
   let lo = m.rowPtr[i];
   let hi = m.rowPtr[i + 1] - 1;
   while (lo <= hi) {
@@ -119,19 +122,44 @@ export function findEntry(m: CsrMatrix, i: number, j: number): number {
 }
 
 /**
- * True when the matrix equals its transpose: same pattern, and values agreeing to a relative
- * 1e-12 (values computed from the same distance in either direction may differ in the last bit).
+ * A symmetric C with m = D⁻¹C for a diagonal D, when there is one: the weights of a list written
+ * already row-standardised (w_ij = c_ij / r_i from symmetric links c) give C back, so that the
+ * exact algebra for symmetric forms still applies. Along each link, r_j = r_i w_ij / w_ji (one free
+ * scale per connected group, set to 1 at its first area); every link is then checked to 1e-10.
+ * Null when the pattern is not symmetric or no such scaling fits.
  */
-export function isSymmetric(m: CsrMatrix): boolean {
-  for (let i = 0; i < m.n; i++) {
-    for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
-      const j = m.colIdx[p];
-      const q = findEntry(m, j, i);
-      if (q < 0) return false;
-      const a = m.values[p];
-      const b = m.values[q];
-      if (Math.abs(a - b) > 1e-12 * Math.max(Math.abs(a), Math.abs(b))) return false;
+export function symmetricBehind(m: CsrMatrix): CsrMatrix | null {
+  const n = m.n;
+  const r = new Float64Array(n).fill(NaN);
+  const queue = new Int32Array(n);
+  for (let root = 0; root < n; root++) {
+    if (!Number.isNaN(r[root])) continue;
+    r[root] = 1;
+    let head = 0, tail = 0;
+    queue[tail++] = root;
+    while (head < tail) {
+      const i = queue[head++];
+      for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
+        const j = m.colIdx[p];
+        const q = findEntry(m, j, i);
+        if (q < 0 || !(m.values[q] > 0) || !(m.values[p] > 0)) return null;
+        if (Number.isNaN(r[j])) {
+          r[j] = (r[i] * m.values[p]) / m.values[q];
+          queue[tail++] = j;
+        }
+      }
     }
   }
-  return true;
+  const values = new Float64Array(m.values.length);
+  for (let i = 0; i < n; i++) {
+    for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) values[p] = r[i] * m.values[p];
+  }
+  const c: CsrMatrix = { n, rowPtr: m.rowPtr, colIdx: m.colIdx, values };
+  for (let i = 0; i < n; i++) {
+    for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
+      const q = findEntry(c, c.colIdx[p], i);
+      if (Math.abs(values[p] - values[q]) > 1e-10 * Math.max(values[p], values[q])) return null;
+    }
+  }
+  return c;
 }

@@ -1,6 +1,5 @@
-import { csrMultiply, type CsrMatrix } from '../linalg/csr.js';
+import { csrMultiply, isSymmetric, scaledByRowSums, type CsrMatrix } from '../linalg/index.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
-import { isSymmetric } from './pattern.js';
 
 /**
  * 'row': each row divided by its sum, so rows sum to 1 (rows of areas without neighbours stay 0).
@@ -33,18 +32,7 @@ export function symmetricForm(w: SpatialWeights): CsrMatrix | null {
   if (isSymmetric(plain)) return plain;
   const c = w.symmetricBase;
   if (!c || w.transform !== 'row') return null;
-  const { n, rowPtr, colIdx } = c;
-  const scale = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) sum += c.values[p];
-    scale[i] = sum > 0 ? 1 / Math.sqrt(sum) : 0;
-  }
-  const values = new Float64Array(colIdx.length);
-  for (let i = 0; i < n; i++) {
-    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) values[p] = scale[i] * c.values[p] * scale[colIdx[p]];
-  }
-  return { n, rowPtr, colIdx, values };
+  return scaledByRowSums(c);
 }
 
 /** The spatial lag Wv: for each area, the weighted sum (with row weights, the mean) of its neighbours' values. */

@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/csr.js';
+import type { CsrMatrix } from '../linalg/index.js';
 
 export type WeightsSpec =
   | { method: 'queen'; tolerance?: number; order?: number; cumulative?: boolean }

@@ -243,3 +243,93 @@ describe('the temporary file', () => {
     expect(existsSync(join(f, 'results.xlsx'))).toBe(true);
   });
 });
+
+describe('--out-geojson and --pictures meet the same rules as --out', () => {
+  it('--out-geojson naming the boundary file, or a link to it, is refused even with --overwrite, before the run', async () => {
+    const f = await folder('geojson-input');
+    const boundary = join(f, 'districts.geojson');
+    symlinkSync(boundary, join(f, 'link.geojson'));
+    linkSync(boundary, join(f, 'hard.json'));
+    const args = [...BASE, '--boundary', boundary, '--data', join(f, 'table.csv'), '--overwrite'];
+    for (const out of [boundary, join(f, 'sub', '..', 'districts.geojson'), join(f, 'link.geojson'), join(f, 'hard.json')]) {
+      await refused(f, [...args, '--out-geojson', out],
+        [`--out-geojson "${out}" is the same file as the --boundary file`, 'never writes over its inputs', /e\.g\. --out-geojson .*districts-results\.(geo)?json\./]);
+    }
+  });
+
+  it('--out-geojson as a hard link to the table or the neighbour list is refused', async () => {
+    const f = await folder('geojson-table');
+    writeFileSync(join(f, 'links.csv'), 'origin,neighbour\nD01,D02\nD02,D01\n');
+    linkSync(join(f, 'table.csv'), join(f, 'table.geojson'));
+    linkSync(join(f, 'links.csv'), join(f, 'links.geojson'));
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv'), '--overwrite'];
+    await refused(f, [...args, '--out-geojson', join(f, 'table.geojson')], ['is the same file as the --data file']);
+    await refused(f, [...args, '--neighbours', join(f, 'links.csv'), '--out-geojson', join(f, 'links.geojson')], ['is the same file as the --neighbours file']);
+  });
+
+  it('an existing GeoJSON is kept without --overwrite, replaced with it (permissions kept), never when read-only', async () => {
+    const f = await folder('geojson-existing');
+    const out = join(f, 'areas.geojson');
+    writeFileSync(out, '{"earlier":1}');
+    chmodSync(out, 0o640);
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv'), '--out-geojson', out];
+    await refused(f, args, [`"${out}" already exists (13 bytes`, 'add --overwrite to replace it']);
+    const r = await runMain([...args, '--overwrite']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(JSON.parse(readFileSync(out, 'utf8')).type).toBe('FeatureCollection');
+    expect(statSync(out).mode & 0o777).toBe(0o640);
+    expect(readdirSync(f).filter((n) => n.endsWith('.part'))).toEqual([]);
+    chmodSync(out, 0o444);
+    await refused(f, [...args, '--overwrite'], ['is read-only; Spillway does not replace read-only files, not even with --overwrite']);
+  });
+
+  it('--pictures naming an input file, a named pipe or a folder under a missing one is refused before the run', async () => {
+    const f = await folder('pictures-odd');
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv')];
+    await refused(f, [...args, '--pictures', join(f, 'table.csv')], [`--pictures "${join(f, 'table.csv')}" is a file, not a folder`]);
+    execFileSync('mkfifo', [join(f, 'pipe')]);
+    await refused(f, [...args, '--pictures', join(f, 'pipe')], ['is a named pipe (FIFO), not a folder']);
+    await refused(f, [...args, '--pictures', join(f, 'missing', 'pictures')], [`Cannot make the --pictures folder`, `there is no folder "${join(f, 'missing')}"`]);
+  });
+
+  it('a picture file that is a link to an input is refused before any output is written, even with --overwrite', async () => {
+    const f = await folder('pictures-input');
+    mkdirSync(join(f, 'pictures'));
+    symlinkSync(join(f, 'table.csv'), join(f, 'pictures', 'map-of-the-outcome.svg'));
+    const before = snapshot(join(f, 'pictures'));
+    const out = join(f, 'results.xlsx');
+    await refused(f, [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv'), '--out', out, '--pictures', join(f, 'pictures'), '--overwrite'],
+      [/--pictures ".*map-of-the-outcome\.svg" is the same file as the --data file/, 'Name another folder for the pictures']);
+    expect(snapshot(join(f, 'pictures'))).toEqual(before);
+    expect(existsSync(out)).toBe(false); // the workbook was not written either
+  });
+
+  it('an existing picture is kept without --overwrite and replaced with it; a new folder is made; no temporary file stays', async () => {
+    const f = await folder('pictures-existing');
+    const pics = join(f, 'pictures');
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv'), '--pictures', pics];
+    const first = await runMain(args);
+    expect(first.code, first.stderr).toBe(0);
+    expect(first.stderr).toMatch(/pictures in .*map-of-the-outcome\.svg/);
+    const svg = join(pics, 'map-of-the-outcome.svg');
+    writeFileSync(svg, 'an earlier picture');
+    const r = await runMain(args);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(`"${svg}" already exists`);
+    expect(r.stderr).toContain('add --overwrite to replace it');
+    expect(readFileSync(svg, 'utf8')).toBe('an earlier picture');
+    const again = await runMain([...args, '--overwrite']);
+    expect(again.code, again.stderr).toBe(0);
+    expect(readFileSync(svg, 'utf8')).toMatch(/^<svg[\s>]/);
+    expect(readdirSync(pics).filter((n) => n.endsWith('.part'))).toEqual([]);
+  });
+
+  it('--overwrite alone names the outputs it goes with; control characters in an output path are shown escaped', async () => {
+    const f = await folder('overwrite-alone');
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv')];
+    expect((await runMain([...args, '--overwrite'])).stderr).toContain('--overwrite goes with --out, --out-geojson or --pictures');
+    const odd = join(f, 'missing\u001b[2J', 'areas.geojson');
+    const r = await refused(f, [...args, '--out-geojson', odd], ['Cannot write --out-geojson', 'missing\\u{001B}[2J']);
+    expect(r.stderr).not.toContain('\u001b');
+  });
+});

@@ -21,6 +21,7 @@ export function analyticRookAlgebra(rows: number, cols: number): WeightsAlgebra 
     range: { lower: 1 / min, upper: 1 / max, eigenMin: min, eigenMax: max, method: 'closed form' },
     // symmetric W: tr(WᵀW + WW) = 2 Σ w_ij²
     lmTrace: 2 * w.values.reduce((s, v) => s + v * v, 0),
+    tracesExact: true,
     traces(rho) {
       let trAinv = 0;
       let trG = 0;

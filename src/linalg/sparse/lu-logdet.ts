@@ -1,12 +1,18 @@
 /**
- * Exact ln|I − ρW| for a row-standardised W without a symmetric form (k-nearest neighbours) at
- * large n: multifrontal LU (Duff & Reid 1984, "The multifrontal solution of unsymmetric sets of
+ * Exact ln|I − ρW| for a nonnegative W without a symmetric form (k-nearest neighbours, binary or
+ * row-standardised; inverse distance without row standardisation): multifrontal LU (Duff & Reid 1984, "The multifrontal solution of unsymmetric sets of
  * linear equations") on the symmetric pattern of W + Wᵀ, with the same fill-reducing ordering and
  * symbolic analysis as the Cholesky factor (symbolic.ts), reused for every ρ. Each front is a full
  * m×m matrix; its leading k columns are eliminated, the Schur complement goes to the parent.
- * No pivoting is needed: for |ρ| < 1 and rows of W summing to one, I − ρW is strictly diagonally
- * dominant by rows, elimination keeps it so (every pivot is positive), and the growth factor stays
- * below 2 (Wilkinson 1961; Golub & Van Loan, Matrix Computations, §3.4.10) — so ln|I − ρW| = Σ ln u_jj.
+ * No pivoting is needed for |ρ| λmax < 1: with W ≥ 0, I − ρW is then a nonsingular M-matrix (ρ > 0)
+ * or has one as its comparison matrix (ρ < 0), i.e. an H-matrix: scaled by the Perron vector x
+ * (Wx = λmax x, x > 0) it is strictly diagonally dominant by rows, X⁻¹(I − ρW)X having off-diagonal
+ * row sums |ρ|λmax < 1. Gaussian elimination keeps an H-matrix an H-matrix, every pivot is positive
+ * and the growth stays bounded (Varga, Matrix Iterative Analysis, 2nd ed., §3.5; Golub & Van Loan,
+ * Matrix Computations, §3.4.10 for the diagonally dominant case) — so ln|I − ρW| = Σ ln u_jj. For
+ * row-stochastic W, x = 1 and λmax = 1: plain diagonal dominance. Below −1/λmax (the admissible
+ * range reaches down to 1/λmin) no such guarantee holds: the pivot check (PivotError) is the
+ * backstop, and the algebra then falls back to the dense LU with partial pivoting.
  * The factor of the last ρ is kept (up to 512 MB of it), so the traces and the reduced form at an
  * estimate found by exact evaluations are solved with it (two triangular solves each) rather than
  * iteratively.
@@ -25,7 +31,8 @@ export const SPARSE_LU_WORK_LIMIT = 4e10;
 export const KEPT_FACTOR_LIMIT = 6.4e7;
 
 export class SparseLuLogDet implements LogDeterminant {
-  readonly method: string;
+  private radius = 1;
+  private readonly how: string;
   readonly accuracy = 'exact (to rounding)';
   readonly symbolic: SymbolicFactor;
   /** multiply-adds per evaluation (k·m² summed over the fronts) */
@@ -75,9 +82,21 @@ export class SparseLuLogDet implements LogDeterminant {
     this.pos = new Int32Array(w.n);
     this.map = new Int32Array(Math.max(1, maxFront));
     this.symbolicSeconds = (performance.now() - t0) / 1000;
-    this.method = `exact, sparse LU of I − ρW without pivoting (rows of W sum to one, so I − ρW is diagonally dominant for |ρ| < 1; ` +
-      `multifrontal on the pattern of W + Wᵀ, nested dissection from ${useCoordinates ? 'area coordinates' : 'breadth-first level structures'}; ` +
-      `one symbolic analysis reused for every ρ)`;
+    this.how = `multifrontal on the pattern of W + Wᵀ, nested dissection from ${useCoordinates ? 'area coordinates' : 'breadth-first level structures'}; ` +
+      'one symbolic analysis reused for every ρ';
+  }
+
+  /** Names the bound on λmax (the Collatz–Wielandt maximum ratio; 1 for row-stochastic W) in the method text. */
+  describeRadius(radius: number): void {
+    this.radius = radius;
+  }
+
+  get method(): string {
+    const r = this.radius;
+    const why = r === 1
+      ? 'rows of W sum to one, so I − ρW is diagonally dominant for |ρ| < 1'
+      : `W ≥ 0 with λmax ≤ ${r.toPrecision(6)}, so I − ρW is an H-matrix for |ρ| < ${(1 / r).toPrecision(6)}`;
+    return `exact, sparse LU of I − ρW without pivoting (${why}; every pivot checked; ${this.how})`;
   }
 
   evaluate(rho: number): number {
@@ -110,7 +129,7 @@ export class SparseLuLogDet implements LogDeterminant {
     const panels = this.panels!;
     const { n, perm, superCount, superFirst, rowPtr, rows } = this.symbolic;
     const y = work;
-    for (let j = 0; j < n; j++) y.set(b.subarray(perm[j] * r, perm[j] * r + r), j * r);
+    for (let j = 0; j < n; j++) for (let q = 0, from = perm[j] * r, to = j * r; q < r; q++) y[to + q] = b[from + q];
     // forward: L z = y (unit diagonal)
     for (let s = 0; s < superCount; s++) {
       const f = superFirst[s], k = superFirst[s + 1] - f;
@@ -153,7 +172,7 @@ export class SparseLuLogDet implements LogDeterminant {
         for (let q = 0; q < r; q++) y[dst + q] *= inv;
       }
     }
-    for (let j = 0; j < n; j++) x.set(y.subarray(j * r, j * r + r), perm[j] * r);
+    for (let j = 0; j < n; j++) for (let q = 0, from = j * r, to = perm[j] * r; q < r; q++) x[to + q] = y[from + q];
     return x;
   }
 

@@ -5,33 +5,8 @@
  * when n is small. With a symmetric form S (same traces), zᵀS²ᵃz = ‖Sᵃz‖² and
  * zᵀS²ᵃ⁺¹z = (Sᵃz)ᵀS(Sᵃz) halve the products needed.
  */
-import { csrEntry, csrMultiply, type CsrMatrix } from '../csr.js';
-import { meanAndError, rademacher, seededUniform } from './random.js';
-
-export function traceOf(w: CsrMatrix): number {
-  let t = 0;
-  for (let i = 0; i < w.n; i++) for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) if (w.colIdx[p] === i) t += w.values[p];
-  return t;
-}
-
-/** Σ_ij w_ij w_ji, by merging row i with the column entries of row j. */
-export function traceOfSquare(w: CsrMatrix): number {
-  let t = 0;
-  for (let i = 0; i < w.n; i++) {
-    for (let p = w.rowPtr[i], pEnd = w.rowPtr[i + 1]; p < pEnd; p++) t += w.values[p] * entry(w, w.colIdx[p], i);
-  }
-  return t;
-}
-
-/** Σ_ij w_ij², i.e. tr WᵀW. */
-export function frobeniusSquared(w: CsrMatrix): number {
-  let t = 0;
-  for (let p = 0; p < w.rowPtr[w.n]; p++) t += w.values[p] * w.values[p];
-  return t;
-}
-
-/** W[i, j]: one lookup shared with the rest of linalg. */
-export const entry = csrEntry;
+import { csrMultiply, traceOf, traceOfSquare, type CsrMatrix } from '../csr.js';
+import { meanAndError, rademacher, seededRandom } from '../random.js';
 
 export interface PowerTraceEstimate {
   /** tr(Wᵏ) at index k − 1 */
@@ -56,7 +31,7 @@ export function powerTraces(w: CsrMatrix, symmetric: CsrMatrix | null, count: nu
   const traces = new Float64Array(count), errors = new Float64Array(count);
   const rounds = exact ? n : probes;
   const samples = new Float64Array(rounds * count);
-  const uniform = seededUniform(seed);
+  const uniform = seededRandom(seed);
   let v = new Float64Array(n), next = new Float64Array(n);
   const z = new Float64Array(n);
   let sv = new Float64Array(n);

@@ -16,7 +16,7 @@
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { csrMultiply, type CsrMatrix } from '../csr.js';
-import { meanAndError, rademacher, seededUniform } from './random.js';
+import { meanAndError, rademacher, seededRandom } from '../random.js';
 
 export interface QuadratureOptions {
   probes?: number;
@@ -51,7 +51,7 @@ export class LanczosQuadrature {
       this.weights.push(tau2);
       return;
     }
-    const uniform = seededUniform(this.seed);
+    const uniform = seededRandom(this.seed);
     const z = new Float64Array(n);
     let v = new Float64Array(n), prev = new Float64Array(n), w = new Float64Array(n);
     const alpha = new Float64Array(this.steps), beta = new Float64Array(this.steps);

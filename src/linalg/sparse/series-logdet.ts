@@ -9,7 +9,8 @@
  */
 import type { CsrMatrix } from '../csr.js';
 import type { LogDeterminant } from '../logdet.js';
-import { powerTraces, traceOf, traceOfSquare } from './power-traces.js';
+import { traceOf, traceOfSquare } from '../csr.js';
+import { powerTraces } from './power-traces.js';
 
 export interface SeriesOptions {
   terms?: number;
@@ -48,8 +49,16 @@ export class SeriesLogDet implements LogDeterminant {
     }
     this.method = `Monte Carlo series (Barry & Pace 1999): ${this.terms} terms, tr(Wᵏ) ` +
       (est.exact ? 'exact from unit vectors' : `estimated with ${this.probes} Rademacher probes (seed ${opts.seed ?? 7}); tr W, tr W² exact`);
-    const show = [0.5, 0.8, 0.9].map((r) => `±${this.errorBound(r).toPrecision(2)} at ρ = ${r}`).join(', ');
-    this.accuracy = `approximate, 95% bound 1.96·SE(ρ) + n(r|ρ|)^(m+1)/((m+1)(1 − r|ρ|)) with n = ${n}, m = ${this.terms}, r = ${this.radius}: ${show}`;
+    this.accuracy = `approximate, 95% bound 1.96·SE(ρ) + n(r|ρ|)^(m+1)/((m+1)(1 − r|ρ|)) with n = ${n}, m = ${this.terms}, r = ${this.radius.toPrecision(6)}, quoted at each estimate; the series converges only for |ρ| < 1/r`;
+    this.domain = { lower: -1 / this.radius, upper: 1 / this.radius };
+  }
+
+  readonly domain: { lower: number; upper: number };
+
+  /** The 95% bound at ρ, in words; outside |ρ| < 1/r the series has no bound and says so. */
+  accuracyAt(rho: number): string {
+    if (!(Math.abs(rho) * this.radius < 1)) return `the series does not converge at ρ = ${rho.toPrecision(6)} (|ρ| ≥ 1/r)`;
+    return `95% error bound ±${this.errorBound(rho).toPrecision(2)} on ln|I − ρW| at ρ = ${rho.toPrecision(6)}`;
   }
 
   evaluate(rho: number): number {

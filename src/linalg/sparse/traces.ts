@@ -13,10 +13,13 @@
  */
 import { csrMultiply, csrMultiplyTransposed, type CsrMatrix } from '../csr.js';
 import type { TracesAt } from '../algebra.js';
+
+/** Every trace, the optional cross traces included. */
+type FullTraces = Required<Omit<TracesAt, 'unconverged'>>;
 import type { SparseCholeskyLogDet } from './cholesky-logdet.js';
 import type { NumericFactor } from './frontal.js';
 import { choleskySolveBlock } from './solve.js';
-import { meanAndError, rademacher, seededUniform } from './random.js';
+import { meanAndError, rademacher, seededRandom } from '../random.js';
 
 export interface TraceErrors {
   trG: number;
@@ -42,7 +45,7 @@ export class CholeskyTraces {
   readonly probes: number;
   readonly seed: number;
   lastErrors: TraceErrors | null = null;
-  private lastTraces: { rho: number; traces: Required<TracesAt> } | null = null;
+  private lastTraces: { rho: number; traces: FullTraces } | null = null;
 
   /** `w` is W itself (for the cross traces); when omitted, W = T S T⁻¹ is applied through S. */
   constructor(private readonly ld: SparseCholeskyLogDet, private readonly s: CsrMatrix, private readonly t: Float64Array, opts: TraceOptions = {}, private readonly w?: CsrMatrix) {
@@ -77,7 +80,7 @@ export class CholeskyTraces {
     return x;
   }
 
-  traces(rho: number): Required<TracesAt> {
+  traces(rho: number): FullTraces {
     if (this.lastTraces && this.lastTraces.rho === rho) return { ...this.lastTraces.traces };
     const out = this.exact ? this.exactTraces(rho) : this.estimatedTraces(rho);
     this.lastTraces = { rho, traces: out };
@@ -100,7 +103,7 @@ export class CholeskyTraces {
     for (let i = 0; i < n; i++) out[i] /= t[i];
   }
 
-  private exactTraces(rho: number): Required<TracesAt> {
+  private exactTraces(rho: number): FullTraces {
     const n = this.s.n, t = this.t, sym = this.ld.symbolic;
     const factor = this.factorAt(rho);
     const b = new Float64Array(n * BLOCK), x = new Float64Array(n * BLOCK), work = new Float64Array(n * BLOCK);
@@ -139,10 +142,10 @@ export class CholeskyTraces {
     return { trG, trG2, trGtG, trAinv, trWtG, trWG };
   }
 
-  private estimatedTraces(rho: number): Required<TracesAt> {
+  private estimatedTraces(rho: number): FullTraces {
     const n = this.s.n, t = this.t, sym = this.ld.symbolic;
     const factor = this.factorAt(rho);
-    const uniform = seededUniform(this.seed);
+    const uniform = seededRandom(this.seed);
     const p = this.probes;
     const sA = new Float64Array(p), sG = new Float64Array(p), sG2 = new Float64Array(p), sGtG = new Float64Array(p);
     const sWtG = new Float64Array(p), sWG = new Float64Array(p);

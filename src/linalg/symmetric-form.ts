@@ -1,9 +1,11 @@
 /**
- * Recover the diagonal similarity W = T S T⁻¹ between W and its symmetric form S (for a
- * row-standardised W = D⁻¹B, S = D^-1/2 B D^-1/2 and T = D^-1/2). With T, solves with I − ρW go
- * through the Cholesky factor of I − ρS: (I − ρW)⁻¹ = T (I − ρS)⁻¹ T⁻¹.
+ * The one symmetric form of W: S symmetric with W = T S T⁻¹, T diagonal, so W and S share their
+ * eigenvalues (Ord 1975, "Estimation methods for models of spatial interaction", JASA 70). For a
+ * row-standardised W = D⁻¹C of a symmetric C, S = D^-1/2 C D^-1/2 and T = D^-1/2. With T, solves
+ * with I − ρW go through the Cholesky factor of I − ρS: (I − ρW)⁻¹ = T (I − ρS)⁻¹ T⁻¹. The dense
+ * eigenvalues, the sparse Cholesky and the Lanczos range all take S from here.
  */
-import type { CsrMatrix } from '../csr.js';
+import { isSymmetric, rowSums, type CsrMatrix } from './csr.js';
 
 /** t with W_ij = t_i S_ij / t_j on every entry, or null when W and S are not so related. */
 export function diagonalSimilarity(w: CsrMatrix, s: CsrMatrix): Float64Array | null {
@@ -40,24 +42,6 @@ export function diagonalSimilarity(w: CsrMatrix, s: CsrMatrix): Float64Array | n
   return t;
 }
 
-/** True when a equals its transpose (same pattern, values within 1e-12 relative). */
-export function isSymmetricMatrix(a: CsrMatrix): boolean {
-  for (let i = 0; i < a.n; i++) {
-    for (let p = a.rowPtr[i], pEnd = a.rowPtr[i + 1]; p < pEnd; p++) {
-      const j = a.colIdx[p];
-      let lo = a.rowPtr[j], hi = a.rowPtr[j + 1] - 1, found = NaN;
-      while (lo <= hi) {
-        const mid = (lo + hi) >> 1;
-        if (a.colIdx[mid] === i) { found = a.values[mid]; break; }
-        if (a.colIdx[mid] < i) lo = mid + 1;
-        else hi = mid - 1;
-      }
-      if (!(Math.abs(found - a.values[p]) <= 1e-12 * Math.abs(a.values[p]))) return false;
-    }
-  }
-  return true;
-}
-
 /**
  * The symmetric matrix S similar to W and the diagonal t with W = T S T⁻¹. `given` may be S itself,
  * or the symmetric base C of a row-standardised W = D⁻¹C (then S = D^-1/2 C D^-1/2). Null when
@@ -65,23 +49,33 @@ export function isSymmetricMatrix(a: CsrMatrix): boolean {
  */
 export function symmetricForm(w: CsrMatrix, given: CsrMatrix | null): { s: CsrMatrix; t: Float64Array } | null {
   const n = w.n;
-  if (given === null) return isSymmetricMatrix(w) ? { s: w, t: new Float64Array(n).fill(1) } : null;
+  if (given === null) return isSymmetric(w) ? { s: w, t: new Float64Array(n).fill(1) } : null;
   if (given.n !== n) throw new Error(`the symmetric form has order ${given.n}, W has ${n}`);
-  if (!isSymmetricMatrix(given)) return null;
+  if (!isSymmetric(given)) return null;
   const direct = diagonalSimilarity(w, given);
   if (direct) return { s: given, t: direct };
-  const rowSum = new Float64Array(n);
-  for (let i = 0; i < n; i++) for (let p = given.rowPtr[i], pEnd = given.rowPtr[i + 1]; p < pEnd; p++) rowSum[i] += given.values[p];
-  const values = new Float64Array(given.values.length);
-  for (let i = 0; i < n; i++) {
-    for (let p = given.rowPtr[i], pEnd = given.rowPtr[i + 1]; p < pEnd; p++) {
-      const j = given.colIdx[p];
-      const d = rowSum[i] * rowSum[j];
-      if (!(d > 0)) return null;
-      values[p] = given.values[p] / Math.sqrt(d);
-    }
-  }
-  const s: CsrMatrix = { n, rowPtr: given.rowPtr, colIdx: given.colIdx, values };
+  const s = scaledByRowSums(given);
+  if (!s) return null;
   const t = diagonalSimilarity(w, s);
   return t ? { s, t } : null;
+}
+
+/**
+ * S = D^-1/2 C D^-1/2 for a symmetric C with row sums D (the symmetric form of its row-standardised
+ * W = D⁻¹C); null when a row that has entries sums to zero or less. Rows of areas without neighbours
+ * stay empty.
+ */
+export function scaledByRowSums(c: CsrMatrix): CsrMatrix | null {
+  const { n, rowPtr, colIdx } = c;
+  const sums = rowSums(c);
+  const scale = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    if (rowPtr[i + 1] > rowPtr[i] && !(sums[i] > 0)) return null;
+    scale[i] = sums[i] > 0 ? 1 / Math.sqrt(sums[i]) : 0;
+  }
+  const values = new Float64Array(colIdx.length);
+  for (let i = 0; i < n; i++) {
+    for (let p = rowPtr[i], pEnd = rowPtr[i + 1]; p < pEnd; p++) values[p] = scale[i] * c.values[p] * scale[colIdx[p]];
+  }
+  return { n, rowPtr, colIdx, values };
 }

@@ -1,0 +1,76 @@
+/**
+ * Outputs beside the workbook: the per-area results joined to the shapes as GeoJSON (--out-geojson),
+ * and the report's maps and plots as separate SVG and PNG files (--pictures DIR). They meet the same
+ * rules as the results workbook (output-file.ts): never an input, an existing file replaced only with
+ * --overwrite and never when read-only, each file written whole through a temporary file that is
+ * removed on failure and on signals (write-file.ts).
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { InputError } from '../errors.js';
+import type { AnalysisResult } from '../pipeline/index.js';
+import { buildReport, projectedNote, resultsGeoJsonText } from '../report/index.js';
+import { renderPng } from '../report/render-png.js';
+import { writeWorkbookFile } from '../workbook/write-file.js';
+import { planOutput, type InputPath, type OutputPlan, type PictureFolder } from './output-file.js';
+
+function writeOptions(plan: OutputPlan): { replace?: boolean; mode?: number } {
+  return plan.replaceMode !== undefined ? { replace: true, mode: plan.replaceMode } : {};
+}
+
+/** Writes the GeoJSON to a planned path; returns notes for the user (projected coordinates). */
+export async function writeGeoJsonFile(result: AnalysisResult, plan: OutputPlan): Promise<string[]> {
+  await writeWorkbookFile(plan.target, new TextEncoder().encode(resultsGeoJsonText(result)), writeOptions(plan));
+  const note = projectedNote(result);
+  return note ? [note] : [];
+}
+
+/** A file name from a picture's name: lower case, words joined by hyphens. */
+export function pictureFileName(name: string): string {
+  return name.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '') || 'picture';
+}
+
+export interface PicturePlan {
+  pictures: PictureFolder;
+  files: { name: string; bytes: Uint8Array; plan?: OutputPlan }[];
+}
+
+/**
+ * Draws every picture of the report and checks each file it will be written to (NAME.svg and
+ * NAME.png in the planned folder) against the inputs and what is there — before any output of the run
+ * is written, so a refusal leaves every folder as it was.
+ */
+export function planPictureFiles(result: AnalysisResult, pictures: PictureFolder, inputs: InputPath[], overwrite: boolean): PicturePlan {
+  const report = buildReport(result, { renderPng });
+  const files: PicturePlan['files'] = [];
+  const used = new Set<string>();
+  for (const sheet of report.sheets) {
+    for (const im of sheet.images ?? []) {
+      let stem = pictureFileName(im.name);
+      for (let k = 2; used.has(stem); k++) stem = `${pictureFileName(im.name)}-${k}`;
+      used.add(stem);
+      for (const [ext, bytes] of [['svg', new TextEncoder().encode(im.svg)], ['png', im.png]] as const) {
+        if (bytes.length === 0) continue;
+        const name = `${stem}.${ext}`;
+        // in a folder still to be made there is nothing to compare with
+        files.push({ name, bytes, ...(pictures.exists ? { plan: planOutput(join(pictures.folder, name), inputs, overwrite, '--pictures') } : {}) });
+      }
+    }
+  }
+  return { pictures, files };
+}
+
+/** Writes the planned pictures (making their folder when missing); returns the file names. */
+export async function writePictureFiles({ pictures, files }: PicturePlan): Promise<string[]> {
+  if (!pictures.exists) {
+    try {
+      mkdirSync(pictures.folder);
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      // made meanwhile by someone else: each file below is then placed without replacing anything
+      if (code !== 'EEXIST') throw new InputError(`Cannot make the --pictures folder "${pictures.given}" (${code ?? 'error'}). Check the path and permissions, or name another folder.`, { file: pictures.given });
+    }
+  }
+  for (const f of files) await writeWorkbookFile(f.plan ? f.plan.target : join(pictures.folder, f.name), f.bytes, f.plan ? writeOptions(f.plan) : {});
+  return files.map((f) => f.name);
+}
