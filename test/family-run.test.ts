@@ -57,9 +57,9 @@ describe('a run with every model on Columbus (queen)', async () => {
     lacks('slx', ['rho', 'lambda']);
     has('durbin', ['rho', 'rhoSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'impacts', 'impactsMethod']);
     lacks('durbin', ['lambda']);
-    has('durbinError', ['lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests']);
-    lacks('durbinError', ['rho', 'impacts']);
-    has('lagError', ['rho', 'rhoSe', 'lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'evaluations', 'convergence']);
+    has('durbinError', ['lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'impacts']);
+    lacks('durbinError', ['rho']);
+    has('lagError', ['rho', 'rhoSe', 'lambda', 'lambdaSe', 'logLik', 'aic', 'bic', 'lr', 'lrTests', 'evaluations', 'convergence', 'impacts']);
     has('lagIV', ['rho', 'rhoSe', 'wald', 'instruments', 'firstStage', 'impacts']);
     lacks('lagIV', ['logLik', 'aic', 'bic', 'lambda']);
     has('errorGM', ['lambda', 'lambdaSe', 'wald']);
@@ -111,7 +111,8 @@ describe('a run with every model on Columbus (queen)', async () => {
     expect(models.rows.map((r) => r[0])).toContain('Lag-and-error model: λ');
     const spill = report.sheets.find((s) => s.role === 'impacts')!;
     const titles = spill.blocks.filter((b) => b.kind === 'title').map((b) => (b as { text: string }).text);
-    expect(titles).toEqual(['Spillover effects in the spatial lag model', 'Spillover effects in the neighbours’ columns model', 'Spillover effects in the spatial Durbin model', 'Spillover effects in the lag model by instruments']);
+    expect(titles).toEqual(['Spillover effects in the spatial lag model', 'Spillover effects in the neighbours’ columns model', 'Spillover effects in the spatial Durbin model',
+      'Spillover effects in the spatial Durbin error model', 'Spillover effects in the lag-and-error model', 'Spillover effects in the lag model by instruments']);
     const durbinSheet = report.sheets.find((s) => s.name === 'Spatial Durbin model')!;
     expect(durbinSheet.blocks.some((b) => b.kind === 'table' && b.title.startsWith('Tests of the spatial Durbin model'))).toBe(true);
     const ivSheet = report.sheets.find((s) => s.name === 'Lag model by instruments')!;

@@ -104,6 +104,23 @@ for (const key of ['queen', 'knn4'] as const) {
       });
     });
 
+    it('spatial Durbin error model’s effects are its coefficients (direct β, indirect θ, with their standard errors); the lag-and-error model’s are the lag model’s formulas at its ρ', () => {
+      const de = fitModel('durbinError', p, options);
+      de.impacts!.impacts.forEach((m, i) => {
+        rel(m.direct, g.durbinError.coefficients[1 + i].estimate, 1e-6, `${m.name} direct`);
+        rel(m.directSe, g.durbinError.coefficients[1 + i].se, 1e-6, `${m.name} direct se`);
+        rel(m.indirect, g.durbinError.coefficients[3 + i].estimate, 1e-6, `${m.name} indirect`);
+        rel(m.indirectSe, g.durbinError.coefficients[3 + i].se, 1e-6, `${m.name} indirect se`);
+      });
+      const le = fitModel('lagError', p, { seed: 1, impactDraws: 200 }) as unknown as { rho: number; coefficients: Coef[]; impacts: { impacts: { name: string; direct: number; total: number; totalSe: number }[] } };
+      const d = algebra.traces(le.rho).trAinv / y.length;
+      le.impacts.impacts.forEach((m, i) => {
+        rel(m.direct, g.lagError.coefficients[i + 1].estimate * d, 1e-6, `${m.name} direct`);
+        rel(m.total, g.lagError.coefficients[i + 1].estimate / (1 - g.lagError.rho), 1e-6, `${m.name} total`);
+        expect(m.totalSe).toBeGreaterThan(0);
+      });
+    });
+
     it('spatial Durbin error model: λ, coefficients, standard errors, log-likelihood', () => {
       const f = fitDurbinError(p);
       abs(f.parameter, g.durbinError.lambda, 5e-5, 'λ');

@@ -205,6 +205,15 @@ export function fitLagError(p: PreparedInputs, opts: { fixedRho?: number; fixedL
   };
 }
 
+/** The covariance of (β, ρ, λ, σ²) as the lag model's effects read it: (β, ρ, σ²), σ² not jointly used (NaN). */
+export function betaRhoCovariance(covariance: Float64Array, k: number): Float64Array {
+  const q = k + 3;
+  const p = k + 2;
+  const out = new Float64Array(p * p).fill(NaN);
+  for (let a = 0; a <= k; a++) for (let b = 0; b <= k; b++) out[a * p + b] = covariance[a * q + b];
+  return out;
+}
+
 /** The algebra's traces at a value, computed once each. */
 function memo(algebra: WeightsAlgebra): (t: number) => TracesAt {
   const seen = new Map<number, TracesAt>();

@@ -10,9 +10,9 @@ import { coefficientJson, defineModel, spatialHeadline, spatialJson, testJson, t
 import { fitSpatialLag } from './ml-lag.js';
 import { fitSpatialError } from './ml-error.js';
 import { lagImpacts } from './impacts.js';
-import { fitSlx, slxImpacts, type SlxFit } from './slx.js';
+import { columnImpacts, fitSlx, slxImpacts, type SlxFit } from './slx.js';
 import { fitDurbin, fitDurbinError, type DurbinFit } from './durbin.js';
-import { fitLagError, type LagErrorFit } from './lag-error.js';
+import { betaRhoCovariance, fitLagError, type LagErrorFit } from './lag-error.js';
 import { fitLagIv, type LagIvFit } from './lag-iv.js';
 import { fitErrorGm, type ErrorGmFit } from './error-gm.js';
 import { laggedCount, withLaggedColumns } from './lagged-columns.js';
@@ -139,6 +139,8 @@ const DURBIN_ERROR = defineModel({
   parameters: [LAMBDA],
   fit: (p): DurbinFit => fitDurbinError(p),
   headline: (f) => spatialHeadline(f, LAMBDA),
+  // β I + θ W: the spillover runs through the neighbours' columns only (exact, from the ML covariance)
+  impacts: (f, p) => columnImpacts(f, f.covariance, f.coefficients.length + 2, p.w, { covariance: 'maximum-likelihood' }),
   nests: [THETA_ZERO('error'), { key: 'slx', restriction: 'λ = 0', df: ONE }],
   json: (f) => spatialJson(f, LAMBDA.key),
 });
@@ -156,6 +158,8 @@ const LAG_ERROR = defineModel({
     parameters: [parameterEstimate(RHO, f.rho, f.rhoSe), parameterEstimate(LAMBDA, f.lambda, f.lambdaSe)],
     logLik: f.logLik, aic: f.aic, bic: f.bic, lr: f.lr, r2: f.pseudoR2, sigma2: f.sigma2, convergence: f.convergence, range: f.range,
   }),
+  // (I − ρW)⁻¹β as in the lag model (λ shapes the errors, not the effects), drawn from the (β, ρ) block
+  impacts: (f, p, o) => lagImpacts({ coefficients: f.coefficients, parameter: f.rho, covariance: betaRhoCovariance(f.covariance, f.coefficients.length), range: f.range }, p.design, p.algebra, { draws: o.impactDraws, seed: o.seed }),
   nests: [{ key: 'lag', restriction: 'λ = 0', df: ONE }, { key: 'error', restriction: 'ρ = 0', df: ONE }],
   json: (f) => familyJson(f, [parameterEstimate(RHO, f.rho, f.rhoSe), parameterEstimate(LAMBDA, f.lambda, f.lambdaSe)], {
     logLik: f.logLik, aic: f.aic, bic: f.bic, lr: testJson(f.lr), pseudoR2: f.pseudoR2, breuschPagan: testJson(f.breuschPagan),

@@ -1,9 +1,9 @@
-import { householderQr, inverseCrossProduct } from '../linalg/index.js';
-import { chiSquareUpper, studentTwoSided } from '../stats/index.js';
+import { householderQr, inverseCrossProduct, type CsrMatrix } from '../linalg/index.js';
+import { chiSquareUpper, normalTwoSided, studentTwoSided } from '../stats/index.js';
 import type { PreparedInputs } from './model-entry.js';
 import { laggedCount, laggedDesign, markLagged } from './lagged-columns.js';
 import { fitOls, whiteCovariance } from './ols.js';
-import type { Impact, ImpactsResult, OlsFit, TestResult } from './types.js';
+import type { Coefficient, Impact, ImpactsResult, OlsFit, TestResult } from './types.js';
 
 export interface SlxFit extends OlsFit {
   /** covariance of all coefficients (constant, X, WX), row-major: classical σ²(XᵀX)⁻¹, or White's when robust ones were asked for */
@@ -52,19 +52,30 @@ export function fitSlx(p: PreparedInputs, o: { robust?: boolean } = {}): SlxFit 
   };
 }
 
-/**
- * Effects of the SLX model (Halleck Vega & Elhorst 2015): a change in column r of one area moves
- * that area's outcome by β_r (direct) and its neighbours' outcomes by θ_r in total (indirect, with
- * row-standardised weights; in general θ_r times the average row sum of W's columns, which is 1
- * there). Averaged over areas as for the lag model (LeSage & Pace 2009, §2.7): direct = β_r tr(I)/n
- * = β_r, indirect = θ_r·1'W1/n − θ_r·tr(W)/n, total = β_r + θ_r·1'W1/n.
- * Standard errors are exact (linear in the coefficients): from the covariance of (β_r, θ_r);
- * p-values from Student's t with n − k df, so the direct effect's test is the coefficient's own.
- */
+/** Effects of the neighbours' columns model: `columnImpacts` with its covariance and Student's t on n − k df. */
 export function slxImpacts(fit: SlxFit, p: PreparedInputs): ImpactsResult {
-  const n = p.y.length;
   const k = fit.coefficients.length;
-  const w = p.w;
+  return columnImpacts(fit, fit.covariance, k, p.w, { df: p.y.length - k, covariance: fit.covarianceKind });
+}
+
+/**
+ * Effects of a model whose spillover runs only through the neighbours' averages of the columns (the
+ * SLX model, Halleck Vega & Elhorst 2015; the spatial Durbin error model, LeSage & Pace 2009, §2.3):
+ * S_r = β_r I + θ_r W, so averaged over areas as for the lag model (LeSage & Pace 2009, §2.7)
+ *   direct = β_r + θ_r tr(W)/n, total = β_r + θ_r 1'W1/n, indirect = total − direct
+ * (direct β_r and indirect θ_r with row-standardised weights without self-links). Linear in the
+ * coefficients, so the standard errors are exact, from the covariance of (β_r, θ_r) (`stride`: the
+ * covariance's row length); p-values from Student's t with `df` degrees of freedom, or the normal
+ * when df is absent — either way the direct effect's test is the coefficient's own.
+ */
+export function columnImpacts(
+  fit: { coefficients: Coefficient[]; xColumns: number; source: number[] },
+  covariance: Float64Array,
+  stride: number,
+  w: CsrMatrix,
+  o: { df?: number; covariance: string },
+): ImpactsResult {
+  const n = w.n;
   let total = 0;
   let trace = 0;
   for (let i = 0; i < n; i++) {
@@ -75,8 +86,8 @@ export function slxImpacts(fit: SlxFit, p: PreparedInputs): ImpactsResult {
   }
   const spread = total / n; // 1'W1/n: 1 with row-standardised weights
   const own = trace / n; // tr(W)/n: 0 without self-links
-  const df = n - k;
-  const v = (a: number, b: number) => fit.covariance[a * k + b];
+  const pOf = (z: number) => (o.df === undefined ? normalTwoSided(z) : studentTwoSided(z, o.df));
+  const v = (a: number, b: number) => covariance[a * stride + b];
   const impacts: Impact[] = fit.source.map((j, m) => {
     const t = fit.xColumns + m;
     const b = fit.coefficients[j].estimate;
@@ -90,15 +101,15 @@ export function slxImpacts(fit: SlxFit, p: PreparedInputs): ImpactsResult {
     return {
       name: fit.coefficients[j].name,
       direct, indirect, total: totalEffect, directSe, indirectSe, totalSe,
-      directP: studentTwoSided(direct / directSe, df),
-      indirectP: studentTwoSided(indirect / indirectSe, df),
-      totalP: studentTwoSided(totalEffect / totalSe, df),
+      directP: pOf(direct / directSe),
+      indirectP: pOf(indirect / indirectSe),
+      totalP: pOf(totalEffect / totalSe),
     };
   });
   return {
     impacts,
     draws: 0,
     seed: 0,
-    method: `exact: the effects are linear in the coefficients (direct β, indirect θ·1'W1/n${own !== 0 ? ' less θ·tr(W)/n' : ''}), standard errors from their ${fit.covarianceKind} covariance, p-values from Student's t with ${df} degrees of freedom; no simulation`,
+    method: `exact: the effects are linear in the coefficients (direct β, indirect θ·1'W1/n${own !== 0 ? ' less θ·tr(W)/n' : ''}), standard errors from their ${o.covariance} covariance, p-values from ${o.df === undefined ? 'the normal distribution' : `Student's t with ${o.df} degrees of freedom`}; no simulation`,
   };
 }

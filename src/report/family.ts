@@ -163,6 +163,8 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
   const how: Record<string, string> = {
     slx: `In the ${inSentence(entry.label)} a change in one area's column moves that area's ${y} by its own coefficient (direct) and its neighbours' ${y} by the coefficient of the neighbours' average (indirect), with no further spread.`,
     durbin: `In the ${inSentence(entry.label)} a change in one area's column moves its own ${y}, its neighbours' through their averages of the column, and then every area through the neighbour links. The figures are averaged over the areas (direct: in the area itself; indirect: all other areas together).`,
+    durbinError: `In the ${inSentence(entry.label)} a change in one area's column moves that area's ${y} by its own coefficient (direct) and its neighbours' ${y} by the coefficient of the neighbours' average (indirect); the shared errors (λ) spread no effect.`,
+    lagError: `As in the lag model, a change in one area reaches the other areas through the neighbour links (ρ); the shared errors (λ) spread no effect, so the effects come from ρ and the coefficients of this model.`,
     lagIV: `As in the lag model, a change in one area reaches the other areas through the neighbour links; the figures use the estimates by instruments.`,
   };
   return [

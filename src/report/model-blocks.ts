@@ -25,8 +25,8 @@ export const MODEL_BLOCKS: { [K in ModelKey]: ModelBlocks<FitOf<K>> } = {
   error: { sheet: spatialBlocks, checks: spatialChecks },
   slx: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
   durbin: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
-  durbinError: { sheet: familySheet, checks: familyChecks },
-  lagError: { sheet: familySheet, checks: familyChecks },
+  durbinError: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
+  lagError: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
   lagIV: { sheet: familySheet, impacts: familyImpacts },
   errorGM: { sheet: familySheet },
 };
