@@ -1,5 +1,6 @@
 import { NotPositiveDefiniteError, PivotError, type LogDeterminant } from '../linalg/index.js';
 import { brentMaximise } from './brent.js';
+import { parabola } from './bracket-polish.js';
 import type { Convergence } from './types.js';
 
 /** A box [xlo, xhi] × [ylo, yhi]. */
@@ -191,17 +192,4 @@ export function polishSeparable2d(
 function spread(points: [number, number][]): number {
   const xs = points.map(([x]) => x);
   return Math.max(...xs) - Math.min(...xs);
-}
-
-/** Lagrange interpolant through up to three points. */
-function parabola(points: [number, number][]): (x: number) => number {
-  return (x: number) => {
-    let sum = 0;
-    for (let i = 0; i < points.length; i++) {
-      let term = points[i][1];
-      for (let j = 0; j < points.length; j++) if (j !== i) term *= (x - points[j][0]) / (points[i][0] - points[j][0]);
-      sum += term;
-    }
-    return sum;
-  };
 }

@@ -6,7 +6,8 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, TestResult } from '../models/types.js';
 import { inSentence, fittedInOrder, modelEntry, type Fitted, type ModelEntry } from '../models/index.js';
-import type { Block, Cell, NumberFormat, TableColumn } from './types.js';
+import type { Block, Cell, NumberFormat } from './types.js';
+import { effectColumns } from './impacts.js';
 import { MARK_NOTE, SOME_LEVEL, evidenceMark, num, say, sayList, sayP, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
 
@@ -155,11 +156,6 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
   const im = fit.impacts;
   if (!im) return [];
   const y = result.request.y;
-  const effect = (group: string): TableColumn[] => [
-    { header: 'Effect', format: 'decimal4', width: 10, group },
-    { header: 'Standard error', format: 'decimal4', width: 10, group },
-    { header: 'p-value', format: 'pvalue', width: 9, group },
-  ];
   const how: Record<string, string> = {
     slx: `In the ${inSentence(entry.label)} a change in one area's column moves that area's ${y} by its own coefficient (direct) and its neighbours' ${y} by the coefficient of the neighbours' average (indirect), with no further spread.`,
     durbin: `In the ${inSentence(entry.label)} a change in one area's column moves its own ${y}, its neighbours' through their averages of the column, and then every area through the neighbour links. The figures are averaged over the areas (direct: in the area itself; indirect: all other areas together).`,
@@ -174,7 +170,7 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
       kind: 'table', title: `Direct, indirect and total effects: ${inSentence(entry.label)}`,
       columns: [
         { header: 'Explanatory column', format: 'text', width: 16 },
-        ...effect('In the area itself (direct)'), ...effect('Spread over other areas (indirect)'), ...effect('Total'),
+        ...effectColumns('In the area itself (direct)'), ...effectColumns('Spread over other areas (indirect)'), ...effectColumns('Total'),
       ],
       rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP), num(m.total), num(m.totalSe), num(m.totalP)]),
       note: `How the standard errors and p-values were found: ${im.method}.`,
