@@ -1,3 +1,4 @@
+import { capital, sayList, sayP } from '../core/words.js';
 import type { LmTests, Recommendation, SpatialModelName } from './types.js';
 
 const PUBLISHED_RULE =
@@ -35,11 +36,6 @@ const TEST = {
   error: 'error', lag: 'lag', robustError: 'robust error', robustLag: 'robust lag',
 } as const;
 
-function sayP(p: number): string {
-  if (!Number.isFinite(p)) return 'p not available';
-  return p < 0.001 ? 'p < 0.001' : `p = ${p.toFixed(3)}`;
-}
-
 function percent(x: number): string {
   return `${+(x * 100).toFixed(2)}%`;
 }
@@ -47,10 +43,6 @@ function percent(x: number): string {
 /** "error p = 0.010, lag p = 0.200" for the named tests. */
 function ps(lm: LmTests, keys: (keyof typeof TEST)[]): string {
   return keys.map((k) => `${TEST[k]} ${sayP(lm[k].p)}`).join(', ');
-}
-
-function and(items: readonly string[]): string {
-  return items.length <= 1 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
 }
 
 export interface RecommendOptions {
@@ -114,7 +106,7 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
     const near = (Object.keys(TEST) as (keyof typeof TEST)[]).filter((k) => lm[k].p >= close.lower && lm[k].p < close.upper);
     sentences.push(
       `The call is borderline: it turns on ${near.length === 1 ? 'a p-value' : 'p-values'} close to the ${at} level (${ps(lm, near)}; close means between ${percent(close.lower)} and ${percent(close.upper)}, ` +
-        `where halving or doubling the level would change the call), so report ${models.length === 2 ? 'both ' : ''}${and(models.map((m) => NAME[m]))}.`,
+        `where halving or doubling the level would change the call), so report ${models.length === 2 ? 'both ' : ''}${sayList(models.map((m) => NAME[m]))}.`,
     );
   }
   if (notFitted.length) {
@@ -130,8 +122,4 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
       'the rule would ask for a model it does not ask for now; every model either call names is then to be reported.',
     alpha,
   };
-}
-
-function capital(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
 }

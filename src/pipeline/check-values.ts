@@ -4,6 +4,7 @@
  * neighbour rule or model at fault, so odd data ends in a message instead of an internal error.
  */
 import { InputError } from '../errors.js';
+import { sayList } from '../core/words.js';
 import type { SpatialWeights } from '../weights/types.js';
 import { inSentence, areasNeeded, type ModelEntry } from '../models/index.js';
 
@@ -146,6 +147,5 @@ export function checkSpatialRange(range: { lower: number; upper: number }, ruleW
 
 /** "the spatial lag model", "the spatial lag model and spatial error model" */
 function labels(models: readonly ModelEntry[]): string {
-  const words = models.map((m) => inSentence(m.label));
-  return words.length <= 1 ? words.join('') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
+  return sayList(models.map((m) => inSentence(m.label)));
 }

@@ -2,6 +2,7 @@ import type { AnalysisResult, ComparedFit, WeightsComparison } from '../pipeline
 import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num, say, sayList } from './format.js';
 import { inSentence, MODELS, type ModelEntry, type ParameterEstimate } from '../models/index.js';
+import { capital } from '../core/words.js';
 
 const name = (r: WeightsComparison) => (r.asRun ? `${r.label} (this run)` : r.label);
 const DEFINITION: TableColumn = { header: 'Neighbour definition', format: 'text', width: 24 };
@@ -137,10 +138,6 @@ function fitColumns(entry: ModelEntry): TableColumn[] {
     ]),
     { header: 'AIC', format: 'decimal4', width: 10, group },
   ];
-}
-
-function capital(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
 /** One paragraph on how much the answers move across the definitions (each distinct set of neighbours counted once). */

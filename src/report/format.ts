@@ -1,6 +1,7 @@
 import type { Cell } from './types.js';
 import { MODELS, type ModelKey } from '../models/index.js';
 import type { Recommendation } from '../models/types.js';
+import { sayList } from '../core/words.js';
 
 /** A number cell, or empty when the value is not finite (a host cannot store NaN). */
 export function num(x: number | undefined | null): Cell {
@@ -57,18 +58,8 @@ export function say(x: number): string {
   return s.replace('-', '−');
 }
 
-/** A p-value for a sentence. */
-export function sayP(p: number): string {
-  if (!Number.isFinite(p)) return 'p not available';
-  if (p < 0.001) return 'p < 0.001';
-  return `p = ${p.toFixed(3)}`;
-}
-
-/** "a, b and c" */
-export function sayList(items: readonly string[]): string {
-  if (items.length <= 1) return items.join('');
-  return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
-}
+/** A p-value and a list for a sentence: the one wording below every stage (src/core/words.ts). */
+export { sayP, sayList } from '../core/words.js';
 
 /** The question one run answers. */
 export function question(y: string, x: readonly string[]): string {
