@@ -8,8 +8,10 @@ import type { Coefficient, TestResult } from '../models/types.js';
 import { inSentence, fittedInOrder, modelEntry, type Fitted, type ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { effectColumns } from './impacts.js';
-import { MARK_NOTE, SOME_LEVEL, evidenceMark, num, say, sayList, sayP, yesNo } from './format.js';
+import { MARK_NOTE, SOME_LEVEL, num, say, sayList, sayP, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
+import { coefficientTable, parameterRow } from './model-tables.js';
+import { capital } from '../core/words.js';
 
 /** A test between two models as the family tables show it. */
 interface Between extends TestResult {
@@ -19,9 +21,8 @@ interface Between extends TestResult {
   kind: 'likelihood ratio' | 'Wald';
 }
 
-function coefficientRows(coefs: Coefficient[]): Cell[][] {
-  return coefs.map((c): Cell[] => [c.name, num(c.estimate), num(c.se), num(c.stat), num(c.p), evidenceMark(c.p)]);
-}
+/** The terms of the wider family are longer ("neighbours' average of …"): a wider first column. */
+const TERM_WIDTH = 34;
 
 /** What some models carry beyond the headline: read without knowing each fit's type. */
 type Extras = Partial<{
@@ -43,27 +44,18 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   const h = entry.headline(fit);
   const extra = fit as unknown as Extras;
   const statName = entry.method === 'least squares' ? 't-value' : 'z-value';
-  const paramRows = h.parameters.map((q): Cell[] => [`${q.symbol}: ${q.name}`, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
-  const columns = [
-    { header: 'Term', format: 'text' as const, width: 34 },
-    { header: 'Estimate', format: 'decimal4' as const, width: 13 },
-    { header: 'Standard error', format: 'decimal4' as const, width: 13 },
-    { header: statName, format: 'decimal4' as const, width: 10 },
-    { header: 'p-value', format: 'pvalue' as const, width: 11 },
-    { header: 'Evidence', format: 'text' as const, width: 10 },
-  ];
   const lagged = fit.coefficients.some((c) => c.lagged);
   const blocks: Block[] = [
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
     { kind: 'paragraph', style: 'note', text: `${capital(entry.about)}. ${modelInWords(entry.key)}` },
-    {
-      kind: 'table', title: extra.covarianceKind && extra.covarianceKind !== 'classical' && !extra.robustCoefficients ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
-      columns, rows: [...coefficientRows(fit.coefficients), ...paramRows],
-      note: `${lagged ? 'A “neighbours’ average of” term is that column averaged over each area’s neighbours under the weights used. ' : ''}${MARK_NOTE}`,
-    },
+    coefficientTable(
+      extra.covarianceKind && extra.covarianceKind !== 'classical' && !extra.robustCoefficients ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
+      statName, fit.coefficients, h.parameters.map(parameterRow),
+      { termWidth: TERM_WIDTH, note: `${lagged ? 'A “neighbours’ average of” term is that column averaged over each area’s neighbours under the weights used. ' : ''}${MARK_NOTE}` },
+    ),
   ];
   if (extra.robustCoefficients) {
-    blocks.push({ kind: 'table', title: 'Coefficients with standard errors robust to unequal variance', columns, rows: coefficientRows(extra.robustCoefficients), note: MARK_NOTE });
+    blocks.push(coefficientTable('Coefficients with standard errors robust to unequal variance', statName, extra.robustCoefficients, [], { termWidth: TERM_WIDTH }));
   }
   // grouped as the other models' sheets are: how well it fits, for comparing models, how it was found
   const fits: [string, Cell, NumberFormat?][] = [
@@ -274,8 +266,4 @@ export function familyReading(result: AnalysisResult): string {
   if (wald.length) parts.push(`By instruments or moments: ${sayList(wald.map((t) => `${t.restriction} in the ${inSentence(t.general.label)} ${sig(t) ? 'is rejected' : 'is not rejected'} (Wald ${say(t.stat)}, ${sayP(t.p)})`))}.`);
   parts.push('This is guidance from the tests at the 5% level; what is known about how the outcome arises should weigh more than the tests alone.');
   return parts.join(' ');
-}
-
-function capital(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
 }

@@ -1,12 +1,12 @@
 /**
  * What the report shows of each model, by registry key: its own sheet, its rows on the checks sheet
  * and its part of the spillover sheet. The type asks for an entry per registry key; a model without
- * one (never the case for a registered model) still gets a sheet of its coefficients and headline figures.
+ * one (never the case for a registered model) still gets the wider family's sheet, read from its headline.
  */
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { FitOf, Fitted, ModelEntry, ModelFitBase, ModelKey } from '../models/index.js';
 import type { Block, Cell } from './types.js';
-import { headlineBlocks, olsBlocks, spatialBlocks, spatialChecks } from './model-tables.js';
+import { olsBlocks, spatialBlocks, spatialChecks } from './model-tables.js';
 import { impactsBlocks } from './impacts.js';
 import { familyChecks, familyImpacts, familySheet } from './family.js';
 
@@ -31,7 +31,7 @@ export const MODEL_BLOCKS: { [K in ModelKey]: ModelBlocks<FitOf<K>> } = {
   errorGM: { sheet: familySheet },
 };
 
-/** The blocks of a model by key (a sheet of headline figures for a key without its own). */
+/** The blocks of a model by key (the family's sheet, from its headline, for a key without its own). */
 export function blocksOf(key: string): ModelBlocks<ModelFitBase> {
-  return (MODEL_BLOCKS as Record<string, ModelBlocks<ModelFitBase> | undefined>)[key] ?? { sheet: headlineBlocks };
+  return (MODEL_BLOCKS as Record<string, ModelBlocks<ModelFitBase> | undefined>)[key] ?? { sheet: familySheet };
 }

@@ -1,15 +1,19 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, OlsFit, SpatialFit } from '../models/types.js';
-import type { Fitted, ModelEntry } from '../models/index.js';
+import type { Fitted, ModelEntry, ParameterEstimate } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
 import { MARK_NOTE, evidenceMark, num, say, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
 
-function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = []): Block {
+/**
+ * A model's coefficient table: term, estimate, standard error, t or z, p-value and the evidence mark,
+ * then any rows of spatial parameters (`extra`). `termWidth` and `note` for the wider family's sheets.
+ */
+export function coefficientTable(title: string, statName: string, coefs: Coefficient[], extra: Cell[][] = [], opts: { termWidth?: number; note?: string } = {}): Block {
   return {
     kind: 'table', title,
     columns: [
-      { header: 'Term', format: 'text', width: 30 },
+      { header: 'Term', format: 'text', width: opts.termWidth ?? 30 },
       { header: 'Estimate', format: 'decimal4', width: 13 },
       { header: 'Standard error', format: 'decimal4', width: 13 },
       { header: statName, format: 'decimal4', width: 10 },
@@ -20,8 +24,13 @@ function coefficientTable(title: string, statName: string, coefs: Coefficient[],
       ...coefs.map((c): Cell[] => [c.name, num(c.estimate), num(c.se), num(c.stat), num(c.p), evidenceMark(c.p)]),
       ...extra,
     ],
-    note: MARK_NOTE,
+    note: opts.note ?? MARK_NOTE,
   };
+}
+
+/** A spatial parameter's row under the coefficients: "ρ: spillover of the outcome", estimate, se, z, p, mark. */
+export function parameterRow(q: ParameterEstimate): Cell[] {
+  return [`${q.symbol}: ${q.name}`, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)];
 }
 
 /** The plain regression's sheet. */
@@ -111,28 +120,4 @@ export function spatialChecks(fit: SpatialFit): Cell[][] {
   if (fit.lmRemainingError) rows.push(testRow('Lagrange multiplier: remaining error dependence', fit.lmRemainingError, 'Is error dependence left over after the spatial lag is modelled?'));
   if (fit.lmRemainingLag) rows.push(testRow('Lagrange multiplier: remaining lag dependence', fit.lmRemainingLag, 'Is lag dependence left over after the spatial error is modelled?'));
   return rows;
-}
-
-/** Any model's sheet from its registry headline: coefficients, spatial parameters and fit figures. */
-export function headlineBlocks(result: AnalysisResult, fit: Fitted, entry: ModelEntry): Block[] {
-  const h = entry.headline(fit);
-  const paramRows = h.parameters.map((q): Cell[] => [`${q.symbol}: ${q.name}`, num(q.estimate), num(q.se), num(q.z), num(q.p), evidenceMark(q.p)]);
-  const fits: [string, Cell, NumberFormat?][] = [
-    ['Areas', result.n, 'integer'],
-    ['R² or squared correlation of observed and fitted', num(h.r2), 'decimal4'],
-    ['Residual variance', num(h.sigma2), 'decimal4'],
-  ];
-  const comparing: [string, Cell, NumberFormat?][] = [];
-  if (h.logLik !== undefined) comparing.push(['Log-likelihood', num(h.logLik), 'decimal4'], ['AIC', num(h.aic), 'decimal4'], ['Bayesian information criterion (BIC)', num(h.bic), 'decimal4']);
-  if (h.lr) comparing.push(['Likelihood ratio against the plain regression', num(h.lr.stat), 'decimal4'], ['Its degrees of freedom', h.lr.df, 'integer'], ['Its p-value', num(h.lr.p), 'pvalue']);
-  const search: [string, Cell, NumberFormat?][] = [];
-  if (h.range) search.push(['Lowest admissible spatial parameter', num(h.range.lower), 'decimal4'], ['Highest admissible spatial parameter', num(h.range.upper), 'decimal4']);
-  if (h.convergence) search.push(['Search converged', yesNo(h.convergence.converged), 'text'], ['Search note', h.convergence.message, 'text']);
-  return [
-    { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
-    coefficientTable('Coefficients', 'z-value', fit.coefficients, paramRows),
-    { kind: 'keyValues', title: 'How well it fits', rows: fits },
-    ...(comparing.length ? [{ kind: 'keyValues', title: 'For comparing models', rows: comparing } satisfies Block] : []),
-    ...(search.length ? [{ kind: 'keyValues', title: 'How the estimate was found', rows: search } satisfies Block] : []),
-  ];
 }
