@@ -173,6 +173,12 @@ for (const key of ['queen', 'knn4'] as const) {
       rel(r.rhoSe, g.lagIV.rhoSeRobust, 1e-10, 'robust ρ se');
       coefficients(r.coefficients, g.lagIV.coefficientsRobust, 1e-10);
       expect(r.wald[0].stat).toBeCloseTo((r.rho / r.rhoSe) ** 2, 12);
+      // identity: a covariance matrix is symmetric, to the last bit, so the effects can be drawn from
+      // its Cholesky factor with the robust standard errors too
+      const q = Math.sqrt(r.covariance.length);
+      for (let a = 0; a < q; a++) for (let b = 0; b < a; b++) if (Number.isFinite(r.covariance[a * q + b])) expect(r.covariance[a * q + b]).toBe(r.covariance[b * q + a]);
+      const fitted = fitModel('lagIV', p, { robust: true, seed: 1, impactDraws: 200 });
+      expect(fitted.impacts!.impacts.every((i) => Number.isFinite(i.totalSe))).toBe(true);
     });
 
     it('error model by moments: the numpy transcription of the moment conditions and their variance', () => {
