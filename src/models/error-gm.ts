@@ -4,7 +4,7 @@ import { brentMaximise } from './brent.js';
 import { searchInterval, squaredCorrelation } from './information.js';
 import type { WaldTest } from './lag-iv.js';
 import type { PreparedInputs } from './model-entry.js';
-import { dot } from './ml-lag.js';
+import { dot, linearPredictor, residual } from './ml-lag.js';
 import { table, whiteCovariance } from './ols.js';
 import type { Coefficient } from './types.js';
 
@@ -68,7 +68,7 @@ export function fitErrorGm(p: PreparedInputs): ErrorGmFit {
   const { lo, hi } = searchInterval(p.algebra.range);
 
   // 1a, 1b
-  const u0 = residualsOf(y, x.columns, qrSolve(householderQr(x.columns), y));
+  const u0 = residual(y, x, qrSolve(householderQr(x.columns), y));
   const first = momentsOf(u0, ops);
   const lambda0 = minimiseCriterion(first, [1, 0, 0, 1], lo, hi);
   // 2a
@@ -79,7 +79,7 @@ export function fitErrorGm(p: PreparedInputs): ErrorGmFit {
   };
   const step2 = gls(lambda0.x);
   const beta = step2.beta;
-  const u = residualsOf(y, x.columns, beta);
+  const u = residual(y, x, beta);
   const moments = momentsOf(u, ops);
   // 2b
   const psi0 = momentVariance(u, lambda0.x, step2.qr, ops);
@@ -119,8 +119,7 @@ export function fitErrorGm(p: PreparedInputs): ErrorGmFit {
   const coefficients = table(x, beta, (j) => Math.sqrt(covariance[j * q + j]), null);
   const lambdaSe = Math.sqrt(covariance[k * q + k]);
   const lambdaZ = lambda / lambdaSe;
-  const fitted = new Float64Array(n);
-  for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) fitted[i] += beta[j] * x.columns[j][i];
+  const fitted = linearPredictor(x, beta, n);
   const wald = lambdaZ * lambdaZ;
   return {
     lambda, lambdaSe, lambdaZ, lambdaP: normalTwoSided(lambdaZ),
@@ -279,12 +278,6 @@ function pairTraces(w: CsrMatrix, sigma: Float64Array, o: MomentOperators): { t1
     }
   }
   return { t11, t12, t22 };
-}
-
-function residualsOf(y: Float64Array, columns: Float64Array[], beta: ArrayLike<number>): Float64Array {
-  const out = Float64Array.from(y);
-  for (let j = 0; j < columns.length; j++) for (let i = 0; i < out.length; i++) out[i] -= beta[j] * columns[j][i];
-  return out;
 }
 
 /** P_Z v = Q Qᵀ v. */

@@ -1,11 +1,11 @@
-import { csrMultiply, householderQr, qrSolve, solveShifted, type TracesAt, type WeightsAlgebra } from '../linalg/index.js';
+import { csrMultiply, householderQr, qrSolve, type TracesAt, type WeightsAlgebra } from '../linalg/index.js';
 import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js';
 import { brentMaximise } from './brent.js';
 import { invertInformation, searchInterval, squaredCorrelation } from './information.js';
 import { lagErrorCrossTraces } from './lag-error-traces.js';
 import { maximise2d, polishSeparable2d, type Search2d } from './maximise-2d.js';
 import type { PreparedInputs } from './model-entry.js';
-import { dot } from './ml-lag.js';
+import { dot, linearPredictor, reducedForm } from './ml-lag.js';
 import { table } from './ols.js';
 import type { Coefficient, Convergence, TestResult } from './types.js';
 
@@ -135,8 +135,7 @@ export function fitLagError(p: PreparedInputs, opts: { fixedRho?: number; fixedL
   const eps = Float64Array.from(bay);
   for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) eps[i] -= beta[j] * bx[j][i];
   const sigma2 = dot(eps, eps) / n;
-  const xb = new Float64Array(n);
-  for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) xb[i] += beta[j] * x.columns[j][i];
+  const xb = linearPredictor(x, beta, n);
   const residuals = y.map((v, i) => v - rho * wy[i] - xb[i]);
 
   // traces at λ first, then the cross traces (solves at λ, then at ρ), then at ρ, whose factor
@@ -145,13 +144,7 @@ export function fitLagError(p: PreparedInputs, opts: { fixedRho?: number; fixedL
   const trH = tracesAt(lambda);
   const cross = lagErrorCrossTraces(algebra, rho, lambda, tracesAt);
   const trG = tracesAt(rho);
-  let fitted: Float64Array;
-  if (algebra.solve) fitted = algebra.solve(rho, xb);
-  else {
-    const solved = solveShifted(w, rho, xb);
-    if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
-    fitted = solved.x;
-  }
+  const fitted = reducedForm(algebra, w, rho, xb, warnings);
   const gxb = csrMultiply(w, fitted);
   const wgxb = csrMultiply(w, gxb);
   const bgxb = gxb.map((v, i) => v - lambda * wgxb[i]);

@@ -1,10 +1,10 @@
-import { applyQ, applyQt, csrMultiply, firstDependentColumn, householderQr, inverseCrossProduct, qrSolve, solveShifted } from '../linalg/index.js';
+import { applyQ, applyQt, csrMultiply, firstDependentColumn, householderQr, inverseCrossProduct, qrSolve } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { chiSquareUpper, fUpper, normalTwoSided } from '../stats/index.js';
 import { squaredCorrelation } from './information.js';
 import { laggedName } from './lagged-columns.js';
 import type { PreparedInputs } from './model-entry.js';
-import { dot } from './ml-lag.js';
+import { dot, linearPredictor, reducedForm } from './ml-lag.js';
 import { table, whiteCovariance } from './ols.js';
 import type { Coefficient, TestResult } from './types.js';
 
@@ -117,19 +117,14 @@ export function fitLagIv(p: PreparedInputs, o: { robust?: boolean } = {}): LagIv
   const rhoSe = Math.sqrt(vd[k * q + k]);
   const rhoZ = rho / rhoSe;
 
-  const xb = new Float64Array(n);
-  for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) xb[i] += beta[j] * x.columns[j][i];
+  const xb = linearPredictor(x, beta, n);
   const { lower, upper } = algebra.range;
   let fitted: Float64Array;
   if (!(rho > lower && rho < upper)) {
     warnings.push(`The estimate of ρ (${rho.toPrecision(4)}) lies outside the admissible range (${lower.toPrecision(4)} to ${upper.toPrecision(4)}): the model does not describe a stable process on these neighbours, so its fitted values and effects are not given.`);
     fitted = new Float64Array(n).fill(NaN);
-  } else if (algebra.solve) {
-    fitted = algebra.solve(rho, xb);
   } else {
-    const solved = solveShifted(w, rho, xb);
-    if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
-    fitted = solved.x;
+    fitted = reducedForm(algebra, w, rho, xb, warnings);
   }
 
   // first stage: Wy on X against Wy on H

@@ -5,7 +5,7 @@ import { breuschPagan, chiSquareUpper, normalTwoSided } from '../stats/index.js'
 import { brentMaximise } from './brent.js';
 import { bracketAndPolish } from './bracket-polish.js';
 import { invertInformation, searchInterval, searchWithinPivotLimit, squaredCorrelation } from './information.js';
-import { dot, residual } from './ml-lag.js';
+import { dot, linearPredictor, residual } from './ml-lag.js';
 import { fitOls, table } from './ols.js';
 import type { Design, OlsFit, SpatialFit } from './types.js';
 
@@ -107,8 +107,7 @@ export function fitSpatialError(
   const lambdaZ = lambda / lambdaSe;
   const aicParameters = k + 1; // β's and λ; σ² not counted (common convention)
   const lrStat = 2 * (logLik - base.logLik);
-  const fitted = new Float64Array(n);
-  for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) fitted[i] += at.beta[j] * x.columns[j][i];
+  const fitted = linearPredictor(x, at.beta, n);
   const residuals = y.map((v, i) => v - fitted[i]);
 
   return {

@@ -89,19 +89,11 @@ export function fitSpatialLag(
   const sigma2 = dot(e, e) / n;
 
   // reduced form ŷ = A⁻¹Xβ, and GXβ = Wŷ
-  const xb = new Float64Array(n);
-  for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) xb[i] += beta[j] * x.columns[j][i];
+  const xb = linearPredictor(x, beta, n);
   // traces first: a sparse algebra factors I − ρW there and reuses the factor for the solve
   const tr = algebra.traces(rho);
   if (tr.unconverged) warnings.push(`Traces for the standard errors: ${tr.unconverged}.`);
-  let fitted: Float64Array;
-  if (algebra.solve) {
-    fitted = algebra.solve(rho, xb);
-  } else {
-    const solved = solveShifted(w, rho, xb);
-    if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
-    fitted = solved.x;
-  }
+  const fitted = reducedForm(algebra, w, rho, xb, warnings);
   const gxb = csrMultiply(w, fitted);
 
   const p = k + 2;
@@ -171,7 +163,25 @@ export function fitSpatialLag(
   };
 }
 
-export function residual(y: Float64Array, x: Design, beta: Float64Array): Float64Array {
+/** Xβ: each column of the design times its coefficient, summed in column order. */
+export function linearPredictor(x: Design, beta: ArrayLike<number>, n: number): Float64Array {
+  const out = new Float64Array(n);
+  for (let j = 0; j < x.columns.length; j++) for (let i = 0; i < n; i++) out[i] += beta[j] * x.columns[j][i];
+  return out;
+}
+
+/**
+ * The reduced form (I − ρW)⁻¹Xβ: by the algebra's direct solve when it has one (a sparse algebra
+ * keeps the factor of I − ρW from the traces at ρ), else by GMRES, with a warning when that stops short.
+ */
+export function reducedForm(algebra: WeightsAlgebra, w: WeightsAlgebra['w'], rho: number, xb: Float64Array, warnings: string[]): Float64Array {
+  if (algebra.solve) return algebra.solve(rho, xb);
+  const solved = solveShifted(w, rho, xb);
+  if (!solved.converged) warnings.push(`The reduced-form solve reached a relative residual of ${solved.relativeResidual.toExponential(1)} only.`);
+  return solved.x;
+}
+
+export function residual(y: Float64Array, x: Design, beta: ArrayLike<number>): Float64Array {
   const out = Float64Array.from(y);
   for (let j = 0; j < beta.length; j++) {
     const c = x.columns[j];
