@@ -21,11 +21,10 @@ export function familyJson(
 ): Record<string, unknown> {
   const out: Record<string, unknown> = {};
   for (const e of parameters) {
-    const q = e;
-    out[q.key] = e.estimate;
-    out[`${q.key}Se`] = e.se;
-    out[`${q.key}Z`] = e.z;
-    out[`${q.key}P`] = e.p;
+    out[e.key] = e.estimate;
+    out[`${e.key}Se`] = e.se;
+    out[`${e.key}Z`] = e.z;
+    out[`${e.key}P`] = e.p;
   }
   return { ...out, coefficients: f.coefficients.map(coefficientJson), sigma2: f.sigma2, ...own, warnings: f.warnings };
 }

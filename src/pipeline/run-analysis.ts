@@ -3,7 +3,7 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { inSentence, baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
+import { inSentence, baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';

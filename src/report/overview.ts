@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
 import { MODEL_LABEL, num, question, sayList, suggestionLabel } from './format.js';
-import { MODELS, fittedInOrder, inSentence } from '../models/index.js';
+import { fittedInOrder, inSentence } from '../models/index.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';

@@ -1,7 +1,7 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { fitFrame } from './projection.js';
 import { describeDrawing, drawAreas } from './area-shapes.js';
-import { c1, svgDocument, text, wrapWords } from './svg.js';
+import { svgDocument, text, wrapWords } from './svg.js';
 import { scaleBar } from './scale-bar.js';
 import type { Picture } from './choropleth.js';
 

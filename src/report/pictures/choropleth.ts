@@ -1,7 +1,7 @@
 import type { AreaGeometry, CoordinateKind } from '../../geo/types.js';
 import { type Classes, NO_VALUE, colourOf, quantileClasses, symmetricClasses } from './classes.js';
 import { fitFrame } from './projection.js';
-import { c1, label, svgDocument, text, wrapWords } from './svg.js';
+import { label, svgDocument, text, wrapWords } from './svg.js';
 import { scaleBar } from './scale-bar.js';
 import { describeDrawing, drawAreas } from './area-shapes.js';
 
