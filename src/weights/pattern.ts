@@ -1,4 +1,4 @@
-import type { CsrMatrix } from '../linalg/index.js';
+import { csrEntry, type CsrMatrix } from '../linalg/index.js';
 
 /**
  * Growable list of directed links (i, j, value) on typed arrays. Links are gathered here from
@@ -107,20 +107,6 @@ export function csrFromSortedPairs(n: number, keys: Float64Array): CsrMatrix {
 /** One symmetry check for the engine, with one tolerance (src/linalg/csr.ts). */
 export { isSymmetric } from '../linalg/index.js';
 
-/** Position of entry (i, j) in colIdx, or -1; binary search since rows are sorted by column. */
-function findEntry(m: CsrMatrix, i: number, j: number): number {
-  let lo = m.rowPtr[i];
-  let hi = m.rowPtr[i + 1] - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const c = m.colIdx[mid];
-    if (c === j) return mid;
-    if (c < j) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return -1;
-}
-
 /**
  * A symmetric C with m = D⁻¹C for a diagonal D, when there is one: the weights of a list written
  * already row-standardised (w_ij = c_ij / r_i from symmetric links c) give C back, so that the
@@ -141,10 +127,10 @@ export function symmetricBehind(m: CsrMatrix): CsrMatrix | null {
       const i = queue[head++];
       for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
         const j = m.colIdx[p];
-        const q = findEntry(m, j, i);
-        if (q < 0 || !(m.values[q] > 0) || !(m.values[p] > 0)) return null;
+        const back = csrEntry(m, j, i); // 0 when j does not link back to i
+        if (!(back > 0) || !(m.values[p] > 0)) return null;
         if (Number.isNaN(r[j])) {
-          r[j] = (r[i] * m.values[p]) / m.values[q];
+          r[j] = (r[i] * m.values[p]) / back;
           queue[tail++] = j;
         }
       }
@@ -157,8 +143,8 @@ export function symmetricBehind(m: CsrMatrix): CsrMatrix | null {
   const c: CsrMatrix = { n, rowPtr: m.rowPtr, colIdx: m.colIdx, values };
   for (let i = 0; i < n; i++) {
     for (let p = m.rowPtr[i], pEnd = m.rowPtr[i + 1]; p < pEnd; p++) {
-      const q = findEntry(c, c.colIdx[p], i);
-      if (Math.abs(values[p] - values[q]) > 1e-10 * Math.max(values[p], values[q])) return null;
+      const back = csrEntry(c, c.colIdx[p], i);
+      if (Math.abs(values[p] - back) > 1e-10 * Math.max(values[p], back)) return null;
     }
   }
   return c;
