@@ -9,6 +9,7 @@
  */
 import { chooseAlgebra } from '../../src/linalg/choose-algebra.js';
 import type { WeightsAlgebra } from '../../src/linalg/algebra.js';
+import { Recent, twoHashes } from './recent.js';
 import {
   areasNeeded as registryAreasNeeded, designWithIntercept, entriesOf, fitOls, MODEL_KEYS, MODELS, recommendModel,
   type Coefficient, type Convergence, type Design, type ImpactsResult, type LmTests, type ModelEntry, type ModelFitBase, type MoranTest,
@@ -60,37 +61,21 @@ export function areasNeeded(key: string, coefficients: number): number {
   return registryAreasNeeded(entryOf(key), coefficients);
 }
 
-// ---- the weights algebra, kept for the last few neighbour ranges
-const KEEP = 3;
-const kept: { key: string; algebra: WeightsAlgebra }[] = [];
+// ---- the weights algebra, kept for the last few neighbour ranges (a dropped one lets go of its helper thread)
+const kept = new Recent<WeightsAlgebra>(3, (algebra) => algebra.dispose?.());
 
 /** The weights' pattern and values under two independent 32-bit hashes (64 bits against a stale hit). */
 function weightsKey(w: SpatialWeights): string {
-  let h = 0x811c9dc5;
-  let g = 0x9747b28c;
-  const mix = (x: number) => {
-    h = Math.imul(h ^ x, 0x01000193);
-    g = Math.imul((g ^ x) << 13 | (g ^ x) >>> 19, 0x5bd1e995) + 0x6b43a9b5;
-  };
+  const { mix, digest } = twoHashes();
   for (const v of w.rowPtr) mix(v);
   for (const v of w.colIdx) mix(v);
   const view = new Uint32Array(w.values.buffer, w.values.byteOffset, w.values.length * 2);
   for (const v of view) mix(v);
-  return `${w.n}:${w.colIdx.length}:${(h >>> 0).toString(16)}${(g >>> 0).toString(16)}:${w.ids.join('\u0001')}`;
+  return `${w.n}:${w.colIdx.length}:${digest()}:${w.ids.join('\u0001')}`;
 }
 
 function algebraFor(w: SpatialWeights): WeightsAlgebra {
-  const key = weightsKey(w);
-  const at = kept.findIndex((k) => k.key === key);
-  if (at >= 0) {
-    const [hit] = kept.splice(at, 1);
-    kept.unshift(hit);
-    return hit.algebra;
-  }
-  const algebra = chooseAlgebra(w, symmetricForm(w), { method: 'auto', seed: 1 });
-  kept.unshift({ key, algebra });
-  while (kept.length > KEEP) kept.pop()!.algebra.dispose?.();
-  return algebra;
+  return kept.get(weightsKey(w), () => chooseAlgebra(w, symmetricForm(w), { method: 'auto', seed: 1 }));
 }
 
 /** The plain regression and the weights algebra for one set of ranges (the algebra from the cache when the neighbours are unchanged). */

@@ -9,6 +9,7 @@
  * Both are read by the engine's edge-list reader, so the two forms give the same weights exactly.
  */
 import Papa from 'papaparse';
+import { Recent, twoHashes } from './recent.js';
 import { InputError } from '../../src/errors.js';
 import { readEdgeList, type SpatialWeights } from '../../src/weights/index.js';
 import { asNumber, idText, isBlank, trimBlankEdges, type CellValue, type Grid } from './ranges.js';
@@ -129,18 +130,11 @@ function matrixLinks(grid: Grid, ids: string[], shape: { headerRow: boolean; hea
 }
 
 /** Weights read from the last few neighbour ranges, keyed by the IDs, the transform and the range's cells. */
-const KEEP = 3;
-const kept: { key: string; w: SpatialWeights }[] = [];
+const kept = new Recent<SpatialWeights>(3);
 
 function rangeKey(ids: string[], neighbours: Grid, rowStandardise: boolean): string {
-  // two independent 32-bit hashes (FNV-1a and a multiply-rotate one): 64 bits against a stale hit
-  let h = 0x811c9dc5;
-  let g = 0x9747b28c;
+  const { mix, digest } = twoHashes();
   let cells = 0;
-  const mix = (x: number) => {
-    h = Math.imul(h ^ x, 0x01000193);
-    g = Math.imul((g ^ x) << 13 | (g ^ x) >>> 19, 0x5bd1e995) + 0x6b43a9b5;
-  };
   for (const row of neighbours) {
     if (!Array.isArray(row)) continue;
     for (const c of row) {
@@ -151,7 +145,7 @@ function rangeKey(ids: string[], neighbours: Grid, rowStandardise: boolean): str
     }
     mix(0x1e);
   }
-  return `${rowStandardise ? 'row' : 'as given'}|${neighbours.length}|${cells}|${(h >>> 0).toString(16)}${(g >>> 0).toString(16)}|${ids.join('\u0001')}`;
+  return `${rowStandardise ? 'row' : 'as given'}|${neighbours.length}|${cells}|${digest()}|${ids.join('\u0001')}`;
 }
 
 /**
@@ -160,17 +154,7 @@ function rangeKey(ids: string[], neighbours: Grid, rowStandardise: boolean): str
  */
 export function weightsFromRange(ids: string[], neighbours: Grid, opts: NeighbourOptions = {}): SpatialWeights {
   if (!Array.isArray(neighbours)) return readWeights(ids, neighbours, opts);
-  const key = rangeKey(ids, neighbours, opts.rowStandardise === true);
-  const at = kept.findIndex((k) => k.key === key);
-  if (at >= 0) {
-    const [hit] = kept.splice(at, 1);
-    kept.unshift(hit);
-    return hit.w;
-  }
-  const w = readWeights(ids, neighbours, opts);
-  kept.unshift({ key, w });
-  kept.length = Math.min(kept.length, KEEP);
-  return w;
+  return kept.get(rangeKey(ids, neighbours, opts.rowStandardise === true), () => readWeights(ids, neighbours, opts));
 }
 
 /**
