@@ -4,6 +4,7 @@
  * the choice of model). Ranges are read here; the models are reached through model-adapter.ts only.
  */
 import { InputError } from '../../src/errors.js';
+import { MAX_IMPACT_DRAWS, MAX_SEED, MIN_IMPACT_DRAWS } from '../../src/pipeline/limits.js';
 import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_KEYS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
@@ -118,8 +119,9 @@ export function effectsRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model
   const key = modelKey(model);
   const draws = o.numbers.get('draws') ?? 1000;
   const seed = o.numbers.get('seed') ?? 1;
-  if (!Number.isInteger(draws) || draws < 2 || draws > 100_000) throw new InputError(`The number of draws must be a whole number from 2 to 100000; got ${draws}.`);
-  if (!Number.isInteger(seed) || seed < 0 || seed > 4_294_967_295) throw new InputError(`The seed must be a whole number from 0 to 4294967295; got ${seed}.`);
+  // the engine's own ranges for a run (src/pipeline/limits.ts)
+  if (!Number.isInteger(draws) || draws < MIN_IMPACT_DRAWS || draws > MAX_IMPACT_DRAWS) throw new InputError(`The number of draws must be a whole number from ${MIN_IMPACT_DRAWS} to ${MAX_IMPACT_DRAWS}; got ${draws}.`);
+  if (!Number.isInteger(seed) || seed < 0 || seed > MAX_SEED) throw new InputError(`The seed must be a whole number from 0 to ${MAX_SEED}; got ${seed}.`);
   const { ranges, inputs } = prepare(y, x, ids, neighbours, o);
   checkSize(key, ranges);
   const fit = fitForCells(key, inputs);
