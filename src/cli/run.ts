@@ -91,7 +91,7 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
       const { writeResultsFile } = await import('./write-results.js');
       const source = args.data && data ? { path: args.data, bytes: data.bytes } : undefined;
       const opts = output.replaceMode !== undefined ? { replace: true, mode: output.replaceMode } : {};
-      for (const note of await writeResultsFile(result, output.target, source, opts)) io.stderr(`spillway: note: ${note}\n`);
+      for (const note of await writeResultsFile(result, output.target, source, opts, picturePlan?.report)) io.stderr(`spillway: note: ${note}\n`);
     }
     if (geojson) {
       const { writeGeoJsonFile } = await import('./write-extras.js');

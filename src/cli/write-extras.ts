@@ -9,7 +9,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.js';
 import type { AnalysisResult } from '../pipeline/index.js';
-import { buildReport, projectedNote, resultsGeoJsonText } from '../report/index.js';
+import { buildReport, projectedNote, resultsGeoJsonText, type Report } from '../report/index.js';
 import { renderPng } from '../report/render-png.js';
 import { writeWorkbookFile } from '../workbook/write-file.js';
 import { planOutput, type InputPath, type OutputPlan, type PictureFolder } from './output-file.js';
@@ -33,6 +33,8 @@ export function pictureFileName(name: string): string {
 export interface PicturePlan {
   pictures: PictureFolder;
   files: { name: string; bytes: Uint8Array; plan?: OutputPlan }[];
+  /** the report the pictures were drawn for: the results workbook is written from the same one */
+  report: Report;
 }
 
 /**
@@ -57,7 +59,7 @@ export function planPictureFiles(result: AnalysisResult, pictures: PictureFolder
       }
     }
   }
-  return { pictures, files };
+  return { pictures, files, report };
 }
 
 /** Writes the planned pictures (making their folder when missing); returns the file names. */

@@ -1,6 +1,6 @@
 import { basename, extname } from 'node:path';
 import type { AnalysisResult } from '../pipeline/index.js';
-import { buildReport } from '../report/index.js';
+import { buildReport, type Report } from '../report/index.js';
 import { renderPng } from '../report/render-png.js';
 import { baseWorkbookRisks, writeResultsWorkbook } from '../workbook/index.js';
 import { writeWorkbookFile } from '../workbook/write-file.js';
@@ -17,10 +17,11 @@ export interface DataSource {
  * data came from one, else a new book. The copy is made from the bytes the run read (never a second
  * read of a file that may have changed). A workbook holding parts the copy cannot carry (charts,
  * pivot tables, macros...) is not copied — the user's work must never lose anything — and the
- * results go into a new book; the returned notes say so. `replace` and `mode` as for writeWorkbookFile.
+ * results go into a new book; the returned notes say so. `replace` and `mode` as for writeWorkbookFile;
+ * `report` when it is already built (for the pictures), so its maps are not drawn twice.
  */
 export async function writeResultsFile(
-  result: AnalysisResult, outPath: string, data?: DataSource, opts: { replace?: boolean; mode?: number } = {},
+  result: AnalysisResult, outPath: string, data?: DataSource, opts: { replace?: boolean; mode?: number } = {}, report?: Report,
 ): Promise<string[]> {
   const notes: string[] = [];
   let base: Uint8Array | undefined;
@@ -32,8 +33,7 @@ export async function writeResultsFile(
       base = undefined;
     }
   }
-  const report = buildReport(result, { renderPng });
-  const bytes = await writeResultsWorkbook(report, { base, baseName: data ? basename(data.path) : undefined, deflate: nodeDeflate });
+  const bytes = await writeResultsWorkbook(report ?? buildReport(result, { renderPng }), { base, baseName: data ? basename(data.path) : undefined, deflate: nodeDeflate });
   await writeWorkbookFile(outPath, bytes, opts);
   return notes;
 }
