@@ -115,6 +115,11 @@ export function planOutput(out: string, inputs: InputPath[], overwrite: boolean,
   return { given, target, ...(replaceMode !== undefined ? { replaceMode } : {}), notes: sweepStaleParts(dirname(target)) };
 }
 
+/** How a planned file is written: replacing the existing file, with its permission bits, when --overwrite allowed it. */
+export function writeOptions(plan: OutputPlan): { replace?: boolean; mode?: number } {
+  return plan.replaceMode !== undefined ? { replace: true, mode: plan.replaceMode } : {};
+}
+
 /** No write permission bit at all, or the system refuses writing (a root user passes access checks, so the bits decide). */
 function isReadOnly(path: string, st: Stats): boolean {
   if ((st.mode & 0o222) === 0) return true;

@@ -3,7 +3,7 @@ import { runAnalysis, resultToJson } from '../pipeline/index.js';
 import { ENGINE_VERSION } from '../version.js';
 import { FIT_USAGE, parseFitArgs } from './args.js';
 import { boundaryPaths, readBoundaryFiles, readNamedFile } from './read-files.js';
-import { planOutput, planPictureFolder, type InputPath } from './output-file.js';
+import { planOutput, planPictureFolder, writeOptions, type InputPath } from './output-file.js';
 import { formatSummary } from './summary.js';
 import { startNodeHelper } from './helper-thread.js';
 
@@ -90,8 +90,7 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
     if (output) {
       const { writeResultsFile } = await import('./write-results.js');
       const source = args.data && data ? { path: args.data, bytes: data.bytes } : undefined;
-      const opts = output.replaceMode !== undefined ? { replace: true, mode: output.replaceMode } : {};
-      for (const note of await writeResultsFile(result, output.target, source, opts, picturePlan?.report)) io.stderr(`spillway: note: ${note}\n`);
+      for (const note of await writeResultsFile(result, output.target, source, writeOptions(output), picturePlan?.report)) io.stderr(`spillway: note: ${note}\n`);
     }
     if (geojson) {
       const { writeGeoJsonFile } = await import('./write-extras.js');

@@ -12,11 +12,7 @@ import type { AnalysisResult } from '../pipeline/index.js';
 import { buildReport, projectedNote, resultsGeoJsonText, type Report } from '../report/index.js';
 import { renderPng } from '../report/render-png.js';
 import { writeWorkbookFile } from '../workbook/write-file.js';
-import { planOutput, type InputPath, type OutputPlan, type PictureFolder } from './output-file.js';
-
-function writeOptions(plan: OutputPlan): { replace?: boolean; mode?: number } {
-  return plan.replaceMode !== undefined ? { replace: true, mode: plan.replaceMode } : {};
-}
+import { planOutput, writeOptions, type InputPath, type OutputPlan, type PictureFolder } from './output-file.js';
 
 /** Writes the GeoJSON to a planned path; returns notes for the user (projected coordinates). */
 export async function writeGeoJsonFile(result: AnalysisResult, plan: OutputPlan): Promise<string[]> {
