@@ -13,6 +13,7 @@
 import { accessSync, constants, lstatSync, readdirSync, realpathSync, rmSync, statSync, type Stats } from 'node:fs';
 import { basename, dirname, extname, join, resolve } from 'node:path';
 import { InputError } from '../errors.js';
+import { formatBytes } from '../core/words.js';
 import { isOwnStalePart } from '../workbook/write-file.js';
 import { specialKind, whyMissing } from './paths.js';
 
@@ -129,10 +130,6 @@ function isReadOnly(path: string, st: Stats): boolean {
   } catch {
     return true;
   }
-}
-
-function formatBytes(n: number): string {
-  return n >= 2 ** 20 ? `${(n / 2 ** 20).toFixed(1)} MiB` : n >= 1024 ? `${(n / 1024).toFixed(0)} KiB` : `${n} bytes`;
 }
 
 function suggestName(inputPath: string, ext: string): string {

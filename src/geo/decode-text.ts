@@ -8,6 +8,7 @@
  * mark); V8's string length limit (2^29 − 24 characters on 64-bit builds).
  */
 import { InputError } from '../errors.js';
+import { formatBytes } from '../core/words.js';
 
 /** The longest text read: V8's limit on a string's length (each byte gives at most one character). */
 export const MAX_TEXT_BYTES = 0x1fffffe8;
@@ -26,14 +27,10 @@ export interface DecodeOptions {
   latinFallback?: boolean;
 }
 
-function mib(n: number): string {
-  return `${+(n / 2 ** 20).toFixed(2)} MiB`;
-}
-
 export function decodeText(bytes: Uint8Array, name: string, opts: DecodeOptions): DecodedText {
   if (bytes.length > MAX_TEXT_BYTES) {
     throw new InputError(
-      `${name} is ${mib(bytes.length)}; text files (${opts.kind}) can be read up to ${mib(MAX_TEXT_BYTES)}, the longest text a JavaScript engine holds. ` +
+      `${name} is ${formatBytes(bytes.length)}; text files (${opts.kind}) can be read up to ${formatBytes(MAX_TEXT_BYTES)}, the longest text a JavaScript engine holds. ` +
         'Split the file, or for boundaries use a shapefile, which has no such limit.',
       { file: name },
     );

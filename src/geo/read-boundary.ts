@@ -2,7 +2,8 @@
 import { InputError } from '../errors.js';
 import type { AreaLayer, CoordinateKind } from './types.js';
 import type { NamedBytes } from './named-bytes.js';
-import { formatBytes, isZip, unzipBoundary } from './unzip.js';
+import { isZip, unzipBoundary } from './unzip.js';
+import { formatBytes } from '../core/words.js';
 import { isTopology, layerFromGeoJson, layerFromTopology, parseJsonBytes } from './read-json-boundary.js';
 import { layerFromShapefile, type ShapefileParts } from './read-shapefile.js';
 import { checkMixedUnits } from './mixed-units.js';

@@ -4,7 +4,7 @@ import type { DataTable } from './types.js';
 import type { NamedBytes } from './named-bytes.js';
 import { readCsv } from './read-csv.js';
 import { readXlsx } from './read-xlsx.js';
-import { formatBytes } from './unzip.js';
+import { formatBytes } from '../core/words.js';
 
 export interface ReadTableOptions {
   sheet?: string;

@@ -11,7 +11,7 @@
  * becomes a note.
  */
 import { InputError, listSome } from '../errors.js';
-import { formatBytes } from './unzip.js';
+import { formatBytes } from '../core/words.js';
 import type { DataTable } from './types.js';
 import { shapeTable, columnLetters, type Cell, type RawRow } from './table-shape.js';
 import { expandEntry, listZip } from './zip.js';

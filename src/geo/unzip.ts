@@ -1,5 +1,6 @@
 /** Expands a .zip of boundary files, refusing archives that would expand past the cap or mislead. */
 import { InputError } from '../errors.js';
+import { formatBytes } from '../core/words.js';
 import type { NamedBytes } from './named-bytes.js';
 import { expandEntry, listZip, looksLikeZip, checkExpandable } from './zip.js';
 import { MAX_TEXT_BYTES } from './decode-text.js';
@@ -10,13 +11,6 @@ const TEXT = /\.(geojson|json|topojson)$/i;
 function isJunk(name: string): boolean {
   const base = name.split('/').pop() ?? name;
   return name.endsWith('/') || name.startsWith('__MACOSX/') || name.includes('/__MACOSX/') || base.startsWith('._') || base === '';
-}
-
-export function formatBytes(n: number): string {
-  if (n >= 2 ** 30) return `${+(n / 2 ** 30).toFixed(2)} GiB`;
-  if (n >= 2 ** 20) return `${+(n / 2 ** 20).toFixed(2)} MiB`;
-  if (n >= 2 ** 10) return `${+(n / 2 ** 10).toFixed(2)} KiB`;
-  return `${n} bytes`;
 }
 
 export function isZip(file: NamedBytes): boolean {
