@@ -125,12 +125,15 @@ export function whiteCovariance(qr: HouseholderQr, e: Float64Array): Float64Arra
       rinv[i * k + c] = s / qr.r[i * k + i];
     }
   }
+  // one triangle, mirrored: the two orders of summation round differently, and a covariance that is
+  // not exactly symmetric is refused by the Cholesky factor the simulated effects draw from
   const out = new Float64Array(k * k);
   for (let a = 0; a < k; a++) {
-    for (let b = 0; b < k; b++) {
+    for (let b = a; b < k; b++) {
       let s = 0;
       for (let u = 0; u < k; u++) for (let v = 0; v < k; v++) s += rinv[a * k + u] * meat[u * k + v] * rinv[b * k + v];
       out[a * k + b] = s;
+      out[b * k + a] = s;
     }
   }
   return out;
