@@ -135,6 +135,13 @@ describe('a run with every model on Columbus (queen)', async () => {
     for (const m of MODELS) if (!m.baseline) expect(text).toContain(`${m.label} (${m.method})`);
     expect(text).toContain('Likelihood-ratio test of θ = −ρβ (common factor) (the spatial error model)');
     expect(text).toContain('Wald test of λ = 0 (the plain regression)');
+    // the neighbours' columns model's θ = 0 is its test against the plain regression: printed once
+    const slx = text.slice(text.indexOf('Neighbours’ columns model (least squares)'));
+    expect(slx.slice(0, slx.indexOf('\n\n'))).not.toContain('test of θ = 0 (the plain regression)');
+    // no label says the method twice ("by two-stage least squares (two-stage least squares)")
+    for (const m of MODELS) if (!m.baseline) expect(m.about, m.key).not.toContain(m.method);
+    // the comparison's columns say whose spatial parameter each is
+    expect(text).toMatch(/definition +Moran's I p +suggested +ρ lag +λ error +ρ durbin +λ durbin-error +ρ lag-error +λ lag-error +ρ lag-iv +λ error-gm/);
   });
 });
 
