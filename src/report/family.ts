@@ -55,7 +55,8 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   const lagged = fit.coefficients.some((c) => c.lagged);
   const blocks: Block[] = [
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
-    { kind: 'paragraph', style: 'note', text: `${capital(entry.about)}. ${modelInWords(entry.key)}` },
+    // the model in plain words (its one-line `about`, which the sidebar and command line show, would say part of it twice)
+    { kind: 'paragraph', style: 'note', text: modelInWords(entry.key) || `${capital(entry.about)}.` },
     {
       kind: 'table', title: extra.covarianceKind && extra.covarianceKind !== 'classical' && !extra.robustCoefficients ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
       columns, rows: [...coefficientRows(fit.coefficients), ...paramRows],
