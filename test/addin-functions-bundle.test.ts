@@ -18,6 +18,7 @@ import { boundaryParts } from '../addin/excel/boundary-part.js';
 import { SETUP_KEY } from '../addin/excel/adapter.js';
 import { FakeExcel } from './helpers/fake-excel.js';
 import { runAnalysis } from '../src/pipeline/index.js';
+import { MODELS } from '../src/models/index.js';
 import { readWorkbook } from '../src/workbook/index.js';
 import { CELL_FUNCTION_GUIDE, WORKED_EXAMPLE } from '../addin/shared/functions-guide.js';
 import { readGolden } from './helpers/columbus.js';
@@ -112,6 +113,11 @@ describe('the built functions.js in a stand-in shared runtime', () => {
     // the sidebar's guide lists every function
     expect(CELL_FUNCTION_GUIDE.map((f) => f.name).sort()).toEqual(metadata.functions.map((f) => f.id).sort());
     for (const f of metadata.functions) expect(f.description, f.id).toMatch(new RegExp(`Example.*=SPILL\\.${f.id}\\(`));
+
+    // the model argument names every model the registry fits, and EFFECTS every one with effects
+    const modelArgument = (id: string) => metadata.functions.find((f) => f.id === id)!.parameters.find((p) => p.name === 'model')!.description!;
+    for (const m of MODELS) expect(modelArgument('FIT'), m.cli).toContain(`"${m.cli}"`);
+    for (const m of MODELS.filter((e) => e.impacts)) expect(modelArgument('EFFECTS'), m.cli).toContain(`"${m.cli}"`);
   });
 
   it('MORAN, LAG and GEARY by id give the engine’s figures, from a list of links and from the n × n matrix alike', async () => {

@@ -5,6 +5,7 @@
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { runCli } from './helpers/cli.js';
+import { parseFitArgs } from '../src/cli/args.js';
 
 const SIDS = fileURLToPath(new URL('./fixtures/sids/sids.shp', import.meta.url));
 
@@ -46,5 +47,25 @@ describe('spillway fit --rate', () => {
     const stray = runCli(['fit', '--boundary', SIDS, '--id', 'FIPS', '--y', 'SID74', '--x', 'NWBIR74', '--smooth', 'local']);
     expect(stray.code).toBe(2);
     expect(stray.stderr).toMatch(/--smooth goes with --rate/);
+  });
+
+  it('one --per applies to every rate; one after each --rate gives each its own; a lone repeat is refused, never the last silently kept', () => {
+    const base = ['--boundary', 'b.shp', '--id', 'FIPS', '--y', 'sids', '--x', 'nw'];
+    const pers = (extra: string[]) => parseFitArgs([...base, ...extra]).rates!.recipes.map((r) => [r.name, r.per]);
+    expect(pers(['--rate', 'sids=SID74/BIR74', '--rate', 'nw=NWBIR74/BIR74', '--per', '100'])).toEqual([['sids', 100], ['nw', 100]]);
+    expect(pers(['--per', '100000', '--rate', 'sids=SID74/BIR74', '--rate', 'nw=NWBIR74/BIR74'])).toEqual([['sids', 100000], ['nw', 100000]]);
+    expect(pers(['--rate', 'sids=SID74/BIR74', '--per', '1000', '--rate', 'nw=NWBIR74/BIR74', '--per', '100'])).toEqual([['sids', 1000], ['nw', 100]]);
+    expect(() => parseFitArgs([...base, '--rate', 'sids=SID74/BIR74', '--rate', 'nw=NWBIR74/BIR74', '--per', '1000', '--per', '100']))
+      .toThrow(/--rate nw=NWBIR74\/BIR74 is followed by --per 1000 and --per 100/);
+    expect(() => parseFitArgs([...base, '--rate', 'sids=SID74/BIR74', '--per', '1000', '--rate', 'nw=NWBIR74/BIR74', '--rate', 'w=NWBIR79/BIR79', '--per', '100']))
+      .toThrow(/--per follows some rates but not --rate nw=NWBIR74\/BIR74/);
+  });
+
+  it('any other option given twice is refused with both values (--x INC --x HOVAL would have fitted HOVAL alone)', () => {
+    const base = ['--boundary', 'b.shp', '--id', 'FIPS', '--y', 'sids'];
+    expect(() => parseFitArgs([...base, '--x', 'INC', '--x', 'HOVAL'])).toThrow(/--x is given 2 times \("INC", "HOVAL"\); name the explanatory columns once, comma-separated: --x INC,HOVAL/);
+    expect(() => parseFitArgs([...base, '--x', 'INC', '--weights', 'queen', '--weights', 'rook'])).toThrow(/--weights is given 2 times \("queen", "rook"\); give it once/);
+    expect(() => parseFitArgs([...base, '--x', 'INC', '--local', 'moran', '--local', 'gistar'])).toThrow(/--local is given 2 times .*comma-separated/);
+    expect(() => parseFitArgs([...base, '--x', 'INC', '--json', '--json'])).toThrow(/--json is given 2 times; give it once/);
   });
 });

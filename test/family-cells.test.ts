@@ -8,6 +8,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { effectsRows, fitRows } from '../addin/functions/model-logic.js';
 import type { Grid } from '../addin/functions/logic.js';
+import { CELL_FUNCTION_GUIDE } from '../addin/shared/functions-guide.js';
+import { MODELS } from '../src/models/index.js';
 import { columbusData, readGolden } from './helpers/columbus.js';
 
 const ROOT = join(import.meta.dirname, '..');
@@ -54,5 +56,52 @@ describe('SPILL.FIT and SPILL.EFFECTS with the wider family (Columbus, queen)', 
     const header = rows[0].map(String);
     near(inc[header.findIndex((h) => /direct/i.test(h))], family.durbin.impacts[0].direct, 1e-6);
     near(inc[header.findIndex((h) => /indirect/i.test(h))], family.durbin.impacts[0].indirect, 1e-6);
+  });
+
+  it('the neighbours’ columns model’s effects are exact and say so (no simulated draws); the reference’s figures', async () => {
+    const r = await ranges();
+    const rows = effectsRows(r.yr, r.xr, r.ids, r.links, 'slx', 'draws=200, seed=3') as (string | number)[][];
+    const inc = rows.find((x) => x[0] === 'INC')!;
+    const g = family.slx.impacts[0];
+    near(inc[1], g.direct, 1e-6);
+    near(inc[2], g.directSe, 1e-6);
+    near(inc[4], g.indirect, 1e-6);
+    near(inc[5], g.indirectSe, 1e-6);
+    near(inc[8], g.totalSe, 1e-6);
+    expect(rows.at(-1)!.slice(0, 2)).toEqual(['standard errors from', 'exact formulas (no simulation)']);
+    // the simulated ones still name their draws
+    const durbin = effectsRows(r.yr, r.xr, r.ids, r.links, 'durbin', 'draws=200, seed=3') as (string | number)[][];
+    expect(durbin.at(-1)![1]).toBe('200 simulated draws, seed 3');
+  });
+
+  it('the models without a likelihood say so in the log-likelihood and AIC rows, not with a blank', async () => {
+    const r = await ranges();
+    for (const m of ['lag-iv', 'error-gm']) {
+      const rows = fitRows(r.yr, r.xr, r.ids, r.links, m) as (string | number)[][];
+      for (const label of ['log-likelihood', 'AIC']) expect(rows.find((x) => x[0] === label)![1], `${m} ${label}`).toMatch(/without a likelihood/);
+    }
+  });
+
+  it('an unknown model or one without effects is answered with the command line’s spellings', async () => {
+    const r = await ranges();
+    expect(() => fitRows(r.yr, r.xr, r.ids, r.links, 'durbin error')).toThrow(/choose from "ols", "lag", "error", "slx", "durbin", "durbin-error", "lag-error", "lag-iv", "error-gm"\./);
+    expect(() => effectsRows(r.yr, r.xr, r.ids, r.links, 'error-gm')).toThrow(/effects are given for "lag", "slx", "durbin", "durbin-error", "lag-error", "lag-iv"\./);
+  });
+
+  it('the sidebar’s guide, the help page and the README name every model SPILL.FIT takes and every one SPILL.EFFECTS takes', () => {
+    const withEffects = MODELS.filter((m) => m.impacts).map((m) => `"${m.cli}"`);
+    const fitGuide = CELL_FUNCTION_GUIDE.find((f) => f.name === 'FIT')!.gives;
+    const effectsGuide = CELL_FUNCTION_GUIDE.find((f) => f.name === 'EFFECTS')!.gives;
+    for (const m of MODELS) expect(fitGuide, m.cli).toContain(`"${m.cli}"`);
+    for (const m of withEffects) expect(effectsGuide, m).toContain(m);
+    const item = (text: string, call: string) => text.slice(text.indexOf(call), text.indexOf(call) + 1200);
+    const help = readFileSync(join(ROOT, 'addin/help/index.html'), 'utf8').replace(/<\/?code>/g, '').replace(/\s+/g, ' ');
+    const readme = readFileSync(join(ROOT, 'README.md'), 'utf8').replace(/`/g, '');
+    for (const [text, where] of [[help, 'help page'], [readme, 'README']]) {
+      const fit = item(text, '=SPILL.FIT(');
+      for (const m of MODELS) expect(fit, `${where}: ${m.cli}`).toContain(`"${m.cli}"`);
+      const effects = item(text, '=SPILL.EFFECTS(');
+      for (const m of withEffects) expect(effects, `${where}: ${m}`).toContain(m);
+    }
   });
 });

@@ -135,6 +135,13 @@ describe('a run with every model on Columbus (queen)', async () => {
     for (const m of MODELS) if (!m.baseline) expect(text).toContain(`${m.label} (${m.method})`);
     expect(text).toContain('Likelihood-ratio test of θ = −ρβ (common factor) (the spatial error model)');
     expect(text).toContain('Wald test of λ = 0 (the plain regression)');
+    // the neighbours' columns model's θ = 0 is its test against the plain regression: printed once
+    const slx = text.slice(text.indexOf('Neighbours’ columns model (least squares)'));
+    expect(slx.slice(0, slx.indexOf('\n\n'))).not.toContain('test of θ = 0 (the plain regression)');
+    // no label says the method twice ("by two-stage least squares (two-stage least squares)")
+    for (const m of MODELS) if (!m.baseline) expect(m.about, m.key).not.toContain(m.method);
+    // the comparison's columns say whose spatial parameter each is
+    expect(text).toMatch(/definition +Moran's I p +suggested +ρ lag +λ error +ρ durbin +λ durbin-error +ρ lag-error +λ lag-error +ρ lag-iv +λ error-gm/);
   });
 });
 
@@ -227,5 +234,31 @@ describe('the reading says what is missing when only part of the family is fitte
     expect(reading.text).toContain('The lag and error models were not both fitted beside the spatial Durbin model');
     const tests = summary.blocks.find((b) => b.kind === 'table' && b.title === 'Tests between the models');
     expect(tests).toBeUndefined(); // nothing it nests was fitted
+  });
+});
+
+describe('robust standard errors through a whole run (the lag model by instruments)', () => {
+  it('the effects are drawn from the robust covariance, with the reference’s robust ρ standard error, and no internal error', async () => {
+    const result = await runAnalysis({
+      boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+      models: ['ols', 'lagIV'], robust: true, permutations: 0, impactDraws: 200,
+    });
+    const json = resultToJson(result) as Record<string, any>;
+    expect(json.lagIV.standardErrors).toMatch(/robust/);
+    // scripts/reference/family.py: the direct numpy 2SLS with White's covariance
+    rel(json.lagIV.rhoSe, family.lagIV.rhoSeRobust, 1e-10, 'robust ρ se');
+    expect(json.lagIV.impacts).toHaveLength(2);
+    for (const e of json.lagIV.impacts) for (const v of [e.directSe, e.indirectSe, e.totalSe]) expect(Number.isFinite(v) && v > 0).toBe(true);
+  });
+
+  it('White’s covariance is exactly symmetric (the Cholesky factor of the draws refuses anything else)', async () => {
+    const { whiteCovariance } = await import('../src/models/ols.js');
+    const { householderQr } = await import('../src/linalg/index.js');
+    const { y, x } = await columbusData();
+    const qr = householderQr(x.columns);
+    const e = new Float64Array(y.length).map((_, i) => y[i] - 40 + x.columns[1][i]); // any residuals will do
+    const k = x.columns.length;
+    const v = whiteCovariance(qr, e);
+    for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) expect(v[a * k + b]).toBe(v[b * k + a]);
   });
 });

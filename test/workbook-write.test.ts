@@ -7,7 +7,7 @@ import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
 import { buildReport, planSheet, type Block, type Cell, type NumberFormat, type Report, type ReportSheet } from '../src/report/index.js';
 import { renderPng } from '../src/report/render-png.js';
-import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, baseWorkbookRisks, EXCEL_FORMAT, type ReadSheet } from '../src/workbook/index.js';
+import { writeResultsWorkbook, readWorkbook, uniqueSheetName, cleanSheetName, baseWorkbookRisks, EXCEL_FORMAT, cellFormat, type ReadSheet } from '../src/workbook/index.js';
 import { runAnalysis } from '../src/pipeline/index.js';
 import { InputError } from '../src/errors.js';
 import { fakeResult } from './helpers/fake-result.js';
@@ -45,7 +45,7 @@ function compareSheet(written: ReadSheet, sheet: ReportSheet): number {
       numbers++;
       // stored as a number with a number format, not as text
       expect(typeof got).toBe('number');
-      if (f && f !== 'text') expect(written.numberFormats[r - 1][c - 1]).toBe(EXCEL_FORMAT[f]);
+      if (f && f !== 'text') expect(written.numberFormats[r - 1][c - 1] ?? 'General').toBe(cellFormat(f, want));
     }
   }
   return numbers;
@@ -65,6 +65,20 @@ async function baseWorkbook(): Promise<Uint8Array> {
   wb.addWorksheet('By area').getCell('C3').value = 'kept';
   return new Uint8Array(await wb.xlsx.writeBuffer() as ArrayBuffer);
 }
+
+describe('number formats', () => {
+  it('a four-decimal number below 0.001 in size keeps its digits and sign (0.0000 would read as no effect); others keep their format', () => {
+    // a coefficient per birth or per dollar is routinely this small (the North Carolina counties' nonwhite births per 1,000: 0.0017, its neighbours' average −0.0004)
+    for (const v of [-0.000404794, 0.0000123, 1e-9, -2.5e-7]) expect(cellFormat('decimal4', v), String(v)).toBe('General');
+    for (const v of [0, 0.001, -0.0012, 1.5835, -73.1056]) expect(cellFormat('decimal4', v), String(v)).toBe(EXCEL_FORMAT.decimal4);
+    expect(cellFormat(undefined, 0.0003)).toBe('General');
+    expect(cellFormat(undefined, 0.3)).toBe(EXCEL_FORMAT.decimal4);
+    // p-values keep "<0.0001"; other formats are untouched
+    expect(cellFormat('pvalue', 1e-7)).toBe(EXCEL_FORMAT.pvalue);
+    expect(cellFormat('integer', 0)).toBe(EXCEL_FORMAT.integer);
+    expect(cellFormat('text', 3)).toBe('General');
+  });
+});
 
 describe('sheet names', () => {
   it('follows Excel’s rules: ≤ 31 characters, no []:*?/\\, unique without regard to case', () => {

@@ -6,7 +6,7 @@
  */
 import { planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type ReportSheet } from '../../src/report/index.js';
 // The number-format table alone (src/workbook's index would pull exceljs into the task pane).
-import { EXCEL_FORMAT } from '../../src/workbook/number-formats.js';
+import { cellFormat } from '../../src/workbook/number-formats.js';
 
 export type CellStyle = 'title' | 'blockTitle' | 'header' | 'group' | 'note' | 'caution';
 
@@ -73,7 +73,7 @@ export function sheetGrid(sheet: ReportSheet): SheetGrid {
     const value = shown(v);
     values[r][c] = value;
     // as the .xlsx writer: numbers without a format show 4 decimals; whole counts in text columns show plainly
-    if (typeof value === 'number') formats[r][c] = format === undefined ? EXCEL_FORMAT.decimal4 : format === 'text' ? 'General' : EXCEL_FORMAT[format];
+    if (typeof value === 'number') formats[r][c] = cellFormat(format, value);
     else if (typeof value === 'string') formats[r][c] = '@';
   };
   /** 0-based row: text merged across the plan's span, wrapped */

@@ -11,7 +11,7 @@ import { chooseAlgebra } from '../../src/linalg/choose-algebra.js';
 import type { WeightsAlgebra } from '../../src/linalg/algebra.js';
 import { Recent, twoHashes } from './recent.js';
 import {
-  areasNeeded as registryAreasNeeded, designWithIntercept, entriesOf, fitOls, MODEL_KEYS, MODELS, recommendModel,
+  areasNeeded as registryAreasNeeded, designWithIntercept, entriesOf, fitOls, MODELS, recommendModel,
   type Coefficient, type Convergence, type Design, type ImpactsResult, type LmTests, type ModelEntry, type ModelFitBase, type MoranTest,
   type ParameterEstimate, type PreparedInputs, type Recommendation,
 } from '../../src/models/index.js';
@@ -19,8 +19,11 @@ import { lmTests, moranResidualTest } from '../../src/stats/index.js';
 import { symmetricForm, type SpatialWeights } from '../../src/weights/index.js';
 import { InputError } from '../../src/errors.js';
 
-/** The registry's keys, in the order the models are listed; the design every model takes (a constant first). */
-export { MODEL_KEYS, designWithIntercept, type Design };
+/** The design every model takes (a constant first). */
+export { designWithIntercept, type Design };
+
+/** The models as a cell names them: the command line's spellings ("durbin-error"), in the registry's order. */
+export const MODEL_SPELLINGS: readonly string[] = MODELS.map((m) => m.cli);
 
 /**
  * The registry key a cell names: the key or the command line's spelling, in any letter case
@@ -110,7 +113,7 @@ export function fitForCells(key: string, inputs: CellInputs, robust = false): Ce
 export function effectsForCells(fit: CellFit, inputs: CellInputs, draws: number, seed: number): ImpactsResult {
   const entry = entryOf(fit.key);
   if (!entry.impacts) {
-    const withEffects = MODELS.filter((m) => m.impacts).map((m) => `"${m.key}"`).join(', ');
+    const withEffects = MODELS.filter((m) => m.impacts).map((m) => `"${m.cli}"`).join(', ');
     throw new InputError(`The ${entry.label.toLowerCase()} has no separate direct and indirect effects (its coefficients are the effects); effects are given for ${withEffects}.`);
   }
   return entry.impacts(fit.engineFit, inputs, { seed, impactDraws: draws });

@@ -5,7 +5,7 @@
  */
 import { InputError } from '../../src/errors.js';
 import { MAX_IMPACT_DRAWS, MAX_SEED, MIN_IMPACT_DRAWS } from '../../src/pipeline/limits.js';
-import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_KEYS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
+import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_SPELLINGS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
 import { asNumber, flatten, hasHeader, isBlank, readIds, readNumbers, trimTogether, type CellValue, type Grid } from './ranges.js';
@@ -75,7 +75,7 @@ export function readModelRanges(y: Grid, x: Grid, ids: Grid): ModelRanges {
 /** The registry key the model argument names (by default the spatial lag model). */
 function modelKey(model: string | undefined): string {
   const key = modelKeyOf(String(model ?? '').trim() || 'lag');
-  if (key === null) throw new InputError(`The model "${model}" is not one Spillway fits; choose from ${MODEL_KEYS.map((k) => `"${k}"`).join(', ')}.`);
+  if (key === null) throw new InputError(`The model "${model}" is not one Spillway fits; choose from ${MODEL_SPELLINGS.map((k) => `"${k}"`).join(', ')}.`);
   return key;
 }
 
@@ -107,7 +107,9 @@ export function fitRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model?: s
   const rows: Spill = [['term', 'estimate', 'standard error', fit.statName, 'p']];
   for (const c of fit.coefficients) rows.push([c.name, c.estimate, blank(c.se), blank(c.stat), blank(c.p)]);
   for (const p of fit.parameters) rows.push([`${p.symbol} (${p.name})`, p.estimate, blank(p.se), blank(p.z), blank(p.p)]);
-  rows.push(['areas', fit.n, '', '', ''], ['log-likelihood', fit.logLik ?? '', '', '', ''], ['AIC', fit.aic ?? '', '', '', '']);
+  // the models by instruments and by moments have no likelihood: say so rather than leave a blank that reads as missing
+  const none = 'none (estimated without a likelihood)';
+  rows.push(['areas', fit.n, '', '', ''], ['log-likelihood', fit.logLik ?? none, '', '', ''], ['AIC', fit.aic ?? none, '', '', '']);
   const c = fit.convergence;
   if (c && (!c.converged || c.atBound)) rows.push(['note', `${c.message}${c.atBound ? ` (ended at the ${c.atBound} end of the admissible range)` : ''}`, '', '', '']);
   return rows;
@@ -130,7 +132,9 @@ export function effectsRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model
   for (const e of effects.impacts) {
     rows.push([e.name, e.direct, blank(e.directSe), blank(e.directP), e.indirect, blank(e.indirectSe), blank(e.indirectP), e.total, blank(e.totalSe), blank(e.totalP)]);
   }
-  rows.push(['standard errors from', `${effects.draws} simulated draws, seed ${effects.seed}`, '', '', '', '', '', '', '', '']);
+  // the neighbours' columns and Durbin error models' effects are linear in their coefficients: exact, no draws
+  const how = effects.draws > 0 ? `${effects.draws} simulated draws, seed ${effects.seed}` : 'exact formulas (no simulation)';
+  rows.push(['standard errors from', how, '', '', '', '', '', '', '', '']);
   return rows;
 }
 

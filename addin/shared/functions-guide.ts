@@ -6,8 +6,8 @@
 
 /** Every cell function: how it is called and what it gives back. */
 export const CELL_FUNCTION_GUIDE: readonly { name: string; call: string; gives: string }[] = [
-  { name: 'FIT', call: 'SPILL.FIT(y, x, ids, neighbours, [model], [options])', gives: 'a model’s coefficient table: estimate, standard error, z (or t), p per term; the spatial parameter; areas, log-likelihood, AIC. Models: "lag" (default), "error", "ols".' },
-  { name: 'EFFECTS', call: 'SPILL.EFFECTS(y, x, ids, neighbours, [model], [options])', gives: 'direct, indirect (spillover) and total effects of each explanatory column, with simulated standard errors.' },
+  { name: 'FIT', call: 'SPILL.FIT(y, x, ids, neighbours, [model], [options])', gives: 'a model’s coefficient table: estimate, standard error, z (or t), p per term; the spatial parameter; areas, log-likelihood, AIC. Models as --models spells them: "lag" (default), "error", "ols", and the wider family "slx", "durbin", "durbin-error", "lag-error", "lag-iv", "error-gm".' },
+  { name: 'EFFECTS', call: 'SPILL.EFFECTS(y, x, ids, neighbours, [model], [options])', gives: 'direct, indirect (spillover) and total effects of each explanatory column, with their standard errors, for "lag" (default), "slx", "durbin", "durbin-error", "lag-error" or "lag-iv".' },
   { name: 'LMTESTS', call: 'SPILL.LMTESTS(y, x, ids, neighbours, [options])', gives: 'Moran’s I of the residuals and the Lagrange-multiplier tests, then the model they suggest.' },
   { name: 'NEIGHBOURS', call: 'SPILL.NEIGHBOURS(ids, x, y, [rule], [size], [options])', gives: 'neighbours from coordinates ("nearest", "within" a distance, "inverse" distance) as origin, neighbour, weight rows.' },
   { name: 'TOUCHING', call: 'SPILL.TOUCHING(ids, [rule], [options], [idProperty])', gives: 'neighbours by shared borders ("queen" or "rook") from the boundary file kept in this workbook.' },

@@ -101,7 +101,8 @@ Where the pattern is (local statistics)
 
 Rates from counts
   --rate NAME=EVENTS/POPULATION  define a column NAME (repeatable) that --y or --x may use
-  --per N              the rate's multiplier: 1, 100, 1000 (default) or 100000
+  --per N              the rate's multiplier: 1, 100, 1000 (default) or 100000; one --per for
+                       every rate, or one after each --rate for that rate
   --smooth S           which smoothed rate is modelled: global (default), local or neighbourhood
                        empirical Bayes; all three are computed and written
   --withhold-flagged   leave the flagged areas' counts and rates blank in the --out workbook
@@ -124,6 +125,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     parsed = parseArgs({
       args: argv,
       allowPositionals: false,
+      tokens: true,
       options: {
         boundary: { type: 'string' }, layer: { type: 'string' }, coordinates: { type: 'string' }, data: { type: 'string' }, sheet: { type: 'string' },
         id: { type: 'string' }, 'boundary-id': { type: 'string' }, 'ids-ignore-leading-zeros': { type: 'boolean' }, label: { type: 'string' }, y: { type: 'string' }, x: { type: 'string' },
@@ -134,13 +136,14 @@ export function parseFitArgs(argv: string[]): FitArgs {
         permutations: { type: 'string' }, algebra: { type: 'string' }, threads: { type: 'string' }, json: { type: 'boolean' },
         'per-area': { type: 'boolean' }, out: { type: 'string' }, 'out-geojson': { type: 'string' }, pictures: { type: 'string' }, overwrite: { type: 'boolean' },
         local: { type: 'string' }, 'local-of': { type: 'string' }, 'multiple-testing': { type: 'string' }, 'fdr-level': { type: 'string' },
-        rate: { type: 'string', multiple: true }, per: { type: 'string' }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
+        rate: { type: 'string', multiple: true }, per: { type: 'string', multiple: true }, smooth: { type: 'string' }, 'withhold-flagged': { type: 'boolean' },
       },
     });
   } catch (e) {
     throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')} (spillway fit --help lists the options)`);
   }
   const v = parsed.values;
+  refuseRepeated(parsed.tokens);
   const need = (name: 'boundary' | 'id' | 'y' | 'x') => {
     const value = v[name];
     if (!value || !value.trim()) throw new InputError(`--${name} is required (spillway fit --help lists the options).`);
@@ -195,7 +198,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     algebra,
     threads,
     local: parseLocal(v.local, v['local-of'], v['multiple-testing'], v['fdr-level']),
-    rates: parseRates(v.rate, v.per, v.smooth, v['withhold-flagged']),
+    rates: parseRates(v.rate, ratePers(parsed.tokens), v.smooth, v['withhold-flagged']),
     json: v.json ?? false,
     perArea: v['per-area'] ?? false,
     out: v.out,
@@ -346,19 +349,71 @@ function parseLocal(list?: string, of?: string, control?: string, level?: string
   };
 }
 
-/** --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth, --withhold-flagged. */
-function parseRates(recipes: string[] | undefined, per?: string, smooth?: string, withhold?: boolean): FitArgs['rates'] {
+type Tokens = NonNullable<ReturnType<typeof parseArgs>['tokens']>;
+
+/** Options that may be given more than once; any other given twice would silently keep only the last. */
+const REPEATABLE = new Set(['rate', 'per']);
+
+/** Refuses an option given twice (`--x INC --x HOVAL` would fit HOVAL alone), naming both values. */
+function refuseRepeated(tokens: Tokens): void {
+  const seen = new Map<string, string[]>();
+  for (const t of tokens) {
+    if (t.kind !== 'option' || REPEATABLE.has(t.name)) continue;
+    seen.set(t.name, [...(seen.get(t.name) ?? []), t.value ?? '']);
+  }
+  for (const [name, values] of seen) {
+    if (values.length < 2) continue;
+    const given = values.some((x) => x !== '') ? ` (${values.map((x) => `"${x}"`).join(', ')})` : '';
+    const hint = name === 'x' ? '; name the explanatory columns once, comma-separated: --x INC,HOVAL'
+      : name === 'local' || name === 'compare' || name === 'models' ? `; list them once, comma-separated` : '; give it once';
+    throw new InputError(`--${name} is given ${values.length} times${given}${hint}.`);
+  }
+}
+
+/**
+ * The multipliers as given: each --per with the --rate it follows (or null for one before any
+ * --rate), in order, so `--rate a=… --per 1000 --rate b=… --per 100` keeps each its own.
+ */
+function ratePers(tokens: Tokens): { value: string; after: number | null }[] {
+  let rates = 0;
+  const out: { value: string; after: number | null }[] = [];
+  for (const t of tokens) {
+    if (t.kind !== 'option') continue;
+    if (t.name === 'rate') rates++;
+    else if (t.name === 'per') out.push({ value: t.value ?? '', after: rates > 0 ? rates - 1 : null });
+  }
+  return out;
+}
+
+/**
+ * --rate NAME=EVENTS/POPULATION (repeatable), --per, --smooth, --withhold-flagged. One --per applies
+ * to every rate; given more than once, each applies to the --rate just before it, and then every
+ * --rate has its own (a rate left with the default beside others that were given one is more
+ * likely a slip than a choice).
+ */
+function parseRates(recipes: string[] | undefined, pers: { value: string; after: number | null }[], smooth?: string, withhold?: boolean): FitArgs['rates'] {
   if (!recipes || recipes.length === 0) {
-    const stray = per !== undefined ? '--per' : smooth !== undefined ? '--smooth' : withhold ? '--withhold-flagged' : undefined;
+    const stray = pers.length ? '--per' : smooth !== undefined ? '--smooth' : withhold ? '--withhold-flagged' : undefined;
     if (stray) throw new InputError(`${stray} goes with --rate (e.g. --rate cases_rate=cases/residents).`);
     return undefined;
   }
-  const multiplier = per === undefined ? 1000 : Number(per.trim());
+  const multipliers: number[] = recipes.map(() => (pers.length === 1 ? Number(pers[0].value.trim()) : 1000));
+  if (pers.length > 1) {
+    const mine = new Map<number, string>();
+    for (const p of pers) {
+      if (p.after === null) throw new InputError(`--per is given ${pers.length} times; one --per applies to every rate, or put one after each --rate for that rate (--rate a=… --per 1000 --rate b=… --per 100).`);
+      if (mine.has(p.after)) throw new InputError(`--rate ${recipes[p.after]} is followed by --per ${mine.get(p.after)} and --per ${p.value}; give each rate one multiplier.`);
+      mine.set(p.after, p.value);
+    }
+    const without = recipes.filter((_, i) => !mine.has(i));
+    if (without.length) throw new InputError(`--per follows some rates but not ${without.map((r) => `--rate ${r}`).join(', ')}; give one --per for every rate, or one after each --rate.`);
+    recipes.forEach((_, i) => { multipliers[i] = Number(mine.get(i)!.trim()); });
+  }
   if (smooth !== undefined && !['global', 'local', 'neighbourhood'].includes(smooth)) {
     throw new InputError(`--smooth must be global, local or neighbourhood, not "${smooth}".`);
   }
   return {
-    recipes: recipes.map((r) => parseRateRecipe(r, multiplier)), smoothing: (smooth ?? 'global') as RateSmoothing,
+    recipes: recipes.map((r, i) => parseRateRecipe(r, multipliers[i])), smoothing: (smooth ?? 'global') as RateSmoothing,
     ...(withhold ? { withholdFlagged: true } : {}),
   };
 }

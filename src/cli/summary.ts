@@ -45,10 +45,10 @@ export function formatSummary(r: AnalysisResult): string {
   }
   if (r.comparison) {
     lines.push('The same question under other neighbour definitions');
-    // one column per spatial parameter of each model fitted
+    // one column per spatial parameter of each model fitted, headed by the model as --models spells it
     const fitted = MODELS.filter((m) => !m.baseline && (r.request.models as readonly string[]).includes(m.key));
     const columns = fitted.flatMap((m) => m.parameters.map((q) => ({
-      head: q.symbol,
+      head: `${q.symbol} ${m.cli}`,
       pick: (c: WeightsComparison) => (c.fits as Record<string, ComparedFit | undefined>)[m.key]?.parameters.find((x) => x.key === q.key)?.estimate,
     })));
     lines.push(...table(['definition', "Moran's I p", 'suggested', ...columns.map((c) => c.head)],
@@ -94,7 +94,8 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
-  for (const t of f.nestedTests ?? []) {
+  // a nested test against the plain regression is the line above when it tests the same restriction (the neighbours' columns model's θ = 0)
+  for (const t of (f.nestedTests ?? []).filter((t) => !(h.lr && t.against === 'ols' && t.df === h.lr.df && t.stat === h.lr.stat))) {
     out.push(`  Likelihood-ratio test of ${t.restriction} (the ${modelLabel(t.against)}): ${fmt(t.stat, 5)} (df ${t.df}), p ${p(t.p)}`);
   }
   for (const t of (f as { wald?: { against: string; restriction: string; stat: number; df: number; p: number }[] }).wald ?? []) {

@@ -137,9 +137,11 @@ export function lagImpacts(fit: ReducedFormFit, x: Design, algebra: WeightsAlgeb
   const p = k + 2;
   const q = k + 1;
   const block: number[][] = [];
+  // averaged with its transpose: a covariance equal to its transpose only to rounding (a sandwich
+  // form, say) would otherwise be refused by the Cholesky factor as not symmetric
   for (let a = 0; a < q; a++) {
     const row: number[] = [];
-    for (let b = 0; b < q; b++) row.push(fit.covariance[a * p + b]);
+    for (let b = 0; b < q; b++) row.push((fit.covariance[a * p + b] + fit.covariance[b * p + a]) / 2);
     block.push(row);
   }
   if (!block.every((row) => row.every(Number.isFinite))) return withoutErrors('the covariance of (β, ρ) is not available (the information matrix of the lag model is not positive definite at the estimate)');

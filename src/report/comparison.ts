@@ -155,7 +155,7 @@ export function comparisonReading(all: WeightsComparison[]): string {
     }
   }
   const significant = built.filter((r) => r.moran.p < 0.05).length;
-  parts.push(`Moran's I of the residuals is significant at the 5% level under ${significant === built.length ? 'every one' : `${significant} of them`}`);
+  parts.push(`Moran's I of the residuals is significant at the 5% level under ${significant === built.length ? 'every one' : significant === 0 ? 'none of them' : `${significant} of them`}`);
   const twins = all.filter((r) => r.sameAs).length;
   sentences.push(`Across the ${built.length} distinct definitions${twins ? ` (${twins} more linked the same neighbours as one of these)` : ''}, ${sayList(parts)}.`);
   const bySuggestion = new Map<string, string[]>();

@@ -47,7 +47,8 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   const lagged = fit.coefficients.some((c) => c.lagged);
   const blocks: Block[] = [
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
-    { kind: 'paragraph', style: 'note', text: `${capital(entry.about)}. ${modelInWords(entry.key)}` },
+    // the model in plain words (its one-line `about`, which the sidebar and command line show, would say part of it twice)
+    { kind: 'paragraph', style: 'note', text: modelInWords(entry.key) || `${capital(entry.about)}.` },
     coefficientTable(
       extra.covarianceKind && extra.covarianceKind !== 'classical' && !extra.robustCoefficients ? `Coefficients with standard errors ${extra.covarianceKind}` : 'Coefficients',
       statName, fit.coefficients, h.parameters.map(parameterRow),
@@ -241,8 +242,8 @@ export function familyReading(result: AnalysisResult): string {
     if (sig(toLag) && sig(toError)) parts.push('Both restrictions are rejected, so the spatial Durbin model is the one these data support.');
     else if (!sig(toLag) && choice === 'lag') parts.push('The Durbin model reduces to the lag model and the Lagrange-multiplier tests agree: the lag model is the simpler description the data support.');
     else if (!sig(toError) && choice === 'error') parts.push('The Durbin model reduces to the error model and the Lagrange-multiplier tests agree: the error model is the simpler description the data support.');
-    else if (!sig(toLag) && !sig(toError) && choice === 'ols') parts.push('Neither restriction is rejected and the Lagrange-multiplier tests find no spatial dependence: the spatial terms add little here.');
-    else if (!sig(toLag) && !sig(toError) && choice === 'either') parts.push('Neither restriction is rejected and the Lagrange-multiplier tests do not choose: the lag and the error model each describe the data about as well as the spatial Durbin model, so report both beside it, or keep the Durbin model, which contains both.');
+    else if (!sig(toLag) && !sig(toError) && choice === 'ols') parts.push('With neither restriction rejected and no spatial dependence in those tests, the spatial terms add little here.');
+    else if (!sig(toLag) && !sig(toError) && choice === 'either') parts.push('With neither restriction rejected, the lag and the error model each describe the data about as well as the spatial Durbin model: report both beside it, or keep the Durbin model, which contains both.');
     else if (choice === 'either') parts.push(`Only ${sig(toLag) ? 'the common-factor restriction' : 'θ = 0'} holds, so the ${sig(toLag) ? 'error' : 'lag'} model is the simpler description the data support.`);
     else parts.push('The two steps do not point to the same simpler model, so the spatial Durbin model, which contains both, is the safer choice.');
   } else {

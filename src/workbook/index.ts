@@ -8,7 +8,7 @@ import { writeSheet, type DeferredRows } from './write-sheet.js';
 import { STREAM_ROWS_ABOVE, streamDeferredRows, templateRowCount, type EntryDeflate } from './stream-rows.js';
 
 export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
-export { EXCEL_FORMAT } from './number-formats.js';
+export { EXCEL_FORMAT, cellFormat } from './number-formats.js';
 export { readWorkbook, type ReadSheet } from './read-back.js';
 export { baseWorkbookRisks } from './base-risks.js';
 export { ooxmlText } from './ooxml-text.js';

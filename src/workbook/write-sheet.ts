@@ -1,6 +1,6 @@
 import type ExcelJS from 'exceljs';
 import { planSheet, type Block, type Cell, type NumberFormat, type ReportSheet, type TablePlan } from '../report/index.js';
-import { EXCEL_FORMAT } from './number-formats.js';
+import { cellFormat } from './number-formats.js';
 import { toBase64 } from './base64.js';
 
 const FACE = { name: 'Calibri', family: 2 } as const;
@@ -17,9 +17,8 @@ const HEADER_FILL: ExcelJS.Fill = { type: 'pattern', pattern: 'solid', fgColor: 
 function put(cell: ExcelJS.Cell, value: Cell, format?: NumberFormat): void {
   if (value === null || (typeof value === 'number' && !Number.isFinite(value))) { cell.value = null; return; }
   cell.value = value;
-  if (typeof value === 'number') cell.numFmt = EXCEL_FORMAT[format && format !== 'text' ? format : 'decimal4'];
   // integers asked as decimals still show as decimals; whole counts in 'text' columns show plainly
-  if (typeof value === 'number' && format === 'text') cell.numFmt = 'General';
+  if (typeof value === 'number') cell.numFmt = cellFormat(format, value);
 }
 
 type TableBlock = Extract<Block, { kind: 'table' }>;
