@@ -5,7 +5,7 @@
  */
 import type { ModelKey, NamedBytesLike } from '../../src/pipeline/index.js';
 import type { WeightsSpec, WeightsTransform } from '../../src/weights/index.js';
-import { button, checkbox, clear, h, message, numberInput, select, setDisabled, some } from './dom.js';
+import { button, checkbox, clear, focusedIdIn, h, message, numberInput, select, setDisabled, some } from './dom.js';
 import { Cancelled, EngineClient, EngineFailure } from './engine-client.js';
 import type { CheckRequest, CheckResult, EngineError, ModelChoice } from './engine-protocol.js';
 import type { SidebarHost, TableSource } from './host.js';
@@ -39,6 +39,8 @@ interface State {
   linkUnneighboured: boolean;
   /** the analyst's statement of the coordinates ('' = as the file says, or guessed) */
   coordinates: '' | 'geographic' | 'projected';
+  /** match all-digit IDs that differ only by leading zeros: off until the analyst ticks it (recorded in the results) */
+  idsIgnoreLeadingZeros: boolean;
   /** refit under the usual alternative neighbour definitions, for a comparison sheet */
   compare: boolean;
   y?: string;
@@ -67,7 +69,7 @@ const METHODS: { value: Method; text: string }[] = [
 export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   const engine = new EngineClient();
   const s: State = {
-    areas: null, method: 'queen', k: 5, distance: undefined, distanceFromData: true, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, coordinates: '', compare: false,
+    areas: null, method: 'queen', k: 5, distance: undefined, distanceFromData: true, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, idsIgnoreLeadingZeros: false, coordinates: '', compare: false,
     x: new Set(), modelChoices: null, models: null, robust: false, dropMissing: false, running: false,
     local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
@@ -219,16 +221,19 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
 
   let checkSerial = 0;
+  let refocusAreas = '';
   async function refreshCheck() {
     const serial = ++checkSerial;
     clear(areas.errors); clear(nb.errors);
     let boundary: NamedBytesLike[] | null;
     try { boundary = boundaryFiles(); } catch (e) { showError(areas.errors, e); return; }
     if (!boundary || !s.source || !s.id) { clear(areas.found); clear(nb.found); return; }
+    // a control of this step that had the focus (the leading-zeros tick box, the ID property) gets it back once the answer is drawn
+    refocusAreas ||= focusedIdIn(areas.found);
     clear(areas.found, h('p', { class: 'hint' }, 'Matching the table to the areas…'));
     try {
       const { result } = await engine.call({ op: 'check', check: {
-        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), weights: checkSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
+        boundary, data: s.source.file, sheet: s.source.sheet, id: s.id, boundaryId: boundaryId(), idsIgnoreLeadingZeros: s.idsIgnoreLeadingZeros, weights: checkSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       } });
       if (serial !== checkSerial) return;
@@ -247,9 +252,11 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       }
       if (s.method === 'band') updateBandControl();
       drawJoin(result);
+      if (refocusAreas) { areas.found.querySelector<HTMLElement>(`#${CSS.escape(refocusAreas)}`)?.focus(); refocusAreas = ''; }
       drawNeighbours(result);
     } catch (e) {
       if (serial !== checkSerial) return;
+      refocusAreas = '';
       clear(areas.found);
       showError(areas.errors, e);
     }
@@ -273,6 +280,10 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
         + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
       ...idChoice,
+      ...(r.join.zeroPaddingSuspects.length || s.idsIgnoreLeadingZeros
+        ? [checkbox('ids-leading-zeros', 'Match 01001 with 1001 (IDs that differ only by leading zeros; recorded in the results)', s.idsIgnoreLeadingZeros,
+          (v) => { s.idsIgnoreLeadingZeros = v; void refreshCheck(); })]
+        : []),
       ...(s.areas ? [select('coordinates', 'Coordinates', [
         { value: '', text: 'As the file says (guessed when it does not)' },
         { value: 'geographic', text: 'Longitude/latitude degrees' },
@@ -486,6 +497,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
         : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
       weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
       ...(s.method === 'band' && s.distanceFromData ? { bandFromData: true } : {}),
+      ...(s.idsIgnoreLeadingZeros ? { idsIgnoreLeadingZeros: true } : {}),
       ...(s.coordinates ? { coordinates: s.coordinates } : {}),
       ...(s.models ? { models: [...s.models] } : {}), robust: s.robust, dropMissing: s.dropMissing,
       ...(rateBuilder.names().length ? { rates: rateBuilder.choices() } : {}),
@@ -514,6 +526,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     try {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(), y: s.y!, x: [...s.x],
+        ...(s.idsIgnoreLeadingZeros ? { idsIgnoreLeadingZeros: true } : {}),
         weights: weightsSpec(), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
         models: choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key as ModelKey),
@@ -587,6 +600,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       }
       s.transform = saved.transform ?? s.transform;
       s.linkUnneighboured = saved.linkUnneighboured ?? false;
+      s.idsIgnoreLeadingZeros = saved.idsIgnoreLeadingZeros ?? false;
       s.coordinates = saved.coordinates ?? '';
       s.compare = saved.compare ?? false;
       s.models = saved.models ? new Set(saved.models) : null;

@@ -44,7 +44,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   }
   let joined;
   try {
-    joined = joinAreas(layer, table, c.id, { featureIdProperty: c.boundaryId });
+    joined = joinAreas(layer, table, c.id, { featureIdProperty: c.boundaryId, ignoreLeadingZeros: c.idsIgnoreLeadingZeros ?? false });
   } catch (e) {
     if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
     throw e;
