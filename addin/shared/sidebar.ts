@@ -14,7 +14,7 @@ import { functionsHelp } from './functions-help.js';
 import { cellOf, pointsLayer, profileTable, type TableProfile } from './table-profile.js';
 import { joinProblemLines } from './join-lines.js';
 import { builtRateParts, rateParts } from './rate-parts.js';
-import { modelWords, summaryLines, type RunSummary, type SpatialModel } from './run-summary.js';
+import { modelWords, summaryLines, type RunSummary } from './run-summary.js';
 import { mountRateBuilder } from './rate-builder.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
 
@@ -485,9 +485,9 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
   }
 
   /** Adds a model to the ticked ones (the done message's "run again with the suggested model"). */
-  function includeModel(m: SpatialModel) {
+  function includeModel(key: string) {
     if (!s.modelChoices) return;
-    s.models = new Set([...tickedModels(s.modelChoices), m]);
+    s.models = new Set([...tickedModels(s.modelChoices), key]);
   }
 
   function setup(): SavedSetup {
@@ -574,7 +574,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const add = summary.suggestion.notFitted;
     if (add.length) {
       run.found.append(h('div', { class: 'buttons' }, button(`Run again with the ${modelWords(add)}`, () => {
-        for (const m of add) includeModel(m);
+        for (const m of add) includeModel(m.key);
         drawModel();
         runButton.focus();
         void start();
