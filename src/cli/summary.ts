@@ -51,14 +51,18 @@ export function formatSummary(r: AnalysisResult): string {
       head: q.symbol,
       pick: (c: WeightsComparison) => (c.fits as Record<string, ComparedFit | undefined>)[m.key]?.parameters.find((x) => x.key === q.key)?.estimate,
     })));
+    // as on the sheets: a definition that links the same neighbours as an earlier one is named once, not given a row of repeated figures
     lines.push(...table(['definition', "Moran's I p", 'suggested', ...columns.map((c) => c.head)],
-      r.comparison.map((c) => [
+      r.comparison.filter((c) => !c.sameAs).map((c) => [
         `${c.label}${c.asRun ? ' (this run)' : ''}`,
         c.failed ? 'could not be built' : p(c.moran.p),
         c.suggestion ? SUGGESTION[c.suggestion] : '',
         ...columns.map((col) => { const v = col.pick(c); return v === undefined ? '' : fmt(v, 4); }),
       ])));
-    for (const c of r.comparison) if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
+    for (const c of r.comparison) {
+      if (c.sameAs) lines.push(`  "${c.label}" links exactly the same neighbours as "${c.sameAs}" on these areas, so it gives the same figures; its row is not repeated.`);
+      else if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
+    }
     lines.push('');
   }
   if (r.local) lines.push(...localBlock(r), '');
