@@ -6,6 +6,7 @@
  * which the sidebar's main thread loads, needs nothing of the engine but types.
  */
 import type { Recommendation } from '../../src/models/index.js';
+import { formatCount } from '../../src/core/count.js';
 
 /** A model as the done message names it: the registry's key and label. */
 export interface SummaryModel { key: string; label: string }
@@ -44,7 +45,7 @@ export function modelWords(models: readonly SummaryModel[]): string {
 
 /** The done message's sentences, plain text. */
 export function summaryLines(s: RunSummary): string[] {
-  const lines = [`${s.n} areas. Moran's I of the plain regression's residuals: ${s.residualMoran.I.toFixed(3)} (${pText(s.residualMoran.p)}).`];
+  const lines = [`${formatCount(s.n)} areas. Moran's I of the plain regression's residuals: ${s.residualMoran.I.toFixed(3)} (${pText(s.residualMoran.p)}).`];
   const { models, notFitted, borderline } = s.suggestion;
   if (models.length === 0) {
     lines.push('Suggested model: the plain regression (the Lagrange-multiplier tests give no reason for a spatial model).');

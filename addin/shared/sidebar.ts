@@ -17,6 +17,7 @@ import { builtRateParts, rateParts } from './rate-parts.js';
 import { modelWords, summaryLines, type RunSummary } from './run-summary.js';
 import { mountRateBuilder } from './rate-builder.js';
 import type { BoundaryFile, SavedSetup } from './types.js';
+import { formatCount } from '../../src/core/count.js';
 
 type Method = WeightsSpec['method'];
 
@@ -148,7 +149,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const list = h('ul', { class: 'columns' }, ...p.columns.map((c) =>
       h('li', {}, h('strong', {}, c.name), `: ${kinds[c.kind]}${c.blanks ? `, ${c.blanks} blank` : ''}${c.unique ? ', all different' : ''}`)));
     clear(data.found,
-      h('p', {}, `${s.source!.csv ? 'File' : 'Sheet'} "${t.sheet}": ${p.n} rows (header on row ${t.headerRow}), ${p.columns.length} columns.`),
+      h('p', {}, `${s.source!.csv ? 'File' : 'Sheet'} "${t.sheet}": ${formatCount(p.n)} rows (header on row ${t.headerRow}), ${formatCount(p.columns.length)} columns.`),
       select('id-column', 'ID column (one per area)', t.headers.map((c) => ({ value: c, text: c })), s.id, (v) => { s.id = v; drawModel(); void refreshCheck(); }),
       p.suggestedId ? h('p', { class: 'hint' }, `Suggested: ${p.suggestedId} (every row has a different value).`) : h('p', { class: 'hint' }, 'No column has a different value in every row; pick the ID column.'),
       h('details', {}, h('summary', {}, 'Column types'), list),
@@ -277,7 +278,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       if (chosen && chosen.property === areasNow.idProperty) idChoice.push(h('p', { class: 'hint' }, `Chosen by itself: the property holding the most of ${s.id}'s IDs. Change it here if another is meant.`));
     }
     clear(areas.found,
-      h('p', {}, `${r.features} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
+      h('p', {}, `${formatCount(r.features)} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
         + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
       ...idChoice,
       ...(r.join.zeroPaddingSuspects.length || s.idsIgnoreLeadingZeros
@@ -353,7 +354,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
     const w = r.neighbours;
     if (!w) return;
     const top = Math.max(...w.histogram.map(([, c]) => c), 1);
-    const bars = h('div', { class: 'histogram', role: 'img', 'aria-label': `Neighbour counts: ${w.histogram.map(([k, c]) => `${c} areas have ${k}`).join(', ')}` },
+    const bars = h('div', { class: 'histogram', role: 'img', 'aria-label': `Neighbour counts: ${w.histogram.map(([k, c]) => `${formatCount(c)} areas have ${k}`).join(', ')}` },
       ...w.histogram.map(([k, c]) => {
         const bar = h('span', { class: 'bar' });
         bar.style.width = `${Math.max(2, (100 * c) / top)}%`;
@@ -365,7 +366,7 @@ export function mountSidebar(root: HTMLElement, host: SidebarHost): void {
       h('p', {}, w.components === 1 ? 'All areas are linked into one group.' : `The areas fall into ${w.components} separate groups.`),
     );
     if (w.tiesWarning) nb.found.append(message('warning', w.tiesWarning));
-    if (w.withoutNeighbours.length) nb.found.append(message('warning', `${w.withoutNeighbours.length} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
+    if (w.withoutNeighbours.length) nb.found.append(message('warning', `${formatCount(w.withoutNeighbours.length)} area(s) have no neighbours: ${some(w.withoutNeighbours, (i) => i)}.`));
   }
 
   // ---- 4 Model

@@ -15,6 +15,7 @@ import { basename, dirname, extname, join, resolve } from 'node:path';
 import { InputError } from '../errors.js';
 import { isOwnStalePart } from '../workbook/write-file.js';
 import { specialKind, whyMissing } from './paths.js';
+import { formatCount } from '../core/count.js';
 
 export interface InputPath {
   path: string;
@@ -155,7 +156,7 @@ export function sweepStaleParts(folder: string): string[] {
     }
   }
   return removed.length
-    ? [`removed ${removed.length} unfinished temporary file(s) left in ${folder} by an earlier run that was stopped: ${removed.join(', ')}.`]
+    ? [`removed ${formatCount(removed.length)} unfinished temporary file(s) left in ${folder} by an earlier run that was stopped: ${removed.join(', ')}.`]
     : [];
 }
 

@@ -7,6 +7,7 @@ import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
 import { rateUse, recipeWords } from './rates.js';
+import { formatCount } from '../core/count.js';
 
 /** "ρ for the spatial lag model and λ for the spatial error model": each spatial parameter, from the registry. */
 function parameterWords(): string {
@@ -50,7 +51,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],
         ['Areas without neighbours', result.weights.withoutNeighbours.length, 'integer'],
         ...(result.rates ?? []).map((q): [string, Cell, 'text'] => [`Rate ${q.name}`,
-          `${recipeWords(q)}; ${rateUse(result, q)}; ${q.areas.filter((a) => a.flagged).length} areas flagged for few events${q.withholdFlagged ? ' and withheld' : ''} (sheet "Rates")`, 'text']),
+          `${recipeWords(q)}; ${rateUse(result, q)}; ${formatCount(q.areas.filter((a) => a.flagged).length)} areas flagged for few events${q.withholdFlagged ? ' and withheld' : ''} (sheet "Rates")`, 'text']),
       ],
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },

@@ -14,6 +14,7 @@ import { simplify } from '@turf/simplify';
 import type { AreaGeometry } from '../../geo/types.js';
 import type { Frame } from './projection.js';
 import { c1 } from './svg.js';
+import { formatCount } from '../../core/count.js';
 
 /** Above this many areas: no outlines, one path per colour. */
 export const MANY_AREAS = 20_000;
@@ -241,7 +242,7 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
 /** The note that goes beside a map drawn in any way other than plainly; null when it was drawn plainly. */
 export function describeDrawing(d: MapDrawing, coordinates: 'geographic' | 'projected'): string | null {
   const parts: string[] = [];
-  const n = (x: number) => x.toLocaleString('en-US');
+  const n = formatCount;
   if (!d.outlines) parts.push('outlines between areas left out, as at this size they would hide the colours');
   if (d.simplified) {
     const s = d.simplified;
