@@ -130,7 +130,7 @@ export function mountAreasStep(ctx: SidebarContext): AreasStep {
     }
     clear(areas.found,
       h('p', {}, `${formatCount(r.features)} areas in the file (${r.coordinates === 'geographic' ? 'longitude/latitude' : 'projected coordinates'}${r.coordinatesGuessed ? ', guessed: the file does not say' : ''}); `
-        + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${r.matched} matched to rows by ${by}.`)),
+        + (r.joinError ? `the rows cannot be matched to them by ${by} until the problems below are fixed.` : `${formatCount(r.matched)} matched to rows by ${by}.`)),
       ...idChoice,
       ...(r.join.zeroPaddingSuspects.length || s.idsIgnoreLeadingZeros
         ? [checkbox('ids-leading-zeros', 'Match 01001 with 1001 (IDs that differ only by leading zeros; recorded in the results)', s.idsIgnoreLeadingZeros,

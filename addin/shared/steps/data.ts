@@ -43,7 +43,7 @@ export function mountDataStep(ctx: SidebarContext, saved: () => SavedSetup | nul
     const t = s.source!.table;
     const kinds = { numbers: 'numbers', text: 'text', mixed: 'numbers and text', empty: 'empty' } as const;
     const list = h('ul', { class: 'columns' }, ...p.columns.map((c) =>
-      h('li', {}, h('strong', {}, c.name), `: ${kinds[c.kind]}${c.blanks ? `, ${c.blanks} blank` : ''}${c.unique ? ', all different' : ''}`)));
+      h('li', {}, h('strong', {}, c.name), `: ${kinds[c.kind]}${c.blanks ? `, ${formatCount(c.blanks)} blank` : ''}${c.unique ? ', all different' : ''}`)));
     clear(data.found,
       h('p', {}, `${s.source!.csv ? 'File' : 'Sheet'} "${t.sheet}": ${formatCount(p.n)} rows (header on row ${t.headerRow}), ${formatCount(p.columns.length)} columns.`),
       select('id-column', 'ID column (one per area)', t.headers.map((c) => ({ value: c, text: c })), s.id, (v) => { s.id = v; ctx.redraw.model(); void ctx.redraw.check(); }),
