@@ -5,6 +5,11 @@
  * The outcome follows y = (I − ρW)⁻¹(1 + 2·x1 − x2 + ε) with rook weights, ρ = 0.5, summed by the
  * Neumann series (60 terms; 0.5⁶⁰ is below rounding).
  */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { seededRandom } from '../src/linalg/random.js';
 
 export function gridGeoJson(rows: number, cols: number, seed = 17): string {
@@ -41,4 +46,22 @@ export function gridGeoJson(rows: number, cols: number, seed = 17): string {
     }
   }
   return `{"type":"FeatureCollection","features":[${parts.join(',')}]}`;
+}
+
+/**
+ * Builds `dist/` (so a figure is never of a stale build), writes the rows × rows grid GeoJSON to a
+ * temporary folder and hands the built command line and the file to `work`; the folder goes after.
+ */
+export function withBuiltCommandLineAndGrid<T>(rows: number, work: (bin: string, file: string) => T): T {
+  const root = fileURLToPath(new URL('..', import.meta.url));
+  const build = spawnSync('npm', ['run', '--silent', 'build'], { cwd: root, encoding: 'utf8' });
+  if (build.status !== 0) throw new Error(`the build failed: ${build.stderr.split('\n').slice(0, 3).join(' | ')}`);
+  const dir = mkdtempSync(join(tmpdir(), 'spillway-bench-'));
+  try {
+    const file = join(dir, `grid${rows}.geojson`);
+    writeFileSync(file, gridGeoJson(rows, rows));
+    return work(join(root, 'bin/spillway.mjs'), file);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }

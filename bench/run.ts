@@ -34,8 +34,9 @@ import { rookGrid } from './grid.js';
 import { normalSampler, seededRandom } from '../src/linalg/random.js';
 import { nearestNeighbours } from '../src/weights/nearest.js';
 import { applyTransform } from '../src/weights/transform.js';
-import { gridGeoJson } from './grid-geojson.js';
+import { withBuiltCommandLineAndGrid } from './grid-geojson.js';
 import { localStatisticsWorkload } from './local-statistics.js';
+import { commandLineLagErrorWorkload, familyFitsWorkload } from './family.js';
 import { columbusCellsWorkload, gridCellsWorkload } from './cell-functions.js';
 import { resultsWorkbookWorkload } from './results-workbook.js';
 import { overlapChecksWorkload, understatedZipWorkload } from './input-checks.js';
@@ -232,13 +233,7 @@ async function columbusWorkload(): Promise<Record<string, unknown>> {
 
 function cliWorkload(): Record<string, unknown> {
   // the built command line, as `npx spillway` runs it after npm ci; built now so it is never stale
-  const build = spawnSync('npm', ['run', '--silent', 'build'], { cwd: ROOT, encoding: 'utf8' });
-  if (build.status !== 0) throw new Error(`the build failed: ${build.stderr.split('\n').slice(0, 3).join(' | ')}`);
-  const dir = mkdtempSync(join(tmpdir(), 'spillway-bench-'));
-  try {
-    const file = join(dir, 'grid300.geojson');
-    writeFileSync(file, gridGeoJson(300, 300));
-    const bin = join(ROOT, 'bin/spillway.mjs');
+  return withBuiltCommandLineAndGrid(300, (bin, file) => {
     const run = (extra: string[]) => {
       const a = performance.now();
       const out = spawnSync(process.execPath, [bin, 'fit', '--boundary', file, '--id', 'id', '--y', 'y', '--x', 'x1,x2', '--models', 'lag', '--weights', 'rook', '--json', ...extra], { encoding: 'utf8', maxBuffer: 1 << 28 });
@@ -264,9 +259,7 @@ function cliWorkload(): Record<string, unknown> {
       rho: runs[0].rho,
       note: 'spillway fit --boundary grid300.geojson --id id --y y --x x1,x2 --models lag --weights rook --json (the built command line, as after npm ci), five runs alternating with five --threads 1 runs; then once with --permutations 999 (above 10,000 areas the permutation test of y runs only when asked)',
     };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
-  }
+  });
 }
 
 /** k-nearest-neighbour weights (no symmetric form) on invented random points: the exact sparse LU. */
@@ -343,6 +336,8 @@ const WORKLOADS: Record<string, () => Promise<Record<string, unknown>> | Record<
   'knn 4 full run, 500 points': () => knnAnalysisWorkload(500, 4),
   'knn 6 full run, 20000 points': () => knnAnalysisWorkload(20000, 6),
   'command line 300x300': cliWorkload,
+  'model family 300x300': () => familyFitsWorkload(300),
+  'command line 300x300 lag-and-error': commandLineLagErrorWorkload,
   'local statistics 55x55': () => localStatisticsWorkload(55),
   'local statistics 300x300': () => localStatisticsWorkload(300),
   'cell functions Columbus': columbusCellsWorkload,

@@ -65,11 +65,13 @@ const ROOT = join(import.meta.dirname, '..');
 const dir = join(ROOT, 'test/fixtures/columbus');
 const boundary = ['columbus.shp', 'columbus.dbf', 'columbus.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(join(dir, name))) }));
 const EXTRA = 'neighbourColumns';
+/** the registry's own models, in order */
+const FAMILY = ['ols', 'lag', 'error', 'slx', 'durbin', 'durbinError', 'lagError', 'lagIV', 'errorGM'];
 
 describe('the model registry drives every list of models', () => {
-  it('holds the three models of today in order, and the extra entry after them', () => {
-    expect(MODELS.map((m) => m.key)).toEqual(['ols', 'lag', 'error', EXTRA]);
-    expect(MODEL_KEYS).toEqual(['ols', 'lag', 'error', EXTRA]);
+  it('holds the models of today in order, and the extra entry after them', () => {
+    expect(MODELS.map((m) => m.key)).toEqual([...FAMILY, EXTRA]);
+    expect(MODEL_KEYS).toEqual([...FAMILY, EXTRA]);
   });
 
   it('the command line\'s --models help and its refusal list exactly the registry\'s spellings', () => {
@@ -78,7 +80,8 @@ describe('the model registry drives every list of models', () => {
     expect(line).toContain(`any of ${spellings.join(',')}, or all`);
     const base = ['--boundary', 'b.geojson', '--id', 'ID', '--y', 'Y', '--x', 'X'];
     expect(parseFitArgs([...base, '--models', 'neighbour-columns']).models).toEqual(['ols', EXTRA]);
-    expect(parseFitArgs([...base, '--models', 'all']).models).toEqual(['ols', 'lag', 'error', EXTRA]);
+    expect(parseFitArgs([...base, '--models', 'all']).models).toEqual([...FAMILY, EXTRA]);
+    // without --models: every model not fitted only on request
     expect(parseFitArgs(base).models).toEqual(['ols', 'lag', 'error', EXTRA]);
     expect(parseFitArgs([...base, '--models', 'error,lag']).models).toEqual(['ols', 'lag', 'error']);
     expect(() => parseFitArgs([...base, '--models', 'lag,hexagon'])).toThrow(InputError);
@@ -86,11 +89,11 @@ describe('the model registry drives every list of models', () => {
   });
 
   it('the sidebar is offered exactly the registry\'s models, the plain regression marked as always fitted', () => {
-    expect(modelChoices()).toEqual(MODELS.map((m) => ({ key: m.key, label: m.label, about: m.about, baseline: m.key === 'ols' })));
+    expect(modelChoices()).toEqual(MODELS.map((m) => ({ key: m.key, label: m.label, about: m.about, baseline: m.key === 'ols', onRequest: !['ols', 'lag', 'error', EXTRA].includes(m.key) })));
   });
 
   it('every registered model has its report blocks (the type asks for them; this says so at run time too)', () => {
-    for (const key of ['ols', 'lag', 'error']) expect(MODEL_BLOCKS).toHaveProperty(key);
+    for (const key of FAMILY) expect(MODEL_BLOCKS).toHaveProperty(key);
   });
 });
 
@@ -169,10 +172,11 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
 
   it('the report gives it a sheet, a row in the models table, its columns by area and its AIC under each definition', () => {
     const report = buildReport(result);
-    expect(report.sheets.filter((s) => s.role === 'model').map((s) => s.name)).toEqual(MODELS.map((m) => m.label));
+    const fitted = MODELS.filter((m) => m.key in result.fits).map((m) => m.label);
+    expect(report.sheets.filter((s) => s.role === 'model').map((s) => s.name)).toEqual(fitted);
     const summary = report.sheets.find((s) => s.role === 'overview')!;
     const models = summary.blocks.find((b) => b.kind === 'table' && b.title === 'How the models compare') as { rows: unknown[][] };
-    expect(models.rows.map((r) => r[0])).toEqual(MODELS.map((m) => m.label));
+    expect(models.rows.map((r) => r[0])).toEqual(fitted);
     const areas = report.sheets.find((s) => s.role === 'areas')!.blocks[0] as { columns: { header: string; group?: string }[]; rows: unknown[][] };
     // each model's columns sit under its label as a group heading
     const k = areas.columns.findIndex((c) => c.group === 'Model with neighbours’ columns' && c.header === 'Fitted');
@@ -220,7 +224,7 @@ describe('the registry on arrays in memory: no files, a neighbour list and colum
   });
 
   it('refuses a key that names no model, listing the registry\'s keys', () => {
-    expect(() => fitUnderWeights(base, w, ['lag', 'durbin'], { seed: 1, impactDraws: 10 })).toThrow(`Unknown model "durbin": choose from ${MODEL_KEYS.join(', ')}.`);
+    expect(() => fitUnderWeights(base, w, ['lag', 'hexagon'], { seed: 1, impactDraws: 10 })).toThrow(`Unknown model "hexagon": choose from ${MODEL_KEYS.join(', ')}.`);
   });
 
   it('gives the same figures as a run from the files', async () => {

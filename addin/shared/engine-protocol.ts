@@ -51,6 +51,8 @@ export interface ModelChoice {
   about: string;
   /** fitted on every run (the plain regression) */
   baseline: boolean;
+  /** not ticked until asked for (the wider family of models) */
+  onRequest: boolean;
 }
 
 export type EngineJob =

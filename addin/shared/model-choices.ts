@@ -3,6 +3,6 @@ import { MODELS } from '../../src/models/index.js';
 import type { ModelChoice } from './engine-protocol.js';
 
 export function modelChoices(): ModelChoice[] {
-  return MODELS.map((m) => ({ key: m.key, label: m.label, about: m.about, baseline: !!m.baseline }));
+  return MODELS.map((m) => ({ key: m.key, label: m.label, about: m.about, baseline: !!m.baseline, onRequest: !!m.onRequest }));
 }
 

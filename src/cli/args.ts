@@ -1,6 +1,6 @@
 import { parseArgs } from 'node:util';
 import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
-import { MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
+import { DEFAULT_MODEL_KEYS, MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { parseRateRecipe, MAX_SEED, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS, MAX_PERMUTATIONS, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
 import { formatCount } from '../core/count.js';
@@ -72,7 +72,9 @@ Model
   --y COLUMN           the outcome to explain
   --x COL1,COL2        explanatory columns, comma-separated
   --models LIST        ${modelsHelp()}
-  --robust             also report heteroskedasticity-robust standard errors for the plain regression
+  --robust             standard errors robust to unequal variance: beside the classical ones for the plain
+                       regression and the neighbours' columns model, in place of them for the lag model
+                       by instruments (the moments error model's are robust always)
   --drop-missing       leave out rows with missing values (default: stop and list them)
 
 Neighbours
@@ -206,7 +208,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
 
 /** The --models line of the help: every model of the registry. */
 function modelsHelp(): string {
-  return `any of ${spellings().join(',')}, or all (default: all; ${baselineModel().cli} is always fitted)`;
+  const byDefault = MODELS.filter((m) => DEFAULT_MODEL_KEYS.includes(m.key)).map((m) => m.cli);
+  return `any of ${spellings().join(',')}, or all (default: ${byDefault.join(',')}; ${baselineModel().cli} is always fitted)`;
 }
 
 /** How --models spells each model of the registry, in registry order (a function: the help text is built at load). */
@@ -217,7 +220,8 @@ function spellings(): string[] {
 /** --models: the registry's spellings, comma-separated, or "all"; the plain regression is always among them. */
 function parseModels(text: string | undefined): ModelKey[] {
   const known = spellings();
-  const asked = (text ?? 'all').split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
+  if (text === undefined) return withBaseline(DEFAULT_MODEL_KEYS);
+  const asked = text.split(',').map((m) => m.trim().toLowerCase()).filter(Boolean);
   if (asked.length === 0) throw new InputError(`--models needs at least one of ${known.join(', ')}, or all.`);
   if (asked.includes('all')) return withBaseline(MODELS.map((m) => m.key));
   const keys = asked.map((spelling) => {

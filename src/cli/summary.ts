@@ -1,7 +1,7 @@
 import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type ComparedFit, type WeightsComparison } from '../pipeline/index.js';
 import type { LocalCategory } from '../stats/index.js';
 import type { Coefficient } from '../models/types.js';
-import { MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
+import { inSentence, MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
 import { formatCount } from '../core/count.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
@@ -38,7 +38,7 @@ export function formatSummary(r: AnalysisResult): string {
     if (entry.baseline) continue;
     lines.push(...modelBlock(entry, fit), '');
     if (fit.impacts) {
-      lines.push(`Spillover effects of the ${entry.label.toLowerCase()} (standard errors from ${fit.impacts.draws} simulated draws, seed ${fit.impacts.seed})`);
+      lines.push(`Spillover effects of the ${inSentence(entry.label)} (${fit.impacts.draws > 0 ? `standard errors from ${fit.impacts.draws} simulated draws, seed ${fit.impacts.seed}` : fit.impacts.method})`);
       lines.push(...table(['term', 'in the area itself', 'SE', 'in the other areas', 'SE', 'total', 'SE'],
         fit.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
       lines.push('');
@@ -95,14 +95,24 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const h = entry.headline(f);
   const out = [`${entry.label} (${entry.method}): ${entry.about}`];
   for (const q of h.parameters) out.push(`  ${q.symbol} (${q.name}) ${fmt(q.estimate, 6)}, SE ${fmt(q.se, 4)}, z ${fmt(q.z, 4)}, p ${p(q.p)}`);
-  out.push(...coefficientTable(f.coefficients, 'z'));
+  out.push(...coefficientTable(f.coefficients, entry.method === 'least squares' ? 't' : 'z'));
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
+  for (const t of f.nestedTests ?? []) {
+    out.push(`  Likelihood-ratio test of ${t.restriction} (the ${modelLabel(t.against)}): ${fmt(t.stat, 5)} (df ${t.df}), p ${p(t.p)}`);
+  }
+  for (const t of (f as { wald?: { against: string; restriction: string; stat: number; df: number; p: number }[] }).wald ?? []) {
+    out.push(`  Wald test of ${t.restriction} (the ${modelLabel(t.against)}): ${fmt(t.stat, 5)} (df ${t.df}), p ${p(t.p)}`);
+  }
   const remaining = (f as { lmRemainingError?: { stat: number; p: number } }).lmRemainingError;
   if (remaining) out.push(`  Spatial error pattern left after the lag: Lagrange multiplier ${fmt(remaining.stat, 4)}, p ${p(remaining.p)}`);
   if (h.convergence) out.push(`  Search: ${h.convergence.message}`);
   return out;
+}
+
+function modelLabel(key: string): string {
+  return inSentence((MODELS as readonly ModelEntry[]).find((m) => m.key === key)?.label ?? key);
 }
 
 function coefficientTable(cs: Coefficient[], stat: 't' | 'z'): string[] {

@@ -185,7 +185,7 @@ function dividedDifference(points: [number, number][]): number {
 }
 
 /** Lagrange interpolant through up to three points (a constant, a line or a parabola). */
-function parabola(points: [number, number][]): (x: number) => number {
+export function parabola(points: [number, number][]): (x: number) => number {
   return (x: number) => {
     let sum = 0;
     for (let i = 0; i < points.length; i++) {

@@ -1,16 +1,34 @@
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
-import { chebyshevCurve, isRowStochastic, solveShifted, type TraceInverseCurve, type WeightsAlgebra } from '../linalg/index.js';
+import { chebyshevCurve, csrMultiply, isRowStochastic, solveShifted, type TraceInverseCurve, type WeightsAlgebra } from '../linalg/index.js';
 import { normalSampler, normalTwoSided, seededRandom } from '../stats/index.js';
 import type { Design, Impact, ImpactsResult, SpatialFit } from './types.js';
 import { formatCount } from '../core/count.js';
 
 const SERIES_TERMS = 300;
 const MAX_REDRAWS = 1000;
+/** Below this |ρ| the lagged columns' terms come from their series (no division by a small ρ)... */
+const SMALL_RHO = 0.02;
+/** ...to this power: 0.02¹³ is below rounding. */
+const SMALL_RHO_TERMS = 12;
+
+/** What the effects are computed from: the reduced form's coefficients, ρ, the covariance of (β, ρ, σ²) and the range of ρ. */
+export type ReducedFormFit = Pick<SpatialFit, 'coefficients' | 'parameter' | 'covariance' | 'range'>;
+
+/** The Durbin model's WX terms: the columns of X (the WX coefficients follow them) and each WX term's own column. */
+export interface LaggedTerms {
+  xColumns: number;
+  source: number[];
+}
 
 /**
  * Impacts of the lag model (LeSage & Pace 2009, §2.7): with A = I − ρW and S_r = β_r A⁻¹,
  *   direct = β_r tr(A⁻¹)/n, total = β_r 1'A⁻¹1/n, indirect = total − direct.
  * When every row of W sums to one, 1'A⁻¹1/n = 1/(1 − ρ); otherwise it comes from solves A x = 1.
+ * With `lagged` (the spatial Durbin model, ibid. §2.7; its WX coefficients θ follow X's) S_r =
+ * A⁻¹(β_r I + θ_r W), and since A⁻¹W = (A⁻¹ − I)/ρ: direct = β_r tr(A⁻¹)/n + θ_r (tr(A⁻¹)/n − 1)/ρ,
+ * total = β_r 1'A⁻¹1/n + θ_r (1'A⁻¹1/n − 1)/ρ (= (β_r + θ_r)/(1 − ρ) when rows sum to one); for
+ * |ρ| < 0.02 the θ terms come from their power series instead. The draws are of (β, θ, ρ) jointly.
+ * The lag model by instruments passes its own estimates and covariance (`ReducedFormFit`).
  *
  * Standard errors (LeSage & Pace 2009, §2.7.4): `draws` samples of (β, ρ) from N(θ̂, V̂) using the
  * Cholesky factor of V̂ (the (β, ρ) block of the ML covariance) and a seeded generator; draws of ρ
@@ -30,14 +48,17 @@ const MAX_REDRAWS = 1000;
  * or ρ cannot be drawn inside the range, the estimates are still given, without standard errors or
  * p-values, and a warning says why.
  */
-export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, opts: { draws?: number; seed?: number } = {}): ImpactsResult {
-  if (fit.model !== 'lag') throw new Error('impacts are defined for the lag model');
+export function lagImpacts(fit: ReducedFormFit, x: Design, algebra: WeightsAlgebra, opts: { draws?: number; seed?: number; lagged?: LaggedTerms } = {}): ImpactsResult {
   const draws = opts.draws ?? 1000;
   const seed = opts.seed ?? 1;
   const n = algebra.n;
   const k = x.columns.length;
   const warnings: string[] = [];
-  const which = x.names.map((name, j) => ({ name, j })).filter((c) => c.j !== x.intercept);
+  // with lagged columns (the Durbin model) one effect per column of X, from β_r and θ_r together
+  const lagged = opts.lagged;
+  const which = x.names.map((name, j) => ({ name, j, t: lagged ? lagged.source.indexOf(j) : -1 }))
+    .filter((c) => c.j !== x.intercept && (!lagged || c.j < lagged.xColumns))
+    .map((c) => ({ ...c, t: c.t >= 0 && lagged ? lagged.xColumns + c.t : -1 }));
   const beta = fit.coefficients.map((c) => c.estimate);
   const rhoHat = fit.parameter;
   const tracesHat = algebra.traces(rhoHat);
@@ -67,10 +88,33 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
   };
   const tHat = closedTotal ? totalClosed(rhoHat) : totalBySolve(rhoHat);
 
+  // A⁻¹W = (A⁻¹ − I)/ρ, so tr(A⁻¹W)/n = (tr(A⁻¹)/n − 1)/ρ and 1'A⁻¹W1/n = (1'A⁻¹1/n − 1)/ρ; near
+  // ρ = 0 from their series Σ ρʲ tr(Wʲ⁺¹)/n and Σ ρʲ 1'Wʲ⁺¹1/n (built on first use)
+  let traceSeries: Float64Array | null = null;
+  let sumSeries: Float64Array | null = null;
+  const powerSum = (c: Float64Array, rho: number) => { let s = 0, power = 1; for (const v of c) { s += power * v; power *= rho; } return s; };
+  const directLagged = (rho: number, meanA: number): number => {
+    if (Math.abs(rho) >= SMALL_RHO) return (meanA - 1) / rho;
+    traceSeries ??= algebra.powerTraces(SMALL_RHO_TERMS + 1).map((v) => v / n);
+    return powerSum(traceSeries, rho);
+  };
+  const totalLagged = (rho: number, meanTotalA: number): number => {
+    if (rowsSumToOne) return meanTotalA; // W1 = 1
+    if (Math.abs(rho) >= SMALL_RHO) return (meanTotalA - 1) / rho;
+    if (!sumSeries) {
+      sumSeries = new Float64Array(SMALL_RHO_TERMS + 1);
+      let v: Float64Array = new Float64Array(n).fill(1);
+      for (let j = 0; j <= SMALL_RHO_TERMS; j++) { v = csrMultiply(algebra.w, v); sumSeries[j] = v.reduce((a, b) => a + b, 0) / n; }
+    }
+    return powerSum(sumSeries, rho);
+  };
+  const dwHat = lagged ? directLagged(rhoHat, dHat) : 0;
+  const twHat = lagged ? totalLagged(rhoHat, tHat) : 0;
+
   const estimates = (se: (c: number) => { d: number; i: number; t: number }): Impact[] =>
-    which.map(({ name, j }, c) => {
-      const direct = beta[j] * dHat;
-      const total = beta[j] * tHat;
+    which.map(({ name, j, t: l }, c) => {
+      const direct = beta[j] * dHat + (l >= 0 ? beta[l] * dwHat : 0);
+      const total = beta[j] * tHat + (l >= 0 ? beta[l] * twHat : 0);
       const indirect = total - direct;
       const s = se(c);
       return {
@@ -164,9 +208,11 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     const theta = thetas.subarray(r * q, (r + 1) * q);
     const d = meanDirect(theta[k]);
     const t = meanTotal(theta[k]);
-    which.forEach(({ j }, c) => {
-      const direct = theta[j] * d;
-      const total = theta[j] * t;
+    const dw = lagged ? directLagged(theta[k], d) : 0;
+    const tw = lagged ? totalLagged(theta[k], t) : 0;
+    which.forEach(({ j, t: l }, c) => {
+      const direct = theta[j] * d + (l >= 0 ? theta[l] * dw : 0);
+      const total = theta[j] * t + (l >= 0 ? theta[l] * tw : 0);
       accumulate(sums[c].d, direct);
       accumulate(sums[c].t, total);
       accumulate(sums[c].i, total - direct);
@@ -178,7 +224,7 @@ export function lagImpacts(fit: SpatialFit, x: Design, algebra: WeightsAlgebra, 
     impacts,
     draws,
     seed,
-    method: `${draws} simulated draws of (β, ρ) from their estimated normal distribution (seed ${seed}); ${traceText}; total effect ${totalText}`,
+    method: `${draws} simulated draws of (β, ${lagged ? 'θ, ' : ''}ρ) from their estimated normal distribution (seed ${seed}); ${traceText}${lagged ? '; the neighbours’ columns through tr((I − ρW)⁻¹W)/n = (tr(I − ρW)⁻¹/n − 1)/ρ' : ''}; total effect ${lagged ? totalText.replace('β/(1 − ρ)', '(β + θ)/(1 − ρ)') : totalText}`,
     warnings,
   };
 }

@@ -6,7 +6,7 @@ export { lagImpacts } from './impacts.js';
 export { recommendModel } from './recommend.js';
 export { denseAlgebra } from '../linalg/index.js';
 export { MODELS, type ModelKey, type FitOf, type FittedModels } from './registry.js';
-export { MODEL_KEYS, modelEntry, entriesOf, baselineModel, modelByCli, fittedInOrder, withBaseline, areasNeeded, fitModel, addNestedTests } from './lookup.js';
+export { MODEL_KEYS, DEFAULT_MODEL_KEYS, inSentence, modelEntry, entriesOf, baselineModel, modelByCli, fittedInOrder, withBaseline, areasNeeded, fitModel, addNestedTests } from './lookup.js';
 export { coefficientJson, testJson } from './model-entry.js';
 export { defineModel } from './model-entry.js';
 export type { ModelEntry, ModelFitBase, PreparedInputs, FitOptions, Fitted, Headline, ParameterName, ParameterEstimate, NestedModel, NestedTest } from './model-entry.js';

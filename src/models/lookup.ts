@@ -8,6 +8,14 @@ import type { FitOptions, Fitted, ModelEntry, NestedTest, PreparedInputs } from 
 /** Every key, in registry order. */
 export const MODEL_KEYS: readonly ModelKey[] = MODELS.map((m) => m.key);
 
+/** The models a run fits when it names none: every one but those fitted only on request. */
+export const DEFAULT_MODEL_KEYS: readonly ModelKey[] = MODELS.filter((m) => !m.onRequest).map((m) => m.key);
+
+/** A model's label inside a sentence: its first letter in lower case, names kept ("the spatial Durbin model"). */
+export function inSentence(label: string): string {
+  return label.charAt(0).toLowerCase() + label.slice(1);
+}
+
 /** The entry of a key (undefined for a key that names no model). */
 export function modelEntry(key: string): ModelEntry | undefined {
   return MODELS.find((m) => m.key === key);
@@ -48,9 +56,11 @@ export function withBaseline(keys: readonly string[]): ModelKey[] {
   return MODELS.filter((m) => m.baseline || asked.has(m.key)).map((m) => m.key);
 }
 
-/** Areas a model needs at least: the coefficients, the residual variance and each spatial parameter, plus one to spare. */
+/** Areas a model needs at least: the coefficients (with its WX terms), the residual variance and each spatial parameter, plus one to spare. */
 export function areasNeeded(entry: ModelEntry, coefficients: number): number {
-  return coefficients + entry.parameters.length + 2;
+  // with the neighbours' averages: one more coefficient per column but the intercept
+  const lagged = entry.lagsColumns ? coefficients - 1 : 0;
+  return coefficients + lagged + entry.parameters.length + 2;
 }
 
 /**
@@ -64,7 +74,7 @@ export function fitModel(key: string, p: PreparedInputs, o: FitOptions, beforeIm
   const { logLik } = entry.headline(fit);
   if (logLik !== undefined && !Number.isFinite(logLik)) {
     throw new InputError(
-      `The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${logLik}; n = ${p.y.length}, k = ${p.design.columns.length}): the areas are too few or the neighbour links too sparse for the spatial parameter. Use more areas or run only the plain regression.`,
+      `The ${inSentence(entry.label)} could not be estimated on these data (its log-likelihood is ${logLik}; n = ${p.y.length}, k = ${p.design.columns.length}): the areas are too few or the neighbour links too sparse for the spatial parameter. Use more areas or run only the plain regression.`,
     );
   }
   const fitted: Fitted = { ...fit, residualLag: csrMultiply(p.w, fit.residuals) };

@@ -83,6 +83,14 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
   method: string;
   /** the plain regression: fitted on every run, since every test and spatial model starts from it */
   baseline?: true;
+  /**
+   * Fitted only when asked for by name (or with all): a run that names no models fits the others.
+   * The wider family (lagged columns, both spillovers, instruments and moments) is asked for; the
+   * plain, lag and error models that the Lagrange-multiplier rule chooses between are not.
+   */
+  onRequest?: true;
+  /** its design adds the neighbours' average of each explanatory column (the WX terms): more coefficients to estimate */
+  lagsColumns?: true;
   /** its spatial parameters, in order (none for the plain regression) */
   parameters: readonly ParameterName[];
   fit(p: PreparedInputs, o: FitOptions): F;

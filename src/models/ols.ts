@@ -108,7 +108,7 @@ export function table(x: Design, beta: Float64Array, se: (j: number) => number, 
 
 
 /** HC0: with Z = XR⁻¹ = Q (thin), Var β = R⁻¹ (Σ e_i² z_i z_iᵀ) R⁻ᵀ. */
-function whiteCovariance(qr: HouseholderQr, e: Float64Array): Float64Array {
+export function whiteCovariance(qr: HouseholderQr, e: Float64Array): Float64Array {
   const { k, n } = qr;
   const q = thinQ(qr);
   const meat = new Float64Array(k * k);

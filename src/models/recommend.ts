@@ -101,7 +101,7 @@ export function recommendModel(lm: LmTests, options: RecommendOptions | number =
       const smaller = choice === 'lag' ? lm.robustError.stat : lm.robustLag.stat;
       sentences.push(
         `${plain}, and so are both robust forms (${ps(lm, ['robustError', 'robustLag'])}); the larger robust statistic (${larger.toPrecision(3)} against ${smaller.toPrecision(3)}) points to ${NAME[choice as SpatialModelName]}, ` +
-          'and a model with both a lag and an error term is worth considering.',
+          'and a model with both a lag and an error term (the lag-and-error model) is worth considering.',
       );
     } else {
       sentences.push(

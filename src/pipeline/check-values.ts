@@ -5,7 +5,7 @@
  */
 import { InputError } from '../errors.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { areasNeeded, type ModelEntry } from '../models/index.js';
+import { inSentence, areasNeeded, type ModelEntry } from '../models/index.js';
 import { formatCount } from '../core/count.js';
 
 /**
@@ -147,6 +147,6 @@ export function checkSpatialRange(range: { lower: number; upper: number }, ruleW
 
 /** "the spatial lag model", "the spatial lag model and spatial error model" */
 function labels(models: readonly ModelEntry[]): string {
-  const words = models.map((m) => m.label.toLowerCase());
+  const words = models.map((m) => inSentence(m.label));
   return words.length <= 1 ? words.join('') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
 }

@@ -8,7 +8,7 @@ import { chooseAlgebra } from '../linalg/index.js';
 import type { StartHelperThread } from '../linalg/index.js';
 import { symmetricForm } from '../weights/index.js';
 import type { SpatialWeights } from '../weights/types.js';
-import { addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels } from '../models/index.js';
+import { inSentence, addNestedTests, designWithIntercept, entriesOf, fitModel, fitOls, recommendModel, type FitOptions, type Fitted, type FittedModels } from '../models/index.js';
 import type { Design, LmTests, MoranTest, OlsFit, Recommendation } from '../models/types.js';
 import { lmTests, moranResidualTest } from '../stats/index.js';
 import { checkSpatialRange } from './check-values.js';
@@ -71,7 +71,7 @@ export function fitUnderWeights(base: BaseFit, w: SpatialWeights, keys: readonly
     entries.forEach((entry, i) => {
       const { key } = entry;
       const share = (j: number) => 0.2 + (0.8 * (i + j)) / keys.length;
-      progress(share(0), `Fitting the ${entry.label.toLowerCase()}`);
+      progress(share(0), `Fitting the ${inSentence(entry.label)}`);
       fits[key] = fitModel(key, prepared, { robust: opts.robust, seed: opts.seed, impactDraws: opts.impactDraws }, () => {
         done(key);
         progress(share(0.5), 'Simulating the spillover effects');

@@ -3,7 +3,7 @@ import { summarizeWeights } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec } from '../weights/types.js';
 import { tieWarning } from '../weights/index.js';
 import { compareWeights, sameSpec, suggestedAlternatives, MAX_ALTERNATIVES } from './compare-weights.js';
-import { baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
+import { inSentence, baselineModel, entriesOf, fitOls, fittedInOrder, modelByCli, withBaseline, MODELS, MODEL_KEYS, DEFAULT_MODEL_KEYS, type FittedModels, type ModelEntry } from '../models/index.js';
 import { moranColumn } from '../stats/index.js';
 import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
@@ -36,7 +36,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   const seed = request.seed ?? DEFAULT_SEED;
   const impactDraws = request.impactDraws ?? 1000;
   validateRequest(request);
-  const models = withBaseline(request.models.length ? request.models : MODEL_KEYS);
+  const models = withBaseline(request.models.length ? request.models : DEFAULT_MODEL_KEYS);
   const spatial = entriesOf(models).filter((m) => m.parameters.length > 0);
 
   progress(0.02, 'Reading the files');
@@ -44,7 +44,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   checkLocalRate(local?.of, request.rates);
   const residualsOf = local ? residualSource(local.of) : undefined;
   if (local && residualsOf && !(models as readonly string[]).includes(residualsOf.key)) {
-    throw new InputError(`--local-of ${local.of}: the ${residualsOf.label.toLowerCase()} was not fitted; add it to the models or choose residuals (of the plain regression).`);
+    throw new InputError(`--local-of ${local.of}: the ${inSentence(residualsOf.label)} was not fitted; add it to the models or choose residuals (of the plain regression).`);
   }
   const localColumn = local && local.of !== 'outcome' && !residualsOf && localRateName(local.of) === undefined && local.of !== request.y && !request.x.includes(local.of) ? [local.of] : [];
   const areas = await prepareAreas(request, localColumn, (stage) => {
@@ -87,7 +87,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     progress(0.93, 'Looking for where the pattern is');
     const rate = localRateValues(local.of, rates ?? []);
     const [v, label] = local.of === 'outcome' ? [y, request.y]
-      : residualsOf ? [(own.fits as Record<string, { residuals: Float64Array }>)[residualsOf.key].residuals, `residuals of the ${residualsOf.label.toLowerCase()}`]
+      : residualsOf ? [(own.fits as Record<string, { residuals: Float64Array }>)[residualsOf.key].residuals, `residuals of the ${inSentence(residualsOf.label)}`]
       : rate ? [rate.values, rate.label]
       : [values.get(local.of)!, local.of];
     localResult = localPatterns(local, v, label, w, seed, { ids: joined.ids, rows: joined.rows }, (f) => progress(0.93 + 0.06 * f, 'Looking for where the pattern is'));

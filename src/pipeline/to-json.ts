@@ -56,7 +56,11 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
     seed: r.request.seed,
   };
   const fitted = fittedInOrder(r.fits).filter(({ entry }) => !entry.baseline);
-  for (const { entry, fit } of fitted) out[entry.key] = entry.json(fit);
+  for (const { entry, fit } of fitted) {
+    out[entry.key] = entry.json(fit);
+    // likelihood-ratio tests against the models it nests that the run fitted too
+    if (fit.nestedTests) (out[entry.key] as Record<string, unknown>).lrTests = fit.nestedTests.map((t) => ({ against: t.against, restriction: t.restriction, stat: t.stat, df: t.df, p: t.p }));
+  }
   for (const { entry, fit } of fitted) {
     if (!fit.impacts) continue;
     const impacts = { impacts: fit.impacts.impacts.map((i) => ({ ...i })), impactsMethod: { draws: fit.impacts.draws, seed: fit.impacts.seed, method: fit.impacts.method } };

@@ -47,7 +47,7 @@ export interface AnalysisRequest {
   edgeList?: NamedBytesLike;
   transform: WeightsTransform;
   linkUnneighboured?: boolean;
-  /** registry keys of the models to fit (the plain regression is always fitted); empty: every model */
+  /** registry keys of the models to fit (the plain regression is always fitted); empty: every model not marked `onRequest` (the plain, lag and error models) */
   models: ModelKey[];
   /** Drop rows with missing values (and re-build the weights on the remaining areas) instead of refusing. */
   dropMissing?: boolean;

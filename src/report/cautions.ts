@@ -2,7 +2,7 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import { say } from './format.js';
 import { describeRule } from '../weights/index.js';
 import { listSome } from '../errors.js';
-import { fittedInOrder } from '../models/index.js';
+import { inSentence, fittedInOrder } from '../models/index.js';
 import { rateCautions } from './rates.js';
 import { formatCount } from '../core/count.js';
 
@@ -31,7 +31,7 @@ export function collectWarnings(result: AnalysisResult): string[] {
   const out: string[] = [...result.warnings];
   for (const { entry, fit } of fittedInOrder(result.fits)) {
     out.push(...fit.warnings);
-    const label = entry.label.toLowerCase();
+    const label = inSentence(entry.label);
     const { convergence, range } = entry.headline(fit);
     if (!convergence) continue;
     if (!convergence.converged) out.push(`The ${label} did not converge: ${convergence.message}. Its estimates are not reliable.`);

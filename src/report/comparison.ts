@@ -1,7 +1,7 @@
 import type { AnalysisResult, ComparedFit, WeightsComparison } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { MODEL_LABEL, num, say, sayList } from './format.js';
-import { MODELS, type ModelEntry, type ParameterEstimate } from '../models/index.js';
+import { inSentence, MODELS, type ModelEntry, type ParameterEstimate } from '../models/index.js';
 
 const name = (r: WeightsComparison) => (r.asRun ? `${r.label} (this run)` : r.label);
 const DEFINITION: TableColumn = { header: 'Neighbour definition', format: 'text', width: 24 };
@@ -79,7 +79,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     const columns: TableColumn[] = [DEFINITION];
     for (const m of models) columns.push(...fitColumns(m.entry));
     const belongs = models.filter((m) => m.entry.parameters.length)
-      .map((m, i) => `${sayList(m.entry.parameters.map((q) => q.symbol))}${i === 0 ? ' belongs' : ''} to the ${m.entry.label.toLowerCase()}`);
+      .map((m, i) => `${sayList(m.entry.parameters.map((q) => q.symbol))}${i === 0 ? ' belongs' : ''} to the ${inSentence(m.entry.label)}`);
     blocks.push({
       kind: 'table', title: 'The spatial models under each definition',
       columns,
@@ -96,7 +96,7 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     const withEffects = built.filter((r) => m.of(r)?.impacts?.length);
     if (!withEffects.length) continue;
     blocks.push({
-      kind: 'table', title: `Spillover effects of the ${m.entry.label.toLowerCase()} under each definition`,
+      kind: 'table', title: `Spillover effects of the ${inSentence(m.entry.label)} under each definition`,
       columns: [
         DEFINITION,
         { header: 'Explanatory column', format: 'text', width: 14 },
@@ -154,7 +154,7 @@ export function comparisonReading(all: WeightsComparison[]): string {
       const v = built.map((r) => m.of(r)?.parameters.find((x) => x.key === q.key)).filter((x): x is ParameterEstimate => !!x).map((x) => x.estimate);
       // a symbol shared by several models is named with its model
       const shared = models.filter((o) => o.entry.parameters.some((x) => x.symbol === q.symbol)).length > 1;
-      if (v.length > 1) parts.push(`${q.symbol}${shared ? ` (${m.entry.label.toLowerCase()})` : ''} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
+      if (v.length > 1) parts.push(`${q.symbol}${shared ? ` (${inSentence(m.entry.label)})` : ''} runs from ${say(Math.min(...v))} to ${say(Math.max(...v))}`);
     }
   }
   const significant = built.filter((r) => r.moran.p < 0.05).length;

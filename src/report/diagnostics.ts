@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
 import { num } from './format.js';
-import { baselineModel, fittedInOrder } from '../models/index.js';
+import { inSentence, baselineModel, fittedInOrder } from '../models/index.js';
 import { blocksOf } from './model-blocks.js';
 import { TEST_COLUMNS, testRow } from './test-rows.js';
 
@@ -58,7 +58,7 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
   ];
   for (const { entry, fit } of fittedInOrder(result.fits)) {
     const rows = blocksOf(entry.key).checks?.(fit);
-    if (rows?.length) blocks.push({ kind: 'table', title: `Checks on the ${entry.label.toLowerCase()}`, columns: TEST_COLUMNS, rows });
+    if (rows?.length) blocks.push({ kind: 'table', title: `Checks on the ${inSentence(entry.label)}`, columns: TEST_COLUMNS, rows });
   }
   return blocks;
 }

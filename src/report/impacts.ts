@@ -3,16 +3,20 @@ import type { Fitted, SpatialFit } from '../models/index.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { num, say, sayP } from './format.js';
 
+/** One effect's columns under its group heading: the effect, its standard error, its p-value. */
+export function effectColumns(group: string): TableColumn[] {
+  return [
+    { header: 'Effect', format: 'decimal4', width: 10, group },
+    { header: 'Standard error', format: 'decimal4', width: 10, group },
+    { header: 'p-value', format: 'pvalue', width: 9, group },
+  ];
+}
+
 /** Direct, indirect and total impacts of the lag model, with one careful sentence per regressor. */
 export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): Block[] {
   const im = fit.impacts;
   if (!im) return [];
   const y = result.request.y;
-  const effect = (group: string): TableColumn[] => [
-    { header: 'Effect', format: 'decimal4', width: 10, group },
-    { header: 'Standard error', format: 'decimal4', width: 10, group },
-    { header: 'p-value', format: 'pvalue', width: 9, group },
-  ];
   const blocks: Block[] = [
     { kind: 'title', text: 'Spillover effects in the spatial lag model' },
     {
@@ -23,7 +27,7 @@ export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): 
       kind: 'table', title: 'Direct, indirect and total effects',
       columns: [
         { header: 'Explanatory column', format: 'text', width: 16 },
-        ...effect('In the area itself (direct)'), ...effect('Spread over other areas (indirect)'), ...effect('Total'),
+        ...effectColumns('In the area itself (direct)'), ...effectColumns('Spread over other areas (indirect)'), ...effectColumns('Total'),
       ],
       rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP),
         num(m.total), num(m.totalSe), num(m.totalP)]),

@@ -1,6 +1,6 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient } from '../models/types.js';
-import { fittedInOrder } from '../models/index.js';
+import { inSentence, fittedInOrder } from '../models/index.js';
 import { SOME_LEVEL, say, sayList, sayP } from './format.js';
 import { formatCount } from '../core/count.js';
 
@@ -37,7 +37,7 @@ export function interpretation(result: AnalysisResult): string {
   const fitted = fittedModels(result);
   const candidates = fitted.filter((f) => (rec.models as readonly string[]).includes(f.name));
   const withAic = <T extends { aic?: number }>(list: T[]) => list.filter((f): f is T & { aic: number } => f.aic !== undefined);
-  const label = (f: { label: string }) => f.label.toLowerCase();
+  const label = (f: { label: string }) => inSentence(f.label);
   let preferred = candidates[0] ?? fitted[0];
   let lead: string;
   let comparedByAic: string[] = [];

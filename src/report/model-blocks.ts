@@ -8,6 +8,7 @@ import type { FitOf, Fitted, ModelEntry, ModelFitBase, ModelKey } from '../model
 import type { Block, Cell } from './types.js';
 import { headlineBlocks, olsBlocks, spatialBlocks, spatialChecks } from './model-tables.js';
 import { impactsBlocks } from './impacts.js';
+import { familyChecks, familyImpacts, familySheet } from './family.js';
 
 export interface ModelBlocks<F extends ModelFitBase> {
   /** the model's own sheet */
@@ -22,6 +23,12 @@ export const MODEL_BLOCKS: { [K in ModelKey]: ModelBlocks<FitOf<K>> } = {
   ols: { sheet: olsBlocks },
   lag: { sheet: spatialBlocks, checks: spatialChecks, impacts: impactsBlocks },
   error: { sheet: spatialBlocks, checks: spatialChecks },
+  slx: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
+  durbin: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
+  durbinError: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
+  lagError: { sheet: familySheet, checks: familyChecks, impacts: familyImpacts },
+  lagIV: { sheet: familySheet, impacts: familyImpacts },
+  errorGM: { sheet: familySheet },
 };
 
 /** The blocks of a model by key (a sheet of headline figures for a key without its own). */

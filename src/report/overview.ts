@@ -1,17 +1,18 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell } from './types.js';
 import { MODEL_LABEL, num, question, sayList, suggestionLabel } from './format.js';
-import { MODELS, fittedInOrder } from '../models/index.js';
+import { MODELS, fittedInOrder, inSentence } from '../models/index.js';
 import { cautions, collectWarnings } from './cautions.js';
 import { interpretation } from './interpretation.js';
 import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
+import { familySummaryBlocks } from './family.js';
 import { rateUse, recipeWords } from './rates.js';
 import { formatCount } from '../core/count.js';
 
 /** "ρ for the spatial lag model and λ for the spatial error model": each spatial parameter, from the registry. */
-function parameterWords(): string {
-  return sayList(MODELS.filter((m) => m.parameters.length).map((m) => `${sayList(m.parameters.map((q) => q.symbol))} for the ${m.label.toLowerCase()}`));
+function parameterWords(result: AnalysisResult): string {
+  return sayList(fittedInOrder(result.fits).map(({ entry }) => entry).filter((m) => m.parameters.length).map((m) => `${sayList(m.parameters.map((q) => q.symbol))} for the ${inSentence(m.label)}`));
 }
 
 function comparisonRows(result: AnalysisResult): Cell[][] {
@@ -73,8 +74,9 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         { header: 'R² (plain) or pseudo R²', format: 'decimal4', width: 13, group: 'How well it fits' },
       ],
       rows: comparisonRows(result),
-      note: `Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ${parameterWords()}.`,
+      note: `Higher log-likelihood and lower AIC or BIC (Bayesian information criterion) mean a better balance of fit and simplicity. The spatial parameter is ${parameterWords(result)}.${fittedInOrder(result.fits).some(({ entry, fit }) => entry.headline(fit).logLik === undefined) ? ' Models estimated by instruments or moments have no likelihood, so no log-likelihood, AIC or BIC.' : ''}`,
     },
+    ...familySummaryBlocks(result),
     lmTable(result, 'Evidence of spatial dependence in the plain regression', false),
     {
       kind: 'keyValues', title: 'Suggested model',
