@@ -38,9 +38,12 @@ export function pText(p: number): string {
   return `p = ${Number(p.toPrecision(2))}`;
 }
 
-/** "spatial lag model", "spatial lag model and the spatial error model": for "the …" in a sentence. */
+/**
+ * "spatial lag model", "spatial lag model and the spatial Durbin model": for "the …" in a sentence; a
+ * label keeps its names, only its first letter is lowered (as the engine's inSentence does).
+ */
 export function modelWords(models: readonly SummaryModel[]): string {
-  return models.map((m) => m.label.toLowerCase()).join(' and the ');
+  return models.map((m) => m.label.charAt(0).toLowerCase() + m.label.slice(1)).join(' and the ');
 }
 
 /** The done message's sentences, plain text. */

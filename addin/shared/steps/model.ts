@@ -51,14 +51,19 @@ export function mountModelStep(ctx: SidebarContext): ModelStep {
   function modelChoice(): HTMLElement {
     const choices = s.modelChoices;
     if (!choices) return h('fieldset', { class: 'models' }, h('legend', {}, 'Models'), h('p', { class: 'hint' }, 'Asking the engine which models it fits…'));
-    const always = choices.filter((c) => c.baseline).map((c) => c.label.toLowerCase());
+    const always = choices.filter((c) => c.baseline).map((c) => c.label.charAt(0).toLowerCase() + c.label.slice(1));
     const ticked = tickedModels(s, choices);
+    const box = (c: ModelChoice) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {
+      const now = tickedModels(s, choices);
+      if (v) now.add(c.key); else now.delete(c.key);
+      s.models = now;
+    });
+    const wider = choices.filter((c) => c.onRequest);
     return h('fieldset', { class: 'models' }, h('legend', {}, `Models (the ${always.join(' and ')} ${always.length > 1 ? 'are' : 'is'} always fitted)`),
-      ...choices.filter((c) => !c.baseline).map((c: ModelChoice) => checkbox(`model-${c.key}`, `${c.label}: ${c.about}`, ticked.has(c.key), (v) => {
-        const now = tickedModels(s, choices);
-        if (v) now.add(c.key); else now.delete(c.key);
-        s.models = now;
-      })));
+      ...choices.filter((c) => !c.baseline && !c.onRequest).map(box),
+      ...(wider.length
+        ? [h('p', { class: 'hint' }, 'The wider family, for when a referee asks (the Summary then tests them against each other):'), ...wider.map(box)]
+        : []));
   }
 
   drawModel();

@@ -38,7 +38,7 @@ export interface State {
   x: Set<string>;
   /** the engine's models (from its registry), once it has said */
   modelChoices: ModelChoice[] | null;
-  /** the models ticked beyond the always-fitted ones; null: every model (the default) */
+  /** the models ticked beyond the always-fitted ones; null: the default ones (every model not fitted only on request) */
   models: Set<string> | null;
   robust: boolean; dropMissing: boolean;
   /** where is the pattern? local statistics of one column */
@@ -74,7 +74,7 @@ export function boundaryId(s: State): string | undefined {
   return s.areas?.kind === 'file' && s.areas.idProperty && s.areas.idProperty !== s.id ? s.areas.idProperty : undefined;
 }
 
-/** The ticked models beyond the always-fitted ones (by default every one). */
+/** The ticked models beyond the always-fitted ones (by default every one not fitted only on request). */
 export function tickedModels(s: State, choices: ModelChoice[]): Set<string> {
-  return new Set(s.models ?? choices.filter((c) => !c.baseline).map((c) => c.key));
+  return new Set(s.models ?? choices.filter((c) => !c.baseline && !c.onRequest).map((c) => c.key));
 }
