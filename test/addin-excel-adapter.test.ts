@@ -223,3 +223,75 @@ describe('writing the Rates sheet through Office.js (North Carolina counties, te
     expect(d.z.length).toBe(flagged.filter((f) => !f).length);
   });
 });
+
+describe('the page set-up through Office.js (ExcelApi 1.9 pageLayout), as the .xlsx writer has it', () => {
+  /** The printed set-up of every sheet of a results workbook written by the .xlsx writer, read from the file's own XML. */
+  async function filePageSetups(): Promise<Map<string, { orientation: string; fitToWidth: string; fitToHeight: string; margins: Record<string, number>; titles?: string; breaksBefore: number[] }>> {
+    const { writeResultsWorkbook } = await import('../src/workbook/index.js');
+    const { unzipSync, strFromU8 } = await import('fflate');
+    const files = unzipSync(await writeResultsWorkbook(report));
+    const book = strFromU8(files['xl/workbook.xml']);
+    const rels = strFromU8(files['xl/_rels/workbook.xml.rels']);
+    const attr = (xml: string, name: string) => new RegExp(`\\b${name}="([^"]*)"`).exec(xml)?.[1];
+    const out = new Map<string, { orientation: string; fitToWidth: string; fitToHeight: string; margins: Record<string, number>; titles?: string; breaksBefore: number[] }>();
+    const sheets = [...book.matchAll(/<sheet\b[^>]*>/g)].map((m) => m[0]);
+    sheets.forEach((tag, i) => {
+      const name = attr(tag, 'name')!.replace(/&amp;/g, '&');
+      const rid = attr(tag, 'r:id')!;
+      const target = new RegExp(`<Relationship[^>]*Id="${rid}"[^>]*Target="([^"]+)"`).exec(rels)?.[1] ?? new RegExp(`<Relationship[^>]*Target="([^"]+)"[^>]*Id="${rid}"`).exec(rels)![1];
+      const xml = strFromU8(files[`xl/${target.replace(/^\/?xl\//, '')}`]);
+      const setup = /<pageSetup\b[^>]*>/.exec(xml)![0];
+      const marginTag = /<pageMargins\b[^>]*>/.exec(xml)![0];
+      const margins = Object.fromEntries(['left', 'right', 'top', 'bottom', 'header', 'footer'].map((k) => [k, Number(attr(marginTag, k))]));
+      // a defined name _xlnm.Print_Titles scoped to this sheet (localSheetId is its 0-based position)
+      const titles = new RegExp(`<definedName[^>]*name="_xlnm.Print_Titles"[^>]*localSheetId="${i}"[^>]*>([^<]*)<`).exec(book)?.[1]
+        ?? new RegExp(`<definedName[^>]*localSheetId="${i}"[^>]*name="_xlnm.Print_Titles"[^>]*>([^<]*)<`).exec(book)?.[1];
+      // <brk id="r"/> breaks after row r (ECMA-376 Part 1, 18.3.1.3), so before row r + 1
+      const breaksBefore = [...(/<rowBreaks\b[\s\S]*?<\/rowBreaks>/.exec(xml)?.[0] ?? '').matchAll(/<brk\b[^>]*\bid="(\d+)"/g)].map((m) => Number(m[1]) + 1);
+      out.set(name, { orientation: attr(setup, 'orientation') ?? 'portrait', fitToWidth: attr(setup, 'fitToWidth') ?? '1', fitToHeight: attr(setup, 'fitToHeight') ?? '1', margins, titles: titles?.replace(/^.*!/, ''), breaksBefore });
+    });
+    return out;
+  }
+
+  it('gives every results sheet the plan’s orientation, fit, margins, repeated headings and page breaks, the same as the .xlsx file', async () => {
+    const { planSheet, PAGE_MARGINS } = await import('../src/report/layout.js');
+    const excel = new FakeExcel();
+    excel.addSheet('Data');
+    const names = await new ExcelAdapter(excel.run, { isSetSupported: excel.isSetSupported }).writeReport({ report, scatter });
+    const file = await filePageSetups();
+    let titled = 0, broken = 0;
+    report.sheets.forEach((sheet, i) => {
+      const plan = planSheet(sheet).page;
+      const page = excel.sheet(names[i])!.page;
+      expect(page.orientation, sheet.name).toBe(plan.orientation === 'landscape' ? 'Landscape' : 'Portrait');
+      expect(page.zoom, sheet.name).toEqual({ horizontalFitToPages: 1, verticalFitToPages: 0 });
+      expect(page.margins, sheet.name).toEqual({ unit: 'Inches', ...PAGE_MARGINS });
+      expect(page.printTitleRows, sheet.name).toBe(plan.titleRows ? `$${plan.titleRows.first}:$${plan.titleRows.last}` : undefined);
+      expect(page.breaksBefore, sheet.name).toEqual(plan.breaksBefore.filter((r) => r > 1));
+      // the .xlsx writer's file says the same
+      const f = file.get(sheet.name)!;
+      expect(f, sheet.name).toBeDefined();
+      expect(f.orientation, sheet.name).toBe(plan.orientation);
+      expect([f.fitToWidth, f.fitToHeight], sheet.name).toEqual(['1', '0']);
+      expect(f.margins, sheet.name).toEqual({ ...PAGE_MARGINS });
+      expect(f.titles, sheet.name).toBe(page.printTitleRows);
+      expect(f.breaksBefore, sheet.name).toEqual(page.breaksBefore);
+      if (plan.titleRows) titled++;
+      if (page.breaksBefore.length) broken++;
+    });
+    // the check reaches both kinds: repeated headings (the 49-row By area table) and breaks kept before pictures
+    expect(titled).toBeGreaterThan(0);
+    expect(broken).toBeGreaterThan(0);
+  });
+
+  it('leaves the page set-up to Excel, quietly, where ExcelApi 1.9 is missing; the sheets are written the same', async () => {
+    const excel = new FakeExcel();
+    excel.excelApi = 8;
+    excel.addSheet('Data');
+    const names = await new ExcelAdapter(excel.run, { isSetSupported: excel.isSetSupported }).writeReport({ report, scatter });
+    expect(names).toHaveLength(report.sheets.length);
+    for (const n of names) expect(excel.sheet(n)!.page).toEqual({ breaksBefore: [] });
+    // the stand-in has no page set-up at 1.8: asking for it there would have failed the write
+    await expect(excel.run(async (ctx) => ctx.workbook.worksheets.getItemOrNullObject(names[0]).pageLayout)).rejects.toThrow(/ExcelApi 1\.9/);
+  });
+});

@@ -14,6 +14,7 @@ import { suggestedAlternatives } from '../src/pipeline/compare-weights.js';
 import { buildReport } from '../src/report/index.js';
 import { readWorkbook, writeResultsWorkbook } from '../src/workbook/index.js';
 import { resultToJson } from '../src/pipeline/to-json.js';
+import { formatSummary } from '../src/cli/summary.js';
 import { readGolden } from './helpers/columbus.js';
 import { failure } from './helpers/input-error.js';
 import { ROOT, runCli, STACK_LINE } from './helpers/cli.js';
@@ -152,5 +153,11 @@ describe('a definition that links the same neighbours as another is said once', 
     expect(notes).toMatch(/^The definition "all areas within distance 1\.2" links exactly the same neighbours as "rook contiguity" on these areas, so it gives the same figures/m);
     expect(notes).toMatch(/Across the 2 distinct definitions \(1 more linked the same neighbours as one of these\)/);
     expect((resultToJson(r) as { comparison: { sameAs?: string }[] }).comparison[1].sameAs).toBe('rook contiguity');
+    // the command line's text summary says it the same way: no row of repeated figures, one line naming both
+    const text = formatSummary(r);
+    const section = text.slice(text.indexOf('The same question under other neighbour definitions')).split('\n\n')[0];
+    const rowsOf = section.split('\n').slice(2).filter((l) => /^ {2}\S/.test(l) && !l.startsWith('  "'));
+    expect(rowsOf.map((l) => l.trim().split(/\s{2,}/)[0])).toEqual(['rook contiguity (this run)', 'queen contiguity']);
+    expect(section).toContain('"all areas within distance 1.2" links exactly the same neighbours as "rook contiguity" on these areas, so it gives the same figures; its row is not repeated.');
   });
 });

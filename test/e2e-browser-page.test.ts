@@ -497,6 +497,75 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(withheld).toMatch(/^yes/);
   }, 60_000);
 
+  it('IDs that differ only by leading zeros: refused until "match 01001 with 1001" is ticked (by keyboard), then matched, run, recorded and kept in the setup', async () => {
+    // a 5 × 4 lattice whose boundary file writes its codes with leading zeros ("001"…"020") and whose
+    // table writes them as plain numbers (1…20), as a county file and a spreadsheet often do
+    const features = [];
+    const lines = ['code,v,u'];
+    for (let i = 0; i < 20; i++) {
+      const a = i % 5, b = Math.floor(i / 4);
+      const x = i % 5, y = Math.floor(i / 5);
+      features.push({ type: 'Feature', properties: { code: String(i + 1).padStart(3, '0') }, geometry: { type: 'Polygon', coordinates: [[[x, y], [x + 1, y], [x + 1, y + 1], [x, y + 1], [x, y]]] } });
+      lines.push(`${i + 1},${(a * 3 + b) % 7},${a + b}`);
+    }
+    const padded = join(out, 'padded.geojson');
+    const table = join(out, 'unpadded.csv');
+    writeFileSync(padded, JSON.stringify({ type: 'FeatureCollection', features }));
+    writeFileSync(table, lines.join('\n') + '\n');
+    await page.goto(`${origin}/page/index.html`);
+    await page.evaluate(() => localStorage.clear()); // no setup carried over from the runs above
+    await page.reload();
+    await page.setInputFiles('#data-file', table);
+    await page.getByText(/File "unpadded\.csv": 20 rows/).waitFor();
+    await page.selectOption('#id-column', 'code');
+    await page.setInputFiles('#boundary-file', padded);
+    await page.locator('section[aria-labelledby="step-2-title"] fluent-message-bar[intent="error"]').filter({ hasText: /match 01001 with 1001/ }).waitFor();
+    expect(await page.evaluate(() => document.querySelector('#ids-leading-zeros').checked)).toBe(false);
+    await expectAccessible('IDs with leading zeros, refused');
+
+    // by keyboard: the tick box follows the boundary file's ID choice, reads as a named check box, and Space ticks it
+    await page.focus('#boundary-id');
+    await page.keyboard.press('Tab');
+    const at = await focusedAsRead(page);
+    expect(at.id).toBe('ids-leading-zeros');
+    expect(at.role).toBe('checkbox');
+    expect(at.name).toMatch(/^Match 01001 with 1001/);
+    await page.keyboard.press('Space');
+    await page.getByText(/20 matched to rows by code/).waitFor();
+    await page.getByText(/matched ignoring leading zeros, as asked/).waitFor();
+    expect(await page.evaluate(() => document.querySelector('#ids-leading-zeros').checked)).toBe(true);
+    // the step redrew around it: the focus is still on the tick box
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('ids-leading-zeros');
+    await expectAccessible('IDs with leading zeros, matched as asked');
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.locator('section[aria-labelledby="step-2-title"]').screenshot({ path: join(shots, 'browser-page-leading-zeros.png') });
+
+    // the run request carries the choice: the workbook's record says so
+    await page.selectOption('#y-column', 'v');
+    await page.click('#x-u');
+    const download = page.waitForEvent('download', { timeout: 45_000 });
+    await page.click('#run');
+    const saved = join(out, 'zeros.xlsx');
+    await (await download).saveAs(saved);
+    await page.getByText(/Moran's I of the plain regression's residuals/).waitFor();
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(readFileSync(saved) as unknown as ArrayBuffer);
+    let recorded = '';
+    wb.getWorksheet('How this was made')!.eachRow((row) => { if (row.getCell(1).value === 'IDs matched ignoring leading zeros') recorded = String(row.getCell(2).value); });
+    expect(recorded).toMatch(/^yes, as asked/);
+
+    // the saved setup keeps it: opened again, the same files match at once with the box ticked
+    const setup = await page.evaluate(() => JSON.parse(localStorage.getItem('spillway.setup') ?? 'null'));
+    expect(setup.idsIgnoreLeadingZeros).toBe(true);
+    await page.reload();
+    await page.setInputFiles('#data-file', table);
+    await page.getByText(/File "unpadded\.csv": 20 rows/).waitFor();
+    expect(await page.inputValue('#id-column')).toBe('code');
+    await page.setInputFiles('#boundary-file', padded);
+    await page.getByText(/20 matched to rows by code/).waitFor();
+    expect(await page.evaluate(() => document.querySelector('#ids-leading-zeros').checked)).toBe(true);
+  }, 60_000);
+
   it('sent nothing off this machine and logged no errors (CSP violations show as console errors)', () => {
     expect(foreignRequests).toEqual([]);
     expect(problems).toEqual([]);

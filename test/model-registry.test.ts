@@ -54,6 +54,8 @@ const { buildReport, MODEL_BLOCKS } = await import('../src/report/index.js');
 const { FIT_USAGE, parseFitArgs } = await import('../src/cli/args.js');
 const { formatSummary } = await import('../src/cli/summary.js');
 const { modelChoices } = await import('../addin/shared/model-choices.js');
+const { runSummary } = await import('../addin/shared/run-summary-build.js');
+const { summaryLines } = await import('../addin/shared/run-summary.js');
 const { InputError } = await import('../src/errors.js');
 const { fitRows, effectsRows } = await import('../addin/functions/model-logic.js');
 const { resultsGeoJson } = await import('../src/report/index.js');
@@ -105,6 +107,14 @@ describe('an extra registry entry flows through the run, the comparison, the JSO
   it('the run fits every model by default, the extra one among them', () => {
     expect(result.request.models).toEqual(['ols', 'lag', 'error', EXTRA]);
     expect(Object.keys(result.fits)).toEqual(['ols', 'lag', 'error', EXTRA]);
+  });
+
+  it('the sidebar\'s done message names every fitted model by the registry\'s label, the extra one too', () => {
+    const s = runSummary(result);
+    expect(s.fitted.map((f) => f.key)).toEqual(['lag', 'error', EXTRA]);
+    const lines = summaryLines(s);
+    expect(lines).toContain('Model with neighbours’ columns: fitted.');
+    expect(lines.some((l) => /^Spatial lag model: ρ = -?\d\.\d{3}\.$/.test(l))).toBe(true);
   });
 
   it('its coefficients equal least squares on [1, INC, HOVAL, W·INC, W·HOVAL] by ml-matrix', async () => {

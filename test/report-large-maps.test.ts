@@ -138,7 +138,7 @@ describe('the note in the workbook', () => {
     expect(maps).toHaveLength(2);
     for (const im of maps) expect(im.alt).toContain(im.drawingNote!);
     const record = report.sheets.find((s) => s.role === 'record')!;
-    const kv = record.blocks.find((b) => b.kind === 'keyValues' && b.title.startsWith('Pictures drawn simplified'));
+    const kv = record.blocks.find((b) => b.kind === 'keyValues' && b.title.startsWith('Pictures drawn other than plainly'));
     expect(kv && kv.kind === 'keyValues' && kv.rows.map((x) => x[0])).toEqual(['Summary: map of the outcome', 'Summary: map of residuals']);
     // the pictures sit below the note
     expect(summary.images![0].anchor.row).toBeGreaterThan(summary.blocks.length);

@@ -6,13 +6,14 @@
  * If any write fails, the sheets this run added are deleted again.
  */
 import { InputError } from '../../src/errors.js';
-import type { Report, ReportImage, ReportSheet } from '../../src/report/index.js';
+import type { PagePlan, Report, ReportImage, ReportSheet } from '../../src/report/index.js';
 import { uniqueSheetName } from '../../src/workbook/sheet-names.js';
 import type { BoundaryFile, RunOutput, SavedSetup, ScatterPoints, SheetValue, TableSnapshot } from '../shared/types.js';
 import type { ContextLike, CustomXmlPartLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
 import { RequestBudget, readRows, writeRows } from './blocks.js';
 import { BOUNDARY_NAMESPACE, BoundaryNotKept, boundaryParts, readBoundaryParts } from './boundary-part.js';
 import { describe, isCellEditError, jsonBytes } from './limits.js';
+import { hasExcelApi, type IsSetSupported } from './run.js';
 import { address, columnLeft, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
 
 export const SETUP_KEY = 'spillway.setup';
@@ -43,8 +44,11 @@ function plainCell(v: unknown): SheetValue {
 }
 
 export class ExcelAdapter {
-  /** `maxBoundaryChars`: the largest boundary kept in the workbook (boundary-part.ts; tests pass a small one) */
-  constructor(private readonly run: ExcelRunner, private readonly options: { maxBoundaryChars?: number } = {}) {}
+  /**
+   * `maxBoundaryChars`: the largest boundary kept in the workbook (boundary-part.ts; tests pass a small one).
+   * `isSetSupported`: Office's requirement check, asked when a sheet is written (the page set-up needs ExcelApi 1.9).
+   */
+  constructor(private readonly run: ExcelRunner, private readonly options: { maxBoundaryChars?: number; isSetSupported?: IsSetSupported } = {}) {}
 
   /** The first table on the active sheet, or else its used range: the header row and the rows below. */
   async readActiveTable(): Promise<TableSnapshot> {
@@ -135,6 +139,8 @@ export class ExcelAdapter {
       const budget = new RequestBudget(context);
       const grid = sheetGrid(sheet);
       await writeGrid(budget, ws, grid);
+      // an Excel without the page set-up calls prints with its own defaults; the sheet is the same
+      if (hasExcelApi(this.options.isSetSupported, '1.9')) await writePageSetup(budget, ws, grid.page);
       await writePictures(budget, ws, grid, sheet, scatter);
       await budget.flush();
     });
@@ -277,6 +283,26 @@ export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: 
   if (grid.freezeRows > 0) {
     await budget.room(0);
     ws.freezePanes.freezeRows(grid.freezeRows);
+  }
+}
+
+/**
+ * The sheet plan's page set-up, as the .xlsx writer writes it (src/workbook/write-sheet.ts):
+ * orientation, one page wide and as many tall as the rows need, the margins, the first long table's
+ * headings repeated on every page, and the page breaks that keep each picture and short block whole.
+ */
+export async function writePageSetup(budget: RequestBudget, ws: WorksheetLike, page: PagePlan): Promise<void> {
+  await budget.room(512);
+  const layout = ws.pageLayout;
+  layout.orientation = page.orientation === 'landscape' ? 'Landscape' : 'Portrait';
+  // 0 pages tall: as many as needed (the file format's "automatic"; the .xlsx writer's fitToHeight 0)
+  layout.zoom = { horizontalFitToPages: page.fitToPagesWide, verticalFitToPages: 0 };
+  layout.setPrintMargins('Inches', { ...page.margins });
+  if (page.titleRows) layout.setPrintTitleRows(`$${page.titleRows.first}:$${page.titleRows.last}`);
+  for (const row of page.breaksBefore) {
+    if (row <= 1) continue;
+    await budget.room(0);
+    ws.horizontalPageBreaks.add(ws.getRangeByIndexes(row - 1, 0, 1, 1));
   }
 }
 

@@ -49,6 +49,18 @@ export interface ChartLike {
   readonly series: { getItemAt(index: number): { markerSize: number; readonly trendlines: { add(type?: any): unknown } } };
 }
 
+/** A sheet's printed page set-up (ExcelApi 1.9): margins go in through setPrintMargins with their unit. */
+export interface PageLayoutLike {
+  orientation: string;
+  zoom: { horizontalFitToPages?: number; verticalFitToPages?: number; scale?: number };
+  setPrintMargins(unit: 'Points' | 'Inches' | 'Centimeters', marginOptions: { left?: number; right?: number; top?: number; bottom?: number; header?: number; footer?: number }): void;
+  /** whole rows, e.g. "$3:$4" */
+  setPrintTitleRows(printTitleRows: RangeLike | string): void;
+}
+
+/** A sheet's manual page breaks (ExcelApi 1.9): add() breaks before the range's top-left cell. */
+export interface PageBreaksLike { add(pageBreakRange: RangeLike | string): unknown }
+
 export interface WorksheetLike {
   readonly name: string;
   readonly isNullObject: boolean;
@@ -56,6 +68,9 @@ export interface WorksheetLike {
   readonly freezePanes: { freezeRows(count?: number): void };
   readonly shapes: { addImage(base64ImageString: string): ShapeLike };
   readonly charts: { add(type: any, sourceData: RangeLike, seriesBy?: any): ChartLike };
+  /** ExcelApi 1.9: use only where the requirement set is there (adapter.ts) */
+  readonly pageLayout: PageLayoutLike;
+  readonly horizontalPageBreaks: PageBreaksLike;
   load(propertyNames?: string | string[]): WorksheetLike;
   getRange(address?: string): RangeLike;
   getRangeByIndexes(startRow: number, startColumn: number, rowCount: number, columnCount: number): RangeLike;

@@ -12,6 +12,7 @@
  */
 import { deflateSync, inflateSync } from 'fflate';
 import type { BoundaryFile } from '../shared/types.js';
+import { formatCount } from '../../src/core/count.js';
 
 export const BOUNDARY_NAMESPACE = 'urn:spillway:boundary:1';
 /** Largest part, in characters (base64 is ASCII: characters are bytes). */
@@ -111,7 +112,7 @@ export function readBoundaryParts(xmls: readonly string[]): BoundaryFile[] {
     .sort(([a], [b]) => (a.length - b.length) || (a < b ? -1 : a > b ? 1 : 0));
   if (!complete.length) {
     const [, parts] = [...sets.entries()][0];
-    throw new Error(`The boundary file kept in this workbook is incomplete (${parts.length} of ${parts[0].parts} parts found); open the original file again.`);
+    throw new Error(`The boundary file kept in this workbook is incomplete (${formatCount(parts.length)} of ${formatCount(parts[0].parts)} parts found); open the original file again.`);
   }
   const parts = complete[complete.length - 1][1].sort((a, b) => a.part - b.part);
   const files: BoundaryFile[] = [];

@@ -4,7 +4,7 @@
  * Office), so it is checked in Node. The layout is the report's own sheet plan (planSheet), the same
  * as the .xlsx writer's.
  */
-import { planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type ReportSheet } from '../../src/report/index.js';
+import { planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type PagePlan, type ReportSheet } from '../../src/report/index.js';
 // The number-format table alone (src/workbook's index would pull exceljs into the task pane).
 import { cellFormat } from '../../src/workbook/number-formats.js';
 
@@ -39,6 +39,8 @@ export interface SheetGrid {
   columnWidths: number[];
   /** rows to keep in view while scrolling (0: none) */
   freezeRows: number;
+  /** the printed page set-up (the plan's, as the .xlsx writer's) */
+  page: PagePlan;
 }
 
 const DEFAULT_WIDTH = 12;
@@ -125,7 +127,7 @@ export function sheetGrid(sheet: ReportSheet): SheetGrid {
       });
     }
   });
-  return { rows, cols, values, formats, styles, merges, wraps, aligns, rowHeights, columnWidths, freezeRows };
+  return { rows, cols, values, formats, styles, merges, wraps, aligns, rowHeights, columnWidths, freezeRows, page: plan.page };
 }
 
 /** Distance in points from the top of the sheet to the top of 0-based `row`, given the grid's row heights. */

@@ -23,13 +23,21 @@ export interface RunnerOptions {
 
 export const CELL_EDIT_MESSAGE = 'Excel is editing a cell. Press Enter or Esc to finish editing, then try again.';
 
-/** Whether this Excel can hold a batch until a cell edit ends. */
-export function canDelayForCellEdit(isSetSupported: ((name: string, version: string) => boolean) | undefined): boolean {
+/** Office's requirement check (Office.context.requirements.isSetSupported). */
+export type IsSetSupported = (name: string, version: string) => boolean;
+
+/** Whether this Excel has the ExcelApi requirement set `version`; no answer (or a failing check) is no. */
+export function hasExcelApi(isSetSupported: IsSetSupported | undefined, version: string): boolean {
   try {
-    return isSetSupported?.('ExcelApi', '1.11') === true;
+    return isSetSupported?.('ExcelApi', version) === true;
   } catch {
     return false;
   }
+}
+
+/** Whether this Excel can hold a batch until a cell edit ends. */
+export function canDelayForCellEdit(isSetSupported: IsSetSupported | undefined): boolean {
+  return hasExcelApi(isSetSupported, '1.11');
 }
 
 /**

@@ -8,6 +8,7 @@ import { moranColumn, gearyC, localMoran } from '../../src/stats/index.js';
 import { spatialLag } from '../../src/weights/index.js';
 import { weightsFromRange, type NeighbourOptions } from './neighbour-range.js';
 import { flatten, hasHeader, readIds, readNumbers, trimTogether, type Grid } from './ranges.js';
+import { formatCount } from '../../src/core/count.js';
 
 export type { CellValue, Grid } from './ranges.js';
 export { weightsFromRange, type NeighbourOptions } from './neighbour-range.js';
@@ -22,7 +23,7 @@ export function readColumns(values: Grid, ids: Grid): { ids: string[]; values: F
   let v = flatten(vr, 'The values range');
   let id = flatten(ir, 'The ID range');
   if (v.length !== id.length) {
-    throw new InputError(`The values range has ${v.length} cells but the ID range has ${id.length}; select the same rows for both.`);
+    throw new InputError(`The values range has ${formatCount(v.length)} cells but the ID range has ${formatCount(id.length)}; select the same rows for both.`);
   }
   let offset = 1;
   if (hasHeader(v)) {

@@ -18,6 +18,7 @@ import {
 import { lmTests, moranResidualTest } from '../../src/stats/index.js';
 import { symmetricForm, type SpatialWeights } from '../../src/weights/index.js';
 import { InputError } from '../../src/errors.js';
+import { formatCount } from '../../src/core/count.js';
 
 /** The design every model takes (a constant first). */
 export { designWithIntercept, type Design };
@@ -99,7 +100,7 @@ export function fitForCells(key: string, inputs: CellInputs, robust = false): Ce
   const fit = entry.fit(inputs, { robust, seed: 1, impactDraws: 0 });
   const h = entry.headline(fit);
   if (h.logLik !== undefined && !Number.isFinite(h.logLik)) {
-    throw new InputError(`The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${h.logLik}; ${n} areas): the areas are too few or the links too sparse for the spatial parameter.`);
+    throw new InputError(`The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${h.logLik}; ${formatCount(n)} areas): the areas are too few or the links too sparse for the spatial parameter.`);
   }
   const robustCoefficients = (fit as { robustCoefficients?: Coefficient[] }).robustCoefficients;
   return {

@@ -9,6 +9,7 @@ import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_S
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
 import { asNumber, flatten, hasHeader, isBlank, readIds, readNumbers, trimTogether, type CellValue, type Grid } from './ranges.js';
+import { formatCount } from '../../src/core/count.js';
 
 export type Spill = (string | number)[][];
 
@@ -30,7 +31,7 @@ export function readModelRanges(y: Grid, x: Grid, ids: Grid): ModelRanges {
   let rows: CellValue[][] = xr;
   if (xr.length === 1 && ys.length > 1) throw new InputError('The explanatory range is a single row; select the explanatory columns, one row per area.');
   if (ys.length !== rows.length || idCells.length !== rows.length) {
-    throw new InputError(`The outcome, explanatory and ID ranges have ${ys.length}, ${rows.length} and ${idCells.length} rows; select the same rows for all three.`);
+    throw new InputError(`The outcome, explanatory and ID ranges have ${formatCount(ys.length)}, ${formatCount(rows.length)} and ${formatCount(idCells.length)} rows; select the same rows for all three.`);
   }
   const k = Math.max(...rows.map((r) => r.length));
   const header = hasHeader(ys) || rows[0].some((c) => !isBlank(c) && asNumber(c) === null);
@@ -88,7 +89,7 @@ function prepare(y: Grid, x: Grid, ids: Grid, neighbours: Grid, o: ParsedOptions
 
 function checkSize(key: string, ranges: ModelRanges): void {
   const need = areasNeeded(key, ranges.design.columns.length);
-  if (ranges.y.length < need) throw new InputError(`This model needs at least ${need} areas for ${ranges.design.columns.length} coefficients; the ranges hold ${ranges.y.length}.`);
+  if (ranges.y.length < need) throw new InputError(`This model needs at least ${formatCount(need)} areas for ${ranges.design.columns.length} coefficients; the ranges hold ${formatCount(ranges.y.length)}.`);
 }
 
 const blank = (x: number): number | string => (Number.isFinite(x) ? x : '');

@@ -10,6 +10,7 @@ import { readBoundary, type AreaGeometry, type NamedBytes } from '../../src/geo/
 import { buildWeights, type SpatialWeights, type WeightsSpec } from '../../src/weights/index.js';
 import { parseOptions, type OptionsArgument } from './options.js';
 import { flatten, hasHeader, idText, readIds, readNumbers, trimTogether, type Grid } from './ranges.js';
+import { formatCount } from '../../src/core/count.js';
 
 export const LINK_HEADER = ['origin', 'neighbour', 'weight'] as const;
 
@@ -43,7 +44,7 @@ export function neighbourRowsFromPoints(
   let xs = flatten(xr, 'The x range');
   let ys = flatten(yr, 'The y range');
   if (idCells.length !== xs.length || idCells.length !== ys.length) {
-    throw new InputError(`The ID, x and y ranges have ${idCells.length}, ${xs.length} and ${ys.length} cells; select the same rows for all three.`);
+    throw new InputError(`The ID, x and y ranges have ${formatCount(idCells.length)}, ${formatCount(xs.length)} and ${formatCount(ys.length)} cells; select the same rows for all three.`);
   }
   let offset = 1;
   if (hasHeader(xs) || hasHeader(ys)) {

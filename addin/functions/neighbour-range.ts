@@ -13,6 +13,7 @@ import { Recent, twoHashes } from './recent.js';
 import { InputError } from '../../src/errors.js';
 import { readEdgeList, type SpatialWeights } from '../../src/weights/index.js';
 import { asNumber, idText, isBlank, trimBlankEdges, type CellValue, type Grid } from './ranges.js';
+import { formatCount } from '../../src/core/count.js';
 
 export interface NeighbourOptions {
   /** Rescale each area's weights to sum to 1; otherwise the weights are used as listed. */
@@ -73,8 +74,8 @@ export function neighbourForm(grid: Grid, n: number): NeighbourForm {
   }
   if (shapes.length === 0) {
     throw new InputError(
-      `${SOURCE} is ${rows} rows by ${cols} columns, which is neither a list of links (two or three columns: origin ID, neighbour ID, weight) ` +
-      `nor a matrix for the ${n} areas of the ID range (${n} × ${n}, or ${n + 1} × ${n + 1} with the IDs along the top and down the left side).`,
+      `${SOURCE} is ${formatCount(rows)} rows by ${formatCount(cols)} columns, which is neither a list of links (two or three columns: origin ID, neighbour ID, weight) ` +
+      `nor a matrix for the ${formatCount(n)} areas of the ID range (${n} × ${n}, or ${n + 1} × ${n + 1} with the IDs along the top and down the left side).`,
     );
   }
   return { kind: 'matrix', ...shapes[0] };

@@ -5,6 +5,7 @@
  * columns keep the same rows. A blank inside the data stays an error that names its cell.
  */
 import { InputError } from '../../src/errors.js';
+import { formatCount } from '../../src/core/count.js';
 
 /** One cell as a custom function receives it (empty cells arrive as null or ""). */
 export type CellValue = string | number | boolean | null | undefined;
@@ -77,7 +78,7 @@ export function flatten(range: Grid, what: string): CellValue[] {
   if (!Array.isArray(range) || range.length === 0) throw new InputError(`${what} is empty; select one column of cells.`);
   const rows = range.length;
   const cols = Math.max(...range.map((r) => r.length));
-  if (rows > 1 && cols > 1) throw new InputError(`${what} is ${rows} rows by ${cols} columns; select a single column.`);
+  if (rows > 1 && cols > 1) throw new InputError(`${what} is ${formatCount(rows)} rows by ${formatCount(cols)} columns; select a single column.`);
   return rows === 1 ? [...range[0]] : range.map((r) => r[0]);
 }
 

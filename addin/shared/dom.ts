@@ -35,13 +35,18 @@ export function h(tag: string, attrs: Attrs = {}, ...children: Child[]): HTMLEle
  * id takes it, so redrawing a step after a change does not throw a keyboard user back to the top.
  */
 export function clear(el: Element, ...children: Child[]): void {
-  const active = document.activeElement;
-  const focusedId = active && active !== el && el.contains(active) ? active.id : '';
+  const focusedId = focusedIdIn(el);
   el.replaceChildren(...children.filter((c): c is Node | string => c !== null && c !== undefined));
   if (focusedId) {
     const again = el.querySelector<HTMLElement>(`#${CSS.escape(focusedId)}`);
     again?.focus();
   }
+}
+
+/** The id of the focused control when it is inside el ('' otherwise). */
+export function focusedIdIn(el: Element): string {
+  const active = document.activeElement;
+  return active && active !== el && el.contains(active) ? active.id : '';
 }
 
 export function button(label: string, onClick: () => void, opts: { primary?: boolean; id?: string; disabled?: boolean } = {}): HTMLElement {

@@ -14,6 +14,8 @@ export interface CheckRequest {
   id: string;
   /** the boundary file's ID property, when it is named differently from the table's column */
   boundaryId?: string;
+  /** match all-digit IDs that differ only by leading zeros ("01001" with "1001"), as the analyst asked */
+  idsIgnoreLeadingZeros?: boolean;
   /** a distance band without a distance takes the one suggested from the data */
   weights: WeightsSpec | { method: 'band'; distance?: undefined };
   transform: WeightsTransform;

@@ -6,6 +6,7 @@
  * sharing its subject word). Pure; the sidebar shows the findings as warnings.
  */
 import type { SheetValue, TableSnapshot } from './types.js';
+import { formatCount } from '../../src/core/count.js';
 
 export interface RatePart {
   column: string;
@@ -108,12 +109,12 @@ export function rateParts(t: TableSnapshot, outcome: string, candidates: string[
       const other = byName.get(d)!;
       const asNumerator = formulaFit(y, yDecimals, own, other);
       if (asNumerator && asNumerator.fit >= FIT_SHARE * asNumerator.rows) {
-        part = { column: c, role: 'numerator', evidence: `${outcome} = ${times(asNumerator.k)}${c} / ${d} in ${asNumerator.fit} of ${asNumerator.rows} rows` };
+        part = { column: c, role: 'numerator', evidence: `${outcome} = ${times(asNumerator.k)}${c} / ${d} in ${formatCount(asNumerator.fit)} of ${formatCount(asNumerator.rows)} rows` };
         break;
       }
       const asDenominator = formulaFit(y, yDecimals, other, own);
       if (asDenominator && asDenominator.fit >= FIT_SHARE * asDenominator.rows) {
-        part = { column: c, role: 'denominator', evidence: `${outcome} = ${times(asDenominator.k)}${d} / ${c} in ${asDenominator.fit} of ${asDenominator.rows} rows` };
+        part = { column: c, role: 'denominator', evidence: `${outcome} = ${times(asDenominator.k)}${d} / ${c} in ${formatCount(asDenominator.fit)} of ${formatCount(asDenominator.rows)} rows` };
         break;
       }
     }
@@ -137,7 +138,7 @@ function byNames(outcome: string, column: string, values: number[]): RatePart | 
 
 /** For a rate built in the sidebar from two columns, the ticked columns that are its own counts: known, not guessed. */
 export function builtRateParts(recipe: { name: string; events: string; population: string; per: number }, ticked: string[]): RatePart[] {
-  const made = `${recipe.name} is built above as ${recipe.events} per ${recipe.per.toLocaleString('en-GB')} ${recipe.population}`;
+  const made = `${recipe.name} is built above as ${recipe.events} per ${formatCount(recipe.per)} ${recipe.population}`;
   return ticked.flatMap((c): RatePart[] =>
     c === recipe.events ? [{ column: c, role: 'numerator', evidence: made }]
       : c === recipe.population ? [{ column: c, role: 'denominator', evidence: made }] : []);

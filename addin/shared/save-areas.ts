@@ -6,6 +6,7 @@
 import { printable } from '../../src/errors.js';
 import { button, h, message } from './dom.js';
 import type { EngineClient } from './engine-client.js';
+import { formatCount } from '../../src/core/count.js';
 
 export function saveAreasButton(engine: EngineClient, stem: string): HTMLElement {
   const status = h('div', { 'aria-live': 'polite' });
@@ -20,7 +21,7 @@ export function saveAreasButton(engine: EngineClient, stem: string): HTMLElement
       a.click();
       a.remove();
       // the name carries the user's file or sheet name: shown through the same escaping as every message
-      status.append(h('p', { class: 'hint' }, printable(`${fileName}: ${areas} areas with their fitted values, residuals and local statistics, for any GIS.`)));
+      status.append(h('p', { class: 'hint' }, printable(`${fileName}: ${formatCount(areas)} areas with their fitted values, residuals and local statistics, for any GIS.`)));
       if (note) status.append(message('warning', note));
       setTimeout(() => URL.revokeObjectURL(url), 60_000);
     } catch (e) {

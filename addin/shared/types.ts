@@ -43,6 +43,8 @@ export interface SavedSetup {
   linkUnneighboured?: boolean;
   /** the analyst's statement of the boundary file's coordinates */
   coordinates?: 'geographic' | 'projected';
+  /** IDs that differ only by leading zeros were matched on request ("match 01001 with 1001") */
+  idsIgnoreLeadingZeros?: boolean;
   /** a distance band's distance was the one suggested from the data (so new data suggest anew) */
   bandFromData?: boolean;
   /** also fit under the usual alternative neighbour definitions */

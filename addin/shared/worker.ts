@@ -11,7 +11,8 @@ import { buildWeights, suggestBandDistance, summarizeWeights, tieWarning } from 
 import { baseWorkbookRisks, writeResultsWorkbook } from '../../src/workbook/index.js';
 import type { CheckRequest, CheckResult, EngineAnswer, EngineError, EngineJob, WorkerMessage } from './engine-protocol.js';
 import { modelChoices } from './model-choices.js';
-import { runSummary, summaryLines } from './run-summary.js';
+import { summaryLines } from './run-summary.js';
+import { runSummary } from './run-summary-build.js';
 import type { RunOutput, TableSnapshot } from './types.js';
 
 const scope = self as unknown as { postMessage(m: WorkerMessage): void; onmessage: ((e: MessageEvent<{ id: number; job: EngineJob }>) => void) | null };
@@ -44,7 +45,7 @@ async function check(c: CheckRequest): Promise<CheckResult> {
   }
   let joined;
   try {
-    joined = joinAreas(layer, table, c.id, { featureIdProperty: c.boundaryId });
+    joined = joinAreas(layer, table, c.id, { featureIdProperty: c.boundaryId, ignoreLeadingZeros: c.idsIgnoreLeadingZeros ?? false });
   } catch (e) {
     if (e instanceof JoinError) return { ...base, matched: 0, join: e.report, joinError: e.message };
     throw e;

@@ -15,10 +15,9 @@ import { tableAsCsv } from '../shared/table-profile.js';
 
 // Excel holds our batches while the analyst types in a cell where it can (ExcelApi 1.11); see run.ts
 const officeRun = ((...args: unknown[]) => (Excel.run as (...a: unknown[]) => Promise<unknown>)(...args)) as OfficeExcelRun;
-const excel = new ExcelAdapter(excelRunner(officeRun, () => {
-  const requirements = Office.context?.requirements;
-  return canDelayForCellEdit(requirements ? (name, version) => requirements.isSetSupported(name, version) : undefined);
-}));
+// asked at each use: Office's requirement check is ready only after Office.onReady
+const isSetSupported = (name: string, version: string) => Office.context?.requirements?.isSetSupported(name, version) === true;
+const excel = new ExcelAdapter(excelRunner(officeRun, () => canDelayForCellEdit(isSetSupported)), { isSetSupported });
 
 const host: SidebarHost = {
   kind: 'excel',

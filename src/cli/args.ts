@@ -3,6 +3,7 @@ import type { WeightsSpec, WeightsTransform } from '../weights/types.js';
 import { DEFAULT_MODEL_KEYS, MODELS, baselineModel, withBaseline, type ModelKey } from '../models/index.js';
 import { InputError } from '../errors.js';
 import { parseRateRecipe, MAX_SEED, MIN_IMPACT_DRAWS, MAX_IMPACT_DRAWS, MAX_PERMUTATIONS, type RatesRequest, type RateSmoothing } from '../pipeline/index.js';
+import { formatCount } from '../core/count.js';
 
 export interface FitArgs {
   boundary: string;
@@ -324,7 +325,7 @@ function optionalInteger(name: string, s: string | undefined, min: number, max: 
   const t = s.trim();
   const n = Number(t);
   if (!/^\d+$/.test(t) || n < min || n > max) {
-    throw new InputError(`--${name} must be a whole number from ${min} to ${max.toLocaleString('en-US')}, not "${s}"${why}.`);
+    throw new InputError(`--${name} must be a whole number from ${min} to ${formatCount(max)}, not "${s}"${why}.`);
   }
   return n;
 }

@@ -16,6 +16,7 @@ import { InputError } from '../errors.js';
 import { formatBytes } from '../core/words.js';
 import { isOwnStalePart } from '../workbook/write-file.js';
 import { specialKind, whyMissing } from './paths.js';
+import { formatCount } from '../core/count.js';
 
 export interface InputPath {
   path: string;
@@ -157,7 +158,7 @@ export function sweepStaleParts(folder: string): string[] {
     }
   }
   return removed.length
-    ? [`removed ${removed.length} unfinished temporary file(s) left in ${folder} by an earlier run that was stopped: ${removed.join(', ')}.`]
+    ? [`removed ${formatCount(removed.length)} unfinished temporary file(s) left in ${folder} by an earlier run that was stopped: ${removed.join(', ')}.`]
     : [];
 }
 

@@ -2,16 +2,17 @@ import { categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_
 import type { LocalCategory } from '../stats/index.js';
 import type { Coefficient } from '../models/types.js';
 import { inSentence, MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
+import { formatCount } from '../core/count.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
 export function formatSummary(r: AnalysisResult): string {
   const lines: string[] = [];
   const w = r.weights;
-  lines.push(`Spillway ${r.engineVersion}: ${r.request.y} explained by ${r.request.x.join(', ')} in ${r.n} areas`);
+  lines.push(`Spillway ${r.engineVersion}: ${r.request.y} explained by ${r.request.x.join(', ')} in ${formatCount(r.n)} areas`);
   lines.push(`Neighbours: ${w.description}.`);
-  lines.push(`  ${w.links} links, ${fmt(w.summary.meanNeighbours, 3)} neighbours per area on average (fewest ${w.summary.minNeighbours}, most ${w.summary.maxNeighbours}); ` +
-    `${w.withoutNeighbours.length ? `${w.withoutNeighbours.length} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
-  if (r.droppedRows.length) lines.push(`  Left out for missing values: ${r.droppedRows.length} row(s).`);
+  lines.push(`  ${formatCount(w.links)} links, ${fmt(w.summary.meanNeighbours, 3)} neighbours per area on average (fewest ${w.summary.minNeighbours}, most ${w.summary.maxNeighbours}); ` +
+    `${w.withoutNeighbours.length ? `${formatCount(w.withoutNeighbours.length)} without neighbours` : 'every area has a neighbour'}; ${w.components} connected group${w.components === 1 ? '' : 's'}.`);
+  if (r.droppedRows.length) lines.push(`  Left out for missing values: ${formatCount(r.droppedRows.length)} row(s).`);
   lines.push('');
 
   const o = r.ols;
@@ -51,14 +52,18 @@ export function formatSummary(r: AnalysisResult): string {
       head: `${q.symbol} ${m.cli}`,
       pick: (c: WeightsComparison) => (c.fits as Record<string, ComparedFit | undefined>)[m.key]?.parameters.find((x) => x.key === q.key)?.estimate,
     })));
+    // as on the sheets: a definition that links the same neighbours as an earlier one is named once, not given a row of repeated figures
     lines.push(...table(['definition', "Moran's I p", 'suggested', ...columns.map((c) => c.head)],
-      r.comparison.map((c) => [
+      r.comparison.filter((c) => !c.sameAs).map((c) => [
         `${c.label}${c.asRun ? ' (this run)' : ''}`,
         c.failed ? 'could not be built' : p(c.moran.p),
         c.suggestion ? SUGGESTION[c.suggestion] : '',
         ...columns.map((col) => { const v = col.pick(c); return v === undefined ? '' : fmt(v, 4); }),
       ])));
-    for (const c of r.comparison) if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
+    for (const c of r.comparison) {
+      if (c.sameAs) lines.push(`  "${c.label}" links exactly the same neighbours as "${c.sameAs}" on these areas, so it gives the same figures; its row is not repeated.`);
+      else if (c.failed) lines.push(`  ${c.label}: ${c.failed}`);
+    }
     lines.push('');
   }
   if (r.local) lines.push(...localBlock(r), '');
@@ -66,7 +71,7 @@ export function formatSummary(r: AnalysisResult): string {
     const flagged = rate.areas.filter((x) => x.flagged).length;
     const mp = (m: typeof rate.ebMoran) => p(m.permutationP ?? m.p);
     lines.push(`Rate ${rate.name} = ${rate.events} / ${rate.population} per ${rate.per}; modelled where used as the ${rate.smoothing} smoothed rate`);
-    lines.push(`  ${flagged} of ${rate.areas.length} areas flagged for few events${rate.withholdFlagged ? ' (withheld in the workbook)' : ''}; overall rate ${fmt(rate.overall.rate, 4)}`);
+    lines.push(`  ${formatCount(flagged)} of ${formatCount(rate.areas.length)} areas flagged for few events${rate.withholdFlagged ? ' (withheld in the workbook)' : ''}; overall rate ${fmt(rate.overall.rate, 4)}`);
     lines.push(`  Moran's I of the raw rate ${fmt(rate.moranRaw.I, 4)} (p ${mp(rate.moranRaw)}); rate-adjusted (Assunção & Reis) ${fmt(rate.ebMoran.I, 4)} (p ${mp(rate.ebMoran)})`, '');
   }
   lines.push(`Log-determinant: ${r.algebra.logDeterminant}${r.algebra.accuracy === 'exact' ? '' : ` (${r.algebra.accuracy})`}; admissible range ${fmt(r.algebra.range.lower, 5)} to ${fmt(r.algebra.range.upper, 5)}.`);
@@ -134,11 +139,11 @@ function p(v: number): string {
 
 function localBlock(r: AnalysisResult): string[] {
   const l = r.local!;
-  const out = [`Where the pattern is: local statistics of ${l.variable} (${l.permutations ? `${l.permutations} permutations, seed ${l.seed}` : 'analytic p-values'}; ${describeControl(l.control)})`];
+  const out = [`Where the pattern is: local statistics of ${l.variable} (${l.permutations ? `${formatCount(l.permutations)} permutations, seed ${l.seed}` : 'analytic p-values'}; ${describeControl(l.control)})`];
   for (const [kind, s] of Object.entries(l.results)) {
     const significant = s.significant.filter(Boolean).length;
     const uncontrolled = s.significantUncontrolled.filter(Boolean).length;
-    let line = `  ${LOCAL_STATISTIC_LABEL[kind as keyof typeof LOCAL_STATISTIC_LABEL]}: ${significant} of ${s.tests} areas significant after control (${uncontrolled} without control)`;
+    let line = `  ${LOCAL_STATISTIC_LABEL[kind as keyof typeof LOCAL_STATISTIC_LABEL]}: ${formatCount(significant)} of ${formatCount(s.tests)} areas significant after control (${formatCount(uncontrolled)} without control)`;
     if (s.categories) {
       const counts = categoryCounts(s.categories);
       const parts = (['high-high', 'low-low', 'high-low', 'low-high'] as LocalCategory[]).map((c) => `${counts[c]} ${LOCAL_CATEGORY_LABEL[c]}`);

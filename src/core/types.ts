@@ -1,6 +1,7 @@
 /**
  * Types that the statistics and the models share, below both stages: the regressors, a coefficient,
- * a test result, Moran's I and the Lagrange-multiplier tests. Plain data; this folder imports nothing.
+ * a test result, Moran's I and the Lagrange-multiplier tests. Plain data; this folder imports nothing
+ * (count.ts: how a count reads in a message, for every stage).
  */
 
 /** Regressors: column vectors with their names, and which one (if any) is the intercept. */

@@ -7,6 +7,7 @@ import { InputError, listSome } from '../errors.js';
 import type { Area, AreaGeometry } from './types.js';
 import { featureLabel } from './feature-label.js';
 import { CROSSING_CHECK_MAX_VERTICES, ringIsClosed, ringSelfCrosses, ringSignedArea } from './ring-checks.js';
+import { formatCount } from '../core/count.js';
 
 /** Coordinate bounds gathered while validating: [minX, minY, maxX, maxY]. */
 export type Bounds = [number, number, number, number];
@@ -102,34 +103,34 @@ export function featuresToAreas(root: unknown, file: string, opts: ConvertOption
     areas[i] = { feature: number, geometry, properties };
   }
   if (!firstKind) {
-    throw new InputError(`${file}: none of its ${features.length} features has a geometry.`, { file });
+    throw new InputError(`${file}: none of its ${formatCount(features.length)} features has a geometry.`, { file });
   }
   const warnings: string[] = [];
   if (crossings.length > 0) {
     warnings.push(
-      `${file}: ${crossings.length} feature(s) have a ring that crosses or touches itself: ${listSome(crossings)}. ` +
+      `${file}: ${formatCount(crossings.length)} feature(s) have a ring that crosses or touches itself: ${listSome(crossings)}. ` +
         'Neighbours and centroids may be off for these; repairing the geometry in a GIS is advised.',
     );
   }
   if (closedRings.length > 0) {
     warnings.push(
-      `${file}: ${closedRings.length} feature(s) had a ring whose ends missed each other by one grid step of the ` +
+      `${file}: ${formatCount(closedRings.length)} feature(s) had a ring whose ends missed each other by one grid step of the ` +
         `quantized file; each was closed by repeating its first position: ${listSome(closedRings)}.`,
     );
   }
   if (flat.length > 0) {
     warnings.push(
-      `${file}: ${flat.length} feature(s) have zero area at the file's coordinate precision and were kept as they are ` +
+      `${file}: ${formatCount(flat.length)} feature(s) have zero area at the file's coordinate precision and were kept as they are ` +
         `(their centroid is the mean of their vertices): ${listSome(flat)}.`,
     );
   }
   if (dropped.length > 0) {
     warnings.push(
-      `${file}: ${dropped.length} feature(s) had zero-area polygon parts or holes, which were left out: ${listSome(dropped)}.`,
+      `${file}: ${formatCount(dropped.length)} feature(s) had zero-area polygon parts or holes, which were left out: ${listSome(dropped)}.`,
     );
   }
   if (longRings > 0) {
-    warnings.push(`${file}: ${longRings} ring(s) have more than ${CROSSING_CHECK_MAX_VERTICES} vertices and were not checked for self-crossings.`);
+    warnings.push(`${file}: ${formatCount(longRings)} ring(s) have more than ${formatCount(CROSSING_CHECK_MAX_VERTICES)} vertices and were not checked for self-crossings.`);
   }
   return { areas, propertyNames: [...names], bounds, warnings };
 }
@@ -167,7 +168,7 @@ function convertGeometry(g: unknown, ctx: FeatureContext): AreaGeometry | null {
       if (!Array.isArray(coords)) throw bad(ctx, 'has a MultiPoint without a coordinates list');
       if (coords.length === 0) return null;
       if (coords.length > 1) {
-        throw new InputError(`${file}: ${label} is a MultiPoint of ${coords.length} points; ${SUPPORTED}.`, { file, feature });
+        throw new InputError(`${file}: ${label} is a MultiPoint of ${formatCount(coords.length)} points; ${SUPPORTED}.`, { file, feature });
       }
       return { kind: 'point', point: pointOf(coords[0], ctx, 'its point') };
     }

@@ -4,6 +4,7 @@
  * and IDs that match only when letter case is ignored are pointed out (never matched by guess).
  */
 import { InputError, firstNotText, listSome, NOT_TEXT } from '../errors.js';
+import { formatCount } from '../core/count.js';
 
 /** Refuses the first IDs that hold a control character, U+FFFE/U+FFFF or a lone surrogate. */
 export function refuseIdsNotText(ids: { id: string; where: string }[], source: string, column: string): void {
@@ -30,6 +31,6 @@ export function caseOnlyPairs(tableIds: string[], featureIds: string[]): { table
 }
 
 export function caseMessage(pairs: { tableId: string; featureId: string }[]): string {
-  return `${pairs.length} of these match a boundary ID when letter case is ignored (table vs boundary file): ${listSome(pairs.map((p) => `${p.tableId} vs ${p.featureId}`))}. ` +
+  return `${formatCount(pairs.length)} of these match a boundary ID when letter case is ignored (table vs boundary file): ${listSome(pairs.map((p) => `${p.tableId} vs ${p.featureId}`))}. ` +
     'They are not matched automatically; write the IDs with the same letter case on both sides.';
 }

@@ -5,6 +5,7 @@ import type { Cell } from './table-shape.js';
 import { idText, toCell, unpadded } from './ids.js';
 import { caseMessage, caseOnlyPairs, refuseIdsNotText } from './id-checks.js';
 import { formulaNote } from './formula-note.js';
+import { formatCount } from '../core/count.js';
 
 /** An InputError that also carries the full join report, for screens that list every problem. */
 export class JoinError extends InputError {
@@ -166,17 +167,17 @@ export function joinAreas(
   const warnings: string[] = [];
   if (report.unmatchedFeatures.length > 0) {
     warnings.push(
-      `${report.unmatchedFeatures.length} feature(s) of ${layer.sourceName} have no row in ${table!.sourceName} and are left out ` +
+      `${formatCount(report.unmatchedFeatures.length)} feature(s) of ${layer.sourceName} have no row in ${table!.sourceName} and are left out ` +
         `(they will not count as anyone's neighbour): ${listSome(report.unmatchedFeatures.map((u) => `feature ${u.feature} (${u.id})`))}.`,
     );
   }
   if (report.zeroPaddingSuspects.length > 0) warnings.push(paddingMessage(report));
   if (report.matchedIgnoringZeros.length > 0) {
     const pairs = report.matchedIgnoringZeros.map((m) => `${m.tableId} with ${m.featureId}`);
-    warnings.push(`${pairs.length} ID(s) were matched ignoring leading zeros, as asked (table with boundary file): ${listSome(pairs)}.`);
+    warnings.push(`${formatCount(pairs.length)} ID(s) were matched ignoring leading zeros, as asked (table with boundary file): ${listSome(pairs)}.`);
   }
   if (table && report.blankFeatures.length > 0) {
-    warnings.push(`${report.blankFeatures.length} feature(s) of ${layer.sourceName} have a blank ID and are left out: features ${listSome(report.blankFeatures)}.`);
+    warnings.push(`${formatCount(report.blankFeatures.length)} feature(s) of ${layer.sourceName} have a blank ID and are left out: features ${listSome(report.blankFeatures)}.`);
   }
 
   const columnNames = table ? [...table.columns] : [];
@@ -249,7 +250,7 @@ function paddingSuspects(rowIds: string[], featureIds: string[]): JoinReport['ze
 function paddingMessage(report: JoinReport): string {
   const pairs = report.zeroPaddingSuspects.map((s) => `${s.tableId} vs ${s.featureId}`);
   return (
-    `${pairs.length} ID(s) differ only by leading zeros (table vs boundary file): ${listSome(pairs)}. ` +
+    `${formatCount(pairs.length)} ID(s) differ only by leading zeros (table vs boundary file): ${listSome(pairs)}. ` +
     'They are not matched automatically: store the IDs as text with the same zero padding on both sides, ' +
     `or ask for IDs to be matched ignoring leading zeros (${IGNORE_ZEROS_OPTION}).`
   );
@@ -287,7 +288,7 @@ function fatalProblems(report: JoinReport, layerName: string, tableName: string 
       'Merge the parts into one multipolygon per ID, or join by another column.');
   }
   if (tableName && report.unmatchedRows.length) {
-    p.push(`${tableName}: ${report.unmatchedRows.length} ${rowWord}(s) have an ID with no feature in ${layerName}: ` +
+    p.push(`${tableName}: ${formatCount(report.unmatchedRows.length)} ${rowWord}(s) have an ID with no feature in ${layerName}: ` +
       `${listSome(report.unmatchedRows.map((u) => `${rowWord} ${u.row} (${u.id})`))}.` +
       (report.zeroPaddingSuspects.length ? ` ${paddingMessage(report)}` : '') + caseHint(report));
   }

@@ -7,6 +7,7 @@
 import { InputError, listSome } from '../errors.js';
 import type { Area, AreaGeometry } from './types.js';
 import { featureLabel } from './feature-label.js';
+import { formatCount } from '../core/count.js';
 
 /** Planar coordinates this far from the origin (in both axes' box) cannot be degrees or a small local grid. */
 const FAR = 1e4;
@@ -43,8 +44,8 @@ export function checkMixedUnits(areas: Area[], file: string): void {
   if (degrees.length === 0 || planar.length === 0) return;
   const label = (list: Area[]) => listSome(list.map((a) => featureLabel(a.feature, a.properties)), 3);
   throw new InputError(
-    `${file} mixes two coordinate systems: ${degrees.length} feature(s) lie within longitude/latitude ranges ` +
-      `(${label(degrees)}) while ${planar.length} have planar coordinates far beyond them (${label(planar)}). ` +
+    `${file} mixes two coordinate systems: ${formatCount(degrees.length)} feature(s) lie within longitude/latitude ranges ` +
+      `(${label(degrees)}) while ${formatCount(planar.length)} have planar coordinates far beyond them (${label(planar)}). ` +
       'Reproject every feature to one coordinate system and export the file again.',
     { file, feature: degrees[0].feature },
   );

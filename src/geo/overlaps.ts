@@ -12,6 +12,7 @@
  */
 import { listSome } from '../errors.js';
 import type { AreaGeometry } from './types.js';
+import { formatCount } from '../core/count.js';
 
 /** Stop looking after this many findings of a kind: the warning lists a few anyway. */
 const ENOUGH = 50;
@@ -53,7 +54,7 @@ export function overlapWarnings(f: OverlapFindings, label: (i: number) => string
   if (f.coincident.length) {
     const areas = f.coincident.reduce((s, g) => s + g.length, 0);
     out.push(
-      `${source}: ${areas} areas share their location with another area (${f.coincident.length} place${f.coincident.length > 1 ? 's' : ''}; ` +
+      `${source}: ${formatCount(areas)} areas share their location with another area (${formatCount(f.coincident.length)} place${f.coincident.length > 1 ? 's' : ''}; ` +
         `${listSome(f.coincident.map((g) => listSome(g.map(label), 4)), 3)}). Their distance is 0, so distance-based neighbours among them ` +
         'are decided by ties and inverse-distance weights cannot be formed; check for duplicated rows or points placed at one default location.',
     );

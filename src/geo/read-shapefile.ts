@@ -17,6 +17,7 @@ import { claimFromPrj, decideCoordinates } from './coordinate-kind.js';
 import { codePageOfDriver, encodingFromCpg, firstInvalidUtf8, readDbfLayout } from './dbf-bytes.js';
 import { readShpLayout } from './shp-bytes.js';
 import { nestRings } from './ring-nesting.js';
+import { formatCount } from '../core/count.js';
 
 export interface ShapefileParts {
   shp: { name: string; bytes: Uint8Array };
@@ -73,7 +74,7 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   }
   if (againstOrientation.length > 0) {
     warnings.push(
-      `${shp.name}: ${againstOrientation.length} feature(s) have rings wound against the shapefile rule (clockwise outer rings, ` +
+      `${shp.name}: ${formatCount(againstOrientation.length)} feature(s) have rings wound against the shapefile rule (clockwise outer rings, ` +
         `counter-clockwise holes): ${listSome(againstOrientation.map((k) => `feature ${k}`))}. Each ring lying inside another ring ` +
         'of its feature was read as a hole, each other ring as an outer ring.',
     );
@@ -88,7 +89,7 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
     if (kept.length === 0) throw new InputError(`${dbf.name} marks every record as deleted; there are no areas left to read.`, { file: dbf.name });
     features = kept;
     readNotes.push(
-      `${dbf.name} marks ${dbfLayout.deleted.length} record(s) as deleted (${listSome(dbfLayout.deleted.map((k) => `feature ${k}`))}); ` +
+      `${dbf.name} marks ${formatCount(dbfLayout.deleted.length)} record(s) as deleted (${listSome(dbfLayout.deleted.map((k) => `feature ${k}`))}); ` +
         'they were left out with their shapes, as they would be in a GIS. Pack the table to remove them for good, or restore them if they belong.',
     );
   }

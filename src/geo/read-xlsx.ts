@@ -16,6 +16,7 @@ import type { DataTable } from './types.js';
 import { shapeTable, columnLetters, type Cell, type RawRow } from './table-shape.js';
 import { expandEntry, listZip } from './zip.js';
 import { capturingConsole } from './library-output.js';
+import { formatCount } from '../core/count.js';
 
 /** The workbook's sheets in order, with whether each is hidden, after the same archive checks as readXlsx. */
 export async function workbookSheets(bytes: Uint8Array, sourceName: string, maxBytes = 2 ** 30): Promise<{ name: string; hidden: boolean }[]> {
@@ -103,7 +104,7 @@ export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: st
   if (merged.size > 0) {
     const ranges = mergeRanges(ws, merged);
     warnings.push(
-      `${name}: ${ranges.length} merged range${ranges.length > 1 ? 's' : ''} (${listSome(ranges)}); each keeps its value in its top-left cell only, ` +
+      `${name}: ${formatCount(ranges.length)} merged range${ranges.length > 1 ? 's' : ''} (${listSome(ranges)}); each keeps its value in its top-left cell only, ` +
         'and the other cells of the range read as blank. Unmerge them and fill every row if the value belongs to each.',
     );
   }

@@ -2,6 +2,7 @@ import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { chebyshevCurve, csrMultiply, isRowStochastic, solveShifted, type TraceInverseCurve, type WeightsAlgebra } from '../linalg/index.js';
 import { normalSampler, normalTwoSided, seededRandom } from '../stats/index.js';
 import type { Design, Impact, ImpactsResult, SpatialFit } from './types.js';
+import { formatCount } from '../core/count.js';
 
 const SERIES_TERMS = 300;
 const MAX_REDRAWS = 1000;
@@ -156,7 +157,7 @@ export function lagImpacts(fit: ReducedFormFit, x: Design, algebra: WeightsAlgeb
     const theta = thetas.subarray(r * q, (r + 1) * q);
     let tries = 0;
     do {
-      if (++tries > MAX_REDRAWS) return withoutErrors(`${MAX_REDRAWS} draws in a row put ρ outside its admissible range`);
+      if (++tries > MAX_REDRAWS) return withoutErrors(`${formatCount(MAX_REDRAWS)} draws in a row put ρ outside its admissible range`);
       for (let a = 0; a < q; a++) z[a] = normal();
       for (let a = 0; a < q; a++) {
         let s = centre[a];
@@ -196,7 +197,7 @@ export function lagImpacts(fit: ReducedFormFit, x: Design, algebra: WeightsAlgeb
   let meanTotal = totalClosed;
   let totalText = rowsSumToOne
     ? 'β/(1 − ρ), every row of W sums to one'
-    : `β·(1 + (n − m)ρ/(n(1 − ρ))), every row of W sums to one but those of the ${withoutNeighbours} area(s) without neighbours`;
+    : `β·(1 + (n − m)ρ/(n(1 − ρ))), every row of W sums to one but those of the ${formatCount(withoutNeighbours)} area(s) without neighbours`;
   if (!closedTotal) {
     const c = chebyshevCurve((rho) => totalBySolve(rho) * n, lo, hi, `1'(I − ρW)⁻¹1 by ${algebra.solve ? 'solves with the factor of I − ρW' : 'GMRES solves'}`, { tolerance: 1e-10 });
     meanTotal = (rho) => c.evaluate(rho) / n;

@@ -10,6 +10,7 @@ import {
   studentTwoSided,
 } from '../stats/index.js';
 import type { Coefficient, Design, OlsFit } from './types.js';
+import { formatCount } from '../core/count.js';
 
 /** A design with an intercept first (named "constant", marked by its index 0), then the given columns in order. */
 export function designWithIntercept(names: string[], columns: Float64Array[], n = columns[0]?.length ?? 0): Design {
@@ -142,18 +143,18 @@ export function whiteCovariance(qr: HouseholderQr, e: Float64Array): Float64Arra
 function checkDesign(y: Float64Array, x: Design): void {
   const n = y.length;
   const k = x.columns.length;
-  if (x.names.length !== k) throw new Error(`design has ${k} columns but ${x.names.length} names`);
+  if (x.names.length !== k) throw new Error(`design has ${formatCount(k)} columns but ${x.names.length} names`);
   if (x.intercept !== null && !(x.intercept >= 0 && x.intercept < k && x.columns[x.intercept].every((v) => v === 1))) {
     throw new Error(`design's intercept ${x.intercept} is not a column of ones`);
   }
   for (let j = 0; j < k; j++) {
     if (x.columns[j].length !== n) {
-      throw new InputError(`Column "${x.names[j]}" has ${x.columns[j].length} values but the outcome has ${n}; every column needs one value per area.`, { column: x.names[j] });
+      throw new InputError(`Column "${x.names[j]}" has ${formatCount(x.columns[j].length)} values but the outcome has ${formatCount(n)}; every column needs one value per area.`, { column: x.names[j] });
     }
   }
   if (n <= k) {
     throw new InputError(
-      `There are ${n} areas and ${k} coefficients to estimate (n = ${n}, k = ${k}); a regression needs more areas than coefficients. Use fewer explanatory columns or more areas.`,
+      `There are ${formatCount(n)} areas and ${formatCount(k)} coefficients to estimate (n = ${n}, k = ${k}); a regression needs more areas than coefficients. Use fewer explanatory columns or more areas.`,
     );
   }
   const first = y[0];

@@ -7,6 +7,7 @@ import { InputError } from '../errors.js';
 import { sayList } from '../core/words.js';
 import type { SpatialWeights } from '../weights/types.js';
 import { inSentence, areasNeeded, type ModelEntry } from '../models/index.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Largest magnitude accepted in a model column or a weight. Sums of squares of n values of size m
@@ -126,8 +127,8 @@ export function checkSpatialModelSize(n: number, k: number, models: readonly Mod
   if (short.length > 0) {
     const needed = Math.max(...short.map((m) => areasNeeded(m, k)));
     throw new InputError(
-      `There are ${n} areas for ${k} coefficients (n = ${n}, k = ${k}): the ${labels(short)} also estimate${short.length > 1 ? '' : 's'} the error variance and a spatial parameter, ` +
-      `which needs at least ${needed} areas. Use more areas, fewer explanatory columns, or only the plain regression.`,
+      `There are ${formatCount(n)} areas for ${k} coefficients (n = ${n}, k = ${k}): the ${labels(short)} also estimate${short.length > 1 ? '' : 's'} the error variance and a spatial parameter, ` +
+      `which needs at least ${formatCount(needed)} areas. Use more areas, fewer explanatory columns, or only the plain regression.`,
     );
   }
 }

@@ -6,6 +6,7 @@
  * and the simulated standard errors of the impacts settle within a few thousand draws.
  */
 import { InputError } from '../errors.js';
+import { formatCount } from '../core/count.js';
 
 export const MAX_SEED = 2 ** 32 - 1;
 export const MAX_PERMUTATIONS = 99_999;
@@ -15,7 +16,7 @@ export const MAX_IMPACT_DRAWS = 100_000;
 function wholeIn(value: number | undefined, min: number, max: number, what: string): void {
   if (value === undefined) return;
   if (!Number.isInteger(value) || value < min || value > max) {
-    throw new InputError(`${what} must be a whole number from ${min} to ${max.toLocaleString('en-US')}; got ${value}.`);
+    throw new InputError(`${what} must be a whole number from ${min} to ${formatCount(max)}; got ${value}.`);
   }
 }
 

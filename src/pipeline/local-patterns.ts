@@ -4,6 +4,7 @@ import {
   type LocalCategory, type LocalStatistic, type LocalStatisticKind, type MultipleTestingControl,
 } from '../stats/index.js';
 import { InputError } from '../errors.js';
+import { formatCount } from '../core/count.js';
 
 /** What the user asked for under "where is the pattern?". */
 export interface LocalRequest {
@@ -55,7 +56,7 @@ export function normaliseLocalRequest(r: LocalRequest): Required<LocalRequest> {
   if (!(control.level > 0 && control.level < 1)) throw new InputError(`The significance level for local tests must lie between 0 and 1; got ${control.level}.`);
   const permutations = r.permutations ?? DEFAULT_LOCAL_PERMUTATIONS;
   if (!Number.isInteger(permutations) || permutations < 0 || permutations > MAX_LOCAL_PERMUTATIONS) {
-    throw new InputError(`The number of permutations for local tests must be a whole number from 0 to ${MAX_LOCAL_PERMUTATIONS}; got ${permutations}.`);
+    throw new InputError(`The number of permutations for local tests must be a whole number from 0 to ${formatCount(MAX_LOCAL_PERMUTATIONS)}; got ${permutations}.`);
   }
   return { statistics: [...new Set(r.statistics)], of: r.of?.trim() || 'outcome', control, permutations };
 }

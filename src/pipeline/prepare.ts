@@ -15,6 +15,7 @@ import { columnsWithRates } from './rates.js';
 import { checkModelColumns } from './check-values.js';
 import { withReadNotes } from './read-notes.js';
 import type { AnalysisRequest, InputRecord } from './types.js';
+import { formatCount } from '../core/count.js';
 
 export interface PreparedAreas {
   /** each input file with its size and fingerprint */
@@ -50,7 +51,7 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   const maxBytes = request.maxBytes;
   const { layer, table } = await readLayerAndTable(request);
   if (request.edgeList && maxBytes !== undefined && request.edgeList.bytes.length > maxBytes) {
-    throw new InputError(`${request.edgeList.name} is ${request.edgeList.bytes.length} bytes, over the ${maxBytes}-byte limit for neighbour lists.`, { file: request.edgeList.name });
+    throw new InputError(`${request.edgeList.name} is ${formatCount(request.edgeList.bytes.length)} bytes, over the ${formatCount(maxBytes)}-byte limit for neighbour lists.`, { file: request.edgeList.name });
   }
   lap('read');
   const boundaryId = request.boundaryId?.trim() || undefined;

@@ -14,6 +14,7 @@ import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } fr
 import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
 import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
 import type { AnalysisRequest, AnalysisResult, AnalysisRuntime } from './types.js';
+import { formatCount } from '../core/count.js';
 
 const DEFAULT_SEED = 20261201;
 export const PERMUTATION_AREA_LIMIT = 10_000;
@@ -198,15 +199,15 @@ function runWarnings(
   // covariance of (β, ρ) is not positive definite)
   const warnings = [...r.joined.warnings, ...r.shapes, ...fittedInOrder(r.fits).flatMap(({ fit }) => [...fit.warnings, ...(fit.impacts?.warnings ?? [])])];
   if (summary.withoutNeighbours.length > 0) {
-    warnings.push(`${summary.withoutNeighbours.length} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
+    warnings.push(`${formatCount(summary.withoutNeighbours.length)} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
   if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && r.permutations === 0) {
-    warnings.push(`With ${r.n} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
+    warnings.push(`With ${formatCount(r.n)} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
   if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
-  if (dropped.length > 0) warnings.push(`${dropped.length} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
+  if (dropped.length > 0) warnings.push(`${formatCount(dropped.length)} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);
   return warnings;
 }
 

@@ -4,6 +4,7 @@ import { describeRule } from '../weights/index.js';
 import { listSome } from '../errors.js';
 import { inSentence, fittedInOrder } from '../models/index.js';
 import { rateCautions } from './rates.js';
+import { formatCount } from '../core/count.js';
 
 /** Plain-language cautions that belong beside every result. */
 export function cautions(result: AnalysisResult): string[] {
@@ -15,7 +16,7 @@ export function cautions(result: AnalysisResult): string[] {
     ...rateCautions(result),
     'People who know these places may know reasons for a pattern that the data do not show. Their judgement should weigh alongside these numbers.',
   ];
-  if (result.n < 30) list.push(`With only ${result.n} areas the tests have little power and the large-sample p-values are rough.`);
+  if (result.n < 30) list.push(`With only ${formatCount(result.n)} areas the tests have little power and the large-sample p-values are rough.`);
   return list;
 }
 
@@ -43,9 +44,9 @@ export function collectWarnings(result: AnalysisResult): string[] {
     out.push(`The explanatory columns are strongly related to each other (condition number ${say(result.ols.conditionNumber)}, above the usual threshold of 30): individual coefficients may be unstable.`);
   }
   if (result.weights.withoutNeighbours.length) {
-    out.push(`${result.weights.withoutNeighbours.length} area(s) have no neighbours under this definition: ${listSome(result.weights.withoutNeighbours, 10)}.`);
+    out.push(`${formatCount(result.weights.withoutNeighbours.length)} area(s) have no neighbours under this definition: ${listSome(result.weights.withoutNeighbours, 10)}.`);
   }
   if (result.weights.components > 1) out.push(`The neighbour links split the areas into ${result.weights.components} separate groups.`);
-  if (result.droppedRows.length) out.push(`${result.droppedRows.length} row(s) with missing values were left out; the list is on the run record sheet.`);
+  if (result.droppedRows.length) out.push(`${formatCount(result.droppedRows.length)} row(s) with missing values were left out; the list is on the run record sheet.`);
   return [...new Set(out)];
 }

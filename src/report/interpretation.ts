@@ -2,6 +2,7 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient } from '../models/types.js';
 import { inSentence, fittedInOrder } from '../models/index.js';
 import { SOME_LEVEL, say, sayList, sayP } from './format.js';
+import { formatCount } from '../core/count.js';
 
 /** The models that were fitted, in registry order, with their headline figures (AIC and the like absent for estimators without a likelihood). */
 export function fittedModels(result: AnalysisResult): { name: string; label: string; logLik?: number; aic?: number; bic?: number; coefficients: Coefficient[] }[] {
@@ -21,7 +22,7 @@ export function interpretation(result: AnalysisResult): string {
   const y = result.request.y;
   const parts: string[] = [];
   const my = result.moranY;
-  parts.push(`Across the ${result.n} areas, ${y} ${pattern(my.I, my.p)} (Moran's I ${say(my.I)}, ${sayP(my.p)}).`);
+  parts.push(`Across the ${formatCount(result.n)} areas, ${y} ${pattern(my.I, my.p)} (Moran's I ${say(my.I)}, ${sayP(my.p)}).`);
 
   const m = result.ols.moran;
   parts.push(m.p < SOME_LEVEL

@@ -59,6 +59,9 @@ const VALUE_MAX = 90;
 /** Tables longer than this repeat their header on every printed page and may break across pages. */
 export const LONG_TABLE_ROWS = 40;
 
+/** Printed margins in inches: half an inch at the sides (the printable width below assumes it). */
+export const PAGE_MARGINS = { left: 0.5, right: 0.5, top: 0.6, bottom: 0.6, header: 0.3, footer: 0.3 } as const;
+
 /** Printable area of an A4 or Letter page (whichever is smaller) with half-inch side margins, in points. */
 const PAGE = { portrait: { width: 523, height: 720 }, landscape: { width: 720, height: 505 } } as const;
 
@@ -97,6 +100,10 @@ export type BlockPlan = TablePlan | KeyValuesPlan | { kind: 'title' | 'paragraph
 
 export interface PagePlan {
   orientation: 'portrait' | 'landscape';
+  /** printed one page wide and as many pages tall as the rows need */
+  fitToPagesWide: 1;
+  /** in inches */
+  margins: typeof PAGE_MARGINS;
   /** rows repeated at the top of every printed page: the first long table's headings */
   titleRows?: { first: number; last: number };
   /** rows that begin a new printed page, so that no picture or short block is split by a page break */
@@ -353,5 +360,5 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     }
     while (bottom - pageTop > pageHeight) pageTop += pageHeight;
   }
-  return { orientation, ...(titleRows ? { titleRows } : {}), breaksBefore, scale };
+  return { orientation, fitToPagesWide: 1, margins: PAGE_MARGINS, ...(titleRows ? { titleRows } : {}), breaksBefore, scale };
 }

@@ -10,6 +10,7 @@ import { placePictures } from './pictures-for-report.js';
 import { categoryMapSvg, type MapCategory } from './pictures/category-map.js';
 import { localMoranMapCategories, LOCAL_FILL, P_BAND_FILL } from './pictures/local-palette.js';
 import type { Picture } from './pictures/index.js';
+import { formatCount } from '../core/count.js';
 
 const ORDER: LocalStatisticKind[] = ['moran', 'gi', 'gistar'];
 const CATEGORY_ORDER: LocalCategory[] = ['high-high', 'high-low', 'low-high', 'low-low', 'not-significant', 'no-neighbours'];
@@ -79,10 +80,10 @@ function reading(result: AnalysisResult): string {
     const found = c['high-high'] + c['low-low'] + c['high-low'] + c['low-high'];
     parts.push(found === 0
       ? `No area stands out in local Moran's I once the number of tests is allowed for (${describeControl(l.control)}).`
-      : `${found} of ${m.tests} areas stand out in local Moran's I after control: ${c['high-high']} high among high, ${c['low-low']} low among low, ` +
-        `${c['high-low']} high among low and ${c['low-high']} low among high.`);
+      : `${formatCount(found)} of ${formatCount(m.tests)} areas stand out in local Moran's I after control: ${formatCount(c['high-high'])} high among high, ${formatCount(c['low-low'])} low among low, ` +
+        `${formatCount(c['high-low'])} high among low and ${formatCount(c['low-high'])} low among high.`);
     const loose = m.significantUncontrolled.filter(Boolean).length;
-    if (loose > found) parts.push(`Without control, ${loose} areas would pass p ≤ ${l.control.level}; the difference is what chance alone would be expected to supply among so many tests.`);
+    if (loose > found) parts.push(`Without control, ${formatCount(loose)} areas would pass p ≤ ${l.control.level}; the difference is what chance alone would be expected to supply among so many tests.`);
   }
   for (const k of ['gi', 'gistar'] as const) {
     const g = l.results[k];
@@ -90,7 +91,7 @@ function reading(result: AnalysisResult): string {
     let high = 0;
     let low = 0;
     g.significant.forEach((s, i) => { if (s) (g.z[i] > 0 ? high++ : low++); });
-    parts.push(`${LOCAL_STATISTIC_LABEL[k]}: ${high} area(s) in a cluster of high values and ${low} in a cluster of low values after control.`);
+    parts.push(`${LOCAL_STATISTIC_LABEL[k]}: ${formatCount(high)} area(s) in a cluster of high values and ${formatCount(low)} in a cluster of low values after control.`);
   }
   return parts.join(' ');
 }

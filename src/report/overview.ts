@@ -8,6 +8,7 @@ import { lmTable } from './diagnostics.js';
 import { comparisonReading } from './comparison.js';
 import { familySummaryBlocks } from './family.js';
 import { rateUse, recipeWords } from './rates.js';
+import { formatCount } from '../core/count.js';
 
 /** "ρ for the spatial lag model and λ for the spatial error model": each spatial parameter, from the registry. */
 function parameterWords(result: AnalysisResult): string {
@@ -51,7 +52,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
         ['Weights', result.weights.transform === 'row' ? 'row-standardised (each area’s weights sum to 1)' : result.weights.transform === 'binary' ? 'binary (1 for a neighbour, 0 otherwise)' : 'as given in the edge list', 'text'],
         ['Areas without neighbours', result.weights.withoutNeighbours.length, 'integer'],
         ...(result.rates ?? []).map((q): [string, Cell, 'text'] => [`Rate ${q.name}`,
-          `${recipeWords(q)}; ${rateUse(result, q)}; ${q.areas.filter((a) => a.flagged).length} areas flagged for few events${q.withholdFlagged ? ' and withheld' : ''} (sheet "Rates")`, 'text']),
+          `${recipeWords(q)}; ${rateUse(result, q)}; ${formatCount(q.areas.filter((a) => a.flagged).length)} areas flagged for few events${q.withholdFlagged ? ' and withheld' : ''} (sheet "Rates")`, 'text']),
       ],
     },
     { kind: 'paragraph', text: interpretation(result), style: 'interpretation' },

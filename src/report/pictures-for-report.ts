@@ -58,17 +58,17 @@ function distinctNotes(notes: (string | undefined)[]): string[] {
   return [...new Set(notes.filter((n): n is string => !!n))];
 }
 
-/** A note above the pictures saying how they were simplified for many areas; null when none was. */
+/** A note above the pictures saying how they were drawn where not plainly (simplified, cut away from ±180°); null when all were. */
 export function drawingNoteBlock(pictures: readonly { pic: Picture }[]): Block | null {
   const notes = distinctNotes(pictures.map((p) => p.pic.drawingNote));
   return notes.length ? { kind: 'paragraph', style: 'note', text: `Pictures below. ${notes.join(' ')}` } : null;
 }
 
-/** For the record sheet: how each simplified picture of the report was drawn. */
+/** For the record sheet: how each picture not drawn plainly was drawn (simplified, or cut away from ±180°). */
 export function drawingRecordBlocks(sheets: readonly ReportSheet[]): Block[] {
   const rows: [string, string, 'text'][] = [];
   for (const sheet of sheets) for (const im of sheet.images ?? []) if (im.drawingNote) rows.push([`${sheet.name}: ${im.name}`, im.drawingNote, 'text']);
-  return rows.length ? [{ kind: 'keyValues', title: 'Pictures drawn simplified for the number of areas', rows }] : [];
+  return rows.length ? [{ kind: 'keyValues', title: 'Pictures drawn other than plainly', rows }] : [];
 }
 
 /** Pictures stacked in column A from `firstRow` down, two rows apart; rendered to PNG when a renderer is given. */

@@ -4,6 +4,7 @@ import { num, say, sayP } from './format.js';
 import { layoutBlocks, ROW_HEIGHT_PX } from './layout.js';
 import { placePictures } from './pictures-for-report.js';
 import { rateMapsSvg } from './pictures/rate-maps.js';
+import { formatCount } from '../core/count.js';
 
 /** The smoothed rates in words, as the sheets name them. */
 export const SMOOTHING_LABEL: Record<RateSmoothing, string> = {
@@ -101,8 +102,8 @@ function reading(result: AnalysisResult, r: RateResult): string {
   const parts: string[] = [];
   const share = Math.round((100 * flagged.length) / r.areas.length);
   parts.push(flagged.length === 0
-    ? `None of the ${r.areas.length} areas is flagged: every rate rests on enough events.`
-    : `${flagged.length} of ${r.areas.length} areas (${share} %) are flagged: their rates rest on few events and are unreliable.`);
+    ? `None of the ${formatCount(r.areas.length)} areas is flagged: every rate rests on enough events.`
+    : `${formatCount(flagged.length)} of ${formatCount(r.areas.length)} areas (${share} %) are flagged: their rates rest on few events and are unreliable.`);
   const shift = r.areas.map((a, i) => Math.abs(r.modelled[i] - a.rate));
   const moved = (flag: boolean) => median(shift.filter((_, i) => r.areas[i].flagged === flag));
   if (flagged.length && flagged.length < r.areas.length) {
@@ -201,7 +202,7 @@ export function rateCautions(result: AnalysisResult): string[] {
   for (const r of result.rates ?? []) {
     const flagged = r.areas.filter((a) => a.flagged).length;
     const used = result.request.y === r.name || result.request.x.includes(r.name);
-    out.push(`${flagged} of ${r.areas.length} areas have a ${r.name} resting on few events (sheet "Rates"). ` +
+    out.push(`${formatCount(flagged)} of ${formatCount(r.areas.length)} areas have a ${r.name} resting on few events (sheet "Rates"). ` +
       (used ? `The model uses the ${SMOOTHING_LABEL[r.smoothing]}, so it answers a question about smoothed rates, not counted ones; do not publish smoothed rates as observed.` : 'Its smoothed rates are modelled estimates, not observed rates.'));
     if (used && r.smoothing !== 'global') {
       out.push(`The ${SMOOTHING_LABEL[r.smoothing]} of ${r.name} borrows from neighbours and so creates spatial correlation of its own: Moran’s I and the spatial models here overstate how strongly areas cluster or spill over. The rate-adjusted Moran’s I on the "Rates" sheet tests clustering fairly.`);

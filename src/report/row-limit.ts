@@ -8,6 +8,7 @@
  */
 import type { Block, ReportSheet } from './types.js';
 import { BLOCK_GAP, blockHeight, layoutBlocks } from './layout.js';
+import { formatCount } from '../core/count.js';
 
 /** Rows in one worksheet. */
 export const SHEET_ROW_LIMIT = 1_048_576;
@@ -16,7 +17,7 @@ const MAX_SHEET_NAME_CHARS = 31;
 
 type TableBlock = Extract<Block, { kind: 'table' }>;
 
-const count = (x: number) => x.toLocaleString('en-US');
+const count = formatCount;
 
 /** "Neighbours, part 2", shortened to fit a sheet name. */
 export function partName(name: string, part: number): string {
@@ -75,7 +76,7 @@ function splitSheet(sheet: ReportSheet, limit: number): ReportSheet[] {
         queue.unshift(rest);
       } else {
         queue.unshift(b);
-        if (current.length === 0) throw new Error(`a sheet of ${limit} rows cannot hold even one row of the table "${b.title}"`);
+        if (current.length === 0) throw new Error(`a sheet of ${count(limit)} rows cannot hold even one row of the table "${b.title}"`);
       }
     } else {
       queue.unshift(b);

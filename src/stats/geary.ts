@@ -2,6 +2,7 @@ import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import { normalTwoSided } from './distributions.js';
 import { centred, weightsSums } from './weights-sums.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Geary's C (Geary 1954) with moments under randomisation (Cliff & Ord 1981, eq. 1.39):
@@ -12,7 +13,7 @@ import { centred, weightsSums } from './weights-sums.js';
  */
 export function gearyC(v: Float64Array, w: CsrMatrix): { C: number; expected: number; variance: number; z: number; p: number } {
   const n = v.length;
-  if (n !== w.n) throw new InputError(`The variable has ${n} values but the weights cover ${w.n} areas; use one value per area.`);
+  if (n !== w.n) throw new InputError(`The variable has ${formatCount(n)} values but the weights cover ${formatCount(w.n)} areas; use one value per area.`);
   if (n < 4) throw new InputError(`Geary's C needs at least 4 areas; there are ${n}.`);
   const { m2, m4 } = centred(v);
   if (!(m2 > 0)) throw new InputError('The variable has the same value in every area, so Geary\'s C is undefined; choose a variable that varies.');

@@ -3,6 +3,7 @@ import { InputError } from '../errors.js';
 import { conditionalPermutationP } from './conditional-permutation.js';
 import { normalTwoSided } from './distributions.js';
 import type { LocalStatistic } from './local-types.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Getis–Ord local statistics (Getis & Ord 1992; Ord & Getis 1995, eqs. 2–3), with their moments under
@@ -22,7 +23,7 @@ export function getisOrd(
   opts: { star?: boolean; permutations?: number; seed?: number; onProgress?: (done: number, total: number) => void } = {},
 ): LocalStatistic {
   const n = x.length;
-  if (n !== w.n) throw new InputError(`The variable has ${n} values but the weights cover ${w.n} areas; use one value per area.`);
+  if (n !== w.n) throw new InputError(`The variable has ${formatCount(n)} values but the weights cover ${formatCount(w.n)} areas; use one value per area.`);
   if (n < 3) throw new InputError(`Local statistics need at least 3 areas; there are ${n}.`);
   for (let i = 0; i < n; i++) {
     if (!(x[i] >= 0)) throw new InputError(`Getis–Ord statistics need values of zero or more; area ${i + 1} has ${x[i]}. Use a count, a rate or another non-negative measure.`);

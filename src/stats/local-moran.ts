@@ -4,6 +4,7 @@ import { conditionalPermutationP } from './conditional-permutation.js';
 import { normalTwoSided } from './distributions.js';
 import type { LocalCategory, LocalStatistic } from './local-types.js';
 import { centred } from './weights-sums.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Local Moran statistics (Anselin 1995, eq. 7): I_i = (z_i / m₂) Σⱼ w_ij z_j with z the deviations
@@ -121,7 +122,7 @@ export function localMoranCategories(v: Float64Array, w: CsrMatrix, significant:
 }
 
 function checkSizes(n: number, w: CsrMatrix): void {
-  if (n !== w.n) throw new InputError(`The variable has ${n} values but the weights cover ${w.n} areas; use one value per area.`);
+  if (n !== w.n) throw new InputError(`The variable has ${formatCount(n)} values but the weights cover ${formatCount(w.n)} areas; use one value per area.`);
 }
 
 function constantError(): InputError {

@@ -4,6 +4,7 @@ import type { MoranTest } from '../core/types.js';
 import { normalTwoSided } from './distributions.js';
 import { seededRandom } from './random.js';
 import { centred, weightsSums } from './weights-sums.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Moran's I of one variable (Moran 1950) with moments under randomisation (Cliff & Ord 1981,
@@ -20,7 +21,7 @@ export function moranColumn(
   opts: { permutations?: number; seed?: number } = {},
 ): MoranTest & { permutationP?: number; permutations?: number } {
   const n = v.length;
-  if (n !== w.n) throw new InputError(`The variable has ${n} values but the weights cover ${w.n} areas; use one value per area.`);
+  if (n !== w.n) throw new InputError(`The variable has ${formatCount(n)} values but the weights cover ${formatCount(w.n)} areas; use one value per area.`);
   if (n < 4) throw new InputError(`Moran's I needs at least 4 areas; there are ${n}.`);
   const { z, m2, m4 } = centred(v);
   if (!(m2 > 0)) throw new InputError('The variable has the same value in every area, so its spatial autocorrelation is undefined; choose a variable that varies.');

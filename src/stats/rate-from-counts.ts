@@ -1,4 +1,5 @@
 import { InputError } from '../errors.js';
+import { formatCount } from '../core/count.js';
 
 export type RateMultiplier = 1 | 100 | 1000 | 100000;
 export const RATE_MULTIPLIERS: readonly RateMultiplier[] = [1, 100, 1000, 100000];
@@ -17,7 +18,7 @@ export function rateFromCounts(
   const n = events.length;
   const en = opts.eventsName ?? 'events';
   const pn = opts.populationName ?? 'population';
-  if (population.length !== n) throw new InputError(`The events column "${en}" has ${n} values but the population column "${pn}" has ${population.length}.`);
+  if (population.length !== n) throw new InputError(`The events column "${en}" has ${formatCount(n)} values but the population column "${pn}" has ${formatCount(population.length)}.`);
   const d = new Float64Array(n);
   const p = new Float64Array(n);
   const rate = new Float64Array(n);

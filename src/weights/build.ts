@@ -8,6 +8,7 @@ import { FULL_INVERSE_DISTANCE_LIMIT, allPairsInverseDistance, inverseDistance, 
 import { applyTransform } from './transform.js';
 import { LinkList, csrFromLinks } from './pattern.js';
 import { checkIds, checkedPoints, distanceUnit, plain, type WeightsInput } from './input.js';
+import { formatCount } from '../core/count.js';
 
 export interface BuildOptions {
   /** default 'row' */
@@ -73,7 +74,7 @@ export function buildWeights(input: WeightsInput, spec: WeightsSpec, opts: Build
 function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'queen' | 'rook' }>, opts: BuildOptions): Built {
   const n = input.ids.length;
   if (input.geometries.length !== n) {
-    throw new InputError(`There are ${n} areas but ${input.geometries.length} geometries; every area needs its boundary.`);
+    throw new InputError(`There are ${formatCount(n)} areas but ${formatCount(input.geometries.length)} geometries; every area needs its boundary.`);
   }
   const rule = spec.method;
   // a tolerance across the whole map would link every pair: refused before the n² links are made
@@ -200,7 +201,7 @@ function kNearest(input: WeightsInput, k: number, ties: TieRule): Built {
   const n = input.ids.length;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`The number of nearest neighbours must be a whole number, 1 or more; got ${k}.`);
   if (k >= n) {
-    throw new InputError(`${k} nearest neighbours need more than ${k} areas; there are ${n}. Choose k of at most ${n - 1}.`);
+    throw new InputError(`${k} nearest neighbours need more than ${formatCount(k)} areas; there are ${formatCount(n)}. Choose k of at most ${formatCount(n - 1)}.`);
   }
   const pts = checkedPoints(input, 'k-nearest neighbours');
   if (ties !== 'lower-row' && ties !== 'include') {
@@ -240,7 +241,7 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
   if (reach === undefined) {
     if (n > FULL_INVERSE_DISTANCE_LIMIT) {
       throw new InputError(
-        `Inverse-distance weights between all ${n} areas would link every pair (${n} × ${n - 1} links). ` +
+        `Inverse-distance weights between all ${formatCount(n)} areas would link every pair (${formatCount(n)} × ${formatCount(n - 1)} links). ` +
           `Give a cutoff distance; ${plain(largest)} ${unit} is the smallest that gives every area a neighbour.`,
       );
     }
@@ -251,7 +252,7 @@ function distanceBased(input: WeightsInput, reach: number | undefined, power: nu
     base = pairsWithin(pts, index, reach, weight, (links) => {
       throw new InputError(
         `${power === null ? 'A distance band' : 'An inverse-distance cut-off'} of ${plain(reach)} ${unit} links more than ${(links / 1e6).toFixed(0)} million pairs of areas ` +
-          `(more than ${Math.floor(links / n)} neighbours per area on average), too many to hold or to mean anything local. ` +
+          `(more than ${formatCount(Math.floor(links / n))} neighbours per area on average), too many to hold or to mean anything local. ` +
           `Use a smaller distance; at ${plain(largest)} ${unit} every area has a neighbour.`,
       );
     });
@@ -302,5 +303,5 @@ function linkToNearest(
 }
 
 function unneighbouredNote(ids: string[]): string {
-  return `${ids.length} area${ids.length === 1 ? '' : 's'} without neighbours linked to the nearest area: ${listSome(ids)}`;
+  return `${formatCount(ids.length)} area${ids.length === 1 ? '' : 's'} without neighbours linked to the nearest area: ${listSome(ids)}`;
 }

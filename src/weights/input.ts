@@ -2,6 +2,7 @@ import type { AreaGeometry, CoordinateKind } from '../geo/types.js';
 import { representativePoints } from '../geo/index.js';
 import { InputError } from '../errors.js';
 import type { PointSet } from './nearest.js';
+import { formatCount } from '../core/count.js';
 
 export interface WeightsInput {
   ids: string[];
@@ -39,7 +40,7 @@ export function checkedPoints(input: WeightsInput, method: string): PointSet {
   const n = input.ids.length;
   const p = input.points ?? representativePoints(input.geometries);
   if (p.x.length !== n || p.y.length !== n) {
-    throw new InputError(`There are ${n} areas but ${p.x.length} representative points; every area needs exactly one.`);
+    throw new InputError(`There are ${formatCount(n)} areas but ${formatCount(p.x.length)} representative points; every area needs exactly one.`);
   }
   const greatCircle = input.coordinates === 'geographic';
   for (let i = 0; i < n; i++) {

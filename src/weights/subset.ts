@@ -2,6 +2,7 @@ import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
 import type { SpatialWeights } from './types.js';
 import { applyTransform } from './transform.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * Weights on the areas `keep` (indices into w, in the new order). Links to dropped areas go;
@@ -11,7 +12,7 @@ import { applyTransform } from './transform.js';
 export function subsetWeights(w: SpatialWeights, keep: number[]): SpatialWeights {
   const newIndex = new Int32Array(w.n).fill(-1);
   keep.forEach((old, k) => {
-    if (!Number.isInteger(old) || old < 0 || old >= w.n) throw new InputError(`Cannot keep area number ${old}: there are ${w.n} areas.`);
+    if (!Number.isInteger(old) || old < 0 || old >= w.n) throw new InputError(`Cannot keep area number ${old}: there are ${formatCount(w.n)} areas.`);
     if (newIndex[old] >= 0) throw new InputError(`Area ${w.ids[old]} is listed twice among the areas to keep.`, { feature: w.ids[old] });
     newIndex[old] = k;
   });
@@ -43,7 +44,7 @@ export function subsetWeights(w: SpatialWeights, keep: number[]): SpatialWeights
     ...sub,
     values,
     ids: keep.map((i) => w.ids[i]),
-    description: dropped > 0 ? `${w.description}; ${dropped} area${dropped === 1 ? '' : 's'} left out` : w.description,
+    description: dropped > 0 ? `${w.description}; ${formatCount(dropped)} area${dropped === 1 ? '' : 's'} left out` : w.description,
     symmetricBase: w.symmetricBase ? cut(w.symmetricBase) : null,
     ...(w.linkedUnneighboured ? { linkedUnneighboured: w.linkedUnneighboured.filter((id) => keep.some((i) => w.ids[i] === id)) } : {}),
   };

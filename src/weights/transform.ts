@@ -1,5 +1,6 @@
 import { csrMultiply, isSymmetric, scaledByRowSums, type CsrMatrix } from '../linalg/index.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
+import { formatCount } from '../core/count.js';
 
 /**
  * 'row': each row divided by its sum, so rows sum to 1 (rows of areas without neighbours stay 0).
@@ -37,6 +38,6 @@ export function symmetricForm(w: SpatialWeights): CsrMatrix | null {
 
 /** The spatial lag Wv: for each area, the weighted sum (with row weights, the mean) of its neighbours' values. */
 export function spatialLag(w: CsrMatrix, v: Float64Array, out?: Float64Array): Float64Array {
-  if (v.length !== w.n) throw new RangeError(`spatialLag: vector of length ${v.length} for ${w.n} areas`);
+  if (v.length !== w.n) throw new RangeError(`spatialLag: vector of length ${v.length} for ${formatCount(w.n)} areas`);
   return csrMultiply(w, v, out ?? new Float64Array(w.n));
 }

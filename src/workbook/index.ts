@@ -6,6 +6,7 @@ import { uniqueSheetName } from './sheet-names.js';
 import { ooxmlText } from './ooxml-text.js';
 import { writeSheet, type DeferredRows } from './write-sheet.js';
 import { STREAM_ROWS_ABOVE, streamDeferredRows, templateRowCount, type EntryDeflate } from './stream-rows.js';
+import { formatCount } from '../core/count.js';
 
 export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
 export { EXCEL_FORMAT, cellFormat } from './number-formats.js';
@@ -30,7 +31,7 @@ export async function writeResultsWorkbook(report: Report, opts: WriteWorkbookOp
   for (const sheet of report.sheets) {
     const rows = layoutBlocks(sheet.blocks).lastRow;
     if (rows > SHEET_ROW_LIMIT) {
-      throw new InputError(`The results sheet "${sheet.name}" would need ${rows.toLocaleString('en-US')} rows, and a worksheet holds at most ${SHEET_ROW_LIMIT.toLocaleString('en-US')}. Nothing was written.`);
+      throw new InputError(`The results sheet "${sheet.name}" would need ${formatCount(rows)} rows, and a worksheet holds at most ${formatCount(SHEET_ROW_LIMIT)}. Nothing was written.`);
     }
   }
   const wb = new ExcelJS.Workbook();

@@ -126,8 +126,8 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
   const page = plan.page;
   ws.pageSetup = {
     ...ws.pageSetup,
-    orientation: page.orientation, fitToPage: true, fitToWidth: 1, fitToHeight: 0,
-    margins: { left: 0.5, right: 0.5, top: 0.6, bottom: 0.6, header: 0.3, footer: 0.3 },
+    orientation: page.orientation, fitToPage: true, fitToWidth: page.fitToPagesWide, fitToHeight: 0,
+    margins: { ...page.margins },
     ...(page.titleRows ? { printTitlesRow: `${page.titleRows.first}:${page.titleRows.last}` } : {}),
   };
   for (const row of page.breaksBefore) if (row > 1) ws.getRow(row - 1).addPageBreak();

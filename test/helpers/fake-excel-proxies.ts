@@ -154,6 +154,52 @@ export class SheetProxy extends ClientObject {
       },
     };
   }
+  /** ExcelApi 1.9: orientation, zoom, margins and print titles; an older Excel has no such member */
+  get pageLayout() {
+    this.requires(9, 'pageLayout');
+    const ctx = this.ctx, sheet = this.name_();
+    const page = () => this.target().page;
+    const o = {
+      setPrintMargins: (unit: string, m: Record<string, number>) => {
+        if (!['Points', 'Inches', 'Centimeters'].includes(unit)) throw new FakeOfficeError('InvalidArgument', `The margin unit ${unit} is not valid.`);
+        ctx.enqueue('pageLayout', () => { page().margins = { unit, ...m }; }, sheet, jsonBytes(m));
+      },
+      setPrintTitleRows: (rows: string | RangeProxy) => {
+        ctx.enqueue('pageLayout', () => {
+          // the rows must be whole rows ("$3:$4"), as Office requires
+          const text = typeof rows === 'string' ? rows : '';
+          if (!/^\$?\d+:\$?\d+$/.test(text)) throw new FakeOfficeError('InvalidArgument', `The print title rows ${text || '(a range)'} do not span entire rows.`);
+          page().printTitleRows = text;
+        }, sheet, jsonBytes(rows));
+      },
+    };
+    return Object.defineProperties(o, {
+      orientation: {
+        set: (v: string) => ctx.enqueue('pageLayout', () => {
+          if (v !== 'Portrait' && v !== 'Landscape') throw new FakeOfficeError('InvalidArgument', `The orientation ${v} is not valid.`);
+          page().orientation = v;
+        }, sheet, jsonBytes(v)),
+        get: () => { throw notLoaded('orientation'); },
+      },
+      zoom: {
+        set: (v: Record<string, number>) => ctx.enqueue('pageLayout', () => { page().zoom = { ...v }; }, sheet, jsonBytes(v)),
+        get: () => { throw notLoaded('zoom'); },
+      },
+    });
+  }
+  /** ExcelApi 1.9: manual page breaks; add() breaks before the range's top-left cell */
+  get horizontalPageBreaks() {
+    this.requires(9, 'horizontalPageBreaks');
+    return {
+      add: (at: string | RangeProxy) => this.ctx.enqueue('pageBreak', () => {
+        const row = typeof at === 'string' ? parseAddress(at).row : at.rect().row;
+        this.target().page.breaksBefore.push(row + 1);
+      }, this.name_()),
+    };
+  }
+  private requires(minor: number, member: string) {
+    if (this.ctx.excel.excelApi < minor) throw new FakeOfficeError('ApiNotFound', `Worksheet.${member} needs ExcelApi 1.${minor}; this Excel has 1.${this.ctx.excel.excelApi}.`);
+  }
   /** the sheet's name as far as this proxy knows it, for failure rules */
   private name_(): string | undefined { return this.hint ?? this.resolve()?.name; }
   getRange(a1?: string): RangeProxy {

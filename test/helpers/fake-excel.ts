@@ -55,6 +55,8 @@ export interface FakeSheet {
   merges: string[];
   columnWidths: Map<number, number>;
   rowHeights: Map<number, number>;
+  /** the printed page set-up (ExcelApi 1.9 pageLayout and horizontalPageBreaks); breaksBefore holds 1-based rows */
+  page: { orientation?: string; zoom?: Record<string, number>; margins?: { unit: string } & Record<string, number | string>; printTitleRows?: string; breaksBefore: number[] };
 }
 
 const blank = (v: any) => v === null || v === '' || v === undefined;
@@ -75,13 +77,17 @@ export class FakeExcel {
   failWhen: ((c: { kind: string; sheet?: string }) => boolean) | null = null;
   /** called before each sync is processed with the number of syncs made so far (e.g. to start a cell edit) */
   beforeSync: ((syncs: number) => void) | null = null;
+  /** the newest ExcelApi requirement set this Excel has, as its minor version (1.9 → 9); the page set-up needs 9 */
+  excelApi = 17;
+  /** Office.context.requirements.isSetSupported for this Excel */
+  readonly isSetSupported = (name: string, version: string): boolean => name === 'ExcelApi' && Number(version.split('.')[1] ?? 0) <= this.excelApi;
   private nextPart = 1;
   private syncs = 0;
   private editing: { ended: Promise<void>; end: () => void } | null = null;
 
   addSheet(name: string, rows: any[][] = [], at = { row: 0, col: 0 }): FakeSheet {
     const sheet: FakeSheet = {
-      name, cells: new CellStore(), tables: [], shapes: [], charts: [], frozenRows: 0, merges: [], columnWidths: new Map(), rowHeights: new Map(),
+      name, cells: new CellStore(), tables: [], shapes: [], charts: [], frozenRows: 0, merges: [], columnWidths: new Map(), rowHeights: new Map(), page: { breaksBefore: [] },
     };
     rows.forEach((r, i) => r.forEach((v, j) => { if (!blank(v)) sheet.cells.at(at.row + i, at.col + j).value = v; }));
     this.sheets.set(name.toLowerCase(), sheet);

@@ -14,6 +14,7 @@ import { simplify } from '@turf/simplify';
 import type { AreaGeometry } from '../../geo/types.js';
 import type { Frame } from './projection.js';
 import { c1 } from './svg.js';
+import { formatCount } from '../../core/count.js';
 
 /** Above this many areas: no outlines, one path per colour. */
 export const MANY_AREAS = 20_000;
@@ -36,6 +37,8 @@ export interface MapDrawing {
   };
   /** areas too small to show at the map's scale, drawn as one-pixel squares */
   enlarged: number;
+  /** longitude/latitude areas on both sides of 180°: longitudes below this were drawn 360° further east (projection.ts) */
+  longitudeCut?: number;
 }
 
 export interface AreaLook {
@@ -234,14 +237,21 @@ export function drawAreas(geoms: readonly AreaGeometry[], frame: Frame, top: num
       outlines: !many,
       simplified: tolerance ? { tolerancePx: tolerance, toleranceMapUnits: tolerance / frame.scale, pointsBefore, pointsAfter } : null,
       enlarged,
+      ...(frame.longitudeCut === undefined ? {} : { longitudeCut: frame.longitudeCut }),
     },
   };
 }
 
-/** The note that goes beside a map drawn in any way other than plainly; null when it was drawn plainly. */
+/** A longitude in words: "172.5° E", "60° W", "0°". */
+function longitudeWords(lon: number): string {
+  const a = +Math.abs(lon).toFixed(1);
+  return a === 0 || a === 180 ? `${a}°` : `${a}° ${lon > 0 ? 'E' : 'W'}`;
+}
+
+/** The note that goes beside a map drawn in any way other than plainly (simplified, or cut away from ±180°); null when it was drawn plainly. */
 export function describeDrawing(d: MapDrawing, coordinates: 'geographic' | 'projected'): string | null {
   const parts: string[] = [];
-  const n = (x: number) => x.toLocaleString('en-US');
+  const n = formatCount;
   if (!d.outlines) parts.push('outlines between areas left out, as at this size they would hide the colours');
   if (d.simplified) {
     const s = d.simplified;
@@ -251,6 +261,10 @@ export function describeDrawing(d: MapDrawing, coordinates: 'geographic' | 'proj
       : `boundaries drawn as they are: simplifying them to within ${s.tolerancePx} pixel (about ${units}) would remove none of their ${n(s.pointsBefore)} points`);
   }
   if (d.enlarged) parts.push(`${n(d.enlarged)} area${d.enlarged === 1 ? '' : 's'} too small to show drawn as one-pixel squares`);
-  if (!parts.length) return null;
-  return `Maps of ${n(d.areas)} areas are drawn simplified here: ${parts.join('; ')}. Every area is on the map, and the tables hold the exact values.`;
+  const sentences: string[] = [];
+  if (parts.length) sentences.push(`Maps of ${n(d.areas)} areas are drawn simplified here: ${parts.join('; ')}. Every area is on the map, and the tables hold the exact values.`);
+  if (d.longitudeCut !== undefined) {
+    sentences.push(`The areas lie on both sides of the 180° meridian, so the maps are drawn across it: longitudes west of ${longitudeWords(d.longitudeCut)} are moved 360° east, and the areas sit together (the tables and files keep the longitudes as given).`);
+  }
+  return sentences.length ? sentences.join(' ') : null;
 }

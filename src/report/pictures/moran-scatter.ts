@@ -1,5 +1,6 @@
 import type { Picture } from './choropleth.js';
 import { c1, escapeXml, svgDocument, text } from './svg.js';
+import { formatCount } from '../../core/count.js';
 
 export interface Edges {
   from: Int32Array;
@@ -107,8 +108,8 @@ export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel
   if (dense) {
     const d = densitySquares(data, sx, sy);
     body.push(...d.body);
-    const n = data.z.length.toLocaleString('en-US');
-    drawingNote = `With ${n} areas the plot shows how many areas fall in each ${BIN_PX}-pixel square (${d.squares.toLocaleString('en-US')} squares) instead of one dot per area; each area plotted is counted in its square.`;
+    const n = data.z.length;
+    drawingNote = `With ${formatCount(n)} areas the plot shows how many areas fall in each ${BIN_PX}-pixel square (${formatCount(d.squares)} squares) instead of one dot per area; each area plotted is counted in its square.`;
     // the key: one swatch per class, under the axis label
     let x = M.left;
     const y = M.top + SIZE + 52;
@@ -133,7 +134,7 @@ export function moranScatterSvg(valueName: string, data: ScatterData, slopeLabel
   body.push(text(M.left + SIZE / 2, M.top + SIZE + 40, `${valueName}, standardised`, 'font-size="13" text-anchor="middle"'));
   const yl = `neighbours' average of standardised ${valueName}`;
   body.push(`<text x="18" y="${M.top + SIZE / 2}" font-family="sans-serif" font-size="13" text-anchor="middle" transform="rotate(-90 18 ${M.top + SIZE / 2})">${escapeXml(yl)}</text>`);
-  const foot = data.leftOut ? `${slopeLabel}. ${data.leftOut} area(s) without neighbours not shown.` : `${slopeLabel}.`;
+  const foot = data.leftOut ? `${slopeLabel}. ${formatCount(data.leftOut)} area(s) without neighbours not shown.` : `${slopeLabel}.`;
   body.push(text(10, H - 10, foot, 'font-size="12" fill="#c0601a"'));
   const alt = `${title}: each area's standardised ${valueName} against its neighbours' average; ${foot}${drawingNote ? ` ${drawingNote}` : ''}`;
   return { svg: svgDocument(W, H, body, title), widthPx: W, heightPx: H, alt, drawingNote };

@@ -1,6 +1,7 @@
 import type { CoordinateKind } from '../../geo/types.js';
 import type { Frame } from './projection.js';
 import { c1, text } from './svg.js';
+import { formatCount } from '../../core/count.js';
 
 /** Kilometres per degree of latitude on a sphere of the Earth's mean radius, 6371 km (2πR / 360). */
 const KM_PER_DEGREE = (2 * Math.PI * 6371) / 360;
@@ -13,7 +14,7 @@ function niceLength(max: number): number {
   return p;
 }
 
-const plain = (x: number) => x.toLocaleString('en-US');
+const plain = formatCount;
 
 /**
  * A scale bar in the unit a reader thinks in: kilometres (or metres) for longitude/latitude and for
