@@ -19,12 +19,12 @@
  *    nearest σ = 1/ρ₀ (just below −λ̄, hence below every real eigenvalue), and among the real ones
  *    μ decreases as λ grows, so the most negative real eigenvalue is the largest real μ: Arnoldi
  *    finds the outermost μ first. I − ρ₀W is an H-matrix there (|ρ₀|λ̄ < 1), so the LU without
- *    pivoting is stable.
+ *    pivoting is stable. The run stops when the bound is known to 1e-7 relative and takes it on the
+ *    side that widens the range (sparse/arnoldi.ts).
  */
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { csrMultiply, isNonNegative, isRowStochastic, maxAbsRowSum, type CsrMatrix } from './csr.js';
 import type { AdmissibleRange } from './logdet.js';
-import { seededRandom } from './random.js';
+import { arnoldiLowest } from './sparse/arnoldi.js';
 import { lanczosExtremes, type LanczosExtremes } from './sparse/extremes.js';
 
 /** The rule itself: (1/λmin, 1/λmax) from the extreme real eigenvalues, and how they were found. */
@@ -63,7 +63,7 @@ export function admissibleRange(w: CsrMatrix, opts: RangeOptions = {}): Admissib
   if (!opts.shiftSolve) {
     return rangeFromEigenvalues(-perron.upper, perron.upper, `${maxText}; λmin taken as −λmax (no factor of I − ρW to find it with): every |λ| ≤ λmax (Perron–Frobenius), so the range is safe but may be narrower than the true one`);
   }
-  const low = arnoldiLowest(w, opts.shiftSolve, perron.upper, opts.seed ?? 1);
+  const low = arnoldiLowest(w.n, opts.shiftSolve, perron.upper, opts.seed ?? 1);
   if (low.lambda === null) {
     return rangeFromEigenvalues(-perron.upper, perron.upper, `${maxText}; λmin taken as −λmax (${low.method}): every |λ| ≤ λmax (Perron–Frobenius), so the range is safe but may be narrower than the true one`);
   }
@@ -217,90 +217,4 @@ export function perronRoot(w: CsrMatrix, shiftSolve?: (rho: number, b: Float64Ar
     stochastic: false,
     method: `Collatz–Wielandt bound after ${how}; the Perron root lies in [${lower.toPrecision(12)}, ${upper.toPrecision(12)}]${closed ? '' : ' (the lower end is loose: W is reducible or the iteration stopped first)'}`,
   };
-}
-
-/** Most Arnoldi steps of the λmin run (memory: this many vectors of n). */
-const ARNOLDI_STEPS = 80;
-
-/**
- * The most negative real eigenvalue of W ≥ 0 by shift-and-invert Arnoldi with full
- * reorthogonalisation (classical Gram–Schmidt applied twice): see the file comment. Converged when
- * the Ritz residual h_{j+1,j}|y_j| of the chosen Ritz value falls below 1e-10 of it. Null (with the
- * reason) when no real Ritz value converged within the steps allowed.
- */
-export function arnoldiLowest(
-  w: CsrMatrix,
-  shiftSolve: (rho: number, b: Float64Array) => Float64Array,
-  radius: number,
-  seed: number,
-): { lambda: number | null; method: string } {
-  const n = w.n;
-  const rho0 = -1 / (1.001 * radius);
-  const m = Math.min(n, ARNOLDI_STEPS);
-  const basis: Float64Array[] = [];
-  const h = new Float64Array((m + 1) * m); // h[i*m + j]
-  const uniform = seededRandom(seed);
-  let v = new Float64Array(n).map(() => uniform() - 0.5);
-  let norm = Math.sqrt(dot(v, v));
-  for (let i = 0; i < n; i++) v[i] /= norm;
-  basis.push(v);
-  let best: { mu: number; residual: number } | null = null;
-  let steps = 0;
-  for (let j = 0; j < m; j++) {
-    const u = shiftSolve(rho0, basis[j]);
-    for (let pass = 0; pass < 2; pass++) {
-      for (let i = 0; i <= j; i++) {
-        const c = dot(u, basis[i]);
-        h[i * m + j] += c;
-        const b = basis[i];
-        for (let t = 0; t < n; t++) u[t] -= c * b[t];
-      }
-    }
-    norm = Math.sqrt(dot(u, u));
-    h[(j + 1) * m + j] = norm;
-    steps = j + 1;
-    const invariant = norm <= 1e-14 * Math.abs(h[j * m + j] || 1);
-    if (invariant || steps === m || (steps >= 10 && steps % 5 === 0)) {
-      best = largestRealRitz(h, m, steps, invariant ? 0 : norm);
-      if (best && (invariant || best.residual <= 1e-10 * Math.abs(best.mu))) break;
-    }
-    if (invariant) break;
-    v = new Float64Array(n);
-    for (let t = 0; t < n; t++) v[t] = u[t] / norm;
-    basis.push(v);
-  }
-  if (!best) return { lambda: null, method: `shift-and-invert Arnoldi found no real Ritz value in ${steps} steps` };
-  const converged = best.residual <= 1e-8 * Math.abs(best.mu);
-  const lambda = (1 - 1 / best.mu) / rho0;
-  const how = `shift-and-invert Arnoldi on (I − ρ₀W)⁻¹, ρ₀ = ${rho0.toPrecision(6)}, through the sparse LU (${steps} steps, Ritz residual ${(best.residual / Math.abs(best.mu)).toExponential(1)} relative)`;
-  if (!converged) return { lambda: null, method: `${how} did not converge` };
-  return { lambda, method: how };
-}
-
-/** The largest real Ritz value of the leading j×j Hessenberg matrix and its residual β|y_j|. */
-function largestRealRitz(h: Float64Array, m: number, j: number, beta: number): { mu: number; residual: number } | null {
-  const rows: number[][] = [];
-  for (let r = 0; r < j; r++) {
-    const row = new Array<number>(j).fill(0);
-    for (let c = Math.max(0, r - 1); c < j; c++) row[c] = h[r * m + c];
-    rows.push(row);
-  }
-  const evd = new EigenvalueDecomposition(new Matrix(rows));
-  const re = evd.realEigenvalues, im = evd.imaginaryEigenvalues;
-  const vectors = evd.eigenvectorMatrix;
-  let best: { mu: number; residual: number } | null = null;
-  for (let c = 0; c < j; c++) {
-    if (im[c] !== 0 || !(re[c] > 0)) continue;
-    if (best && re[c] <= best.mu) continue;
-    let norm = 0;
-    for (let r = 0; r < j; r++) norm += vectors.get(r, c) ** 2;
-    best = { mu: re[c], residual: (beta * Math.abs(vectors.get(j - 1, c))) / Math.sqrt(norm) };
-  }
-  return best;
-}
-
-function dot(a: Float64Array, b: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
-  return s;
 }

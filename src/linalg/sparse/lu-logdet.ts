@@ -23,6 +23,7 @@ import type { LogDeterminant } from '../logdet.js';
 import { coordinateDissection, graphOf, levelDissection, usableCoordinates } from './ordering.js';
 import { analyse, type SymbolicFactor } from './symbolic.js';
 import { eliminateFront } from './lu-front.js';
+import { luSolveBlock } from './lu-solve.js';
 
 /** Multiply-adds of one LU evaluation above which the Monte Carlo series is used instead. */
 export const SPARSE_LU_WORK_LIMIT = 4e10;
@@ -126,54 +127,7 @@ export class SparseLuLogDet implements LogDeterminant {
   solveBlock(rho: number, b: Float64Array, r: number, x: Float64Array, work: Float64Array = new Float64Array(b.length)): Float64Array {
     if (!this.keepsFactor) throw new Error('this sparse LU is too large to keep for solves');
     this.factorAt(rho);
-    const panels = this.panels!;
-    const { n, perm, superCount, superFirst, rowPtr, rows } = this.symbolic;
-    const y = work;
-    for (let j = 0; j < n; j++) for (let q = 0, from = perm[j] * r, to = j * r; q < r; q++) y[to + q] = b[from + q];
-    // forward: L z = y (unit diagonal)
-    for (let s = 0; s < superCount; s++) {
-      const f = superFirst[s], k = superFirst[s + 1] - f;
-      const r0 = rowPtr[s], m = rowPtr[s + 1] - r0;
-      const at = this.panelStart[s];
-      for (let c = 1; c < k; c++) {
-        const row = at + c * m, dst = (f + c) * r;
-        for (let p = 0; p < c; p++) {
-          const l = panels[row + p];
-          if (l === 0) continue;
-          const src = (f + p) * r;
-          for (let q = 0; q < r; q++) y[dst + q] -= l * y[src + q];
-        }
-      }
-      const below = at + k * m;
-      for (let t = k; t < m; t++) {
-        const row = below + (t - k) * k, dst = rows[r0 + t] * r;
-        for (let p = 0; p < k; p++) {
-          const l = panels[row + p];
-          if (l === 0) continue;
-          const src = (f + p) * r;
-          for (let q = 0; q < r; q++) y[dst + q] -= l * y[src + q];
-        }
-      }
-    }
-    // backward: U x = z, rows k−1..0 of each supernode, latest supernode first
-    for (let s = superCount - 1; s >= 0; s--) {
-      const f = superFirst[s], k = superFirst[s + 1] - f;
-      const r0 = rowPtr[s], m = rowPtr[s + 1] - r0;
-      const at = this.panelStart[s];
-      for (let c = k - 1; c >= 0; c--) {
-        const row = at + c * m, dst = (f + c) * r;
-        for (let t = c + 1; t < m; t++) {
-          const u = panels[row + t];
-          if (u === 0) continue;
-          const src = rows[r0 + t] * r;
-          for (let q = 0; q < r; q++) y[dst + q] -= u * y[src + q];
-        }
-        const inv = 1 / panels[row + c];
-        for (let q = 0; q < r; q++) y[dst + q] *= inv;
-      }
-    }
-    for (let j = 0; j < n; j++) for (let q = 0, from = j * r, to = perm[j] * r; q < r; q++) x[to + q] = y[from + q];
-    return x;
+    return luSolveBlock(this.symbolic, this.panelStart, this.panels!, b, r, x, work);
   }
 
   /** The numeric multifrontal LU at ρ, stored into `panels` when given; returns Σ ln u_jj. */
