@@ -21,12 +21,14 @@ import type { DeferredRows } from './write-sheet.js';
 /** Tables longer than this stream their rows; shorter ones go through exceljs cell by cell. */
 export const STREAM_ROWS_ABOVE = 5000;
 
-type Kind = 'n' | 's' | 'b';
+// 't': a number below 0.001 in size, which a four-decimal column shows in the general format
+// (number-formats.ts, cellFormat), so it needs a template cell, and a style, of its own
+type Kind = 'n' | 't' | 's' | 'b';
 
 /** The kind of XML cell a value becomes (null: no cell), as writeSheet's put() decides it. */
 function kindOf(v: Cell): Kind | null {
   if (v === null) return null;
-  if (typeof v === 'number') return Number.isFinite(v) ? 'n' : null;
+  if (typeof v === 'number') return !Number.isFinite(v) ? null : v !== 0 && Math.abs(v) < 0.001 ? 't' : 'n';
   return typeof v === 'string' ? 's' : 'b';
 }
 
@@ -36,16 +38,16 @@ function kindOf(v: Cell): Kind | null {
  */
 export function templateRowCount(rows: readonly Cell[][]): number {
   // one flag per (column, kind): a million-row table is scanned without building a key per cell
-  const KIND = { n: 0, s: 1, b: 2 } as const;
+  const KIND = { n: 0, t: 1, s: 2, b: 3 } as const;
   let seen = new Uint8Array(0);
   let need = Math.min(1, rows.length);
   for (let r = 0; r < rows.length; r++) {
     const row = rows[r];
-    if (row.length * 3 > seen.length) { const grown = new Uint8Array(row.length * 3); grown.set(seen); seen = grown; }
+    if (row.length * 4 > seen.length) { const grown = new Uint8Array(row.length * 4); grown.set(seen); seen = grown; }
     for (let c = 0; c < row.length; c++) {
       const k = kindOf(row[c]);
       if (k === null) continue;
-      const at = c * 3 + KIND[k];
+      const at = c * 4 + KIND[k];
       if (!seen[at]) { seen[at] = 1; need = r + 1; }
     }
   }
@@ -105,7 +107,7 @@ function* rowsXml(d: DeferredRows, styles: Map<string, string>, chunkChars = 1 <
       const k = kindOf(v);
       if (k === null) continue;
       const ref = `${names[c]}${rowNumber}`;
-      if (k === 'n') out += `<c r="${ref}"${style(c, k)}><v>${v}</v></c>`;
+      if (k === 'n' || k === 't') out += `<c r="${ref}"${style(c, k)}><v>${v}</v></c>`;
       else if (k === 'b') out += `<c r="${ref}"${style(c, k)} t="b"><v>${v ? 1 : 0}</v></c>`;
       else {
         const text = xmlText(v as string);

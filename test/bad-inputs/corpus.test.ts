@@ -63,7 +63,16 @@ function cliArgs(c: BadInput, f: CaseFiles, folder: string, out?: string): strin
   if ('order' in r.weights && r.weights.order !== undefined) args.push('--order', String(r.weights.order));
   if ('tolerance' in r.weights && r.weights.tolerance !== undefined) args.push('--tolerance', String(r.weights.tolerance));
   if (r.weights.method === 'knn' && r.weights.ties) args.push('--ties', r.weights.ties);
-  args.push(...(c.cliExtra ?? []));
+  // a case's own option replaces the harness's default of it (the command line refuses an option given twice)
+  const extra = c.cliExtra ?? [];
+  for (let j = 0; j < extra.length; j++) {
+    const at = extra[j].startsWith('--') ? args.indexOf(extra[j]) : -1;
+    const value = extra[j + 1];
+    if (at >= 0 && value !== undefined && !value.startsWith('--') && !args[at + 1]?.startsWith('--')) {
+      args[at + 1] = value;
+      j++;
+    } else args.push(extra[j]);
+  }
   if (out) args.push('--out', out);
   return args;
 }
