@@ -28,6 +28,7 @@ vi.mock('../src/models/registry.js', async (importOriginal) => {
     label: 'Model with neighbours’ columns',
     about: 'the neighbours’ averages of the explanatory columns added',
     method: 'least squares',
+    leastSquares: true,
     parameters: [],
     fit: (p) => {
       const x = p.design.columns.map((c, j) => ({ c, j })).filter(({ j }) => j !== p.design.intercept);

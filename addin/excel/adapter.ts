@@ -6,8 +6,7 @@
  * If any write fails, the sheets this run added are deleted again.
  */
 import { InputError } from '../../src/errors.js';
-import type { PagePlan, Report, ReportImage, ReportSheet } from '../../src/report/index.js';
-import { uniqueSheetName } from '../../src/workbook/sheet-names.js';
+import { uniqueSheetName, type PagePlan, type Report, type ReportImage, type ReportSheet } from '../../src/report/index.js';
 import type { BoundaryFile, RunOutput, SavedSetup, ScatterPoints, SheetValue, TableSnapshot } from '../shared/types.js';
 import type { ContextLike, CustomXmlPartLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
 import { RequestBudget, readRows, writeRows } from './blocks.js';
@@ -93,8 +92,9 @@ export class ExcelAdapter {
   }
 
   /**
-   * Writes every report sheet as a new sheet, in row blocks. On the first failure the sheets this
-   * call added are deleted and the error is passed on with the sheet it happened on.
+   * Writes every report sheet as a new sheet, in row blocks, and returns the names they were written
+   * under: one per report sheet, in the report's order. On the first failure the sheets this call
+   * added are deleted and the error is passed on with the sheet it happened on.
    */
   async writeReport(output: Pick<RunOutput, 'report' | 'scatter'>): Promise<string[]> {
     const existing = await this.run(async (context) => {

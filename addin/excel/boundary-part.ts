@@ -12,7 +12,7 @@
  */
 import { deflateSync, inflateSync } from 'fflate';
 import type { BoundaryFile } from '../shared/types.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export const BOUNDARY_NAMESPACE = 'urn:spillway:boundary:1';
 /** Largest part, in characters (base64 is ASCII: characters are bytes). */

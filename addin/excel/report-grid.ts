@@ -4,9 +4,8 @@
  * Office), so it is checked in Node. The layout is the report's own sheet plan (planSheet), the same
  * as the .xlsx writer's.
  */
-import { planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type PagePlan, type ReportSheet } from '../../src/report/index.js';
+import { cellFormat, planSheet, POINTS_PER_CHAR, type Cell, type NumberFormat, type PagePlan, type ReportSheet } from '../../src/report/index.js';
 // The number-format table alone (src/workbook's index would pull exceljs into the task pane).
-import { cellFormat } from '../../src/workbook/number-formats.js';
 
 export type CellStyle = 'title' | 'blockTitle' | 'header' | 'group' | 'note' | 'caution';
 

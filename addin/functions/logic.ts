@@ -8,7 +8,7 @@ import { moranColumn, gearyC, localMoran } from '../../src/stats/index.js';
 import { spatialLag } from '../../src/weights/index.js';
 import { weightsFromRange, type NeighbourOptions } from './neighbour-range.js';
 import { flatten, hasHeader, readIds, readNumbers, trimTogether, type Grid } from './ranges.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export type { CellValue, Grid } from './ranges.js';
 export { weightsFromRange, type NeighbourOptions } from './neighbour-range.js';

@@ -7,8 +7,7 @@
  * between recalculations: changing a value in the outcome or an explanatory column refits without
  * rebuilding it.
  */
-import { chooseAlgebra } from '../../src/linalg/choose-algebra.js';
-import type { WeightsAlgebra } from '../../src/linalg/algebra.js';
+import { chooseAlgebra, type WeightsAlgebra } from '../../src/linalg/index.js';
 import { Recent, twoHashes } from './recent.js';
 import {
   areasNeeded as registryAreasNeeded, designWithIntercept, entriesOf, fitOls, MODELS, recommendModel,
@@ -18,7 +17,7 @@ import {
 import { lmTests, moranResidualTest } from '../../src/stats/index.js';
 import { symmetricForm, type SpatialWeights } from '../../src/weights/index.js';
 import { InputError } from '../../src/errors.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 /** The design every model takes (a constant first). */
 export { designWithIntercept, type Design };
@@ -104,7 +103,7 @@ export function fitForCells(key: string, inputs: CellInputs, robust = false): Ce
   }
   const robustCoefficients = (fit as { robustCoefficients?: Coefficient[] }).robustCoefficients;
   return {
-    key: entry.key, label: entry.label, statName: entry.method === 'least squares' ? 't' : 'z',
+    key: entry.key, label: entry.label, statName: entry.leastSquares ? 't' : 'z',
     coefficients: robust && robustCoefficients ? robustCoefficients : fit.coefficients,
     parameters: h.parameters, n, logLik: h.logLik, aic: h.aic, convergence: h.convergence, warnings: fit.warnings, engineFit: fit,
   };

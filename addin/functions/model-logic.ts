@@ -4,12 +4,12 @@
  * the choice of model). Ranges are read here; the models are reached through model-adapter.ts only.
  */
 import { InputError } from '../../src/errors.js';
-import { MAX_IMPACT_DRAWS, MAX_SEED, MIN_IMPACT_DRAWS } from '../../src/pipeline/limits.js';
+import { MAX_IMPACT_DRAWS, MAX_SEED, MIN_IMPACT_DRAWS } from '../../src/pipeline/index.js';
 import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_SPELLINGS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
 import { asNumber, flatten, hasHeader, isBlank, readIds, readNumbers, trimTogether, type CellValue, type Grid } from './ranges.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export type Spill = (string | number)[][];
 

@@ -10,7 +10,7 @@ import { readBoundary, type AreaGeometry, type NamedBytes } from '../../src/geo/
 import { buildWeights, type SpatialWeights, type WeightsSpec } from '../../src/weights/index.js';
 import { parseOptions, type OptionsArgument } from './options.js';
 import { flatten, hasHeader, idText, readIds, readNumbers, trimTogether, type Grid } from './ranges.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export const LINK_HEADER = ['origin', 'neighbour', 'weight'] as const;
 

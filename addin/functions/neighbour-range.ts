@@ -13,7 +13,7 @@ import { Recent, twoHashes } from './recent.js';
 import { InputError } from '../../src/errors.js';
 import { readEdgeList, type SpatialWeights } from '../../src/weights/index.js';
 import { asNumber, idText, isBlank, trimBlankEdges, type CellValue, type Grid } from './ranges.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export interface NeighbourOptions {
   /** Rescale each area's weights to sum to 1; otherwise the weights are used as listed. */

@@ -5,7 +5,7 @@
  * columns keep the same rows. A blank inside the data stays an error that names its cell.
  */
 import { InputError } from '../../src/errors.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 /** One cell as a custom function receives it (empty cells arrive as null or ""). */
 export type CellValue = string | number | boolean | null | undefined;

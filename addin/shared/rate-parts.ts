@@ -6,7 +6,7 @@
  * sharing its subject word). Pure; the sidebar shows the findings as warnings.
  */
 import type { SheetValue, TableSnapshot } from './types.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export interface RatePart {
   column: string;

@@ -6,7 +6,7 @@
  * which the sidebar's main thread loads, needs nothing of the engine but types.
  */
 import type { Recommendation } from '../../src/models/index.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 /** A model as the done message names it: the registry's key and label. */
 export interface SummaryModel { key: string; label: string }

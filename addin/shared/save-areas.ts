@@ -6,7 +6,7 @@
 import { printable } from '../../src/errors.js';
 import { button, h, message } from './dom.js';
 import type { EngineClient } from './engine-client.js';
-import { formatCount } from '../../src/core/count.js';
+import { formatCount } from '../../src/core/index.js';
 
 export function saveAreasButton(engine: EngineClient, stem: string): HTMLElement {
   const status = h('div', { 'aria-live': 'polite' });

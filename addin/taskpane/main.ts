@@ -38,7 +38,9 @@ const host: SidebarHost = {
     await drawReportPictures(output.report);
     stage('Writing the result sheets');
     const names = await excel.writeReport(output);
-    return { message: `The results are on ${names.length} new sheets, starting with "${names[0]}". The neighbour list is on "${names.find((n) => n.startsWith('Neighbours')) ?? 'Neighbours'}" for the SPILL cell functions.` };
+    // one name per report sheet, in order: the neighbour list's is found by the sheet's role, not its name
+    const neighbours = names[output.report.sheets.findIndex((s) => s.role === 'neighbours')] ?? 'Neighbours';
+    return { message: `The results are on ${names.length} new sheets, starting with "${names[0]}". The neighbour list is on "${neighbours}" for the SPILL cell functions.` };
   },
   showCell: (sheet, cell) => excel.showCell(sheet, cell),
 };

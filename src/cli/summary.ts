@@ -95,7 +95,7 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const h = entry.headline(f);
   const out = [`${entry.label} (${entry.method}): ${entry.about}`];
   for (const q of h.parameters) out.push(`  ${q.symbol} (${q.name}) ${fmt(q.estimate, 6)}, SE ${fmt(q.se, 4)}, z ${fmt(q.z, 4)}, p ${p(q.p)}`);
-  out.push(...coefficientTable(f.coefficients, entry.method === 'least squares' ? 't' : 'z'));
+  out.push(...coefficientTable(f.coefficients, entry.leastSquares ? 't' : 'z'));
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);

@@ -79,8 +79,13 @@ export interface ModelEntry<K extends string = string, F extends ModelFitBase = 
   label: string;
   /** what the model says, in a few plain words (the sidebar's choice, the command line's heading) */
   about: string;
-  /** how it is estimated, for titles ("by maximum likelihood") */
+  /** how it is estimated, for titles ("by maximum likelihood"); display text only, never compared */
   method: string;
+  /**
+   * Estimated by ordinary least squares: its coefficients carry t statistics, its R² is the usual one
+   * and its residual variance is divided by n − k (the others: z statistics, a pseudo R², σ² over n).
+   */
+  leastSquares?: true;
   /** the plain regression: fitted on every run, since every test and spatial model starts from it */
   baseline?: true;
   /**

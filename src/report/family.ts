@@ -43,7 +43,7 @@ type Extras = Partial<{
 export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEntry): Block[] {
   const h = entry.headline(fit);
   const extra = fit as unknown as Extras;
-  const statName = entry.method === 'least squares' ? 't-value' : 'z-value';
+  const statName = entry.leastSquares ? 't-value' : 'z-value';
   const lagged = fit.coefficients.some((c) => c.lagged);
   const blocks: Block[] = [
     { kind: 'title', text: `${entry.label}: ${result.request.y} by ${entry.method}` },
@@ -61,8 +61,8 @@ export function familySheet(result: AnalysisResult, fit: Fitted, entry: ModelEnt
   // grouped as the other models' sheets are: how well it fits, for comparing models, how it was found
   const fits: [string, Cell, NumberFormat?][] = [
     ['Areas', result.n, 'integer'],
-    [entry.method === 'least squares' ? 'R²' : 'Pseudo R²: squared correlation of observed and fitted', num(h.r2), 'decimal4'],
-    [entry.method === 'least squares' ? 'Residual variance (divided by n − k)' : 'Residual variance (divided by n)', num(h.sigma2), 'decimal4'],
+    [entry.leastSquares ? 'R²' : 'Pseudo R²: squared correlation of observed and fitted', num(h.r2), 'decimal4'],
+    [entry.leastSquares ? 'Residual variance (divided by n − k)' : 'Residual variance (divided by n)', num(h.sigma2), 'decimal4'],
   ];
   const comparing: [string, Cell, NumberFormat?][] = [];
   if (h.logLik !== undefined) {

@@ -31,9 +31,8 @@ export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): 
       ],
       rows: im.impacts.map((m): Cell[] => [m.name, num(m.direct), num(m.directSe), num(m.directP), num(m.indirect), num(m.indirectSe), num(m.indirectP),
         num(m.total), num(m.totalSe), num(m.totalP)]),
-      note: im.method.includes(String(im.seed))
-        ? `How the standard errors and p-values were found: ${im.method}.`
-        : `How the standard errors and p-values were found: ${im.method} (${im.draws} simulated draws, seed ${im.seed}).`,
+      // the method names its draws and seed itself (lagImpacts)
+      note: `How the standard errors and p-values were found: ${im.method}.`,
     },
   ];
   for (const m of im.impacts) {

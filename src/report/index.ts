@@ -31,6 +31,8 @@ export { interpretation } from './interpretation.js';
 export { scatterPoints } from './pictures-for-report.js';
 export { withheldOutcome } from './withheld.js';
 export { SMOOTHING_LABEL } from './rates.js';
+export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
+export { EXCEL_FORMAT, cellFormat } from './number-formats.js';
 export * from './pictures/index.js';
 
 export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {

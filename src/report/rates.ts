@@ -23,11 +23,18 @@ export function recipeWords(r: { events: string; population: string; per: number
   return `${r.events} ${r.per === 1 ? 'per unit of' : perWords(r.per)} ${r.population}`;
 }
 
+/** Where the rate went in the model: its outcome, an explanatory column, or neither. */
+function rateRole(result: AnalysisResult, r: RateResult): 'outcome' | 'explanatory' | undefined {
+  if (result.request.y === r.name) return 'outcome';
+  return result.request.x.includes(r.name) ? 'explanatory' : undefined;
+}
+
 /** Where the rate went in the model, in words. */
 export function rateUse(result: AnalysisResult, r: RateResult): string {
   const as = `its ${SMOOTHING_LABEL[r.smoothing]}`;
-  if (result.request.y === r.name) return `the outcome, as ${as}`;
-  if (result.request.x.includes(r.name)) return `an explanatory column, as ${as}`;
+  const role = rateRole(result, r);
+  if (role === 'outcome') return `the outcome, as ${as}`;
+  if (role === 'explanatory') return `an explanatory column, as ${as}`;
   return 'not used (defined for this sheet, its tests and the local statistics)';
 }
 
@@ -119,8 +126,9 @@ function reading(result: AnalysisResult, r: RateResult): string {
     parts.push(`The rate-adjusted Moran’s I is ${say(eb.I)} (${sayP(pOf(eb))}).`);
   }
   parts.push(moranContrast(r));
-  const use = rateUse(result, r);
-  parts.push(use.startsWith('not used') ? 'The model does not use this rate.' : `The model uses it as ${use.replace(/, as its /, ': its ')}.`);
+  const role = rateRole(result, r);
+  parts.push(role === undefined ? 'The model does not use this rate.'
+    : `The model uses it as ${role === 'outcome' ? 'the outcome' : 'an explanatory column'}: its ${SMOOTHING_LABEL[r.smoothing]}.`);
   return parts.join(' ');
 }
 

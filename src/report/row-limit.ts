@@ -9,12 +9,10 @@
 import type { Block, ReportSheet } from './types.js';
 import { BLOCK_GAP, blockHeight, layoutBlocks } from './layout.js';
 import { formatCount } from '../core/count.js';
+import { MAX_SHEET_NAME } from './sheet-names.js';
 
 /** Rows in one worksheet. */
 export const SHEET_ROW_LIMIT = 1_048_576;
-/** Characters in a sheet name (the workbook writer's rule too). */
-const MAX_SHEET_NAME_CHARS = 31;
-
 type TableBlock = Extract<Block, { kind: 'table' }>;
 
 const count = formatCount;
@@ -22,7 +20,7 @@ const count = formatCount;
 /** "Neighbours, part 2", shortened to fit a sheet name. */
 export function partName(name: string, part: number): string {
   const suffix = `, part ${part}`;
-  return `${name.slice(0, MAX_SHEET_NAME_CHARS - suffix.length).trimEnd()}${suffix}`;
+  return `${name.slice(0, MAX_SHEET_NAME - suffix.length).trimEnd()}${suffix}`;
 }
 
 /** Where a piece of a table came from: the whole table's title and row count, and this piece's first row. */

@@ -1,15 +1,13 @@
 /** Results written as new sheets into a copy of the user's workbook (or a new one). Host-independent: bytes in, bytes out. */
 import ExcelJS from 'exceljs';
 import { InputError } from '../errors.js';
-import { SHEET_ROW_LIMIT, layoutBlocks, type Report } from '../report/index.js';
-import { uniqueSheetName } from './sheet-names.js';
+import { SHEET_ROW_LIMIT, layoutBlocks, uniqueSheetName, type Report } from '../report/index.js';
 import { ooxmlText } from './ooxml-text.js';
 import { writeSheet, type DeferredRows } from './write-sheet.js';
 import { STREAM_ROWS_ABOVE, streamDeferredRows, templateRowCount, type EntryDeflate } from './stream-rows.js';
 import { formatCount } from '../core/count.js';
 
-export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
-export { EXCEL_FORMAT, cellFormat } from './number-formats.js';
+export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME, EXCEL_FORMAT, cellFormat } from '../report/index.js';
 export { readWorkbook, type ReadSheet } from './read-back.js';
 export { baseWorkbookRisks } from './base-risks.js';
 export { ooxmlText } from './ooxml-text.js';

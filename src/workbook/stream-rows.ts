@@ -22,7 +22,7 @@ import type { DeferredRows } from './write-sheet.js';
 export const STREAM_ROWS_ABOVE = 5000;
 
 // 't': a number below 0.001 in size, which a four-decimal column shows in the general format
-// (number-formats.ts, cellFormat), so it needs a template cell, and a style, of its own
+// (src/report/number-formats.ts, cellFormat), so it needs a template cell, and a style, of its own
 type Kind = 'n' | 't' | 's' | 'b';
 
 /** The kind of XML cell a value becomes (null: no cell), as writeSheet's put() decides it. */

@@ -1,6 +1,5 @@
 import type ExcelJS from 'exceljs';
-import { planSheet, type Block, type Cell, type NumberFormat, type ReportSheet, type TablePlan } from '../report/index.js';
-import { cellFormat } from './number-formats.js';
+import { cellFormat, planSheet, type Block, type Cell, type NumberFormat, type ReportSheet, type TablePlan } from '../report/index.js';
 import { toBase64 } from './base64.js';
 
 const FACE = { name: 'Calibri', family: 2 } as const;

@@ -7,7 +7,7 @@ import { button, checkbox, clear, focusedIdIn, h, message, select } from '../dom
 import { joinProblemLines } from '../join-lines.js';
 import { pointsLayer } from '../table-profile.js';
 import type { CheckResult } from '../engine-protocol.js';
-import { formatCount } from '../../../src/core/count.js';
+import { formatCount } from '../../../src/core/index.js';
 import type { SidebarContext } from './context.js';
 import { boundaryId, checkSpec, type State } from './state.js';
 

@@ -3,7 +3,7 @@ import { clear, h, select } from '../dom.js';
 import type { TableSource } from '../host.js';
 import { profileTable } from '../table-profile.js';
 import type { SavedSetup } from '../types.js';
-import { formatCount } from '../../../src/core/count.js';
+import { formatCount } from '../../../src/core/index.js';
 import type { SidebarContext } from './context.js';
 
 export interface DataStep {

@@ -2,7 +2,7 @@
 import type { WeightsTransform } from '../../../src/weights/index.js';
 import { checkbox, clear, h, message, numberInput, select, some } from '../dom.js';
 import { EngineFailure } from '../engine-client.js';
-import { formatCount } from '../../../src/core/count.js';
+import { formatCount } from '../../../src/core/index.js';
 import type { SidebarContext } from './context.js';
 import type { Method } from './state.js';
 

@@ -15,6 +15,8 @@ export interface Classes {
   colours: string[];
   /** how the classes were formed, as the legend's closing sentence */
   method: string;
+  /** no finite value to class */
+  empty?: true;
 }
 
 /** Equal-width classes symmetric about zero, so zero always sits on a class edge. */
@@ -30,7 +32,7 @@ export function symmetricClasses(values: ArrayLike<number>): Classes {
 /** Quantile classes (about equal numbers of areas per class); tied edges are merged. */
 export function quantileClasses(values: ArrayLike<number>): Classes {
   const v = Array.from(values).filter(Number.isFinite).sort((a, b) => a - b);
-  if (v.length === 0) return { breaks: [0, 1], colours: [SEQUENTIAL[0]], method: 'No values' };
+  if (v.length === 0) return { breaks: [0, 1], colours: [SEQUENTIAL[0]], method: 'No values', empty: true };
   const k = SEQUENTIAL.length;
   const q = (p: number) => {
     // linear interpolation between order statistics (the usual sample quantile)

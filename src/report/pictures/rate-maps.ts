@@ -94,7 +94,7 @@ export function rateMapsSvg(input: RateMapsInput): Picture {
     yy += 20;
   }
   yy += 8;
-  const note = `The same classes in both maps: ${classes.method === 'no values' ? 'no values to class' : `${classes.method.replace('areas', 'areas by their raw rate')}`}. ` +
+  const note = `The same classes in both maps: ${classes.empty ? 'no values to class' : `${classes.method.replace('areas', 'areas by their raw rate')}`}. ` +
     'An area that changes colour from left to right was moved by smoothing.';
   for (const l of wrapWords(note, 36)) { body.push(text(lx, yy + 10, l, 'font-size="11" fill="#444444"')); yy += 14; }
   const width = lx + LEGEND_W;

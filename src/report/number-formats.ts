@@ -1,4 +1,4 @@
-import type { NumberFormat } from '../report/index.js';
+import type { NumberFormat } from './types.js';
 
 /** Excel number formats for the report's formats. Values stay full-precision numbers; only the display changes. */
 export const EXCEL_FORMAT: Record<NumberFormat, string> = {
