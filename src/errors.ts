@@ -50,12 +50,6 @@ export function nearestName(name: string, candidates: readonly string[]): string
   return best !== undefined && bestD <= limit && !tie ? best : undefined;
 }
 
-/** " Did you mean "X"?" when a near name exists, else "". */
-export function didYouMean(name: string, candidates: readonly string[]): string {
-  const near = nearestName(name, candidates);
-  return near === undefined ? '' : ` Did you mean "${near}"?`;
-}
-
 /** Levenshtein distance (insertions, deletions, substitutions), two rows of the usual table. */
 export function editDistance(a: string, b: string): number {
   if (a === b) return 0;

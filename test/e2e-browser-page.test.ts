@@ -373,7 +373,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(await page.getByText(/had more areas tied .*lowest row were taken/).count()).toBe(0);
     // a distance band starts from the data, in kilometres on longitude/latitude: the squares' centres are
     // 1° apart, each area's nearest is its east or west neighbour, and the longest such step is on the
-    // southern row, at 40.5°: 2 × 6371 km × asin(cos 40.5° × sin 0.5°) = 84.55 km (haversine, by hand),
+    // southern row, at 40.5°: 2 × 6371.0088 km × asin(cos 40.5° × sin 0.5°) = 84.55 km (haversine, by hand),
     // rounded up to two figures, 85 km
     await page.selectOption('#method', 'band');
     await page.getByText(/Every area has a neighbour from 84\.6 km; 85 km is that rounded up/).waitFor();

@@ -12,7 +12,6 @@ import { csrFromNeighbours } from './helpers/grid.js';
 // independent of the engine). Compared to 6 significant digits.
 // readGolden throws when the file is missing, so the comparisons fail rather than skip.
 const golden = readGolden();
-const describeGolden = describe;
 
 /** The engine's own neighbours on the Columbus shapefile (readBoundary, then buildWeights). */
 async function engineNeighbours(spec: WeightsSpec): Promise<number[][]> {
@@ -67,8 +66,8 @@ describe('Columbus OLS, published figures (recalled from memory)', () => {
 });
 
 for (const key of ['queen', 'knn4'] as const) {
-  describeGolden(`Columbus against the numpy/scipy reference (${key} weights)`, () => {
-    const g = key === 'queen' ? golden : golden?.knn4;
+  describe(`Columbus against the numpy/scipy reference (${key} weights)`, () => {
+    const g = key === 'queen' ? golden : golden.knn4;
     const setup = async () => {
       const { y, x } = await columbusData();
       const w = csrFromNeighbours(g.weights.neighbours, 'row');

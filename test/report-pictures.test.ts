@@ -94,7 +94,7 @@ describe('Moran scatter plot', () => {
 describe('maps', () => {
   it('draws a scale bar in kilometres for longitude/latitude and for metres, in map units only when the unit is unknown', () => {
     // the bar's length against the map's own extent: the 5 × 5 grid spans 5000 m, or 0.05° of latitude,
-    // which is 0.05 × 2π × 6371 / 360 km on a sphere of the Earth's mean radius (6371 km)
+    // which is 0.05 × 2π × 6371.0088 / 360 km on a sphere of the Earth's mean radius (6371.0088 km, IUGG R1; recalled from memory)
     const barAndFrame = (svg: string) => {
       const bar = /<path d="M12 [\d.]+V[\d.]+H([\d.]+)V/.exec(svg)!;
       const frame = /<rect x="0.5" y="40.5" width="([\d.]+)" height="([\d.]+)"/.exec(svg)!;
@@ -102,7 +102,7 @@ describe('maps', () => {
     };
     const cases = [
       { kind: 'projected' as const, unit: 'metre' as const, words: /1 km</, kmTall: 5 },
-      { kind: 'geographic' as const, unit: undefined, words: /1 km</, kmTall: (0.05 * 2 * Math.PI * 6371) / 360 },
+      { kind: 'geographic' as const, unit: undefined, words: /1 km</, kmTall: (0.05 * 2 * Math.PI * 6371.0088) / 360 },
       { kind: 'projected' as const, unit: undefined, words: /1,000 map units \(the file does not state its unit\)/, kmTall: 5 },
     ];
     for (const c of cases) {

@@ -3,7 +3,7 @@ import { buildWeights, roundUpTwoFigures, suggestBandDistance, summarizeWeights 
 import { haversineKm, lcg } from './fixtures/weights/shapes.js';
 
 // The suggested distance band is checked against brute force: every pair's distance computed
-// directly (Euclidean, or the haversine formula on a 6371 km sphere), the nearest other area of each
+// directly (Euclidean, or the haversine formula on a 6371.0088 km sphere), the nearest other area of each
 // area taken by a plain scan, and the largest of those distances rounded up by hand.
 
 function points(n: number, seed: number, scaleX: number, scaleY: number, offX = 0, offY = 0) {

@@ -120,13 +120,3 @@ export function readNumbers(cells: readonly CellValue[], offset: number, what: s
   }
   return out;
 }
-
-/** Size of a range as Excel would send it, as JSON text: a rough guide to the 5 MB limit on one request. */
-export function payloadBytes(range: Grid): number {
-  let bytes = 2;
-  for (const row of range) {
-    bytes += 2;
-    for (const c of row) bytes += (c === null || c === undefined ? 4 : typeof c === 'string' ? c.length + 2 : String(c).length) + 1;
-  }
-  return bytes;
-}

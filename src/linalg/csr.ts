@@ -150,13 +150,6 @@ export function traceOfSquare(a: CsrMatrix): number {
   return t;
 }
 
-/** tr AᵀA = Σ_ij a_ij². */
-export function frobeniusSquared(a: CsrMatrix): number {
-  let t = 0;
-  for (let p = 0; p < a.rowPtr[a.n]; p++) t += a.values[p] * a.values[p];
-  return t;
-}
-
 /** tr(WᵀW + WW), the constant T of the Lagrange-multiplier tests. */
 export function lmTrace(w: CsrMatrix): number {
   let sum = 0;

@@ -4,7 +4,7 @@
  */
 export {
   type CsrMatrix, csrMultiply, csrMultiplyTransposed, csrEntry, rowSums, isNonNegative, isRowStochastic,
-  maxAbsRowSum, transpose, isSymmetric, traceOf, traceOfSquare, frobeniusSquared, lmTrace, ROW_SUM_TOLERANCE,
+  maxAbsRowSum, transpose, isSymmetric, traceOf, traceOfSquare, lmTrace, ROW_SUM_TOLERANCE,
 } from './csr.js';
 export type { WeightsAlgebra, TracesAt } from './algebra.js';
 export type { LogDeterminant, AdmissibleRange } from './logdet.js';

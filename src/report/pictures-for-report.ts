@@ -20,12 +20,7 @@ export function scatterPoints(result: AnalysisResult): ScatterData & { withheld:
   };
 }
 
-/** The overview's pictures: maps of the outcome and of the plain regression's residuals, and the Moran scatter plot. */
-export function overviewPictures(result: AnalysisResult, firstRow: number, renderPng?: PngRenderer): ReportImage[] {
-  return placePictures(overviewPictureList(result), firstRow, renderPng);
-}
-
-/** The overview's pictures as SVG, before they are placed on the sheet. */
+/** The overview's pictures as SVG (maps of the outcome and of the plain regression's residuals, the Moran scatter plot), before they are placed on the sheet. */
 export function overviewPictureList(result: AnalysisResult): { name: string; pic: Picture }[] {
   const y = result.request.y;
   const pictures: { name: string; pic: Picture }[] = [];

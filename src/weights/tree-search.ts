@@ -5,8 +5,8 @@ import type KDBush from 'kdbush';
  * points and for all points within a radius, on the plane or on the sphere.
  *
  * Written here because kdbush has no nearest-neighbour query, and geokdbush's best-first queue
- * allocates an object per visited point and node: about 10 s of CPU for 90,000 areas on the
- * project's 2-core machines, against well under 1 s depth-first on the same tree.
+ * allocates an object per visited point and node, many times slower than depth-first on the same
+ * tree (bench/README.md, "Timings moved here from code comments").
  *
  * Planar keys are squared distances. Spherical keys are haversines of the central angle,
  * hav θ = chord² / 4 between unit vectors (monotone in great-circle distance, and free of trigonometry

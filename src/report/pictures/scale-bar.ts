@@ -2,9 +2,10 @@ import type { CoordinateKind } from '../../geo/types.js';
 import type { Frame } from './projection.js';
 import { c1, text } from './svg.js';
 import { formatCount } from '../../core/count.js';
+import { EARTH_RADIUS_KM } from '../../geo/index.js';
 
-/** Kilometres per degree of latitude on a sphere of the Earth's mean radius, 6371 km (2πR / 360). */
-const KM_PER_DEGREE = (2 * Math.PI * 6371) / 360;
+/** Kilometres per degree of latitude on the sphere the distances use (2πR / 360, R the mean Earth radius). */
+const KM_PER_DEGREE = (2 * Math.PI * EARTH_RADIUS_KM) / 360;
 const FEET_PER_MILE = 5280;
 
 /** A "nice" length (1, 2 or 5 × a power of ten) not longer than `max`. */
