@@ -161,3 +161,55 @@ describe('a definition that links the same neighbours as another is said once', 
     expect(section).toContain('"all areas within distance 1.2" links exactly the same neighbours as "rook contiguity" on these areas, so it gives the same figures; its row is not repeated.');
   });
 });
+
+describe('ties among nearest neighbours under a compared definition (#18 §2)', () => {
+  // A 9 × 9 lattice of unit squares: the centres' squared distances are whole numbers, so which areas
+  // the tie rule decided is counted here exactly, in integers (the lattice's geometry is the source).
+  const side = 9, n = side * side;
+  const col = (i: number) => i % side, rw = (i: number) => Math.floor(i / side);
+  const d2 = (i: number, j: number) => (col(i) - col(j)) ** 2 + (rw(i) - rw(j)) ** 2;
+  /** areas with more others at the k-th nearest distance than places left for them */
+  const decidedByTies = (k: number) => Array.from({ length: n }, (_, i) => i).filter((i) => {
+    const others = Array.from({ length: n }, (_, j) => j).filter((j) => j !== i).sort((a, b) => d2(i, a) - d2(i, b));
+    return others.filter((j) => d2(i, j) <= d2(i, others[k - 1])).length > k;
+  }).length;
+  const features = Array.from({ length: n }, (_, i) => {
+    const x = col(i), y = rw(i);
+    return {
+      type: 'Feature', properties: { cell: `L${i + 1}`, y: Math.sin(i) + x * 0.3 + ((i * 7) % 5) * 0.2, x: Math.cos(i * 1.7) + y * 0.1 },
+      geometry: { type: 'Polygon', coordinates: [[[x, y], [x + 1, y], [x + 1, y + 1], [x, y + 1], [x, y]]] },
+    };
+  });
+  const bytes = new TextEncoder().encode(JSON.stringify({ type: 'FeatureCollection', features }));
+
+  it('warns, as the run does for its own definition: how many areas, under which definition; in the warnings, the JSON and the comparison sheet', async () => {
+    const r = await runAnalysis({
+      boundary: [{ name: 'lattice.geojson', bytes }], coordinates: 'projected', id: 'cell', y: 'y', x: ['x'], weights: { method: 'queen' }, transform: 'row',
+      models: ['ols', 'lag'], permutations: 0, impactDraws: 20, compareWeights: [{ method: 'knn', k: 3 }, { method: 'knn', k: 3, ties: 'include' }],
+    });
+    const [own, lower, include] = r.comparison!;
+    expect(own.tiesWarning).toBeUndefined(); // contiguity has no ties to decide
+    const want = decidedByTies(3);
+    expect(want).toBeGreaterThan(0);
+    expect(lower.tiesDecided).toBe(want);
+    expect(include.tiesDecided).toBe(want);
+    expect(lower.tiesWarning).toMatch(new RegExp(`^${want} area\\(s\\) had more areas tied at the k-th nearest distance.*lowest row were taken`));
+    expect(include.tiesWarning).toMatch(/every tied area was made a neighbour/);
+    // the run's warnings name the compared definition, as they name the run's own ties
+    const said = r.warnings.filter((w) => /tied at the k-th nearest distance/.test(w));
+    expect(said).toEqual([`Under the compared definition "${lower.label}": ${lower.tiesWarning}`, `Under the compared definition "${include.label}": ${include.tiesWarning}`]);
+    expect((resultToJson(r) as { comparison: { tiesDecided?: number }[] }).comparison.map((c) => c.tiesDecided)).toEqual([undefined, want, want]);
+    const sheet = buildReport(r).sheets.find((s) => s.role === 'comparison')!;
+    const notes = sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text);
+    expect(notes).toContain(`Under ${lower.label}: ${lower.tiesWarning}`);
+  });
+
+  it('the run\'s own k-nearest definition carries its tie count in the first row too (and is warned of once)', async () => {
+    const r = await runAnalysis({
+      boundary: [{ name: 'lattice.geojson', bytes }], coordinates: 'projected', id: 'cell', y: 'y', x: ['x'], weights: { method: 'knn', k: 4 }, transform: 'row',
+      models: ['ols', 'lag'], permutations: 0, impactDraws: 20, compareWeights: [{ method: 'queen' }],
+    });
+    expect(r.comparison![0].tiesDecided).toBe(decidedByTies(4));
+    expect(r.warnings.filter((w) => /tied at the k-th nearest distance/.test(w))).toHaveLength(1);
+  });
+});

@@ -4,7 +4,7 @@
  * by side. The plain regression does not depend on the neighbours and is fitted once.
  */
 import type { JoinedAreas } from '../geo/types.js';
-import { buildWeights, describeRule, summarizeWeights } from '../weights/index.js';
+import { buildWeights, describeRule, summarizeWeights, tieWarning } from '../weights/index.js';
 import type { SpatialWeights, WeightsSpec, WeightsSummary, WeightsTransform } from '../weights/types.js';
 import type { StartHelperThread } from '../linalg/index.js';
 import { fittedInOrder, type FittedModels, type ModelKey } from '../models/index.js';
@@ -68,8 +68,13 @@ export interface OwnFigures {
   lm: LmTests;
   recommendation: Recommendation;
   fits: FittedModels;
-  /** the run's weights, so that an alternative linking the same neighbours is recognised */
-  weights?: Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
+  /** the run's weights, so that an alternative linking the same neighbours is recognised (and ties among nearest neighbours reported) */
+  weights?: Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values' | 'tiesDecided'>;
+}
+
+/** The row's note when the tie rule decided some areas' nearest neighbours (the run warns of its own the same way). */
+function ties(w: Pick<SpatialWeights, 'tiesDecided'> | undefined, spec: OwnFigures['spec']): Pick<WeightsComparison, 'tiesDecided' | 'tiesWarning'> {
+  return w?.tiesDecided ? { tiesDecided: w.tiesDecided, tiesWarning: tieWarning(w.tiesDecided, spec) } : {};
 }
 
 type Links = Pick<SpatialWeights, 'rowPtr' | 'colIdx' | 'values'>;
@@ -86,7 +91,7 @@ function sameLinks(a: Links, b: Links): boolean {
 
 /** One row per definition: the run's own first, then each alternative refitted. */
 export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx: CompareContext): WeightsComparison[] {
-  const rows: WeightsComparison[] = [rowOf(describeRule(own.spec), true, own)];
+  const rows: WeightsComparison[] = [{ ...rowOf(describeRule(own.spec), true, own), ...ties(own.weights, own.spec) }];
   const built: { links: Links; row: number }[] = own.weights ? [{ links: own.weights, row: 0 }] : [];
   const { points } = ctx;
   for (const spec of alternatives) {
@@ -105,8 +110,8 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
     // a rule that links exactly the same neighbours (queen and rook on a grid of irregular areas often do) gives the same figures
     const twin = built.find((b) => sameLinks(b.links, w));
     if (twin) {
-      const first = rows[twin.row];
-      rows.push({ ...first, label: describeRule(spec), description: w.description, asRun: false, sameAs: first.label });
+      const { tiesDecided: _d, tiesWarning: _t, ...first } = rows[twin.row];
+      rows.push({ ...first, label: describeRule(spec), description: w.description, asRun: false, sameAs: first.label, ...ties(w, spec) });
       continue;
     }
     built.push({ links: w, row: rows.length });
@@ -115,10 +120,10 @@ export function compareWeights(own: OwnFigures, alternatives: WeightsSpec[], ctx
       found = fitUnderWeights(ctx.base, w, ctx.models, { points, method: ctx.method, helper: ctx.helper, robust: ctx.robust, seed: ctx.seed, impactDraws: ctx.impactDraws });
     } catch (e) {
       // so is one under which a model cannot be estimated (no bounded range, no finite likelihood)
-      if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), description: w.description, failed: e.message }); continue; }
+      if (e instanceof InputError) { rows.push({ ...emptyRow(describeRule(spec)), description: w.description, failed: e.message, ...ties(w, spec) }); continue; }
       throw e;
     }
-    rows.push(rowOf(describeRule(spec), false, { spec, description: w.description, summary: summarizeWeights(w), ...found }));
+    rows.push({ ...rowOf(describeRule(spec), false, { spec, description: w.description, summary: summarizeWeights(w), ...found }), ...ties(w, spec) });
   }
   return rows;
 }

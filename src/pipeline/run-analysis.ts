@@ -140,7 +140,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     ...(comparison ? { comparison: comparison.rows } : {}),
     ...(localResult ? { local: localResult } : {}),
     ...(rates ? { rates } : {}),
-    warnings: runWarnings(request, { joined, shapes: areaShapeWarnings(joined, points, areas.boundaryName), dropped, w, summary, fits: own.fits, permutations, n: y.length }),
+    warnings: runWarnings(request, { joined, shapes: areaShapeWarnings(joined, points, areas.boundaryName), dropped, w, summary, fits: own.fits, permutations, n: y.length, comparison: comparison?.rows }),
     timings,
   };
 }
@@ -192,6 +192,7 @@ function runWarnings(
   r: {
     joined: { warnings: string[] }; shapes: string[]; dropped: { row: number }[]; w: SpatialWeights;
     summary: ReturnType<typeof summarizeWeights>; fits: FittedModels; permutations: number; n: number;
+    comparison?: NonNullable<AnalysisResult['comparison']>;
   },
 ): string[] {
   const { summary, w, dropped } = r;
@@ -202,6 +203,8 @@ function runWarnings(
     warnings.push(`${formatCount(summary.withoutNeighbours.length)} area(s) have no neighbours (${summary.withoutNeighbours.slice(0, 10).join(', ')}${summary.withoutNeighbours.length > 10 ? ', …' : ''}); their spatial lag is 0.`);
   }
   if (w.tiesDecided) warnings.push(tieWarning(w.tiesDecided, w.spec));
+  // the compared definitions' ties too: their figures stand beside the run's (#18 §2)
+  for (const c of r.comparison ?? []) if (!c.asRun && c.tiesWarning) warnings.push(`Under the compared definition "${c.label}": ${c.tiesWarning}`);
   if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && r.permutations === 0) {
     warnings.push(`With ${formatCount(r.n)} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);

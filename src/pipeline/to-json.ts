@@ -80,6 +80,7 @@ export function resultToJson(r: AnalysisResult, opts: { perArea?: boolean } = {}
       return {
         label: c.label, description: c.description, asRun: c.asRun, links: c.links, meanNeighbours: c.meanNeighbours, withoutNeighbours: c.withoutNeighbours, components: c.components,
         moran: c.moran, lmP: c.lmP, suggestion: c.suggestion, ...(c.borderline ? { borderline: true } : {}), ...(c.sameAs ? { sameAs: c.sameAs } : {}),
+        ...(c.tiesDecided ? { tiesDecided: c.tiesDecided } : {}),
         ...Object.fromEntries(spatial.map((m) => [m.key, fit(fits[m.key], m)])),
         ...(atTop ? { impacts: fits[atTop.key]!.impacts!.map((i) => ({ ...i })) } : {}),
         ...(c.failed ? { failed: c.failed } : {}),

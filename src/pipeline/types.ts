@@ -171,6 +171,10 @@ export interface WeightsComparison {
   borderline?: boolean;
   /** this definition links exactly the same neighbours as the earlier one named here: its figures are that one's */
   sameAs?: string;
+  /** k-nearest neighbours: how many areas had their neighbours decided by the tie rule (more areas at the k-th distance than places left) */
+  tiesDecided?: number;
+  /** the warning that says so, as the run gives for its own definition */
+  tiesWarning?: string;
   /** the spatial models under this definition, by registry key */
   fits: { [K in ModelKey]?: ComparedFit };
   failed?: string;

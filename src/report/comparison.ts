@@ -115,6 +115,8 @@ export function comparisonBlocks(result: AnalysisResult): Block[] {
     blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${sayList(unsettled.map((r) => r.label))} a model's search stopped early or at an end of the admissible range; read those figures with care.` });
   }
   for (const r of rows.filter((x) => x.failed)) blocks.push({ kind: 'paragraph', style: 'note', text: `${capital(r.label)} could not be built: ${r.failed}` });
+  // ties deciding nearest neighbours, for each definition where they did (the run's own is among the warnings too)
+  for (const r of all.filter((x) => x.tiesWarning)) blocks.push({ kind: 'paragraph', style: 'note', text: `Under ${r.label}${r.asRun ? ' (this run)' : ''}: ${r.tiesWarning}` });
   blocks.push({ kind: 'keyValues', title: 'The definitions in full', rows: all.map((r): [string, Cell, 'text'] => [name(r), r.description, 'text']) });
   blocks.push({
     kind: 'paragraph', style: 'caution',
