@@ -2,7 +2,9 @@
 // tr(I − ρW)⁻¹ from one curve built from a handful of factorisations, not from n solves per draw.
 // Checked on the 500-plot wheat trial (test/fixtures/wheat, knn:4, row-standardised) against
 // ml-matrix's dense inverse (tr(I − ρW)⁻¹ at three ρ) and against the same draws with exact traces
-// recomputed at every draw (the former route).
+// recomputed at every draw (the former route). Binary (not row-standardised) k-nearest weights,
+// where 1'(I − ρW)⁻¹1/n is no longer 1/(1 − ρ), against the same dense inverse: direct = β·mean of
+// its diagonal, total = β·mean of its row sums (LeSage & Pace 2009, §2.7).
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { Matrix, inverse } from 'ml-matrix';
@@ -12,6 +14,7 @@ import { readBoundary, representativePoints } from '../src/geo/index.js';
 import { buildWeights } from '../src/weights/index.js';
 import { fitSpatialLag } from '../src/models/ml-lag.js';
 import { lagImpacts } from '../src/models/impacts.js';
+import { seededRandom } from '../src/linalg/random.js';
 
 describe('k-nearest impacts on the 500 wheat plots', async () => {
   const dir = new URL('./fixtures/wheat/', import.meta.url);
@@ -82,4 +85,53 @@ describe('the draws\' curve where traces are estimated (large n)', () => {
       expect(Math.abs(got - want)).toBeLessThan(0.12 * Math.abs(want));
     }
   });
+});
+
+describe('impacts on binary k-nearest-neighbour weights (rows not summing to one)', () => {
+  // random points in the unit square, 4 nearest neighbours, binary: W ≥ 0 with row sums 4, so
+  // |ρ| < 1/4 is inside the range; y = (I − 0.15W)⁻¹(1 + 2x₁ − x₂ + e) by ml-matrix's inverse
+  for (const n of [120, 400]) {
+    it(`${n} areas (${n <= 150 ? 'dense eigenvalues' : 'sparse LU'}): direct and total agree with ml-matrix's dense inverse, and the draws give standard errors`, () => {
+      const u = seededRandom(n);
+      const normal = () => Math.sqrt(-2 * Math.log(u() + 1e-300)) * Math.cos(2 * Math.PI * u());
+      const px = Float64Array.from({ length: n }, () => u()), py = Float64Array.from({ length: n }, () => u());
+      const geometries = Array.from({ length: n }, (_, i) => ({ kind: 'point' as const, point: [px[i], py[i]] as [number, number] }));
+      const w = buildWeights({ ids: Array.from({ length: n }, (_, i) => `A${i}`), geometries, coordinates: 'projected', points: { x: px, y: py } }, { method: 'knn', k: 4 }, { transform: 'binary' });
+      const W = Matrix.zeros(n, n);
+      for (let i = 0; i < n; i++) for (let p = w.rowPtr[i]; p < w.rowPtr[i + 1]; p++) W.set(i, w.colIdx[p], w.values[p]);
+      expect(W.getRow(0).reduce((a, b) => a + b, 0)).toBe(4);
+      const x1 = new Float64Array(n).map(normal), x2 = new Float64Array(n).map(normal);
+      const e = Matrix.columnVector(Array.from({ length: n }, (_, i) => 1 + 2 * x1[i] - x2[i] + normal()));
+      const y = Float64Array.from(inverse(Matrix.eye(n).sub(W.clone().mul(0.15))).mmul(e).getColumn(0));
+      const design = { names: ['constant', 'x1', 'x2'], columns: [new Float64Array(n).fill(1), x1, x2], intercept: 0 };
+      const algebra = chooseAlgebra(w, null, { coordinates: { x: px, y: py } });
+      expect(algebra.logdet.method).toMatch(n <= 150 ? /eigenvalues/ : /sparse LU/);
+      const fit = fitSpatialLag(y, design, algebra);
+      const rho = fit.parameter;
+      expect(Math.abs(rho - 0.15)).toBeLessThan(0.1);
+      const result = lagImpacts(fit, design, algebra, { draws: 200, seed: 11 });
+      // the reference: (I − ρ̂W)⁻¹ formed densely (a check, so the inverse is formed here)
+      const Ainv = inverse(Matrix.eye(n).sub(W.clone().mul(rho)));
+      const meanDiag = Ainv.trace() / n;
+      const meanRowSum = Ainv.sum() / n;
+      expect(Math.abs(meanRowSum - 1 / (1 - rho))).toBeGreaterThan(0.1); // rows of W sum to 4: 1/(1 − ρ) would be wrong
+      expect(result.impacts.map((m) => m.name)).toEqual(['x1', 'x2']);
+      result.impacts.forEach((m, c) => {
+        const beta = fit.coefficients[c + 1].estimate;
+        expect(Math.abs(m.direct - beta * meanDiag)).toBeLessThan(1e-8 * Math.abs(beta * meanDiag));
+        expect(Math.abs(m.total - beta * meanRowSum)).toBeLessThan(1e-8 * Math.abs(beta * meanRowSum));
+        expect(Math.abs(m.indirect - beta * (meanRowSum - meanDiag))).toBeLessThan(1e-7 * Math.abs(beta * (meanRowSum - meanDiag)));
+        for (const se of [m.directSe, m.indirectSe, m.totalSe]) expect(Number.isFinite(se) && se > 0).toBe(true);
+      });
+      expect(result.draws).toBe(200);
+      expect(result.warnings ?? []).toEqual([]);
+      // the same draws with tr(I − ρW)⁻¹ from the algebra at each draw's ρ (no curve): the same standard errors
+      const perDraw: WeightsAlgebra = Object.assign(Object.create(algebra) as WeightsAlgebra, { traceInverseCurve: undefined });
+      const fast = lagImpacts(fit, design, algebra, { draws: 40, seed: 11 });
+      const slow = lagImpacts(fit, design, perDraw, { draws: 40, seed: 11 });
+      fast.impacts.forEach((m, c) => {
+        for (const key of ['directSe', 'indirectSe', 'totalSe'] as const) expect(Math.abs(m[key] - slow.impacts[c][key])).toBeLessThan(1e-6 * slow.impacts[c][key]);
+      });
+    });
+  }
 });
