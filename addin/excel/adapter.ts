@@ -10,7 +10,7 @@ import { uniqueSheetName, type PagePlan, type Report, type ReportImage, type Rep
 import type { BoundaryFile, RunOutput, SavedSetup, ScatterPoints, SheetValue, TableSnapshot } from '../shared/types.js';
 import type { ContextLike, CustomXmlPartLike, ExcelRunner, RangeLike, WorksheetLike } from './api.js';
 import { RequestBudget, readRows, writeRows } from './blocks.js';
-import { BOUNDARY_NAMESPACE, BoundaryNotKept, boundaryParts, readBoundaryParts } from './boundary-part.js';
+import { BOUNDARY_NAMESPACE, BoundaryNotKept, StoredBoundaryDamaged, boundaryParts, readBoundaryParts } from './boundary-part.js';
 import { describe, isCellEditError, jsonBytes } from './limits.js';
 import { hasExcelApi, type IsSetSupported } from './run.js';
 import { address, columnLeft, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
@@ -232,7 +232,7 @@ export class ExcelAdapter {
       files = readBoundaryParts(xmls);
     } catch (e) {
       // the reader's own messages name the file; a decoder's do not
-      if (e instanceof Error && /boundary file/.test(e.message)) throw e;
+      if (e instanceof StoredBoundaryDamaged) throw e;
       throw new Error(`The boundary file kept in this workbook is damaged (${describe(e)}); open the original file again.`);
     }
     return files.length ? files : null;

@@ -49,6 +49,14 @@ export class BoundaryNotKept extends Error {
   }
 }
 
+/** The kept boundary is incomplete or damaged: the message names the file and what to do. */
+export class StoredBoundaryDamaged extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'StoredBoundaryDamaged';
+  }
+}
+
 /**
  * The XML of every part of one stored set. `set` names the set (a time stamp by default); throws
  * BoundaryNotKept when the encoded files pass `maxChars`.
@@ -112,22 +120,22 @@ export function readBoundaryParts(xmls: readonly string[]): BoundaryFile[] {
     .sort(([a], [b]) => (a.length - b.length) || (a < b ? -1 : a > b ? 1 : 0));
   if (!complete.length) {
     const [, parts] = [...sets.entries()][0];
-    throw new Error(`The boundary file kept in this workbook is incomplete (${formatCount(parts.length)} of ${formatCount(parts[0].parts)} parts found); open the original file again.`);
+    throw new StoredBoundaryDamaged(`The boundary file kept in this workbook is incomplete (${formatCount(parts.length)} of ${formatCount(parts[0].parts)} parts found); open the original file again.`);
   }
   const parts = complete[complete.length - 1][1].sort((a, b) => a.part - b.part);
   const files: BoundaryFile[] = [];
   let pending: { name: string; size: number; pieces: number; texts: string[] } | null = null;
   const finish = () => {
     if (!pending) return;
-    if (pending.texts.length !== pending.pieces) throw new Error(`The stored boundary file ${pending.name} is damaged; open the original file again.`);
+    if (pending.texts.length !== pending.pieces) throw new StoredBoundaryDamaged(`The stored boundary file ${pending.name} is damaged; open the original file again.`);
     const bytes = inflateSync(fromBase64(pending.texts.join('')));
-    if (bytes.length !== pending.size) throw new Error(`The stored boundary file ${pending.name} is damaged; open the original file again.`);
+    if (bytes.length !== pending.size) throw new StoredBoundaryDamaged(`The stored boundary file ${pending.name} is damaged; open the original file again.`);
     files.push({ name: pending.name, bytes });
     pending = null;
   };
   for (const f of parts.flatMap((p) => p.files)) {
     if (f.piece === 1) { finish(); pending = { name: f.name, size: f.size, pieces: f.pieces, texts: [] }; }
-    if (!pending || pending.name !== f.name || f.piece !== pending.texts.length + 1) throw new Error(`The stored boundary file ${f.name} is damaged; open the original file again.`);
+    if (!pending || pending.name !== f.name || f.piece !== pending.texts.length + 1) throw new StoredBoundaryDamaged(`The stored boundary file ${f.name} is damaged; open the original file again.`);
     pending.texts.push(f.text);
   }
   finish();
