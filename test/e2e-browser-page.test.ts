@@ -460,7 +460,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.selectOption('#y-column', 'falls_per_1000');
     // the rate's own counts as explanatory columns: known from the recipe, and said
     await page.click('#x-residents_70plus');
-    await page.getByText(/residents_70plus looks like the denominator of the rate falls_per_1000 \(falls_per_1000 is built above as fall_admissions per 1,000 residents_70plus\)/).waitFor();
+    await page.getByText(/residents_70plus looks like the denominator of the rate falls_per_1000 \(falls_per_1000 is built as fall_admissions per 1,000 residents_70plus\)/).waitFor();
     await expectAccessible('the rate builder');
     await page.click('#x-residents_70plus');
     await page.click('#x-broadband_pct');
