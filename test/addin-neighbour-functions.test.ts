@@ -77,6 +77,16 @@ describe('SPILL.NEIGHBOURS: neighbours from coordinate columns', () => {
     expect(() => neighbourRowsFromPoints(ids, lon, lat, 'within', 111.1, 'degrees')).toThrow(/closest pair is 111\.195 km apart/);
   });
 
+  it('"link unneighboured" links an area with no neighbour within the band to its nearest area (a town 8 degrees from the rest)', () => {
+    const ids: Grid = [['E0'], ['E1'], ['E2'], ['E10']];
+    const lon: Grid = [[0], [1], [2], [10]];
+    const lat: Grid = [[0], [0], [0], [0]];
+    const rows = neighbourRowsFromPoints(ids, lon, lat, 'within', 111.3, 'degrees, binary, link unneighboured');
+    // E0–E1 and E1–E2 both ways, and E10 joined to its nearest town E2 (both ways, so the links stay symmetric)
+    expect(rows.slice(1).map((r) => `${r[0]}-${r[1]}`).sort()).toEqual(['E0-E1', 'E1-E0', 'E1-E2', 'E10-E2', 'E2-E1', 'E2-E10']);
+    expect(() => neighbourRowsFromPoints(ids, lon, lat, 'within', 111.3, 'degrees, link islands')).toThrow(/it knows .*link unneighboured/);
+  });
+
   it('refuses bad input in words that name the cell or the option', async () => {
     const c = await columbus();
     const holed = c.x.map((r) => [...r]);
@@ -105,6 +115,19 @@ describe('SPILL.TOUCHING: neighbours by shared borders from the kept boundary fi
     const kept = new Set(c.ids.slice(0, 10));
     for (const [o, d] of rows.slice(1)) { expect(kept.has(String(o))).toBe(true); expect(kept.has(String(d))).toBe(true); }
     expect(rows[1][0]).toBe(c.ids[9]);
+  });
+
+  it('"order=2" links the areas exactly two steps away, "order=2, cumulative" those one or two steps away (breadth-first search over the reference neighbours)', async () => {
+    const c = await columbus();
+    const first: number[][] = golden.weights.neighbours;
+    // areas exactly two steps away: a neighbour's neighbour, not the area itself nor one of its own neighbours
+    const two = first.map((ns, i) => [...new Set(ns.flatMap((j) => first[j]))].filter((j) => j !== i && !ns.includes(j)).sort((a, b) => a - b));
+    const exact = await contiguityRows(files, c.idRange, 'queen', 'POLYID', 'order=2, binary');
+    expect(sets(exact, c.ids)).toEqual(two);
+    const upTo = await contiguityRows(files, c.idRange, 'queen', 'POLYID', 'order=2, cumulative');
+    expect(sets(upTo, c.ids)).toEqual(first.map((ns, i) => [...ns, ...two[i]].sort((a, b) => a - b)));
+    await expect(contiguityRows(files, c.idRange, 'queen', 'POLYID', 'cumulative')).rejects.toThrow(/"cumulative" goes with "order=K"/);
+    await expect(contiguityRows(files, c.idRange, 'queen', 'POLYID', 'link islands')).rejects.toThrow(/not one this function knows; it knows .*link unneighboured/);
   });
 
   it('says what to do when the workbook keeps no boundary file, an ID is not in it, or several properties hold the IDs', async () => {

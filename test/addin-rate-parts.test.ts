@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readBoundary } from '../src/geo/index.js';
 import { nameWords, rateParts } from '../addin/shared/rate-parts.js';
 import type { TableSnapshot } from '../addin/shared/types.js';
+import { parseRateRecipe, runAnalysis } from '../src/pipeline/index.js';
 
 async function counties(decimalsOfRate: number): Promise<TableSnapshot> {
   const files = ['sids.shp', 'sids.dbf', 'sids.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(new URL(`./fixtures/sids/${name}`, import.meta.url))) }));
@@ -53,5 +54,42 @@ describe('explanatory columns that make up the outcome', () => {
   it('splits names into words (snake case, camel case, trailing digits)', () => {
     expect(nameWords('birthRate_1000')).toEqual(['birth', 'rate', '1000']);
     expect(nameWords('SID74')).toEqual(['sid', '74']);
+  });
+});
+
+// The check lives in the engine (src/pipeline/rate-parts.ts): every run, whatever its front end,
+// carries the finding in its warnings, and the command line prints it.
+describe('every run warns, not only the sidebar', () => {
+  async function csv(): Promise<{ name: string; bytes: Uint8Array }> {
+    const t = await counties(2);
+    const lines = [t.headers.join(','), ...t.rows.map((r) => r.map((c) => (typeof c === 'string' && c.includes(',') ? `"${c}"` : String(c))).join(','))];
+    return { name: 'counties.csv', bytes: new TextEncoder().encode(lines.join('\n')) };
+  }
+  const boundary = ['sids.shp', 'sids.dbf', 'sids.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(new URL(`./fixtures/sids/${name}`, import.meta.url))) }));
+
+  it('a rate column explained by its own denominator: the run names the column and the formula found in the values', async () => {
+    const r = await runAnalysis({
+      boundary, data: await csv(), id: 'FIPS', y: 'sids_per_1000', x: ['BIR74', 'east'],
+      weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+    });
+    const found = r.warnings.filter((w) => /looks like the/.test(w));
+    expect(found).toHaveLength(1);
+    expect(found[0]).toMatch(/^BIR74 looks like the denominator of the rate sids_per_1000 \(sids_per_1000 = 1000 × SID74 \/ BIR74 in \d+ of 100 rows\)/);
+  });
+
+  it('a rate built by the request (--rate) explained by its own events column: known, not guessed', async () => {
+    const r = await runAnalysis({
+      boundary, id: 'FIPS', y: 'sids', x: ['SID74', 'east'], rates: { recipes: [parseRateRecipe('sids=SID74/BIR74')] },
+      weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+    });
+    expect(r.warnings.filter((w) => /looks like the/.test(w))).toEqual([expect.stringMatching(/^SID74 looks like the numerator of the rate sids \(sids is built as SID74 per 1,000 BIR74\)/)]);
+  });
+
+  it('says nothing when no explanatory column is one of the rate’s counts', async () => {
+    const r = await runAnalysis({
+      boundary, data: await csv(), id: 'FIPS', y: 'sids_per_1000', x: ['NWBIR74', 'east'],
+      weights: { method: 'queen' }, transform: 'row', models: ['ols'], permutations: 0,
+    });
+    expect(r.warnings.some((w) => /looks like the/.test(w))).toBe(false);
   });
 });

@@ -90,6 +90,16 @@ describe('spillway fit on the Columbus neighbourhood data (Anselin 1988)', () =>
     // project rule: the readable summary carries the cautions (README, Cautions)
     expect(r.stdout).toMatch(/Plain regression/);
     expect(r.stdout).toMatch(/not proof of cause/);
+    // the plain regression's fit figures in the workbook's two groups, in our own order (issue 11, §5)
+    const fits = r.stdout.match(/How well it fits: R² ([\d.]+), adjusted for the number of terms [\d.]+; residual variance ([\d.]+) \(divided by n − k = 46\); F [\d.]+ on 2 and 46 degrees of freedom/);
+    expect(fits, r.stdout).not.toBeNull();
+    expect(Number(fits![1])).toBeCloseTo(0.5524, 4); // R² 0.5524 (Anselin 1988; recalled from memory)
+    expect(r.stdout).toMatch(/For comparing models: log-likelihood −\d+(\.\d+)?; AIC \d+(\.\d+)?; BIC \d+(\.\d+)?/);
+    expect(r.stdout.indexOf('How well it fits')).toBeLessThan(r.stdout.indexOf('For comparing models'));
+    // the maximum-likelihood variance as a note: identity σ²(ML) = σ²(n − k) · (n − k) / n
+    const ml = r.stdout.match(/maximum-likelihood residual variance \(divided by n = 49\) is ([\d.]+)/);
+    expect(ml, r.stdout).not.toBeNull();
+    expect(Number(ml![1]) / (Number(fits![2]) * 46 / 49)).toBeCloseTo(1, 3);
   });
 });
 

@@ -326,6 +326,27 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.getByText(/150 matched to rows by district_id \(called map_code in the boundary file\)/).waitFor();
     expect(await page.inputValue('#boundary-id')).toBe('map_code');
     await page.getByText(/Chosen by itself: the property holding the most of district_id's IDs/).waitFor();
+    // another boundary file: its ID property is chosen afresh, not the last file's map_code (which it lacks)
+    const again = join(out, 'districts-renamed-again.geojson');
+    writeFileSync(again, readFileSync(GEOJSON, 'utf8').replaceAll('"district_id":', '"zone_ref":'));
+    await page.setInputFiles('#boundary-file', again);
+    await page.getByText(/150 matched to rows by district_id \(called zone_ref in the boundary file\)/).waitFor();
+    expect(await page.inputValue('#boundary-id')).toBe('zone_ref');
+    // an optional names column beside the IDs, none by default, the ID column not offered
+    expect(await page.inputValue('#label-column')).toBe('');
+    const labels = await page.locator('#label-column option').allTextContents();
+    expect(labels[0]).toBe('(none)');
+    expect(labels).not.toContain('district_id');
+    // two or more steps away: "every area up to K steps away" is a tick box of its own
+    await page.selectOption('#method', 'queen');
+    expect(await page.locator('#cumulative').count()).toBe(0);
+    await page.fill('#order', '2');
+    await page.locator('#order').dispatchEvent('change');
+    await page.locator('label[for="cumulative"]').filter({ hasText: 'Every area up to 2 steps away (otherwise exactly 2 steps away)' }).waitFor();
+    await expectAccessible('neighbours two steps away');
+    await page.fill('#order', '1');
+    await page.locator('#order').dispatchEvent('change');
+    expect(await page.locator('#cumulative').count()).toBe(0);
   });
 
   it('builds neighbours from coordinate columns (the Vell Basin villages, 5 nearest)', async () => {
@@ -460,7 +481,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.selectOption('#y-column', 'falls_per_1000');
     // the rate's own counts as explanatory columns: known from the recipe, and said
     await page.click('#x-residents_70plus');
-    await page.getByText(/residents_70plus looks like the denominator of the rate falls_per_1000 \(falls_per_1000 is built above as fall_admissions per 1,000 residents_70plus\)/).waitFor();
+    await page.getByText(/residents_70plus looks like the denominator of the rate falls_per_1000 \(falls_per_1000 is built as fall_admissions per 1,000 residents_70plus\)/).waitFor();
     await expectAccessible('the rate builder');
     await page.click('#x-residents_70plus');
     await page.click('#x-broadband_pct');

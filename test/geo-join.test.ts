@@ -124,7 +124,7 @@ describe('joinAreas', () => {
     // the table has the column; the boundary file holds the same IDs under "zone"
     const m = joinFailure(() => joinAreas(layer, t, 'FIPS')).message;
     expect(m).toMatch(/zones\.geojson has no property "FIPS" to join by; its properties are "zone", "size"\./);
-    expect(m).toMatch(/Its property "zone" holds 2 of the 2 IDs in t\.csv's "FIPS": name it as the boundary file's ID \(--boundary-id zone\)/);
+    expect(m).toMatch(/Its property "zone" holds 2 of the 2 IDs in t\.csv's "FIPS": name it as the boundary file's ID \(--boundary-id zone; in the sidebar, "ID in the boundary file" under Areas\)/);
     // a misspelt --boundary-id
     expect(joinFailure(() => joinAreas(layer, t, 'FIPS', { featureIdProperty: 'zome' })).message).toMatch(/no property "zome" to join by; did you mean "zone"\? .*--boundary-id zone/);
     // nothing near: no guess

@@ -18,7 +18,7 @@ declare const Excel: { run<T>(batch: (context: unknown) => Promise<T>): Promise<
  * @param y The up coordinate of each area (northing, or latitude with "degrees"), in the same rows.
  * @param [rule] "nearest" (the k nearest areas, the default), "within" (every area within a distance) or "inverse" (inverse-distance weights).
  * @param [size] For "nearest" how many (default 6); for "within" the distance (required); for "inverse" the power (default 1). Distances are in the coordinates' units, or km with "degrees".
- * @param [options] Words separated by commas: "degrees" (longitude/latitude, great-circle km), "binary" (every link weighs 1; by default each area's weights sum to 1), "ties" (keep every area tied at the k-th distance), "link islands", "cutoff=D" (reach of inverse distance).
+ * @param [options] Words separated by commas: "degrees" (longitude/latitude, great-circle km), "binary" (every link weighs 1; by default each area's weights sum to 1), "ties" (keep every area tied at the k-th distance), "link unneighboured" (link an area with no neighbour to its nearest area), "cutoff=D" (reach of inverse distance).
  * @returns A header row, then origin ID, neighbour ID and weight per link.
  */
 export function neighbours(ids: any[][], x: any[][], y: any[][], rule?: string, size?: number, options?: string): any[][] {
@@ -30,7 +30,7 @@ export function neighbours(ids: any[][], x: any[][], y: any[][], rule?: string, 
  * @customfunction TOUCHING
  * @param ids The area IDs, one per row (a whole column such as A:A works). Only these areas are linked, in this order.
  * @param [rule] "queen" (a shared border or corner, the default) or "rook" (a shared stretch of border).
- * @param [options] Words separated by commas: "binary" (every link weighs 1; by default each area's weights sum to 1), "order=2" (neighbours of neighbours too), "link islands" (link an area with no neighbour to its nearest area).
+ * @param [options] Words separated by commas: "binary" (every link weighs 1; by default each area's weights sum to 1), "order=2" (areas exactly two steps away: neighbours of neighbours that are not neighbours themselves; any order up to 10), "cumulative" (with order=K, every area up to K steps away, e.g. "order=2, cumulative"), "link unneighboured" (link an area with no neighbour to its nearest area).
  * @param [idProperty] The boundary file's property holding the IDs; by default the one the sidebar used, else the only property that holds them all.
  * @returns A header row, then origin ID, neighbour ID and weight per link.
  */

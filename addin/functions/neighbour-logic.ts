@@ -34,7 +34,7 @@ const RULE_WORDS: Record<string, 'knn' | 'band' | 'idw'> = {
  * (size = the distance, required) or "inverse" (size = the power, default 1; "cutoff=D" limits the
  * reach). Options: "degrees" (longitude/latitude: great-circle km), "binary" (every link weighs 1;
  * by default each area's weights sum to 1), "ties" (k nearest: keep every area tied at the k-th
- * distance), "link islands" (link an area with no neighbour to its nearest area).
+ * distance), "link unneighboured" (link an area with no neighbour to its nearest area).
  */
 export function neighbourRowsFromPoints(
   ids: Grid, x: Grid, y: Grid, rule?: string, size?: number, options?: OptionsArgument,
@@ -51,7 +51,7 @@ export function neighbourRowsFromPoints(
     idCells = idCells.slice(1); xs = xs.slice(1); ys = ys.slice(1);
     offset = 2;
   }
-  const o = parseOptions(options, { flags: ['degrees', 'planar', 'binary', 'standardise', 'ties', 'link islands'], numbers: ['cutoff'] });
+  const o = parseOptions(options, { flags: ['degrees', 'planar', 'binary', 'standardise', 'ties', 'link unneighboured'], numbers: ['cutoff'] });
   if (o.flags.has('degrees') && o.flags.has('planar')) throw new InputError('The options say both "degrees" and "planar"; choose one.');
   const kind = RULE_WORDS[String(rule ?? 'nearest').trim().toLowerCase()];
   if (!kind) throw new InputError(`The rule "${rule}" is not known; use "nearest" (k nearest areas), "within" (a distance band) or "inverse" (inverse distance).`);
@@ -69,7 +69,7 @@ export function neighbourRowsFromPoints(
   const w = buildWeights(
     { ids: areaIds, geometries, coordinates: o.flags.has('degrees') ? 'geographic' : 'projected', points },
     spec,
-    { transform: o.flags.has('binary') ? 'binary' : 'row', linkUnneighboured: o.flags.has('link islands') },
+    { transform: o.flags.has('binary') ? 'binary' : 'row', linkUnneighboured: o.flags.has('link unneighboured') },
   );
   return linkRows(w);
 }
@@ -90,8 +90,10 @@ function fingerprint(files: readonly NamedBytes[]): string {
  * Contiguity links among the areas of the ID range from the boundary files kept in the workbook.
  * The boundary property holding the IDs is `idProperty`, else the one the sidebar's last run used
  * (`remembered`), else the one that holds the most of them (refused when several tie).
- * Options: "binary" (every link weighs 1), "link islands"; `rule` is "queen" (shared border or
- * corner, the default) or "rook" (shared border only); "order=2" reaches neighbours of neighbours.
+ * Options: "binary" (every link weighs 1), "link unneighboured"; `rule` is "queen" (shared border or
+ * corner, the default) or "rook" (shared border only); "order=K" links the areas exactly K steps
+ * away (order=2: neighbours of neighbours that are not neighbours themselves), and with "cumulative"
+ * every area up to K steps away.
  */
 export async function contiguityRows(
   files: readonly NamedBytes[] | null, ids: Grid, rule?: string, idProperty?: string, options?: OptionsArgument, remembered?: string,
@@ -105,7 +107,7 @@ export async function contiguityRows(
   const key = fingerprint(files);
   if (kept?.key !== key) kept = { key, layer: await readBoundary([...files]) };
   const layer = kept.layer;
-  const o = parseOptions(options, { flags: ['binary', 'standardise', 'link islands'], numbers: ['order'] });
+  const o = parseOptions(options, { flags: ['binary', 'standardise', 'cumulative', 'link unneighboured'], numbers: ['order'] });
   const words: Record<string, 'queen' | 'rook'> = { queen: 'queen', corner: 'queen', corners: 'queen', rook: 'rook', border: 'rook', borders: 'rook', edge: 'rook' };
   const method = words[String(rule ?? 'queen').trim().toLowerCase()];
   if (!method) throw new InputError(`The rule "${rule}" is not known; use "queen" (a shared border or corner) or "rook" (a shared stretch of border).`);
@@ -129,10 +131,11 @@ export async function contiguityRows(
   });
   const order = o.numbers.get('order') ?? 1;
   if (!Number.isInteger(order) || order < 1 || order > 10) throw new InputError(`The order must be a whole number from 1 to 10; got ${order}.`);
+  if (o.flags.has('cumulative') && !o.numbers.has('order')) throw new InputError('"cumulative" goes with "order=K" (every area up to K steps away), e.g. "order=2, cumulative".');
   const w = buildWeights(
     { ids: areaIds, geometries, coordinates: layer.coordinates },
-    { method, order },
-    { transform: o.flags.has('binary') ? 'binary' : 'row', linkUnneighboured: o.flags.has('link islands') },
+    { method, order, cumulative: o.flags.has('cumulative') },
+    { transform: o.flags.has('binary') ? 'binary' : 'row', linkUnneighboured: o.flags.has('link unneighboured') },
   );
   return linkRows(w);
 }

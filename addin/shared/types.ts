@@ -35,6 +35,8 @@ export interface SavedSetup {
   version: 1;
   sheet?: string;
   id?: string;
+  /** the column of names shown beside the IDs */
+  label?: string;
   y?: string;
   x?: string[];
   areas?: { kind: 'file'; names: string[]; layer?: string; idProperty?: string } | { kind: 'points'; xColumn: string; yColumn: string };

@@ -18,7 +18,11 @@ export function formatSummary(r: AnalysisResult): string {
   const o = r.ols;
   lines.push('Plain regression (least squares)');
   lines.push(...coefficientTable(o.coefficients, 't'));
-  lines.push(`  R² ${fmt(o.r2, 4)}, adjusted ${fmt(o.adjR2, 4)}; F ${fmt(o.f.stat, 4)} (p ${p(o.f.p)}); log-likelihood ${fmt(o.logLik, 6)}; AIC ${fmt(o.aic, 6)}; BIC ${fmt(o.bic, 6)}`);
+  // grouped as the workbook's sheet groups them: how well it fits, then the figures for comparing models
+  lines.push(`  How well it fits: R² ${fmt(o.r2, 4)}, adjusted for the number of terms ${fmt(o.adjR2, 4)}; residual variance ${fmt(o.sigma2, 5)} (divided by n − k = ${o.n - o.k}); ` +
+    `F ${fmt(o.f.stat, 4)} on ${o.f.df} and ${o.f.df2} degrees of freedom, p ${p(o.f.p)}`);
+  lines.push(`  For comparing models: log-likelihood ${fmt(o.logLik, 6)}; AIC ${fmt(o.aic, 6)}; BIC ${fmt(o.bic, 6)}`);
+  lines.push(`  Note: the maximum-likelihood residual variance (divided by n = ${o.n}) is ${fmt(o.sigma2ML, 5)}; it is the one inside the log-likelihood, AIC and BIC, and the one to set beside the spatial models' σ².`);
   lines.push(`  Residual checks: normality (Jarque–Bera) p ${p(o.jarqueBera.p)}; constant variance (Breusch–Pagan) p ${p(o.breuschPagan.p)}, studentised p ${p(o.breuschPaganStudentised.p)}; condition number ${fmt(o.conditionNumber, 4)}`);
   lines.push('');
   lines.push('Spatial pattern left in the residuals');

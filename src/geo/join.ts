@@ -36,6 +36,9 @@ export interface JoinOptions {
 }
 
 /** The option's name on the command line and in the sidebar, for messages. */
+/** Where the sidebar and the browser page take the boundary file's ID property, said beside --boundary-id. */
+const IN_SIDEBAR = '; in the sidebar, "ID in the boundary file" under Areas';
+
 export const IGNORE_ZEROS_OPTION = '--ids-ignore-leading-zeros; in the sidebar, tick "match 01001 with 1001"';
 
 export function joinAreas(
@@ -64,10 +67,10 @@ export function joinAreas(
       const best = idPropertyCandidates(layer, table, idColumn)[0];
       const pick = best?.property ?? near;
       after = best
-        ? ` Its property "${best.property}" holds ${best.matches} of the ${best.rows} IDs in ${table.sourceName}'s "${idColumn}": name it as the boundary file's ID (--boundary-id ${quoteArg(best.property)}) to join by it.`
-        : ` If it holds the same IDs under another name, name that property as the boundary file's ID (--boundary-id ${pick ? quoteArg(pick) : 'NAME'}).`;
+        ? ` Its property "${best.property}" holds ${best.matches} of the ${best.rows} IDs in ${table.sourceName}'s "${idColumn}": name it as the boundary file's ID (--boundary-id ${quoteArg(best.property)}${IN_SIDEBAR}) to join by it.`
+        : ` If it holds the same IDs under another name, name that property as the boundary file's ID (--boundary-id ${pick ? quoteArg(pick) : 'NAME'}${IN_SIDEBAR}).`;
     } else if (opts.featureIdProperty && near) {
-      after = ` Name the boundary file's ID as --boundary-id ${quoteArg(near)}.`;
+      after = ` Name the boundary file's ID as --boundary-id ${quoteArg(near)}${IN_SIDEBAR}.`;
     }
     throw new InputError(
       `${layer.sourceName} has no property "${featureProp}" to join by${advice} properties are ${listSome(layer.propertyNames.map((n) => `"${n}"`), 30)}.${after}`,

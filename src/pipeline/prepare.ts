@@ -12,6 +12,7 @@ import { InputError } from '../errors.js';
 import { sha256Hex } from './hash.js';
 import { readModelColumns } from './missing.js';
 import { columnsWithRates } from './rates.js';
+import { builtRateParts, rateParts, ratePartWarning } from './rate-parts.js';
 import { checkModelColumns } from './check-values.js';
 import { withReadNotes } from './read-notes.js';
 import type { AnalysisRequest, InputRecord } from './types.js';
@@ -32,6 +33,8 @@ export interface PreparedAreas {
   values: Map<string, Float64Array>;
   /** rows left out for missing values */
   dropped: { row: number; id: string; columns: string[] }[];
+  /** explanatory columns that are the outcome rate's own counts, as warnings */
+  rateWarnings: string[];
   /** the label column asked for, if any */
   labelColumn?: string;
   /** its text per analysed area (when a label column was asked for), in the same order as `joined` */
@@ -62,12 +65,28 @@ export async function prepareAreas(request: AnalysisRequest, extraColumns: strin
   if (labelColumn) joinedAll.column(labelColumn); // an unknown label column is refused before any work
   const { joined, values, dropped } = withReadNotes(readNotes, () => readModelColumns(joinedAll, columnsWithRates([request.y, ...request.x, ...extraColumns], request.rates), request.dropMissing ?? false));
   checkModelColumns(values, joined);
+  const rateWarnings = ratePartWarnings(request, joined);
   const labels = labelColumn ? joined.column(labelColumn).map((c) => (c === null ? '' : String(c).trim())) : undefined;
   lap('join');
   return {
-    inputs, ...(boundaryId ? { boundaryId } : {}), boundaryName: layer.sourceName, joinedAll, joined, values, dropped,
+    inputs, ...(boundaryId ? { boundaryId } : {}), boundaryName: layer.sourceName, joinedAll, joined, values, dropped, rateWarnings,
     ...(labelColumn ? { labelColumn, labels } : {}),
   };
+}
+
+/**
+ * Explanatory columns that are the outcome rate's own numerator or denominator (issue 11, §3): known
+ * when the outcome is a rate built by the request, else read from the values and names of the table's
+ * columns of numbers.
+ */
+function ratePartWarnings(request: AnalysisRequest, joined: JoinedAreas): string[] {
+  const built = request.rates?.recipes.find((r) => r.name === request.y);
+  if (built) return builtRateParts(built, request.x).map((f) => ratePartWarning(f, request.y));
+  const column = (name: string): readonly unknown[] | undefined => (joined.columnNames.includes(name) ? joined.column(name) : undefined);
+  // the columns of numbers (blanks allowed) that may be the rate's other count
+  const isNumber = (v: unknown) => v === null || typeof v === 'number' || (typeof v === 'string' && (v.trim() === '' || Number.isFinite(Number(v))));
+  const numeric = joined.columnNames.filter((c) => c !== request.y && c !== request.id && column(c)!.every(isNumber));
+  return rateParts(column, request.y, request.x, numeric).map((f) => ratePartWarning(f, request.y));
 }
 
 /** The boundary layer and the data table (the layer's own attributes when no table file is given). */

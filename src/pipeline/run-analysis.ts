@@ -140,7 +140,7 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
     ...(comparison ? { comparison: comparison.rows } : {}),
     ...(localResult ? { local: localResult } : {}),
     ...(rates ? { rates } : {}),
-    warnings: runWarnings(request, { joined, shapes: areaShapeWarnings(joined, points, areas.boundaryName), dropped, w, summary, fits: own.fits, permutations, n: y.length, comparison: comparison?.rows }),
+    warnings: runWarnings(request, { joined, shapes: [...areas.rateWarnings, ...areaShapeWarnings(joined, points, areas.boundaryName)], dropped, w, summary, fits: own.fits, permutations, n: y.length, comparison: comparison?.rows }),
     timings,
   };
 }

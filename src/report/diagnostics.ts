@@ -36,7 +36,7 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
       rows: [
         testRow('Jarque–Bera test of normality', o.jarqueBera, 'Do the residuals look normally distributed? A small p says no.'),
         testRow('Breusch–Pagan test of constant variance', o.breuschPagan, 'Does the spread of the residuals change with the explanatory columns? A small p says yes.'),
-        testRow('Studentised Breusch–Pagan test (Koenker)', o.breuschPaganStudentised, 'The same question as Breusch–Pagan, robust to non-normal residuals.'),
+        testRow('Studentised Breusch–Pagan test (Koenker 1981)', o.breuschPaganStudentised, 'The same question as Breusch–Pagan, robust to non-normal residuals.'),
         ['Condition number of the explanatory columns', num(o.conditionNumber), null, null,
           'How strongly the explanatory columns overlap; above 30 individual coefficients become unstable (common practice).'],
       ],

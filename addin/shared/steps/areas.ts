@@ -31,8 +31,8 @@ export function mountAreasStep(ctx: SidebarContext): AreasStep {
   fileInput.addEventListener('change', async () => {
     const files = [...(fileInput.files ?? [])];
     if (!files.length) return;
-    const kept = s.areas?.kind === 'file' ? s.areas.idProperty : undefined;
-    s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))), idProperty: kept };
+    // a new file is chosen afresh: the ID property chosen for the last one may not exist in it, or mean something else
+    s.areas = { kind: 'file', files: await Promise.all(files.map(async (f) => ({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) }))) };
     newPlaces();
     drawAreas();
     void refreshCheck();

@@ -25,6 +25,8 @@ export function mountDataStep(ctx: SidebarContext, saved: () => SavedSetup | nul
     const p = s.profile;
     const keep = (c?: string) => (c && source.table.headers.includes(c) ? c : undefined);
     s.id = keep(saved()?.id) ?? keep(s.id) ?? p.suggestedId;
+    s.label = keep(saved()?.label) ?? keep(s.label);
+    if (s.label === s.id) s.label = undefined;
     rateBuilder.refresh();
     const rate = (c?: string) => (c && rateBuilder.names().includes(c) ? c : undefined);
     // the outcome is the analyst's choice: kept from the last setup when the column is there, never guessed
@@ -48,6 +50,9 @@ export function mountDataStep(ctx: SidebarContext, saved: () => SavedSetup | nul
       h('p', {}, `${s.source!.csv ? 'File' : 'Sheet'} "${t.sheet}": ${formatCount(p.n)} rows (header on row ${t.headerRow}), ${formatCount(p.columns.length)} columns.`),
       select('id-column', 'ID column (one per area)', t.headers.map((c) => ({ value: c, text: c })), s.id, (v) => { s.id = v; ctx.redraw.model(); void ctx.redraw.check(); }),
       p.suggestedId ? h('p', { class: 'hint' }, `Suggested: ${p.suggestedId} (every row has a different value).`) : h('p', { class: 'hint' }, 'No column has a different value in every row; pick the ID column.'),
+      // optional: a name column, so the per-area sheets say which area is which, not only its ID
+      select('label-column', 'Names shown beside the IDs (optional)', [{ value: '', text: '(none)' }, ...t.headers.filter((c) => c !== s.id).map((c) => ({ value: c, text: c }))], s.label ?? '',
+        (v) => { s.label = v || undefined; }),
       h('details', {}, h('summary', {}, 'Column types'), list),
     );
   }

@@ -4,7 +4,7 @@
  */
 import { checkbox, clear, h, message, select } from '../dom.js';
 import type { ModelChoice } from '../engine-protocol.js';
-import { builtRateParts, rateParts } from '../rate-parts.js';
+import { builtRateParts, ratePartWarning, rateParts } from '../rate-parts.js';
 import type { SidebarContext } from './context.js';
 import { tickedModels } from './state.js';
 
@@ -42,9 +42,7 @@ export function mountModelStep(ctx: SidebarContext): ModelStep {
     const ticked = [...s.x];
     const built = rateBuilder.request()?.recipes.find((r) => r.name === s.y);
     const found = !t || !s.y || !ticked.length ? [] : built ? builtRateParts(built, ticked) : rateParts(t, s.y, ticked, s.profile!.numeric);
-    clear(rateWarnings, ...found.map((f) => message('warning',
-      `${f.column} looks like ${f.role === 'numerator' ? 'the numerator of' : f.role === 'denominator' ? 'the denominator of' : 'the numerator or denominator of'} the rate ${s.y} (${f.evidence}). ` +
-      `Explaining a rate by its own counts explains it by construction, not by anything about the areas; untick ${f.column} unless that is what you mean.`)));
+    clear(rateWarnings, ...found.map((f) => message('warning', ratePartWarning(f, s.y!))));
   }
 
   /** The engine's models: the always-fitted ones named in the legend, a tick box for each of the others. */

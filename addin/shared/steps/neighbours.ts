@@ -34,7 +34,11 @@ export function mountNeighboursStep(ctx: SidebarContext): NeighboursStep {
   function drawNeighbourControls() {
     const changed = () => { drawNeighbourControls(); void ctx.redraw.check(); };
     const extra: HTMLElement[] = [];
-    if (s.method === 'queen' || s.method === 'rook') extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+    if (s.method === 'queen' || s.method === 'rook') {
+      extra.push(numberInput('order', 'Steps away (1 = touching)', s.order, (v) => { s.order = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
+      // two or more steps: exactly that many steps away by default, or every area up to it
+      if (s.order > 1) extra.push(checkbox('cumulative', `Every area up to ${s.order} steps away (otherwise exactly ${s.order} steps away)`, s.cumulative, (v) => { s.cumulative = v; void ctx.redraw.check(); }));
+    }
     if (s.method === 'knn') {
       extra.push(numberInput('k', 'How many nearest areas', s.k, (v) => { s.k = Math.max(1, Math.round(v)); changed(); }, { min: 1 }));
       extra.push(checkbox('ties-include', 'Include every area tied at the last place (otherwise the lower rows are taken)', s.tiesInclude, (v) => { s.tiesInclude = v; void ctx.redraw.check(); }));

@@ -74,6 +74,7 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
       const { output } = await engine.call({ op: 'run', request: {
         boundary, data: s.source!.file, sheet: s.source!.sheet, id: s.id!, boundaryId: boundaryId(s), y: s.y!, x: [...s.x],
         ...(s.idsIgnoreLeadingZeros ? { idsIgnoreLeadingZeros: true } : {}),
+        ...(s.label && s.label !== s.id ? { label: s.label } : {}),
         weights: weightsSpec(s), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
         models: choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key as ModelKey),

@@ -12,7 +12,7 @@ import { boundaryId, weightsSpec, type State } from './state.js';
 /** The choices to keep for the next run. */
 export function currentSetup(s: State, rateBuilder: RateBuilder): SavedSetup {
   return {
-    version: 1, sheet: s.source?.table.sheet, id: s.id, y: s.y, x: [...s.x],
+    version: 1, sheet: s.source?.table.sheet, id: s.id, ...(s.label ? { label: s.label } : {}), y: s.y, x: [...s.x],
     areas: s.areas?.kind === 'file' ? { kind: 'file', names: s.areas.files.map((f) => f.name), ...(boundaryId(s) ? { idProperty: boundaryId(s) } : {}) }
       : s.areas?.kind === 'points' && s.areas.x && s.areas.y ? { kind: 'points', xColumn: s.areas.x, yColumn: s.areas.y } : undefined,
     weights: weightsSpec(s), transform: s.transform, linkUnneighboured: s.linkUnneighboured, compare: s.compare,
@@ -41,6 +41,7 @@ export async function restoreSetup(ctx: SidebarContext, keep: (saved: SavedSetup
       if ('distance' in saved.weights && !saved.bandFromData) { s.distance = saved.weights.distance; s.distanceFromData = false; }
       if ('power' in saved.weights) s.power = saved.weights.power;
       if ('order' in saved.weights && saved.weights.order) s.order = saved.weights.order;
+      if ('cumulative' in saved.weights) s.cumulative = saved.weights.cumulative === true;
     }
     s.transform = saved.transform ?? s.transform;
     s.linkUnneighboured = saved.linkUnneighboured ?? false;

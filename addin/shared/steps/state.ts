@@ -15,6 +15,8 @@ export interface State {
   source?: TableSource;
   profile?: TableProfile;
   id?: string;
+  /** a column of names shown beside the IDs on the per-area sheets (optional) */
+  label?: string;
   /** for a boundary file: its ID property when named differently from the table's ID column */
   areas: { kind: 'file'; files: BoundaryFile[]; stored?: boolean; idProperty?: string; suggested?: { property: string } }
     | { kind: 'points'; x?: string; y?: string } | null;
@@ -22,6 +24,8 @@ export interface State {
   method: Method;
   /** distance band: undefined until the data suggest one or the analyst types one */
   k: number; distance?: number; power: number; order: number;
+  /** with order K above 1: every area up to K steps away (else exactly K steps) */
+  cumulative: boolean;
   /** the band distance is the one suggested from the data (a new boundary file or coordinates suggest anew) */
   distanceFromData: boolean;
   /** k-nearest: every area tied at the k-th distance becomes a neighbour (else the lower rows fill the places) */
@@ -48,7 +52,7 @@ export interface State {
 
 export function initialState(): State {
   return {
-    areas: null, method: 'queen', k: 5, distance: undefined, distanceFromData: true, power: 1, order: 1, tiesInclude: false, transform: 'row', linkUnneighboured: false, idsIgnoreLeadingZeros: false, coordinates: '', compare: false,
+    areas: null, method: 'queen', k: 5, distance: undefined, distanceFromData: true, power: 1, order: 1, cumulative: false, tiesInclude: false, transform: 'row', linkUnneighboured: false, idsIgnoreLeadingZeros: false, coordinates: '', compare: false,
     x: new Set(), modelChoices: null, models: null, robust: false, dropMissing: false, running: false,
     local: { on: false, of: 'outcome', moran: true, gi: false, gistar: false, permutations: 999, seed: 20261201, control: 'fdr', level: 0.05 },
   };
@@ -57,7 +61,7 @@ export function initialState(): State {
 /** The neighbour rule as chosen. */
 export function weightsSpec(s: State): WeightsSpec {
   switch (s.method) {
-    case 'queen': case 'rook': return { method: s.method, order: s.order };
+    case 'queen': case 'rook': return s.order > 1 && s.cumulative ? { method: s.method, order: s.order, cumulative: true } : { method: s.method, order: s.order };
     case 'knn': return s.tiesInclude ? { method: 'knn', k: s.k, ties: 'include' } : { method: 'knn', k: s.k };
     case 'band': return { method: 'band', distance: s.distance ?? NaN };
     case 'idw': return { method: 'idw', power: s.power };
