@@ -190,7 +190,12 @@ export const readingCases: BadInput[] = [
     ['knn:3:7', ['--weights knn:3:7: knn takes one number (knn:K), so "7" cannot be read']],
     ['idw:1:1500:9', ['--weights idw:1:1500:9: idw takes at most 2 numbers (idw:POWER or idw:POWER:CUTOFF), so "9" cannot be read']],
     ['band:2:3', ['band takes one number (band:DISTANCE), so "3" cannot be read']],
-    ['knn:0x10', ['the number of neighbours K (knn:K) must be a number, not "0x10"']],
+    ['knn:0x10', ['the number of neighbours K (knn:K) must be a whole number of at least 1; got "0x10"']],
+    ['band:-1', ['--weights band:-1: the distance (band:DISTANCE) must be a number above 0', 'kilometres for longitude/latitude', 'got "-1"']],
+    ['knn:-2', ['the number of neighbours K (knn:K) must be a whole number of at least 1; got "-2"']],
+    ['idw:-1', ['the power (idw:POWER) must be a number above 0', 'got "-1"']],
+    ['idw:2:0', ['the cut-off (idw:POWER:CUTOFF) must be a number above 0', 'got "0"']],
+    ['band:', ['the distance (band:DISTANCE) must be a number above 0', 'none was given']],
     ['rook:', ['rook takes no number']],
   ] as const).map(([rule, expect]): BadInput => ({
     group: R, name: `rule syntax: --weights ${rule} (every part read, none ignored)`, engine: 'skip',
