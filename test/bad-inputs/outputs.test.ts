@@ -363,4 +363,22 @@ describe('--out-geojson and --pictures meet the same rules as --out', () => {
     expect(errorInWords('EACCES')).toContain('permission denied');
     expect(errorInWords('EXDEV')).toBe('the system refused (EXDEV)');
   });
+
+  it('a --data workbook with parts a copy would drop (text boxes, sparklines) is left alone: results go to a new workbook, and the note says why', async () => {
+    const { unzipSync, zipSync, strToU8 } = await import('fflate');
+    const f = await folder('data-parts');
+    const book = join(f, 'book.xlsx');
+    const parts = unzipSync(readFileSync(book));
+    parts['xl/drawings/drawing7.xml'] = strToU8('<xdr:wsDr><xdr:oneCellAnchor><xdr:sp><xdr:txBody/></xdr:sp></xdr:oneCellAnchor></xdr:wsDr>');
+    writeFileSync(book, zipSync(parts));
+    const before = snapshot(f);
+    const out = join(f, 'results.xlsx');
+    const r = await runMain([...BASE, '--boundary', join(f, 'districts.geojson'), '--data', book, '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain('book.xlsx holds shapes or text boxes, which a copy could not keep; the results were written to a new workbook instead');
+    const after = snapshot(f);
+    delete after['results.xlsx'];
+    expect(after).toEqual(before);
+    expect(Object.keys(unzipSync(readFileSync(out))).some((n) => n.startsWith('xl/drawings/drawing7'))).toBe(false);
+  });
 });
