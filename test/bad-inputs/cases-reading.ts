@@ -253,6 +253,21 @@ export const readingCases: BadInput[] = [
     }),
     expect: ['villages.dbf has text that is not valid UTF-8 (first in field code, feature 1); it was read with code page 1251, which its header names'],
   },
+  // MS-DOS code pages named by the header's language driver byte (0x01 437, 0x02 850, 0x64 852, 0x66 865),
+  // decoded by src/geo/single-byte.ts; the byte strings were encoded with Python's codecs (cp437, cp850, cp852, cp865)
+  ...([
+    [437, 0x01, 'Müller', [77, 129, 108, 108, 101, 114]],
+    [850, 0x02, 'Façade', [70, 97, 135, 97, 100, 101]],
+    [852, 0x64, 'Łódź', [157, 162, 100, 171]],
+    [865, 0x66, 'Ørsted', [157, 114, 115, 116, 101, 100]],
+  ] as const).map(([cp, driver, word, bytes]): BadInput => ({
+    group: G, name: `.dbf in the MS-DOS code page ${cp} named by its header byte: decoded by its table, and the join works`, outcome: 'warn', request: KNN3,
+    files: () => ({
+      boundary: villages((i) => Uint8Array.of(...bytes, 0x30 + Math.floor((i + 1) / 10), 0x30 + ((i + 1) % 10)), (b) => { b[29] = driver; }),
+      data: csvFile('table.csv', ['code', 'y', 'x1', 'x2'], gridRows().map((g, i) => [`${word}${String(i + 1).padStart(2, '0')}`, g.y, g.x1, g.x2])),
+    }),
+    expect: [`it was read with the MS-DOS code page ${cp}, which its header names`],
+  })),
   {
     group: G, name: '.dbf in an unnamed code page: the encoding note is shown with the join error, not hidden by it', request: KNN3,
     files: () => ({
