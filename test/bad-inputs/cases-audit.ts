@@ -3,8 +3,9 @@
  * TopoJSON arc indexes out of range, points under contiguity rules, rule numbers out of range (in
  * cases-reading.ts with the rule syntax), IDs a spreadsheet wrote as decimals in a neighbour list.
  */
+import ExcelJS from 'exceljs';
 import type { BadInput } from './case.js';
-import { gridCodesOnly, gridCsv, gridFile, gridRows, json, text } from './make.js';
+import { gridCodesOnly, gridCsv, gridFile, gridRows, gridSheet, json, text } from './make.js';
 
 const A = 'audit: look-alike IDs, TopoJSON arcs, points, neighbour lists';
 
@@ -22,6 +23,7 @@ const topology = (arc: unknown) => json('zones.topojson', {
     { type: 'Polygon', id: 'Z2', arcs: [[arc]], properties: { ...rows[1] } },
   ] } },
 });
+const tableLines = rows.map((r) => [r.code, r.y, r.x1, r.x2].join(',')).join('\n');
 /** The grid with whole-number codes 1001…1016 and a ring of links through them. */
 const numbered = rows.map((r, i) => ({ ...r, code: String(1001 + i) }));
 
@@ -68,5 +70,37 @@ export const auditCases: BadInput[] = [
       edgeList: text('links.csv', 'from,to\n' + numbered.map((r, i) => `${r.code}.0,${numbered[(i + 1) % 16].code}\n${numbered[(i + 1) % 16].code},${r.code}.0`).join('\n') + '\n'),
     }),
     expect: ['links.csv writes 16 ID(s) with a decimal point (such as 1001.0', 'matched to the areas of the same whole number'],
+  },
+  {
+    group: A, name: 'a title row above the header: skipped, and the row used as header named', outcome: 'warn',
+    files: () => ({ boundary: [gridCodesOnly()], data: text('table.csv', `District survey (invented),,,\ncode,y,x1,x2\n${tableLines}\n`) }),
+    expect: ['table.csv: row 1 ("District survey (invented)") looks like a title above the table and was skipped; row 2 was used as the header'],
+  },
+  {
+    group: A, name: 'two title rows and a blank line above the header', outcome: 'warn',
+    files: () => ({ boundary: [gridCodesOnly()], data: text('table.csv', `Survey of districts\nSource: invented\n\ncode,y,x1,x2\n${tableLines}\n`) }),
+    expect: ['row 1 ("Survey of districts") and row 2 ("Source: invented") look like titles', 'row 4 was used as the header'],
+  },
+  {
+    group: A, name: 'blank leading columns: skipped, and the first column named', outcome: 'warn',
+    files: () => ({ boundary: [gridCodesOnly()], data: text('table.csv', `,,code,y,x1,x2\n${rows.map((r) => `,,${r.code},${r.y},${r.x1},${r.x2}`).join('\n')}\n`) }),
+    expect: ['table.csv: columns A to B are empty and were skipped; the table starts in column C'],
+  },
+  {
+    group: A, name: 'blank leading column with a text value under it: still refused, naming the column', 
+    files: () => ({ boundary: [gridCodesOnly()], data: text('table.csv', `,code,y,x1,x2\n${rows.map((r, i) => `${i === 3 ? 'note' : ''},${r.code},${r.y},${r.x1},${r.x2}`).join('\n')}\n`) }),
+    expect: ['table.csv: the header (row 1) has no name in column 1 (A)'],
+  },
+  {
+    group: A, name: 'a workbook with a merged title row and an empty column A above and beside the table', outcome: 'warn',
+    files: async () => {
+      const wb = new ExcelJS.Workbook();
+      const ws = wb.addWorksheet('Districts');
+      ws.addRow([null, 'Districts of the invented region']);
+      ws.mergeCells('B1:E1');
+      for (const r of gridSheet()) ws.addRow([null, ...r]);
+      return { boundary: [gridCodesOnly()], data: { name: 'book.xlsx', bytes: new Uint8Array(await wb.xlsx.writeBuffer() as ArrayBuffer) } };
+    },
+    expect: ['row 1 ("Districts of the invented region") looks like a title above the table and was skipped; row 2 was used as the header', 'column A is empty and was skipped'],
   },
 ];
