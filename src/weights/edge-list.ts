@@ -1,6 +1,7 @@
 import Papa from 'papaparse';
 import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
+import { lookAlikeKey } from '../geo/index.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
 import { LinkList, csrFromLinks, isSymmetric, symmetricBehind } from './pattern.js';
 import { applyTransform } from './transform.js';
@@ -45,6 +46,16 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
     if (hit !== undefined) decimalIds.add(cell);
     return hit;
   };
+  // an unknown ID that differs from an area's only in spaces, letter case, O/0 or l/I/1 is pointed out (never matched)
+  let byKey: Map<string, string> | null = null;
+  const alikeHint = (cell: string): string => {
+    if (!byKey) {
+      byKey = new Map();
+      for (const id of ids) if (!byKey.has(lookAlikeKey(id))) byKey.set(lookAlikeKey(id), id);
+    }
+    const near = byKey.get(lookAlikeKey(cell));
+    return near !== undefined ? ` It looks like the area ${near} (apart from spaces, letter case, O for 0 or l/I for 1), which is not matched automatically.` : '';
+  };
   for (let r = 0; r < rows.length; r++) {
     const line = r + 1;
     const cells = rows[r].map((c) => c.trim());
@@ -60,9 +71,9 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
       throw new InputError(`${source}, line ${line}: expected an origin ID and a neighbour ID separated by a comma.`, where);
     }
     const i = find(cells[0]);
-    if (i === undefined) throw new InputError(`${source}, line ${line}: the origin ID ${cells[0]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[0] });
+    if (i === undefined) throw new InputError(`${source}, line ${line}: the origin ID ${cells[0]} is not one of the areas.${alikeHint(cells[0])} Check the ID or remove the line.`, { ...where, feature: cells[0] });
     const j = find(cells[1]);
-    if (j === undefined) throw new InputError(`${source}, line ${line}: the neighbour ID ${cells[1]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[1] });
+    if (j === undefined) throw new InputError(`${source}, line ${line}: the neighbour ID ${cells[1]} is not one of the areas.${alikeHint(cells[1])} Check the ID or remove the line.`, { ...where, feature: cells[1] });
     if (i === j) throw new InputError(`${source}, line ${line}: area ${cells[0]} is listed as its own neighbour. Remove the line; an area is never its own neighbour.`, where);
     let weight = 1;
     if (cells.length > 2 && cells[2] !== '') {

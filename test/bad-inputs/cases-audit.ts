@@ -103,4 +103,9 @@ export const auditCases: BadInput[] = [
     },
     expect: ['row 1 ("Districts of the invented region") looks like a title above the table and was skipped; row 2 was used as the header', 'column A is empty and was skipped'],
   },
+  {
+    group: A, name: 'neighbour list naming d0l for the area D01: refused, the look-alike pointed out',
+    files: () => ({ boundary: [gridFile()], edgeList: text('links.csv', 'D02,D01\nd0l,D02\n') }),
+    expect: ['links.csv, line 2: the origin ID d0l is not one of the areas. It looks like the area D01'],
+  },
 ];
