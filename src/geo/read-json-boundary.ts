@@ -145,8 +145,9 @@ function checkArcIndexes(topology: Topology, object: unknown, file: string, name
     const id = geom.id !== undefined ? ` (id ${JSON.stringify(geom.id)})` : '';
     const shown = typeof hit === 'number' ? String(hit) : JSON.stringify(hit);
     throw new InputError(
-      `${file}: object "${name}", feature ${k + 1}${id} refers to arc ${shown}, but the topology has ${arcCount} arc${arcCount === 1 ? '' : 's'} ` +
-        `(indexes 0 to ${arcCount - 1}, or -1 to ${-arcCount} for an arc reversed). The file is damaged or was cut; export it again.`,
+      `${file}: object "${name}", feature ${k + 1}${id} refers to arc ${shown}, but ` +
+        (arcCount === 0 ? 'the topology has no arcs' : `the topology has ${arcCount} arc${arcCount === 1 ? '' : 's'} (indexes 0 to ${arcCount - 1}, or -1 to ${-arcCount} for an arc reversed)`) +
+        '. The file is damaged or was cut; export it again.',
       { file, feature: String(k + 1) },
     );
   });

@@ -49,6 +49,11 @@ export const auditCases: BadInput[] = [
     expect: ['feature 2 (id "Z2") refers to arc -5', 'or -1 to -1 for an arc reversed'],
   },
   {
+    group: A, name: 'TopoJSON with no arcs list at all',
+    files: () => ({ boundary: [json('zones.topojson', { type: 'Topology', objects: { zones: { type: 'GeometryCollection', geometries: [{ type: 'Polygon', arcs: [[0]], properties: { ...rows[0] } }] } } })] }),
+    expect: ['zones.topojson: object "zones", feature 1 refers to arc 0, but the topology has no arcs'],
+  },
+  {
     group: A, name: 'TopoJSON arc index that is not a whole number',
     files: () => ({ boundary: [topology(0.5)] }),
     expect: ['feature 2 (id "Z2") refers to arc 0.5'],
