@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { decodeSingleByte, SINGLE_BYTE_CODE_PAGES, windows1252Bytes } from '../src/geo/single-byte.js';
+import { decodeText } from '../src/geo/index.js';
 
 const golden = JSON.parse(readFileSync(new URL('./golden/code-pages.json', import.meta.url), 'utf8')) as Record<string, (number | null)[]>;
 const allBytes = Uint8Array.from({ length: 256 }, (_v, i) => i);
@@ -27,4 +28,12 @@ describe('single-byte code pages (reference: Python codecs)', () => {
     // a WHATWG decoder's reading (the euro sign for 0x80, U+2021 for 0x87) leads back as well
     expect([...windows1252Bytes(decodeSingleByte(allBytes, 1252))]).toEqual([...allBytes]);
   });
+
+  it('a CSV in Windows-1252 keeps its euro sign and curly quotes (0x80, 0x93, 0x94: cp1252 in the golden file)', () => {
+    const csv = Uint8Array.of(0x63, 0x6f, 0x73, 0x74, 0x0a, 0x80, 0x35, 0x20, 0x93, 0x61, 0x94, 0x0a); // "cost\n€5 “a”\n"
+    const read = decodeText(csv, 'costs.csv', { kind: 'a table', latinFallback: true });
+    expect(read.text).toBe(`cost\n${String.fromCodePoint(golden.cp1252[0x80]!)}5 ${String.fromCodePoint(golden.cp1252[0x93]!)}a${String.fromCodePoint(golden.cp1252[0x94]!)}\n`);
+    expect(read.text).toContain('€5 “a”');
+  });
 });
+
