@@ -141,7 +141,18 @@ export function parseFitArgs(argv: string[]): FitArgs {
       },
     });
   } catch (e) {
-    throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')} (spillway fit --help lists the options)`);
+    const message = (e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '');
+    // a value starting with "-" (a negative number) is taken for an option: say so, and how to give it
+    const ambiguous = /^Option '(--[\w-]+)' argument is ambiguous/.exec(message);
+    if (ambiguous) {
+      const at = argv.indexOf(ambiguous[1]);
+      const value = at >= 0 ? argv[at + 1] : undefined;
+      throw new InputError(
+        `${ambiguous[1]} is followed by "${value ?? '-…'}", which starts with "-" and so reads as another option. ` +
+          `To give that value, write ${ambiguous[1]}=${value ?? 'VALUE'} (its allowed range is then checked).`,
+      );
+    }
+    throw new InputError(`${message} (spillway fit --help lists the options)`);
   }
   const v = parsed.values;
   refuseRepeated(parsed.tokens);

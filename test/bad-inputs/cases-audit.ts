@@ -113,4 +113,9 @@ export const auditCases: BadInput[] = [
     files: () => ({ boundary: [gridFile()], edgeList: text('links.csv', 'D02,D01\nd0l,D02\n') }),
     expect: ['links.csv, line 2: the origin ID d0l is not one of the areas. It looks like the area D01'],
   },
+  {
+    group: A, name: 'a negative number after an option (--draws -1): read as an option; the way to give it is named', engine: 'skip',
+    files: () => ({ boundary: [gridFile()] }), cliExtra: ['--draws', '-1'],
+    expect: ['--draws is followed by "-1", which starts with "-" and so reads as another option', 'write --draws=-1'],
+  },
 ];
