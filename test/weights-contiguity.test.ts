@@ -228,7 +228,8 @@ describe('withoutNeighbours', () => {
     const pts: AreaGeometry[] = [0, 3, 7].map((x) => ({ kind: 'point', point: [x, 0] }));
     const call = () => buildWeights({ ids: ['p', 'q', 'r'], geometries: pts, coordinates: 'projected' }, { method: 'queen' });
     expect(call).toThrow(InputError);
-    expect(call).toThrow(/distance band of at least 4 coordinate units/);
+    expect(call).toThrow(/Queen contiguity needs areas with boundaries, but every area is a point/);
+    expect(call).toThrow(/a distance band \(--weights band:4, the distance in coordinate units at which every area has a neighbour\)/);
   });
 
   it('a bad tolerance is refused', () => {

@@ -189,4 +189,26 @@ describe('baseWorkbookRisks', () => {
     expect(baseWorkbookRisks(await baseWorkbook())).toEqual([]);
     expect(baseWorkbookRisks(new Uint8Array([1, 2, 3]))).toEqual([]);
   });
+
+  it('names shapes and text boxes, sparklines, 2010 data validations, controls, embedded objects, connections and add-in parts', async () => {
+    const { zipSync, strToU8 } = await import('fflate');
+    // element names from ECMA-376 Part 1 (SpreadsheetML drawing: xdr:sp, xdr:grpSp) and the [MS-XLSX]
+    // 2010 extensions (x14:sparklineGroups, x14:dataValidations)
+    const zip = zipSync({
+      '[Content_Types].xml': strToU8('<Types/>'),
+      'xl/workbook.xml': strToU8('<workbook/>'),
+      'xl/drawings/drawing1.xml': strToU8('<xdr:wsDr><xdr:twoCellAnchor><xdr:sp macro=""><xdr:txBody/></xdr:sp></xdr:twoCellAnchor></xdr:wsDr>'),
+      'xl/worksheets/sheet1.xml': strToU8('<worksheet><extLst><ext><x14:sparklineGroups><x14:sparklineGroup/></x14:sparklineGroups></ext>' +
+        '<ext><x14:dataValidations count="1"><x14:dataValidation/></x14:dataValidations></ext></extLst></worksheet>'),
+      'xl/ctrlProps/ctrlProp1.xml': strToU8('<formControlPr/>'),
+      'xl/embeddings/oleObject1.bin': new Uint8Array([0]),
+      'xl/connections.xml': strToU8('<connections/>'),
+      'xl/webextensions/webextension1.xml': strToU8('<we:webextension/>'),
+    });
+    expect(baseWorkbookRisks(zip).sort()).toEqual(['add-in parts', 'data connections', 'data validations of the 2010 format', 'embedded objects',
+      'form controls', 'shapes or text boxes', 'sparklines']);
+    // a drawing with only a picture (which the copy keeps) is no risk
+    const pictureOnly = zipSync({ 'xl/workbook.xml': strToU8('<workbook/>'), 'xl/drawings/drawing1.xml': strToU8('<xdr:wsDr><xdr:pic/><xdr:spPr/></xdr:wsDr>') });
+    expect(baseWorkbookRisks(pictureOnly)).toEqual([]);
+  });
 });

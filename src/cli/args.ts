@@ -141,7 +141,18 @@ export function parseFitArgs(argv: string[]): FitArgs {
       },
     });
   } catch (e) {
-    throw new InputError(`${(e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '')} (spillway fit --help lists the options)`);
+    const message = (e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, '');
+    // a value starting with "-" (a negative number) is taken for an option: say so, and how to give it
+    const ambiguous = /^Option '(--[\w-]+)' argument is ambiguous/.exec(message);
+    if (ambiguous) {
+      const at = argv.indexOf(ambiguous[1]);
+      const value = at >= 0 ? argv[at + 1] : undefined;
+      throw new InputError(
+        `${ambiguous[1]} is followed by "${value ?? '-…'}", which starts with "-" and so reads as another option. ` +
+          `To give that value, write ${ambiguous[1]}=${value ?? 'VALUE'} (its allowed range is then checked).`,
+      );
+    }
+    throw new InputError(`${message} (spillway fit --help lists the options)`);
   }
   const v = parsed.values;
   refuseRepeated(parsed.tokens);
@@ -254,6 +265,9 @@ function parseCompare(text: string | undefined, tolerance: string | undefined, t
 /** A number as people write one: digits with an optional point and exponent (no hex, no "Infinity"). */
 const DECIMAL = /^\+?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
+/** The allowed range of a distance in a rule, with its unit. */
+const BAND_RANGE = 'a number above 0 (kilometres for longitude/latitude, else the coordinates\' own unit)';
+
 /** queen | rook | knn:K | band:D | idw:P[:CUTOFF]. Every part is read; a part the rule does not take is refused. */
 export function parseWeightsRule(rule: string, order?: string, cumulative = false, tolerance?: string, ties?: string, tiesOnlyForKnn = true): WeightsSpec {
   const [name, ...params] = rule.trim().toLowerCase().split(':').map((p) => p.trim());
@@ -262,9 +276,14 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
     throw new InputError(`--ties must be lower-row or include, not "${ties}".`);
   }
   if (tieRule !== undefined && tiesOnlyForKnn && name !== 'knn') throw new InputError('--ties applies to k-nearest neighbours (knn:K) only.');
-  const num = (s: string | undefined, what: string) => {
-    const n = Number(s);
-    if (s === undefined || !DECIMAL.test(s.trim()) || !Number.isFinite(n)) throw new InputError(`--weights ${rule}: ${what} must be a number${s ? `, not "${s}"` : ''}.`);
+  /** A rule's number: refused with the part's name and its allowed range (a sign or a word is no way around it). */
+  const num = (s: string | undefined, what: string, range: string, ok: (n: number) => boolean) => {
+    const t = s?.trim() ?? '';
+    const n = Number(t);
+    const isNumber = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t) && Number.isFinite(n);
+    if (!isNumber || !ok(n)) {
+      throw new InputError(`--weights ${rule}: ${what} must be ${range}${s ? `; got "${s}"` : ', and none was given'}.`);
+    }
     return n;
   };
   const parts = (most: number, form: string) => {
@@ -294,24 +313,20 @@ export function parseWeightsRule(rule: string, order?: string, cumulative = fals
   if (tolerance !== undefined && tiesOnlyForKnn) throw new InputError('--tolerance applies to queen or rook neighbours only.');
   if (name === 'knn') {
     parts(1, 'knn:K');
-    const k = num(params[0], 'the number of neighbours K (knn:K)');
-    if (!Number.isInteger(k) || k < 1) throw new InputError(`--weights ${rule}: K must be a whole number of at least 1.`);
+    const k = num(params[0], 'the number of neighbours K (knn:K)', 'a whole number of at least 1', (n) => Number.isInteger(n) && n >= 1);
     return tieRule === 'include' ? { method: 'knn', k, ties: 'include' } : { method: 'knn', k };
   }
   if (name === 'band') {
     parts(1, 'band:DISTANCE');
-    const d = num(params[0], 'the distance (band:DISTANCE)');
-    if (d <= 0) throw new InputError(`--weights ${rule}: the distance must be positive.`);
+    const d = num(params[0], 'the distance (band:DISTANCE)', BAND_RANGE, (n) => n > 0);
     return { method: 'band', distance: d };
   }
   if (name === 'idw') {
     parts(2, 'idw:POWER or idw:POWER:CUTOFF');
-    const p = num(params[0], 'the power (idw:POWER)');
-    if (p <= 0) throw new InputError(`--weights ${rule}: the power must be positive.`);
+    const p = num(params[0], 'the power (idw:POWER)', 'a number above 0 (1 and 2 are usual)', (n) => n > 0);
     const spec: Extract<WeightsSpec, { method: 'idw' }> = { method: 'idw', power: p };
     if (params[1] !== undefined) {
-      const c = num(params[1], 'the cut-off (idw:POWER:CUTOFF)');
-      if (c <= 0) throw new InputError(`--weights ${rule}: the cut-off must be positive.`);
+      const c = num(params[1], 'the cut-off (idw:POWER:CUTOFF)', BAND_RANGE, (n) => n > 0);
       spec.cutoff = c;
     }
     return spec;

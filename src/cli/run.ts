@@ -56,6 +56,11 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
     if (output && geojson && output.target === geojson.target) {
       throw new InputError(`--out-geojson "${geojson.given}" is the same file as --out "${output.given}"; name two different files.`, { file: geojson.given });
     }
+    for (const other of [output && { plan: output, option: '--out' }, geojson && { plan: geojson, option: '--out-geojson' }]) {
+      if (other && pictures && other.plan.target === pictures.folder) {
+        throw new InputError(`${other.option} "${other.plan.given}" is the --pictures folder "${pictures.given}"; name a file for ${other.option} and a folder for the pictures.`, { file: other.plan.given });
+      }
+    }
     for (const note of [...output?.notes ?? [], ...geojson?.notes ?? [], ...pictures?.notes ?? []]) io.stderr(`spillway: note: ${note}\n`);
     const data = args.data ? readNamedFile(args.data, 'data') : undefined;
     const result = await runAnalysis({
@@ -86,19 +91,31 @@ export async function main(argv: string[], rawIo: CliIo = processIo): Promise<nu
       algebra: args.algebra,
     }, args.threads === 2 ? { helper: startNodeHelper } : {});
     // the pictures' names are known once they are drawn: all are checked before any output is written
-    const picturePlan = pictures ? (await import('./write-extras.js')).planPictureFiles(result, pictures, inputs, args.overwrite) : undefined;
+    const picturePlan = pictures ? (await import('./write-extras.js')).planPictureFiles(result, pictures, inputs, args.overwrite,
+      [...(output ? [{ plan: output, option: '--out' }] : []), ...(geojson ? [{ plan: geojson, option: '--out-geojson' }] : [])]) : undefined;
+    // a later output that fails says which earlier ones were written (each one is whole)
+    const written: string[] = [];
+    try {
     if (output) {
       const { writeResultsFile } = await import('./write-results.js');
       const source = args.data && data ? { path: args.data, bytes: data.bytes } : undefined;
       for (const note of await writeResultsFile(result, output.target, source, writeOptions(output), picturePlan?.report)) io.stderr(`spillway: note: ${note}\n`);
+      written.push(`the results workbook ${output.given}`);
     }
     if (geojson) {
       const { writeGeoJsonFile } = await import('./write-extras.js');
       for (const note of await writeGeoJsonFile(result, geojson)) io.stderr(`spillway: note: ${note}\n`);
+      written.push(`the GeoJSON ${geojson.given}`);
     }
     if (picturePlan) {
       const { writePictureFiles } = await import('./write-extras.js');
       io.stderr(`spillway: pictures in ${picturePlan.pictures.given}: ${(await writePictureFiles(picturePlan)).join(', ')}\n`);
+    }
+    } catch (e) {
+      if (e instanceof InputError && written.length > 0) {
+        throw new InputError(`${e.message} Already written, and complete: ${written.join('; ')}.`, e.where);
+      }
+      throw e;
     }
     if (args.json) rawIo.stdout(jsonPrintable(JSON.stringify(resultToJson(result, { perArea: args.perArea }), null, 2)) + '\n');
     else io.stdout(formatSummary(result) + '\n' + (args.out ? `\nResults workbook: ${args.out}\n` : '') + (args.outGeojson ? `Areas with results (GeoJSON): ${args.outGeojson}\n` : ''));

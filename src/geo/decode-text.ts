@@ -9,6 +9,7 @@
  */
 import { InputError } from '../errors.js';
 import { formatBytes } from '../core/words.js';
+import { decodeSingleByte } from './single-byte.js';
 
 /** The longest text read: V8's limit on a string's length (each byte gives at most one character). */
 export const MAX_TEXT_BYTES = 0x1fffffe8;
@@ -63,7 +64,7 @@ export function decodeText(bytes: Uint8Array, name: string, opts: DecodeOptions)
   } catch {
     if (!opts.latinFallback) return { text: new TextDecoder('utf-8').decode(body), encoding: 'UTF-8', warnings: [`${name} is not valid UTF-8; the bytes that are not were replaced by \uFFFD.`] };
     return {
-      text: new TextDecoder('windows-1252').decode(body),
+      text: decodeSingleByte(body, 1252), // by table: Node's TextDecoder reads this label as ISO-8859-1
       encoding: 'Windows-1252',
       warnings: [`${name} is not valid UTF-8; it was read as Windows-1252. Save it as UTF-8 if letters look wrong.`],
     };

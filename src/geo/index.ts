@@ -10,3 +10,4 @@ export { areaShapeWarnings, findOverlaps } from './overlaps.js';
 export { subsetAreas, tableFromLayer } from './subset.js';
 export { representativePoints, greatCircleKm, planarDistance, EARTH_RADIUS_KM } from './points.js';
 export type * from './types.js';
+export { lookAlikeKey } from './id-checks.js';

@@ -3,7 +3,7 @@ import { InputError, listSome, nearestName } from '../errors.js';
 import type { AreaGeometry, AreaLayer, DataTable, JoinReport, JoinedAreas } from './types.js';
 import type { Cell } from './table-shape.js';
 import { idText, toCell, unpadded } from './ids.js';
-import { caseMessage, caseOnlyPairs, refuseIdsNotText } from './id-checks.js';
+import { caseMessage, caseOnlyPairs, lookAlikeMessage, lookAlikePairs, refuseIdsNotText } from './id-checks.js';
 import { formulaNote } from './formula-note.js';
 import { formatCount } from '../core/count.js';
 
@@ -304,6 +304,9 @@ function fatalProblems(report: JoinReport, layerName: string, tableName: string 
 
 /** " N of these match … when letter case is ignored …" for the unmatched rows, or "". */
 function caseHint(report: JoinReport): string {
-  const pairs = caseOnlyPairs(report.unmatchedRows.map((u) => u.id), report.unmatchedFeatures.map((u) => u.id));
-  return pairs.length ? ` ${caseMessage(pairs)}` : '';
+  const rows = report.unmatchedRows.map((u) => u.id);
+  const features = report.unmatchedFeatures.map((u) => u.id);
+  const pairs = caseOnlyPairs(rows, features);
+  const alike = lookAlikePairs(rows, features);
+  return (pairs.length ? ` ${caseMessage(pairs)}` : '') + (alike.length ? ` ${lookAlikeMessage(alike)}` : '');
 }

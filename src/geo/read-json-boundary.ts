@@ -62,6 +62,7 @@ export function layerFromTopology(topology: Topology, file: string, layer?: stri
   if (!Object.hasOwn(objects, name)) {
     throw new InputError(`${file}: the TopoJSON file has no object named "${name}"; it has ${names.map((n) => `"${n}"`).join(', ')}.`, { file });
   }
+  checkArcIndexes(topology, objects[name], file, name);
   let decoded: unknown;
   try {
     decoded = feature(topology, objects[name]);
@@ -109,4 +110,45 @@ function layerOf(source: string, converted: ReturnType<typeof featuresToAreas>, 
     ...(decision.unit ? { coordinateUnit: decision.unit } : {}),
     warnings: [...converted.warnings, ...decision.warnings],
   };
+}
+
+/**
+ * Every arc index of the object's geometries must name an arc of the topology (TopoJSON
+ * specification 2.0, section 2.1.4: index i, or ~i = -i - 1 for the arc reversed). Checked before
+ * decoding, so a bad index is named by its feature and arc rather than met as a decoder failure.
+ */
+function checkArcIndexes(topology: Topology, object: unknown, file: string, name: string): void {
+  const arcCount = Array.isArray((topology as { arcs?: unknown }).arcs) ? (topology as { arcs: unknown[] }).arcs.length : 0;
+  const geometries: unknown[] = (object as { type?: unknown })?.type === 'GeometryCollection'
+    ? (Array.isArray((object as { geometries?: unknown }).geometries) ? (object as { geometries: unknown[] }).geometries : [])
+    : [object];
+  const bad = (index: unknown): boolean => {
+    if (typeof index !== 'number' || !Number.isInteger(index)) return true;
+    const arc = index >= 0 ? index : ~index;
+    return arc >= arcCount;
+  };
+  const firstBad = (v: unknown): unknown => {
+    if (Array.isArray(v)) {
+      for (const x of v) {
+        const hit = firstBad(x);
+        if (hit !== undefined) return hit;
+      }
+      return undefined;
+    }
+    return bad(v) ? v : undefined;
+  };
+  geometries.forEach((g, k) => {
+    const geom = g as { type?: unknown; arcs?: unknown; id?: unknown; properties?: unknown };
+    if (!geom || typeof geom !== 'object' || geom.arcs === undefined) return;
+    const hit = firstBad(geom.arcs);
+    if (hit === undefined) return;
+    const id = geom.id !== undefined ? ` (id ${JSON.stringify(geom.id)})` : '';
+    const shown = typeof hit === 'number' ? String(hit) : JSON.stringify(hit);
+    throw new InputError(
+      `${file}: object "${name}", feature ${k + 1}${id} refers to arc ${shown}, but ` +
+        (arcCount === 0 ? 'the topology has no arcs' : `the topology has ${arcCount} arc${arcCount === 1 ? '' : 's'} (indexes 0 to ${arcCount - 1}, or -1 to ${-arcCount} for an arc reversed)`) +
+        '. The file is damaged or was cut; export it again.',
+      { file, feature: String(k + 1) },
+    );
+  });
 }

@@ -16,6 +16,7 @@ import { featuresToAreas } from './features-to-areas.js';
 import { claimFromPrj, decideCoordinates } from './coordinate-kind.js';
 import { codePageOfDriver, encodingFromCpg, firstInvalidUtf8, readDbfLayout } from './dbf-bytes.js';
 import { readShpLayout } from './shp-bytes.js';
+import { decodeSingleByte, SINGLE_BYTE_CODE_PAGES, windows1252Bytes } from './single-byte.js';
 import { nestRings } from './ring-nesting.js';
 import { formatCount } from '../core/count.js';
 
@@ -40,7 +41,10 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   }
   if (shpLayout.recordCount === 0) throw new InputError(`${shp.name} holds no shapes.`, { file: shp.name });
 
-  const encoding = chooseEncoding(parts, dbfLayout, warnings);
+  const chosen = chooseEncoding(parts, dbfLayout, warnings);
+  const { encoding } = chosen;
+  // Windows-1252 too is decoded by its table (Node's TextDecoder reads it as ISO-8859-1)
+  const codePage = chosen.codePage ?? (encoding === 'windows-1252' ? 1252 : undefined);
   const readNotes = [...warnings];
   let features: unknown[];
   try {
@@ -54,6 +58,19 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
   } catch (e) {
     if (e instanceof InputError) throw e;
     throw new InputError(`${shp.name} could not be read (${e instanceof Error ? e.message : String(e)}).`, { file: shp.name });
+  }
+  // a code page decoded by table: the text was read byte for byte as Windows-1252
+  // (each byte its own character) and is decoded again by the code page's table
+  if (codePage !== undefined) {
+    const again = (t: string) => decodeSingleByte(windows1252Bytes(t), codePage);
+    for (const f of features as { properties: Record<string, unknown> }[]) {
+      const props: Record<string, unknown> = Object.create(null);
+      for (const key of Object.keys(f.properties)) {
+        const v = f.properties[key];
+        props[again(key)] = typeof v === 'string' ? again(v) : v;
+      }
+      f.properties = props;
+    }
   }
   const againstOrientation: number[] = [];
   let featureNumber = 0;
@@ -119,15 +136,17 @@ export async function layerFromShapefile(parts: ShapefileParts, override?: Coord
  * text is valid UTF-8 (text in another code page almost never is); else the code page its header's
  * language driver byte names; else Windows-1252. Every choice but the first two is noted.
  */
-function chooseEncoding(parts: ShapefileParts, layout: ReturnType<typeof readDbfLayout>, warnings: string[]): string {
+function chooseEncoding(parts: ShapefileParts, layout: ReturnType<typeof readDbfLayout>, warnings: string[]): { encoding: string; codePage?: number } {
   if (parts.cpg) {
     const label = new TextDecoder('utf-8').decode(parts.cpg.bytes);
     const encoding = encodingFromCpg(label);
-    if (encoding) return encoding;
+    if (encoding) return { encoding };
+    const dos = /^\s*(?:cp|ibm|oem|dos)?\s*-?(\d{3})\s*$/i.exec(label);
+    if (dos && SINGLE_BYTE_CODE_PAGES.includes(Number(dos[1]))) return { encoding: 'windows-1252', codePage: Number(dos[1]) };
     warnings.push(`${parts.cpg.name} names an unknown code page "${label.trim()}"; the text encoding is guessed instead.`);
   }
   const bad = firstInvalidUtf8(parts.dbf.bytes, layout);
-  if (!bad) return 'utf-8';
+  if (!bad) return { encoding: 'utf-8' };
   const where = `first in field ${bad.field}${bad.record > 0 ? `, feature ${bad.record}` : ', its name'}`;
   const declared = codePageOfDriver(layout.languageDriver);
   if (declared?.decoder) {
@@ -135,14 +154,21 @@ function chooseEncoding(parts: ShapefileParts, layout: ReturnType<typeof readDbf
       `${parts.dbf.name} has text that is not valid UTF-8 (${where}); it was read with code page ${declared.codePage}, which its header names. ` +
         'If letters look wrong, add a .cpg file naming the code page.',
     );
-    return declared.decoder;
+    return { encoding: declared.decoder };
+  }
+  if (declared && SINGLE_BYTE_CODE_PAGES.includes(declared.codePage)) {
+    warnings.push(
+      `${parts.dbf.name} has text that is not valid UTF-8 (${where}); it was read with the MS-DOS code page ${declared.codePage}, which its header names. ` +
+        'If letters look wrong, add a .cpg file naming the code page.',
+    );
+    return { encoding: 'windows-1252', codePage: declared.codePage };
   }
   warnings.push(
     `${parts.dbf.name} has text that is not valid UTF-8 (${where}); it was read as Windows-1252` +
       (declared ? ` (its header names the MS-DOS code page ${declared.codePage}, which cannot be decoded exactly here)` : '') +
       '. If letters look wrong, add a .cpg file naming the code page.',
   );
-  return 'windows-1252';
+  return { encoding: 'windows-1252' };
 }
 
 /** A Uint8Array covering its whole buffer (the package reads from offset 0 of what it is given). */

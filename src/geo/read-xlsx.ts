@@ -114,7 +114,7 @@ export async function readXlsx(bytes: Uint8Array, sourceName: string, sheet?: st
         // the column names of the header row, so notes can be attached to columns by name
         const byColumn = new Map<string, number[]>();
         for (const u of uncached) {
-          const header = table.columns[u.column - 1] ?? columnLetters(u.column);
+          const header = table.columns[u.column - 1 - (table.columnOffset ?? 0)] ?? columnLetters(u.column);
           byColumn.set(header, [...(byColumn.get(header) ?? []), u.row]);
         }
         return byColumn;

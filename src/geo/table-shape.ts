@@ -21,10 +21,46 @@ export function columnLetters(position: number): string {
   return s;
 }
 
-/** The first non-blank row is the header; blank rows are dropped but keep their numbering. */
+/** A row that reads as a header: at least two names, none of them a number, none repeated. */
+function looksLikeHeader(r: RawRow): boolean {
+  const named = r.cells.filter((c) => !isBlankCell(c));
+  if (named.length < 2) return false;
+  if (named.some((c) => typeof c !== 'string' || /^\s*[-+]?(\d[\d,.\s]*|\.\d+)([eE][-+]?\d+)?\s*%?\s*$/.test(c))) return false;
+  return new Set(named.map((c) => String(c).trim())).size === named.length;
+}
+
+/**
+ * The header is the first non-blank row, except that up to three title rows above it (one filled
+ * cell each, as a sheet's title or a note) are skipped when the row after them reads as a header;
+ * columns blank from top to bottom on the left are skipped too. Both are noted (in the table's
+ * warnings), naming the row used as the header. Blank rows are dropped but keep their numbering.
+ */
 export function shapeTable(raw: RawRow[], sourceName: string, extra: Partial<DataTable> = {}): DataTable {
-  const nonBlank = raw.filter((r) => r.cells.some((c) => !isBlankCell(c)));
+  let nonBlank = raw.filter((r) => r.cells.some((c) => !isBlankCell(c)));
   if (nonBlank.length === 0) throw new InputError(`${sourceName} has no rows.`, { file: sourceName });
+  const notes: string[] = [];
+  let titles = 0;
+  const single = (r: RawRow) => r.cells.filter((c) => !isBlankCell(c)).length === 1;
+  for (let k = 1; k <= 3 && k < nonBlank.length && single(nonBlank[k - 1]); k++) {
+    if (looksLikeHeader(nonBlank[k])) {
+      titles = k;
+      break;
+    }
+  }
+  if (titles > 0) {
+    const shown = nonBlank.slice(0, titles).map((r) => `row ${r.row} ("${String(r.cells.find((c) => !isBlankCell(c))).trim().slice(0, 60)}")`);
+    notes.push(`${sourceName}: ${shown.join(' and ')} ${titles === 1 ? 'looks like a title' : 'look like titles'} above the table and ${titles === 1 ? 'was' : 'were'} skipped; ` +
+      `row ${nonBlank[titles].row} was used as the header. Remove the title rows if that is wrong.`);
+    nonBlank = nonBlank.slice(titles);
+  }
+  // columns empty in every row, on the left: skipped, their letters kept in messages
+  let lead = 0;
+  while (nonBlank.every((r) => isBlankCell(r.cells[lead])) && nonBlank.some((r) => r.cells.length > lead + 1)) lead++;
+  if (lead > 0) {
+    notes.push(`${sourceName}: column${lead === 1 ? ` ${columnLetters(1)} is` : `s ${columnLetters(1)} to ${columnLetters(lead)} are`} empty and ${lead === 1 ? 'was' : 'were'} skipped; the table starts in column ${columnLetters(lead + 1)}.`);
+    nonBlank = nonBlank.map((r) => ({ row: r.row, cells: r.cells.slice(lead) }));
+  }
+  const columnLetter = (k: number) => columnLetters(k + lead);
   const [head, ...body] = nonBlank;
   let width = head.cells.length;
   while (width > 0 && isBlankCell(head.cells[width - 1])) width--;
@@ -32,16 +68,16 @@ export function shapeTable(raw: RawRow[], sourceName: string, extra: Partial<Dat
   const seen = new Map<string, number>();
   for (let k = 0; k < width; k++) {
     const name = head.cells[k] === null ? '' : String(head.cells[k]).trim();
-    const where = `column ${k + 1} (${columnLetters(k + 1)})`;
+    const where = `column ${k + 1 + lead} (${columnLetter(k + 1)})`;
     if (name === '') {
       throw new InputError(`${sourceName}: the header (row ${head.row}) has no name in ${where}; give every column a name.`, {
-        file: sourceName, row: head.row, column: columnLetters(k + 1),
+        file: sourceName, row: head.row, column: columnLetter(k + 1),
       });
     }
     const earlier = seen.get(name);
     if (earlier !== undefined) {
       throw new InputError(
-        `${sourceName}: the header (row ${head.row}) names "${name}" twice, in column ${earlier + 1} (${columnLetters(earlier + 1)}) and ${where}; rename one.`,
+        `${sourceName}: the header (row ${head.row}) names "${name}" twice, in column ${earlier + 1 + lead} (${columnLetter(earlier + 1)}) and ${where}; rename one.`,
         { file: sourceName, row: head.row, column: name },
       );
     }
@@ -55,9 +91,9 @@ export function shapeTable(raw: RawRow[], sourceName: string, extra: Partial<Dat
     for (let k = width; k < cells.length; k++) {
       if (!isBlankCell(cells[k])) {
         throw new InputError(
-          `${sourceName}: row ${row} has a value in column ${k + 1} (${columnLetters(k + 1)}), which has no header; ` +
+          `${sourceName}: row ${row} has a value in column ${k + 1 + lead} (${columnLetter(k + 1)}), which has no header; ` +
             'add a header name or remove the value.',
-          { file: sourceName, row, column: columnLetters(k + 1) },
+          { file: sourceName, row, column: columnLetter(k + 1) },
         );
       }
     }
@@ -68,5 +104,6 @@ export function shapeTable(raw: RawRow[], sourceName: string, extra: Partial<Dat
   }
   const firstRow = body.length > 0 ? rowNumbers[0] : head.row + 1;
   const consecutive = rowNumbers.every((r, i) => r === firstRow + i);
-  return { sourceName, columns, rows, firstRow, ...(consecutive ? {} : { rowNumbers }), ...extra };
+  const warnings = [...notes, ...extra.warnings ?? []];
+  return { sourceName, columns, rows, firstRow, ...(consecutive ? {} : { rowNumbers }), ...(lead ? { columnOffset: lead } : {}), ...extra, ...(warnings.length ? { warnings } : {}) };
 }

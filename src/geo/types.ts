@@ -47,6 +47,8 @@ export interface DataTable {
   rows: (string | number | boolean | null)[][];
   /** Row number (as the user sees it) of the first data row; header is the row before. */
   firstRow: number;
+  /** How many columns, blank from top to bottom, were skipped on the left (the first column's position is this + 1). */
+  columnOffset?: number;
   /** User-visible row number of each entry of `rows` when blank rows were skipped (else firstRow + i). */
   rowNumbers?: number[];
   /** True when the rows are the features of a boundary file (row numbers are feature numbers). */

@@ -77,6 +77,18 @@ function contiguity(input: WeightsInput, spec: Extract<WeightsSpec, { method: 'q
     throw new InputError(`There are ${formatCount(n)} areas but ${formatCount(input.geometries.length)} geometries; every area needs its boundary.`);
   }
   const rule = spec.method;
+  // points have no boundaries to share: the rule cannot apply, whatever their layout
+  const pointCount = input.geometries.filter((g) => g?.kind === 'point').length;
+  if (pointCount > 0) {
+    const pts = checkedPoints(input, 'contiguity');
+    let needed = 0;
+    for (const d of nearestOther(pts).distance) needed = Math.max(needed, d);
+    throw new InputError(
+      `${rule === 'queen' ? 'Queen' : 'Rook'} contiguity needs areas with boundaries, but ${pointCount === n ? 'every area is a point' : `${formatCount(pointCount)} of the ${formatCount(n)} areas are points`}: ` +
+        `points never share a border. Use k-nearest neighbours (e.g. --weights knn:6) or a distance band ` +
+        `(--weights band:${plain(needed)}, the distance in ${distanceUnit(pts)} at which every area has a neighbour).`,
+    );
+  }
   // a tolerance across the whole map would link every pair: refused before the n² links are made
   const shape = spec.tolerance ? layerShape(input.geometries) : null;
   if (shape && spec.tolerance! >= shape.diagonal && n >= 4) throw everyPairByTolerance(spec.tolerance!, rule, shape.extent);

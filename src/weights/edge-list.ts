@@ -1,6 +1,7 @@
 import Papa from 'papaparse';
 import type { CsrMatrix } from '../linalg/index.js';
 import { InputError } from '../errors.js';
+import { lookAlikeKey } from '../geo/index.js';
 import type { SpatialWeights, WeightsTransform } from './types.js';
 import { LinkList, csrFromLinks, isSymmetric, symmetricBehind } from './pattern.js';
 import { applyTransform } from './transform.js';
@@ -35,6 +36,26 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
   const links = new LinkList();
   const seen = new Map<number, number>();
   let first = true;
+  // IDs a spreadsheet wrote as decimals (1001.0 for the area 1001): matched, and said so
+  const decimalIds = new Set<string>();
+  const find = (cell: string): number | undefined => {
+    const exact = position.get(cell);
+    if (exact !== undefined) return exact;
+    const whole = /^(\d+)\.0+$/.exec(cell);
+    const hit = whole ? position.get(whole[1]) : undefined;
+    if (hit !== undefined) decimalIds.add(cell);
+    return hit;
+  };
+  // an unknown ID that differs from an area's only in spaces, letter case, O/0 or l/I/1 is pointed out (never matched)
+  let byKey: Map<string, string> | null = null;
+  const alikeHint = (cell: string): string => {
+    if (!byKey) {
+      byKey = new Map();
+      for (const id of ids) if (!byKey.has(lookAlikeKey(id))) byKey.set(lookAlikeKey(id), id);
+    }
+    const near = byKey.get(lookAlikeKey(cell));
+    return near !== undefined ? ` It looks like the area ${near} (apart from spaces, letter case, O for 0 or l/I for 1), which is not matched automatically.` : '';
+  };
   for (let r = 0; r < rows.length; r++) {
     const line = r + 1;
     const cells = rows[r].map((c) => c.trim());
@@ -43,16 +64,16 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
     if (first) {
       first = false;
       const weightCell = cells[2];
-      const isHeader = weightCell !== undefined && weightCell !== '' ? !isNumber(weightCell) : !position.has(cells[0]);
+      const isHeader = weightCell !== undefined && weightCell !== '' ? !isNumber(weightCell) : find(cells[0]) === undefined;
       if (isHeader) continue;
     }
     if (cells.length < 2 || cells[1] === '') {
       throw new InputError(`${source}, line ${line}: expected an origin ID and a neighbour ID separated by a comma.`, where);
     }
-    const i = position.get(cells[0]);
-    if (i === undefined) throw new InputError(`${source}, line ${line}: the origin ID ${cells[0]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[0] });
-    const j = position.get(cells[1]);
-    if (j === undefined) throw new InputError(`${source}, line ${line}: the neighbour ID ${cells[1]} is not one of the areas. Check the ID or remove the line.`, { ...where, feature: cells[1] });
+    const i = find(cells[0]);
+    if (i === undefined) throw new InputError(`${source}, line ${line}: the origin ID ${cells[0]} is not one of the areas.${alikeHint(cells[0])} Check the ID or remove the line.`, { ...where, feature: cells[0] });
+    const j = find(cells[1]);
+    if (j === undefined) throw new InputError(`${source}, line ${line}: the neighbour ID ${cells[1]} is not one of the areas.${alikeHint(cells[1])} Check the ID or remove the line.`, { ...where, feature: cells[1] });
     if (i === j) throw new InputError(`${source}, line ${line}: area ${cells[0]} is listed as its own neighbour. Remove the line; an area is never its own neighbour.`, where);
     let weight = 1;
     if (cells.length > 2 && cells[2] !== '') {
@@ -79,6 +100,7 @@ export function readEdgeList(text: string, ids: string[], opts: EdgeListOptions 
     description: `neighbours read from ${source}; ${note}`,
     spec: { method: 'edge-list', source },
     transform,
+    ...(decimalIds.size > 0 ? { notes: [`${source} writes ${decimalIds.size} ID(s) with a decimal point (such as 1001.0, as a spreadsheet saves whole numbers); they were matched to the areas of the same whole number.`] } : {}),
     // a list written row-standardised from symmetric links keeps its symmetric form (exact algebra)
     symmetricBase: isSymmetric(base) ? base : transform === 'row' ? symmetricBehind(base) : null,
   };

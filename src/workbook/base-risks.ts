@@ -15,7 +15,24 @@ const PARTS: [RegExp, string][] = [
   [/^xl\/chartsheets\//, 'chart sheets'],
   [/^xl\/model\//, 'a data model'],
   [/^xl\/threadedComments\//, 'threaded comments'],
+  [/^xl\/ctrlProps\//, 'form controls'],
+  [/^xl\/activeX\//, 'ActiveX controls'],
+  [/^xl\/embeddings\//, 'embedded objects'],
+  [/^xl\/queryTables\/|^xl\/connections\.xml$/, 'data connections'],
+  [/^xl\/webextensions\//, 'add-in parts'],
 ];
+
+/**
+ * Parts whose content tells: drawings holding shapes or text boxes (exceljs keeps only pictures of
+ * a drawing), and sheets holding sparklines or data validations in the 2010 extension (exceljs reads
+ * neither). Looked for in the XML text, in parts up to a size (a sheet larger than that is not read
+ * here; the copy's other checks still apply).
+ */
+const CONTENT: [RegExp, RegExp, string][] = [
+  [/^xl\/drawings\/[^/]+\.xml$/, /<(?:\w+:)?(?:sp|grpSp|cxnSp)[\s>]/, 'shapes or text boxes'],
+  [/^xl\/worksheets\/[^/]+\.xml$/, /<(?:\w+:)?sparklineGroups?[\s>]/, 'sparklines'],
+];
+const CONTENT_MAX_BYTES = 32 * 2 ** 20;
 
 /** Plain names of the parts of `base` that would not survive the copy (empty when none, or when it is not a zip). */
 export function baseWorkbookRisks(base: Uint8Array): string[] {
@@ -25,11 +42,20 @@ export function baseWorkbookRisks(base: Uint8Array): string[] {
     const parts = unzipSync(base, {
       filter: (file) => {
         for (const [re, what] of PARTS) if (re.test(file.name)) found.add(what);
-        // only the small list of sheets is inflated (the archive passed the size checks when it was read)
-        return file.name === 'xl/workbook.xml' && file.originalSize < 16 * 2 ** 20;
+        // only the small list of sheets and parts checked by content are inflated, each below a size
+        // (the archive passed the size checks when it was read)
+        if (file.name === 'xl/workbook.xml') return file.originalSize < 16 * 2 ** 20;
+        return CONTENT.some(([re]) => re.test(file.name)) && file.originalSize < CONTENT_MAX_BYTES;
       },
     });
     workbookXml = parts['xl/workbook.xml'];
+    for (const [name, bytes] of Object.entries(parts)) {
+      if (name === 'xl/workbook.xml') continue;
+      const xml = new TextDecoder().decode(bytes);
+      for (const [re, content, what] of CONTENT) if (re.test(name) && content.test(xml)) found.add(what);
+      // a validation list in the 2010 extension (x14): exceljs keeps only the main ones
+      if (/^xl\/worksheets\//.test(name) && /<x14:dataValidations?[\s>]/.test(xml)) found.add('data validations of the 2010 format');
+    }
   } catch {
     return [];
   }

@@ -34,6 +34,22 @@ const PART = /^\..+\.spillway-([0-9a-f]{6})-(\d+)-[0-9a-f]+\.part$/;
 /** the earlier naming (.NAME.RANDOM.part), without host or process */
 const OLD_PART = /^\..+\.[0-9a-f]{12}\.part$/;
 
+/** What a file-system error code means, in words (the code kept for searching). */
+export function errorInWords(code: string | undefined): string {
+  const words: Record<string, string> = {
+    ENOSPC: 'the disk is full',
+    EDQUOT: 'the disk quota is used up',
+    EROFS: 'the disk or folder is read-only',
+    EACCES: 'permission denied (the folder or file is not writable for you)',
+    EPERM: 'the operation is not permitted (the file may be locked or protected)',
+    ENOENT: 'the folder does not exist',
+    ENOTDIR: 'part of the path is a file, not a folder',
+    EISDIR: 'it is a folder',
+    EEXIST: 'a file of that name exists',
+  };
+  return code ? `${words[code] ?? 'the system refused'} (${code})` : 'the system refused';
+}
+
 export function partName(target: string): string {
   return join(dirname(target), `.${basename(target)}.spillway-${HOST}-${process.pid}-${randomBytes(4).toString('hex')}.part`);
 }
@@ -120,7 +136,8 @@ export async function writeWorkbookFile(path: string, bytes: Uint8Array, opts: W
     if (e instanceof InputError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     if (code && USER_FIXABLE.has(code)) {
-      throw new InputError(`Cannot write ${path} (${code}: ${(e as Error).message}). Check the path and permissions, or choose another output path.`, { file: path });
+      const fix = code === 'ENOSPC' || code === 'EDQUOT' ? 'Free some space, or choose an output path on another disk.' : 'Check the path and permissions, or choose another output path.';
+      throw new InputError(`Cannot write ${path}: ${errorInWords(code)}; it was not written. ${fix}`, { file: path });
     }
     throw e;
   } finally {

@@ -190,7 +190,12 @@ export const readingCases: BadInput[] = [
     ['knn:3:7', ['--weights knn:3:7: knn takes one number (knn:K), so "7" cannot be read']],
     ['idw:1:1500:9', ['--weights idw:1:1500:9: idw takes at most 2 numbers (idw:POWER or idw:POWER:CUTOFF), so "9" cannot be read']],
     ['band:2:3', ['band takes one number (band:DISTANCE), so "3" cannot be read']],
-    ['knn:0x10', ['the number of neighbours K (knn:K) must be a number, not "0x10"']],
+    ['knn:0x10', ['the number of neighbours K (knn:K) must be a whole number of at least 1; got "0x10"']],
+    ['band:-1', ['--weights band:-1: the distance (band:DISTANCE) must be a number above 0', 'kilometres for longitude/latitude', 'got "-1"']],
+    ['knn:-2', ['the number of neighbours K (knn:K) must be a whole number of at least 1; got "-2"']],
+    ['idw:-1', ['the power (idw:POWER) must be a number above 0', 'got "-1"']],
+    ['idw:2:0', ['the cut-off (idw:POWER:CUTOFF) must be a number above 0', 'got "0"']],
+    ['band:', ['the distance (band:DISTANCE) must be a number above 0', 'none was given']],
     ['rook:', ['rook takes no number']],
   ] as const).map(([rule, expect]): BadInput => ({
     group: R, name: `rule syntax: --weights ${rule} (every part read, none ignored)`, engine: 'skip',
@@ -248,6 +253,21 @@ export const readingCases: BadInput[] = [
     }),
     expect: ['villages.dbf has text that is not valid UTF-8 (first in field code, feature 1); it was read with code page 1251, which its header names'],
   },
+  // MS-DOS code pages named by the header's language driver byte (0x01 437, 0x02 850, 0x64 852, 0x66 865),
+  // decoded by src/geo/single-byte.ts; the byte strings were encoded with Python's codecs (cp437, cp850, cp852, cp865)
+  ...([
+    [437, 0x01, 'Müller', [77, 129, 108, 108, 101, 114]],
+    [850, 0x02, 'Façade', [70, 97, 135, 97, 100, 101]],
+    [852, 0x64, 'Łódź', [157, 162, 100, 171]],
+    [865, 0x66, 'Ørsted', [157, 114, 115, 116, 101, 100]],
+  ] as const).map(([cp, driver, word, bytes]): BadInput => ({
+    group: G, name: `.dbf in the MS-DOS code page ${cp} named by its header byte: decoded by its table, and the join works`, outcome: 'warn', request: KNN3,
+    files: () => ({
+      boundary: villages((i) => Uint8Array.of(...bytes, 0x30 + Math.floor((i + 1) / 10), 0x30 + ((i + 1) % 10)), (b) => { b[29] = driver; }),
+      data: csvFile('table.csv', ['code', 'y', 'x1', 'x2'], gridRows().map((g, i) => [`${word}${String(i + 1).padStart(2, '0')}`, g.y, g.x1, g.x2])),
+    }),
+    expect: [`it was read with the MS-DOS code page ${cp}, which its header names`],
+  })),
   {
     group: G, name: '.dbf in an unnamed code page: the encoding note is shown with the join error, not hidden by it', request: KNN3,
     files: () => ({

@@ -17,9 +17,10 @@ import { modelCases } from './cases-model.js';
 import { valueCases } from './cases-values.js';
 import { readingCases } from './cases-reading.js';
 import { zipCases } from './cases-zips.js';
+import { auditCases } from './cases-audit.js';
 import { gridFile } from './make.js';
 
-export const ALL_CASES: BadInput[] = [...geoCases, ...tableCases, ...modelCases, ...valueCases, ...readingCases, ...zipCases];
+export const ALL_CASES: BadInput[] = [...geoCases, ...tableCases, ...modelCases, ...valueCases, ...readingCases, ...zipCases, ...auditCases];
 
 const QUICK = { permutations: 0, impactDraws: 10 };
 let dir = '';

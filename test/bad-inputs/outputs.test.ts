@@ -15,7 +15,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createHash } from 'node:crypto';
 import { main } from '../../src/cli/run.js';
-import { partName } from '../../src/workbook/write-file.js';
+import { errorInWords, partName } from '../../src/workbook/write-file.js';
+import { writePictureFiles } from '../../src/cli/write-extras.js';
 import { ROOT, STACK_LINE } from '../helpers/cli.js';
 import { columbus, gridCodesOnly, gridCsv, gridSheet, xlsxFile } from './make.js';
 
@@ -331,5 +332,53 @@ describe('--out-geojson and --pictures meet the same rules as --out', () => {
     const odd = join(f, 'missing\u001b[2J', 'areas.geojson');
     const r = await refused(f, [...args, '--out-geojson', odd], ['Cannot write --out-geojson', 'missing\\u{001B}[2J']);
     expect(r.stderr).not.toContain('\u001b');
+  });
+
+  it('--out or --out-geojson naming the --pictures folder is refused before anything is written', async () => {
+    const f = await folder('pictures-clash');
+    const pics = join(f, 'pictures');
+    const args = [...BASE, '--boundary', join(f, 'districts.geojson'), '--data', join(f, 'table.csv'), '--pictures', pics];
+    const oddFolder = join(f, 'maps.xlsx');
+    await refused(f, [...args.slice(0, -1), oddFolder, '--out', oddFolder], [`--out "${oddFolder}" is the --pictures folder`]);
+    const geoFolder = join(f, 'maps.geojson');
+    await refused(f, [...args.slice(0, -1), geoFolder, '--out-geojson', geoFolder], [`--out-geojson "${geoFolder}" is the --pictures folder`]);
+  });
+
+  it('pictures are written all or none: a failure midway removes those written and the folder it made, and says so', async () => {
+    const f = await folder('pictures-all-or-none');
+    const pics = join(f, 'pictures');
+    const bytes = new TextEncoder().encode('<svg/>');
+    // the third file's folder does not exist: its write fails after two pictures are in place
+    const plan = { pictures: { given: pics, folder: pics, exists: false, notes: [] }, report: { sheets: [] } as never,
+      files: [{ name: 'a.svg', bytes }, { name: 'b.svg', bytes }, { name: join('gone', 'c.svg'), bytes }] };
+    const err = await writePictureFiles(plan).then(() => null, (e: Error) => e);
+    expect(err?.message).toContain('No pictures were kept: the 2 written before it were removed');
+    expect(err?.message).not.toMatch(STACK_LINE);
+    expect(existsSync(pics)).toBe(false);
+  });
+
+  it('file-system refusals are named in words (disk full, read-only, permission), the code kept', () => {
+    expect(errorInWords('ENOSPC')).toBe('the disk is full (ENOSPC)');
+    expect(errorInWords('EROFS')).toBe('the disk or folder is read-only (EROFS)');
+    expect(errorInWords('EACCES')).toContain('permission denied');
+    expect(errorInWords('EXDEV')).toBe('the system refused (EXDEV)');
+  });
+
+  it('a --data workbook with parts a copy would drop (text boxes, sparklines) is left alone: results go to a new workbook, and the note says why', async () => {
+    const { unzipSync, zipSync, strToU8 } = await import('fflate');
+    const f = await folder('data-parts');
+    const book = join(f, 'book.xlsx');
+    const parts = unzipSync(readFileSync(book));
+    parts['xl/drawings/drawing7.xml'] = strToU8('<xdr:wsDr><xdr:oneCellAnchor><xdr:sp><xdr:txBody/></xdr:sp></xdr:oneCellAnchor></xdr:wsDr>');
+    writeFileSync(book, zipSync(parts));
+    const before = snapshot(f);
+    const out = join(f, 'results.xlsx');
+    const r = await runMain([...BASE, '--boundary', join(f, 'districts.geojson'), '--data', book, '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain('book.xlsx holds shapes or text boxes, which a copy could not keep; the results were written to a new workbook instead');
+    const after = snapshot(f);
+    delete after['results.xlsx'];
+    expect(after).toEqual(before);
+    expect(Object.keys(unzipSync(readFileSync(out))).some((n) => n.startsWith('xl/drawings/drawing7'))).toBe(false);
   });
 });
