@@ -31,6 +31,14 @@ describe('rates from counts', () => {
   it('names the row the caller gives', () => {
     expect(() => rateFromCounts([1, -2], [5, 5], { rows: [7, 9], eventsName: 'cases' })).toThrow(/Row 9: the events count "cases"/);
   });
+  it('names every bad row, not only the first, and counts the rest past ten', () => {
+    const msg = (() => { try { rateFromCounts([1, -2, 3, 1.5, 9], [5, 5, 0, 5, 4], { eventsName: 'cases', populationName: 'people' }); } catch (e) { return (e as Error).message; } return ''; })();
+    expect(msg).toMatch(/^4 rows cannot give a rate from "cases" and "people": row 3 \(events -2, below 0\), row 4 \(population 0\), row 5 \(events 1.5, not whole\), row 6 \(9 events above a population of 4\)\./);
+    const many = Array.from({ length: 25 }, () => -1);
+    const long = (() => { try { rateFromCounts(many, many.map(() => 10)); } catch (e) { return (e as Error).message; } return ''; })();
+    expect(long).toMatch(/^25 rows .*row 11 \(events -1, below 0\), and 15 more \(rows 12, 13, .*, 26\)\./);
+    expect(long).not.toMatch(/row 12 \(/);
+  });
 });
 
 describe('small-denominator flag (common practice)', () => {
