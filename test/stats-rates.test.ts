@@ -4,11 +4,12 @@
 //   raw rate to within its reliability (C → 1); the neighbourhood smoother of an area without
 //   neighbours is its raw rate; Assunção & Reis (1999) with equal populations is Moran's I of the
 //   raw rate (the standardisation is then one affine map);
-// - the small-denominator rule (fewer than 20 events or RSE above 30 %) is common practice.
+// - the small-denominator rule (fewer than 20 events) is common practice; the relative standard error it
+//   quotes is the Poisson identity RSE = 1/√d.
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../src/errors.js';
 import {
-  ebGlobal, ebLocal, ebMoments, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts,
+  ebGlobal, ebLocal, ebMoments, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE,
 } from '../src/stats/index.js';
 import { csrFromNeighbours, rookNeighbours } from './helpers/grid.js';
 
@@ -44,6 +45,14 @@ describe('rates from counts', () => {
 describe('small-denominator flag (common practice)', () => {
   it('flags fewer than 20 events and zero events', () => {
     expect(rateFlags([0, 5, 19, 20, 400])).toEqual([true, true, true, false, false]);
+  });
+  it('states the rule plainly, cites it as common practice, and its RSE figures hold (Poisson: RSE = 1/√d)', () => {
+    expect(RATE_FLAG_RULE).toMatch(/^An area is flagged when its rate rests on fewer than 20 events/);
+    expect(RATE_FLAG_RULE).toMatch(/common practice/);
+    expect(1 / Math.sqrt(20)).toBeCloseTo(0.224, 3);
+    // the 30 % line often quoted is crossed only below 12 events, inside the 20-event rule
+    expect(1 / Math.sqrt(11)).toBeGreaterThan(0.3);
+    expect(1 / Math.sqrt(12)).toBeLessThan(0.3);
   });
 });
 
