@@ -125,8 +125,8 @@ describe('the palette of the local maps', () => {
   };
 
   it('keeps the solid groups apart in lightness in grey and under each simulated deficiency', () => {
-    // solid fills: high among high, low among low, not significant, no neighbours (the outliers are striped)
-    const solid = [LOCAL_FILL.highHigh, LOCAL_FILL.lowLow, LOCAL_FILL.none, LOCAL_FILL.noNeighbours];
+    // solid fills: high among high, low among low, not significant, no neighbours, withheld (the outliers are striped)
+    const solid = [LOCAL_FILL.highHigh, LOCAL_FILL.lowLow, LOCAL_FILL.none, LOCAL_FILL.noNeighbours, LOCAL_FILL.withheld];
     for (const [name, m] of Object.entries(simulations)) {
       const l = solid.map((h) => seen(h, m)).sort((a, b) => a - b);
       // contrast ratio of at least 1.25 between neighbours in lightness (WCAG's ratio form; our threshold)

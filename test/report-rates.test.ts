@@ -140,6 +140,34 @@ describe('withholding the flagged areas (privacy)', async () => {
     expect(scatter.alt).toMatch(/95 withheld area\(s\) not shown/);
   });
 
+  it('blanks the local statistics of those areas too, counts them apart and maps them grey (withheld), not in a group colour', async () => {
+    for (const of of ['outcome', 'rate:sids', 'residuals']) {
+      const withLocal = await run({ withhold: true, local: of });
+      const local = buildReport(withLocal).sheets.find((s) => s.role === 'local')!;
+      const rows = table(local, /each area in table order/).rows;
+      rows.forEach((row, i) => {
+        if (flagged[i]) {
+          expect(row.slice(2, 9), of).toEqual([null, null, null, null, null, null, null]);
+          expect(row.slice(9), of).toEqual(['withheld for privacy', 'withheld for privacy']);
+        } else {
+          expect(typeof row[2], of).toBe('number');
+        }
+      });
+      expect(keyValue(local, 'Withheld in this workbook'), of).toMatch(/^yes: the local figures of the 95 areas whose sids rests on few events are blank/);
+      const groups = table(local, /How many areas fall in each group/).rows;
+      expect(groups.find((r) => r[0] === 'withheld for privacy')![1]).toBe(95);
+      expect(groups.reduce((t, r) => t + (r[1] as number), 0)).toBe(100);
+      for (const image of local.images!) {
+        expect(image.alt, of).toMatch(/withheld for privacy \(95\)/);
+        expect(image.svg).toContain('#dcdcdc');
+      }
+    }
+    // without withholding nothing is blank
+    const open = buildReport(await run({ local: 'outcome' })).sheets.find((s) => s.role === 'local')!;
+    expect(table(open, /each area in table order/).rows.every((r) => typeof r[2] === 'number')).toBe(true);
+    expect(keyValue(open, 'Withheld in this workbook')).toBeUndefined();
+  });
+
   it('records what was withheld in the run record', () => {
     const record = report.sheets.find((s) => s.role === 'record')!;
     expect(keyValue(record, 'Flagged areas withheld in this workbook')).toMatch(/^yes/);

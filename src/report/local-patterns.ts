@@ -11,6 +11,7 @@ import { categoryMapSvg, type MapCategory } from './pictures/category-map.js';
 import { localMoranMapCategories, LOCAL_FILL, P_BAND_FILL } from './pictures/local-palette.js';
 import type { Picture } from './pictures/index.js';
 import { formatCount } from '../core/count.js';
+import { localRate, withheldLocal } from './withheld.js';
 
 const ORDER: LocalStatisticKind[] = ['moran', 'gi', 'gistar'];
 const CATEGORY_ORDER: LocalCategory[] = ['high-high', 'high-low', 'low-high', 'low-low', 'not-significant', 'no-neighbours'];
@@ -27,6 +28,8 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
   const l = result.local;
   if (!l) return undefined;
   const kinds = ORDER.filter((k) => l.results[k]);
+  const hidden = withheldLocal(result);
+  const hiddenCount = hidden ? hidden.filter(Boolean).length : 0;
   const head: Block[] = [
     { kind: 'title', text: `Where the pattern is: local statistics of ${l.variable}` },
     { kind: 'paragraph', style: 'interpretation', text: reading(result) },
@@ -42,16 +45,21 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
         ['Decisions rest on', l.permutations > 0 ? 'the permutation p-values' : 'the analytic p-values (no permutations were drawn)', 'text'],
         ['Multiple-testing control', describeControl(l.control), 'text'],
         ['Permutation rule', l.permutationRule, 'text'],
+        ...(hiddenCount ? [['Withheld in this workbook', `yes: the local figures of the ${formatCount(hiddenCount)} areas whose ${localRate(result)!.name} rests on few events are blank, and the maps show them grey`, 'text'] as [string, Cell, 'text']] : []),
       ],
     },
   ];
   if (l.results.moran?.categories) {
-    const counts = categoryCounts(l.results.moran.categories);
+    const counts = shownCounts(l.results.moran.categories, hidden);
     head.push({
       kind: 'table', title: "How many areas fall in each group (local Moran's I, after control)",
       columns: [{ header: 'Group', format: 'text', width: 22 }, { header: 'Areas', format: 'integer', width: 10 }, { header: 'Share', format: 'percent', width: 10 }],
-      rows: CATEGORY_ORDER.filter((c) => c !== 'no-neighbours' || counts[c] > 0).map((c) => [LOCAL_CATEGORY_LABEL[c], counts[c], counts[c] / result.n]),
-      note: 'High among high: the area and its neighbours are above the average; low among low: both below; high among low and low among high: the area differs from its neighbours.',
+      rows: [
+        ...CATEGORY_ORDER.filter((c) => c !== 'no-neighbours' || counts[c] > 0).map((c): Cell[] => [LOCAL_CATEGORY_LABEL[c], counts[c], counts[c] / result.n]),
+        ...(hiddenCount ? [[WITHHELD_WORDS, hiddenCount, hiddenCount / result.n] as Cell[]] : []),
+      ],
+      note: 'High among high: the area and its neighbours are above the average; low among low: both below; high among low and low among high: the area differs from its neighbours.' +
+        (hiddenCount ? ' Withheld areas are counted apart, whatever their group: their rates rest on few events and are left blank for privacy (the tests still used them).' : ''),
     });
   }
   const pictures = localPictures(result);
@@ -66,6 +74,14 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
   return { blocks, images };
 }
 
+/** What the sheet and the maps call an area whose local figures are withheld for privacy. */
+export const WITHHELD_WORDS = 'withheld for privacy';
+
+/** Counts per group of the areas shown; withheld areas are left out (counted apart). */
+function shownCounts(categories: readonly LocalCategory[], hidden: boolean[] | undefined): Record<LocalCategory, number> {
+  return categoryCounts(hidden ? categories.filter((_, i) => !hidden[i]) : categories);
+}
+
 export const CAUTION =
   'Read local results with care: there is one test per area, so some areas will look significant by chance (hence the control for ' +
   'multiple testing); neighbouring tests share data and are not independent; permutation p-values depend on the seed and the number ' +
@@ -75,14 +91,15 @@ function reading(result: AnalysisResult): string {
   const l = result.local!;
   const parts: string[] = [];
   const m = l.results.moran;
+  const hidden = withheldLocal(result);
   if (m?.categories) {
-    const c = categoryCounts(m.categories);
+    const c = shownCounts(m.categories, hidden);
     const found = c['high-high'] + c['low-low'] + c['high-low'] + c['low-high'];
     parts.push(found === 0
       ? `No area stands out in local Moran's I once the number of tests is allowed for (${describeControl(l.control)}).`
       : `${formatCount(found)} of ${formatCount(m.tests)} areas stand out in local Moran's I after control: ${formatCount(c['high-high'])} high among high, ${formatCount(c['low-low'])} low among low, ` +
         `${formatCount(c['high-low'])} high among low and ${formatCount(c['low-high'])} low among high.`);
-    const loose = m.significantUncontrolled.filter(Boolean).length;
+    const loose = m.significantUncontrolled.filter((s, i) => s && !hidden?.[i]).length;
     if (loose > found) parts.push(`Without control, ${formatCount(loose)} areas would pass p ≤ ${l.control.level}; the difference is what chance alone would be expected to supply among so many tests.`);
   }
   for (const k of ['gi', 'gistar'] as const) {
@@ -90,14 +107,19 @@ function reading(result: AnalysisResult): string {
     if (!g) continue;
     let high = 0;
     let low = 0;
-    g.significant.forEach((s, i) => { if (s) (g.z[i] > 0 ? high++ : low++); });
+    g.significant.forEach((s, i) => { if (s && !hidden?.[i]) (g.z[i] > 0 ? high++ : low++); });
     parts.push(`${LOCAL_STATISTIC_LABEL[k]}: ${formatCount(high)} area(s) in a cluster of high values and ${formatCount(low)} in a cluster of low values after control.`);
+  }
+  if (hidden) {
+    const k = hidden.filter(Boolean).length;
+    parts.push(`${formatCount(k)} area(s) whose rate rests on few events are withheld for privacy: their local figures are blank, they are not counted above, and the maps show them grey.`);
   }
   return parts.join(' ');
 }
 
 function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
   const l = result.local!;
+  const hidden = withheldLocal(result);
   return kinds.map((k) => {
     const s = l.results[k]!;
     const columns: TableColumn[] = [
@@ -113,6 +135,7 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
     ];
     if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
     const rows: Cell[][] = result.ids.map((_, i) => {
+      if (hidden?.[i]) return [...areaKeyCells(result, i), null, null, null, null, null, null, null, WITHHELD_WORDS, ...(k === 'moran' ? [WITHHELD_WORDS] : [])];
       const row: Cell[] = [...areaKeyCells(result, i), num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
         s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no'];
       if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
@@ -120,7 +143,8 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
     });
     return {
       kind: 'table', title: `${LOCAL_STATISTIC_LABEL[k]}, each area in table order`, columns, rows,
-      note: `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.`,
+      note: `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.` +
+        (hidden ? ' Blank rows are withheld for privacy: each is computed from the area’s own rate, which rests on few events.' : ''),
     } satisfies Block;
   });
 }
@@ -132,17 +156,20 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
   const s = result.local!.results[kind]!;
   const l = result.local!;
   const controlWords = describeControl(l.control);
+  const hidden = withheldLocal(result);
+  const withheld: MapCategory = { label: WITHHELD_WORDS, fill: { solid: LOCAL_FILL.withheld }, optional: true };
   const out: { name: string; pic: Picture }[] = [];
   if (kind === 'moran') {
     const cats = localMoranMapCategories({
       hh: LOCAL_CATEGORY_LABEL['high-high'], ll: LOCAL_CATEGORY_LABEL['low-low'], hl: LOCAL_CATEGORY_LABEL['high-low'],
       lh: LOCAL_CATEGORY_LABEL['low-high'], ns: LOCAL_CATEGORY_LABEL['not-significant'], nn: LOCAL_CATEGORY_LABEL['no-neighbours'],
     });
+    cats.push(withheld);
     const index: Record<LocalCategory, number> = { 'high-high': 0, 'high-low': 1, 'low-high': 2, 'low-low': 3, 'not-significant': 4, 'no-neighbours': 5 };
     out.push({ name: 'map of local groups', pic: categoryMapSvg({
       title: `Where ${l.variable} clusters`, legendTitle: 'Area, then its neighbours',
       geometries: result.geometries, coordinates: result.coordinates, unit: result.coordinateUnit,
-      category: s.categories!.map((c) => index[c]), categories: cats,
+      category: s.categories!.map((c, i) => (hidden?.[i] ? 6 : index[c])), categories: cats,
       note: `Local Moran's I; ${controlWords}.`,
     }) });
   } else {
@@ -151,8 +178,9 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
       { label: 'cluster of low values', fill: { solid: LOCAL_FILL.lowLow } },
       { label: 'not significant', fill: { solid: LOCAL_FILL.none } },
       { label: 'no neighbours', fill: { solid: LOCAL_FILL.noNeighbours }, optional: true },
+      withheld,
     ];
-    const category = Array.from(s.z, (z, i) => (s.neighbourCount[i] === 0 ? 3 : !s.significant[i] ? 2 : z > 0 ? 0 : 1));
+    const category = Array.from(s.z, (z, i) => (hidden?.[i] ? 4 : s.neighbourCount[i] === 0 ? 3 : !s.significant[i] ? 2 : z > 0 ? 0 : 1));
     out.push({ name: 'map of local clusters', pic: categoryMapSvg({
       title: `Where ${l.variable} clusters`, legendTitle: LOCAL_STATISTIC_LABEL[kind],
       geometries: result.geometries, coordinates: result.coordinates, unit: result.coordinateUnit, category, categories: cats,
@@ -166,8 +194,9 @@ export function localPictures(result: AnalysisResult): { name: string; pic: Pict
     { label: `p ≤ ${String(level)}`, fill: { solid: P_BAND_FILL[2] } },
     { label: `p above ${String(level)}`, fill: { solid: P_BAND_FILL[3] } },
     { label: 'no neighbours', fill: { solid: LOCAL_FILL.noNeighbours }, optional: true },
+    withheld,
   ];
-  const band = Array.from(s.adjusted, (p, i) => (s.neighbourCount[i] === 0 || !Number.isFinite(p) ? 4 : p <= 0.001 ? 0 : p <= 0.01 ? 1 : p <= level ? 2 : 3));
+  const band = Array.from(s.adjusted, (p, i) => (hidden?.[i] ? 5 : s.neighbourCount[i] === 0 || !Number.isFinite(p) ? 4 : p <= 0.001 ? 0 : p <= 0.01 ? 1 : p <= level ? 2 : 3));
   out.push({ name: 'map of local p-values', pic: categoryMapSvg({
     title: `How strong the local evidence is (${kind === 'moran' ? "local Moran's I" : LOCAL_STATISTIC_LABEL[kind]})`,
     legendTitle: l.control.method === 'none' ? 'p, not adjusted for many tests' : 'p adjusted for many tests',
