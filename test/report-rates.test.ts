@@ -105,6 +105,22 @@ describe('the Rates sheet (North Carolina counties, SID74 per 1,000 BIR74)', asy
   });
 });
 
+describe('local statistics of a smoothed rate carry the caution that smoothing induces spatial correlation', () => {
+  const paragraphs = (sheet: ReportSheet) => sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join(' ');
+  it('on Local patterns and in the Summary, for the outcome, its residuals and the rate by name; not for rate:NAME', async () => {
+    for (const [of, y, x] of [['outcome', 'sids', 'NWBIR74'], ['residuals', 'sids', 'NWBIR74'], ['sids', 'NWBIR74', 'BIR74']]) {
+      const report = buildReport(await run({ local: of, y, x }));
+      const local = report.sheets.find((s) => s.role === 'local')!;
+      expect(paragraphs(local), of).toMatch(/local empirical-Bayes rate of sids, which borrows strength from neighbours and so induces spatial correlation of its own.*overstate clustering/);
+      expect(paragraphs(report.sheets.find((s) => s.role === 'overview')!), of).toMatch(/The local statistics \("Local patterns"\) are of .*overstate clustering/);
+    }
+    const global = buildReport(await run({ local: 'outcome', smoothing: 'global' })).sheets.find((s) => s.role === 'local')!;
+    expect(paragraphs(global)).toMatch(/global empirical-Bayes rate of sids, which pulls each small area towards the overall rate/);
+    const standardised = buildReport(await run({ local: 'rate:sids', y: 'NWBIR74', x: 'BIR74' })).sheets.find((s) => s.role === 'local')!;
+    expect(paragraphs(standardised)).not.toMatch(/induces spatial correlation/);
+  });
+});
+
 describe('withholding the flagged areas (privacy)', async () => {
   const result = await run({ withhold: true });
   const report = buildReport(result);

@@ -12,6 +12,7 @@ import { localMoranMapCategories, LOCAL_FILL, P_BAND_FILL } from './pictures/loc
 import type { Picture } from './pictures/index.js';
 import { formatCount } from '../core/count.js';
 import { localRate, withheldLocal } from './withheld.js';
+import { smoothedLocalCaution } from './rates.js';
 
 const ORDER: LocalStatisticKind[] = ['moran', 'gi', 'gistar'];
 const CATEGORY_ORDER: LocalCategory[] = ['high-high', 'high-low', 'low-high', 'low-low', 'not-significant', 'no-neighbours'];
@@ -30,9 +31,11 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
   const kinds = ORDER.filter((k) => l.results[k]);
   const hidden = withheldLocal(result);
   const hiddenCount = hidden ? hidden.filter(Boolean).length : 0;
+  const smoothed = smoothedLocalCaution(result);
   const head: Block[] = [
     { kind: 'title', text: `Where the pattern is: local statistics of ${l.variable}` },
     { kind: 'paragraph', style: 'interpretation', text: reading(result) },
+    ...(smoothed ? [{ kind: 'paragraph', style: 'caution', text: smoothed } satisfies Block] : []),
     {
       kind: 'keyValues', title: 'How the local tests were made',
       rows: [
