@@ -49,6 +49,22 @@ describe('spillway fit --local on Columbus', () => {
     }
   });
 
+  it('counts the areas passing under each control, the chosen and the others, by the published rules applied directly', () => {
+    for (const k of ['moran', 'gi', 'gistar']) {
+      const p: number[] = out.local[k].areas.map((a: any) => a.pPermutation);
+      const m = p.length;
+      // Benjamini & Hochberg (1995) step-up: the largest rank r with p(r) ≤ r·q/m, and every p at or below it
+      const sorted = [...p].sort((a, b) => a - b);
+      let cut = -1;
+      sorted.forEach((x, r) => { if (x <= ((r + 1) * 0.05) / m) cut = x; });
+      const fdr = p.filter((x) => x <= cut).length;
+      // Bonferroni: p ≤ q/m; none: p ≤ q
+      const bonferroni = p.filter((x) => x <= 0.05 / m).length;
+      const none = p.filter((x) => x <= 0.05).length;
+      expect(out.local[k].control.significantUnder, k).toEqual({ fdr, bonferroni, none });
+    }
+  });
+
   it('gives a category only to significant areas, matching the signs of the value and its neighbours', () => {
     for (const a of out.local.moran.areas) {
       if (!a.significant) expect(a.category).toBe('not-significant');
@@ -63,6 +79,8 @@ describe('spillway fit --local on Columbus', () => {
     expect(text.code).toBe(0);
     expect(text.stdout).toMatch(/Where the pattern is: local statistics of CRIME/);
     expect(text.stdout).toMatch(/Bonferroni/);
+    // the other control beside the chosen one, and the uncontrolled count labelled as such
+    expect(text.stdout).toMatch(/areas significant after control \(\d+ under the false discovery rate; \d+ without control\)/);
   });
 
   it('refuses unknown statistics, controls and levels with a plain message', () => {
@@ -105,6 +123,11 @@ describe('the Local patterns sheet', () => {
     expect(text).toMatch(/Benjamini–Hochberg/);
     expect(text).toMatch(/clusters are of areas, not of people/);
     expect(text).toMatch(/Getis–Ord Gi\* \(area included\), each area in table order/);
+    // the counts under the chosen control and the others, labelled
+    expect(text).toMatch(/How many areas are significant at 0.05, under the chosen control and the others/);
+    expect(text).toMatch(/False discovery rate \(Benjamini–Hochberg\) yes \(chosen\)/);
+    expect(text).toMatch(/Any false finding \(Bonferroni\) no \(for comparison\)/);
+    expect(text).toMatch(/No control: each area on its own \(uncontrolled\) no \(uncontrolled\)/);
   });
 });
 

@@ -1,5 +1,5 @@
 import {
-  categoryCounts, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type LocalOutcome,
+  categoryCounts, CONTROL_LABEL, describeControl, LOCAL_CATEGORY_LABEL, LOCAL_STATISTIC_LABEL, type AnalysisResult, type LocalOutcome,
 } from '../pipeline/index.js';
 import type { LocalCategory, LocalStatisticKind } from '../stats/index.js';
 import type { Block, Cell, PngRenderer, ReportImage, TableColumn } from './types.js';
@@ -65,6 +65,7 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
         (hiddenCount ? ' Withheld areas are counted apart, whatever their group: their rates rest on few events and are left blank for privacy (the tests still used them).' : ''),
     });
   }
+  head.push(controlTable(result, kinds, hidden));
   const pictures = localPictures(result);
   const headRows = layoutBlocks(head).lastRow;
   const images = placePictures(pictures, headRows + 3, renderPng);
@@ -75,6 +76,35 @@ export function localPatternsSheet(result: AnalysisResult, renderPng?: PngRender
   blocks.push(...areaTables(result, kinds));
   blocks.push({ kind: 'paragraph', style: 'caution', text: CAUTION });
   return { blocks, images };
+}
+
+/**
+ * How many areas pass at the run's level under the chosen control and under the others, side by side
+ * (Benjamini–Hochberg, Bonferroni, none), so the reader sees how much the choice matters; the
+ * uncontrolled count is labelled as such.
+ */
+function controlTable(result: AnalysisResult, kinds: LocalStatisticKind[], hidden: boolean[] | undefined): Block {
+  const l = result.local!;
+  const chosen = l.control.method;
+  const methods = (['fdr', 'bonferroni', 'none'] as const).slice().sort((a, b) => Number(b === chosen) - Number(a === chosen));
+  const count = (flags: readonly boolean[]) => flags.filter((f, i) => f && !hidden?.[i]).length;
+  const tests = l.results[kinds[0]]!.tests;
+  return {
+    kind: 'table', title: `How many areas are significant at ${l.control.level}, under the chosen control and the others`,
+    columns: [
+      { header: 'Control for many tests', format: 'text', width: 30 },
+      { header: 'Used here', format: 'text', width: 10 },
+      ...kinds.map((k): TableColumn => ({ header: LOCAL_STATISTIC_LABEL[k], format: 'integer', width: 14, group: 'Areas significant' })),
+    ],
+    rows: methods.map((m): Cell[] => [
+      CONTROL_LABEL[m],
+      m === chosen ? 'yes (chosen)' : m === 'none' ? 'no (uncontrolled)' : 'no (for comparison)',
+      ...kinds.map((k) => count(l.results[k]!.significantUnder[m])),
+    ]),
+    note: `The chosen control decides the groups, the maps and the per-area tables; the others are shown for comparison only. ` +
+      `The uncontrolled count is not a finding: among ${formatCount(tests)} tests about ${formatCount(Math.round(tests * l.control.level))} would pass at ${l.control.level} by chance alone.` +
+      (hidden ? ' Withheld areas are not counted.' : ''),
+  };
 }
 
 /** What the sheet and the maps call an area whose local figures are withheld for privacy. */
