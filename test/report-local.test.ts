@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { readWorkbook } from '../src/workbook/read-back.js';
 import { LOCAL_FILL, P_BAND_FILL } from '../src/report/pictures/local-palette.js';
+import { bonferroniFloor } from '../src/report/local-patterns.js';
 import { runCli, ROOT, STACK_LINE } from './helpers/cli.js';
 
 const COLUMBUS = join(ROOT, 'test/fixtures/columbus/columbus.shp');
@@ -128,6 +129,17 @@ describe('the Local patterns sheet', () => {
     expect(text).toMatch(/False discovery rate \(Benjamini–Hochberg\) yes \(chosen\)/);
     expect(text).toMatch(/Any false finding \(Bonferroni\) no \(for comparison\)/);
     expect(text).toMatch(/No control: each area on its own \(uncontrolled\) no \(uncontrolled\)/);
+    // 999 permutations do reach 0.05/49 (the smallest p, 1/1,000, is below 0.00102), so no note here
+    expect(text).not.toMatch(/no area can pass under Bonferroni/);
+  });
+});
+
+describe('the floor of permutation p-values under Bonferroni', () => {
+  it('says when no area can pass: the smallest p, 1/(R + 1) (Anselin 1995), above level/tests', () => {
+    expect(bonferroniFloor(999, 150, 0.05)).toBe(' With 999 permutations no permutation p-value can fall below 0.001, above Bonferroni’s threshold of 0.05/150, so no area can pass under Bonferroni; it would take at least 2,999 permutations.');
+    expect(bonferroniFloor(2999, 150, 0.05)).toBe(''); // 1/3,000 = 0.05/150 exactly passes
+    expect(bonferroniFloor(9999, 3000, 0.05)).toMatch(/fall below 1\.0e-4, .* at least 59,999 permutations/);
+    expect(bonferroniFloor(0, 150, 0.05)).toBe(''); // analytic p-values have no floor
   });
 });
 

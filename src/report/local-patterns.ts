@@ -92,9 +92,9 @@ function controlTable(result: AnalysisResult, kinds: LocalStatisticKind[], hidde
   return {
     kind: 'table', title: `How many areas are significant at ${l.control.level}, under the chosen control and the others`,
     columns: [
-      { header: 'Control for many tests', format: 'text', width: 30 },
-      { header: 'Used here', format: 'text', width: 10 },
-      ...kinds.map((k): TableColumn => ({ header: LOCAL_STATISTIC_LABEL[k], format: 'integer', width: 14, group: 'Areas significant' })),
+      { header: 'Control for many tests', format: 'text', width: 42 },
+      { header: 'Used here', format: 'text', width: 20 },
+      ...kinds.map((k): TableColumn => ({ header: LOCAL_STATISTIC_LABEL[k], format: 'integer', width: 16, group: 'Areas significant' })),
     ],
     rows: methods.map((m): Cell[] => [
       CONTROL_LABEL[m],
@@ -103,8 +103,20 @@ function controlTable(result: AnalysisResult, kinds: LocalStatisticKind[], hidde
     ]),
     note: `The chosen control decides the groups, the maps and the per-area tables; the others are shown for comparison only. ` +
       `The uncontrolled count is not a finding: among ${formatCount(tests)} tests about ${formatCount(Math.round(tests * l.control.level))} would pass at ${l.control.level} by chance alone.` +
+      bonferroniFloor(l.permutations, tests, l.control.level) +
       (hidden ? ' Withheld areas are not counted.' : ''),
   };
+}
+
+/**
+ * A permutation p-value is never below 1/(R + 1), so Bonferroni, which asks for p ≤ level / tests,
+ * can pass no area when 1/(R + 1) is above that; say so, with the permutations that would be needed.
+ */
+export function bonferroniFloor(permutations: number, tests: number, level: number): string {
+  if (permutations === 0 || tests === 0 || 1 / (permutations + 1) <= level / tests) return '';
+  const needed = Math.ceil(tests / level) - 1;
+  return ` With ${formatCount(permutations)} permutations no permutation p-value can fall below ${1 / (permutations + 1) < 0.001 ? (1 / (permutations + 1)).toExponential(1) : String(Math.round(1e6 / (permutations + 1)) / 1e6)}, ` +
+    `above Bonferroni’s threshold of ${level}/${formatCount(tests)}, so no area can pass under Bonferroni; it would take at least ${formatCount(needed)} permutations.`;
 }
 
 /** What the sheet and the maps call an area whose local figures are withheld for privacy. */
