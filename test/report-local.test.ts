@@ -63,6 +63,10 @@ describe('spillway fit --local on Columbus', () => {
       const bonferroni = p.filter((x) => x <= 0.05 / m).length;
       const none = p.filter((x) => x <= 0.05).length;
       expect(out.local[k].control.significantUnder, k).toEqual({ fdr, bonferroni, none });
+      // per area: the chosen control's decision is `significant`, and every control's sits under significantUnder
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.fdr)).toEqual(out.local[k].areas.map((a: any) => a.significant));
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.bonferroni)).toEqual(p.map((x) => x <= 0.05 / m));
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.none)).toEqual(p.map((x) => x <= 0.05));
     }
   });
 
@@ -131,6 +135,7 @@ describe('the Local patterns sheet', () => {
     expect(text).toMatch(/No control: each area on its own \(uncontrolled\) no \(uncontrolled\)/);
     // 999 permutations do reach 0.05/49 (the smallest p, 1/1,000, is below 0.00102), so no note here
     expect(text).not.toMatch(/no area can pass under Bonferroni/);
+    expect(text).toMatch(/Under Bonferroni \(for comparison\)/);
   });
 });
 

@@ -164,7 +164,7 @@ describe('withholding the flagged areas (privacy)', async () => {
       rows.forEach((row, i) => {
         if (flagged[i]) {
           expect(row.slice(2, 9), of).toEqual([null, null, null, null, null, null, null]);
-          expect(row.slice(9), of).toEqual(['withheld for privacy', 'withheld for privacy']);
+          expect(row.slice(9), of).toEqual(['withheld for privacy', 'withheld for privacy', 'withheld for privacy']);
         } else {
           expect(typeof row[2], of).toBe('number');
         }

@@ -131,6 +131,7 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
         pPermutation: s.pPermutation ? num(s.pPermutation[i]) : null,
         pAdjusted: num(s.adjusted[i]),
         significant: s.significant[i],
+        significantUnder: { fdr: s.significantUnder.fdr[i], bonferroni: s.significantUnder.bonferroni[i], none: s.significantUnder.none[i] },
         ...(s.categories ? { category: s.categories[i] } : {}),
       })),
     };

@@ -165,6 +165,9 @@ function reading(result: AnalysisResult): string {
 function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
   const l = result.local!;
   const hidden = withheldLocal(result);
+  // the other control beside the chosen one, per area, so the reader sees which areas the choice decides
+  const other = l.control.method === 'fdr' ? 'bonferroni' : 'fdr';
+  const otherWords = other === 'fdr' ? 'Under the false discovery rate (for comparison)' : 'Under Bonferroni (for comparison)';
   return kinds.map((k) => {
     const s = l.results[k]!;
     const columns: TableColumn[] = [
@@ -177,12 +180,14 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
       { header: 'Permutation', format: 'pvalue', width: 11, group: 'p-value' },
       { header: 'Adjusted', format: 'pvalue', width: 9, group: 'p-value' },
       { header: 'Significant after control', format: 'text', width: 12 },
+      { header: otherWords, format: 'text', width: 14 },
     ];
     if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
     const rows: Cell[][] = result.ids.map((_, i) => {
-      if (hidden?.[i]) return [...areaKeyCells(result, i), null, null, null, null, null, null, null, WITHHELD_WORDS, ...(k === 'moran' ? [WITHHELD_WORDS] : [])];
+      if (hidden?.[i]) return [...areaKeyCells(result, i), null, null, null, null, null, null, null, WITHHELD_WORDS, WITHHELD_WORDS, ...(k === 'moran' ? [WITHHELD_WORDS] : [])];
       const row: Cell[] = [...areaKeyCells(result, i), num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
-        s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no'];
+        s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no',
+        s.neighbourCount[i] === 0 ? 'no neighbours' : s.significantUnder[other][i] ? 'yes' : 'no'];
       if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
       return row;
     });
