@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { runAnalysis, parseRateRecipe, type AnalysisResult } from '../src/pipeline/index.js';
-import { buildReport, layoutBlocks, type Block, type ReportSheet } from '../src/report/index.js';
+import { buildReport, layoutBlocks, resultsGeoJson, type Block, type ReportSheet } from '../src/report/index.js';
 
 const golden = JSON.parse(readFileSync(new URL('./golden/rates.json', import.meta.url), 'utf8'));
 const boundary = ['sids.shp', 'sids.dbf', 'sids.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(new URL(`./fixtures/sids/${name}`, import.meta.url))) }));
@@ -178,6 +178,14 @@ describe('withholding the flagged areas (privacy)', async () => {
         expect(image.svg).toContain('#dcdcdc');
       }
     }
+    // the areas' GeoJSON (--out-geojson, "Save areas with results") leaves the same figures blank
+    const geo = resultsGeoJson(await run({ withhold: true, local: 'outcome' })).features as { properties: Record<string, unknown> }[];
+    geo.forEach((f, i) => {
+      expect(f.properties.sids === null, `area ${i}`).toBe(flagged[i]);
+      expect(f.properties.plain_regression_residual === null).toBe(flagged[i]);
+      expect(f.properties.local_moran === null).toBe(flagged[i]);
+      if (flagged[i]) expect(f.properties.local_moran_group).toBe('withheld for privacy');
+    });
     // without withholding nothing is blank
     const open = buildReport(await run({ local: 'outcome' })).sheets.find((s) => s.role === 'local')!;
     expect(table(open, /each area in table order/).rows.every((r) => typeof r[2] === 'number')).toBe(true);
