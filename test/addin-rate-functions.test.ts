@@ -76,6 +76,11 @@ describe('rate cell functions on the North Carolina counties', async () => {
     const over = r.events.map((c) => [...c]);
     over[3][0] = 1e7;
     expect(() => localRateRows(over, r.population, r.ids, r.links)).toThrow(/^Cell 4 of the ranges: 10000000 events/);
+    // every bad cell is named, not only the first
+    const two = r.events.map((c) => [...c]);
+    two[1][0] = -1;
+    two[6][0] = 0.5;
+    expect(() => globalRateRows(two, r.population)).toThrow(/^2 cells of the ranges cannot give a rate from "events" and "population": cell 2 \(events -1, below 0\), cell 7 \(events 0.5, not whole\)\./);
     expect(() => globalRateRows(r.events, r.population, { per: 10 })).toThrow(/per 1, 100, 1000 or 100000/);
   });
 });

@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { readWorkbook } from '../src/workbook/read-back.js';
 import { LOCAL_FILL, P_BAND_FILL } from '../src/report/pictures/local-palette.js';
+import { bonferroniFloor } from '../src/report/local-patterns.js';
 import { runCli, ROOT, STACK_LINE } from './helpers/cli.js';
 
 const COLUMBUS = join(ROOT, 'test/fixtures/columbus/columbus.shp');
@@ -49,6 +50,26 @@ describe('spillway fit --local on Columbus', () => {
     }
   });
 
+  it('counts the areas passing under each control, the chosen and the others, by the published rules applied directly', () => {
+    for (const k of ['moran', 'gi', 'gistar']) {
+      const p: number[] = out.local[k].areas.map((a: any) => a.pPermutation);
+      const m = p.length;
+      // Benjamini & Hochberg (1995) step-up: the largest rank r with p(r) ≤ r·q/m, and every p at or below it
+      const sorted = [...p].sort((a, b) => a - b);
+      let cut = -1;
+      sorted.forEach((x, r) => { if (x <= ((r + 1) * 0.05) / m) cut = x; });
+      const fdr = p.filter((x) => x <= cut).length;
+      // Bonferroni: p ≤ q/m; none: p ≤ q
+      const bonferroni = p.filter((x) => x <= 0.05 / m).length;
+      const none = p.filter((x) => x <= 0.05).length;
+      expect(out.local[k].control.significantUnder, k).toEqual({ fdr, bonferroni, none });
+      // per area: the chosen control's decision is `significant`, and every control's sits under significantUnder
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.fdr)).toEqual(out.local[k].areas.map((a: any) => a.significant));
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.bonferroni)).toEqual(p.map((x) => x <= 0.05 / m));
+      expect(out.local[k].areas.map((a: any) => a.significantUnder.none)).toEqual(p.map((x) => x <= 0.05));
+    }
+  });
+
   it('gives a category only to significant areas, matching the signs of the value and its neighbours', () => {
     for (const a of out.local.moran.areas) {
       if (!a.significant) expect(a.category).toBe('not-significant');
@@ -63,6 +84,8 @@ describe('spillway fit --local on Columbus', () => {
     expect(text.code).toBe(0);
     expect(text.stdout).toMatch(/Where the pattern is: local statistics of CRIME/);
     expect(text.stdout).toMatch(/Bonferroni/);
+    // the other control beside the chosen one, and the uncontrolled count labelled as such
+    expect(text.stdout).toMatch(/areas significant after control \(\d+ under the false discovery rate; \d+ without control\)/);
   });
 
   it('refuses unknown statistics, controls and levels with a plain message', () => {
@@ -105,6 +128,23 @@ describe('the Local patterns sheet', () => {
     expect(text).toMatch(/Benjamini–Hochberg/);
     expect(text).toMatch(/clusters are of areas, not of people/);
     expect(text).toMatch(/Getis–Ord Gi\* \(area included\), each area in table order/);
+    // the counts under the chosen control and the others, labelled
+    expect(text).toMatch(/How many areas are significant at 0.05, under the chosen control and the others/);
+    expect(text).toMatch(/False discovery rate \(Benjamini–Hochberg\) yes \(chosen\)/);
+    expect(text).toMatch(/Any false finding \(Bonferroni\) no \(for comparison\)/);
+    expect(text).toMatch(/No control: each area on its own \(uncontrolled\) no \(uncontrolled\)/);
+    // 999 permutations do reach 0.05/49 (the smallest p, 1/1,000, is below 0.00102), so no note here
+    expect(text).not.toMatch(/no area can pass under Bonferroni/);
+    expect(text).toMatch(/Under Bonferroni \(for comparison\)/);
+  });
+});
+
+describe('the floor of permutation p-values under Bonferroni', () => {
+  it('says when no area can pass: the smallest p, 1/(R + 1) (Anselin 1995), above level/tests', () => {
+    expect(bonferroniFloor(999, 150, 0.05)).toBe(' With 999 permutations no permutation p-value can fall below 0.001, above Bonferroni’s threshold of 0.05/150, so no area can pass under Bonferroni; it would take at least 2,999 permutations.');
+    expect(bonferroniFloor(2999, 150, 0.05)).toBe(''); // 1/3,000 = 0.05/150 exactly passes
+    expect(bonferroniFloor(9999, 3000, 0.05)).toMatch(/fall below 1\.0e-4, .* at least 59,999 permutations/);
+    expect(bonferroniFloor(0, 150, 0.05)).toBe(''); // analytic p-values have no floor
   });
 });
 
@@ -125,8 +165,8 @@ describe('the palette of the local maps', () => {
   };
 
   it('keeps the solid groups apart in lightness in grey and under each simulated deficiency', () => {
-    // solid fills: high among high, low among low, not significant, no neighbours (the outliers are striped)
-    const solid = [LOCAL_FILL.highHigh, LOCAL_FILL.lowLow, LOCAL_FILL.none, LOCAL_FILL.noNeighbours];
+    // solid fills: high among high, low among low, not significant, no neighbours, withheld (the outliers are striped)
+    const solid = [LOCAL_FILL.highHigh, LOCAL_FILL.lowLow, LOCAL_FILL.none, LOCAL_FILL.noNeighbours, LOCAL_FILL.withheld];
     for (const [name, m] of Object.entries(simulations)) {
       const l = solid.map((h) => seen(h, m)).sort((a, b) => a - b);
       // contrast ratio of at least 1.25 between neighbours in lightness (WCAG's ratio form; our threshold)

@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { runAnalysis, parseRateRecipe, type AnalysisResult } from '../src/pipeline/index.js';
-import { buildReport, layoutBlocks, type Block, type ReportSheet } from '../src/report/index.js';
+import { buildReport, layoutBlocks, resultsGeoJson, type Block, type ReportSheet } from '../src/report/index.js';
 
 const golden = JSON.parse(readFileSync(new URL('./golden/rates.json', import.meta.url), 'utf8'));
 const boundary = ['sids.shp', 'sids.dbf', 'sids.shx'].map((name) => ({ name, bytes: new Uint8Array(readFileSync(new URL(`./fixtures/sids/${name}`, import.meta.url))) }));
@@ -105,6 +105,22 @@ describe('the Rates sheet (North Carolina counties, SID74 per 1,000 BIR74)', asy
   });
 });
 
+describe('local statistics of a smoothed rate carry the caution that smoothing induces spatial correlation', () => {
+  const paragraphs = (sheet: ReportSheet) => sheet.blocks.filter((b) => b.kind === 'paragraph').map((b) => (b as { text: string }).text).join(' ');
+  it('on Local patterns and in the Summary, for the outcome, its residuals and the rate by name; not for rate:NAME', async () => {
+    for (const [of, y, x] of [['outcome', 'sids', 'NWBIR74'], ['residuals', 'sids', 'NWBIR74'], ['sids', 'NWBIR74', 'BIR74']]) {
+      const report = buildReport(await run({ local: of, y, x }));
+      const local = report.sheets.find((s) => s.role === 'local')!;
+      expect(paragraphs(local), of).toMatch(/local empirical-Bayes rate of sids, which borrows strength from neighbours and so induces spatial correlation of its own.*overstate clustering/);
+      expect(paragraphs(report.sheets.find((s) => s.role === 'overview')!), of).toMatch(/The local statistics \("Local patterns"\) are of .*overstate clustering/);
+    }
+    const global = buildReport(await run({ local: 'outcome', smoothing: 'global' })).sheets.find((s) => s.role === 'local')!;
+    expect(paragraphs(global)).toMatch(/global empirical-Bayes rate of sids, which pulls each small area towards the overall rate/);
+    const standardised = buildReport(await run({ local: 'rate:sids', y: 'NWBIR74', x: 'BIR74' })).sheets.find((s) => s.role === 'local')!;
+    expect(paragraphs(standardised)).not.toMatch(/induces spatial correlation/);
+  });
+});
+
 describe('withholding the flagged areas (privacy)', async () => {
   const result = await run({ withhold: true });
   const report = buildReport(result);
@@ -138,6 +154,42 @@ describe('withholding the flagged areas (privacy)', async () => {
     const scatter = report.sheets[0].images!.find((im) => im.name === 'Moran scatter plot')!;
     expect(scatter.svg.match(/<circle/g)!.length).toBe(100 - 95);
     expect(scatter.alt).toMatch(/95 withheld area\(s\) not shown/);
+  });
+
+  it('blanks the local statistics of those areas too, counts them apart and maps them grey (withheld), not in a group colour', async () => {
+    for (const of of ['outcome', 'rate:sids', 'residuals']) {
+      const withLocal = await run({ withhold: true, local: of });
+      const local = buildReport(withLocal).sheets.find((s) => s.role === 'local')!;
+      const rows = table(local, /each area in table order/).rows;
+      rows.forEach((row, i) => {
+        if (flagged[i]) {
+          expect(row.slice(2, 9), of).toEqual([null, null, null, null, null, null, null]);
+          expect(row.slice(9), of).toEqual(['withheld for privacy', 'withheld for privacy', 'withheld for privacy']);
+        } else {
+          expect(typeof row[2], of).toBe('number');
+        }
+      });
+      expect(keyValue(local, 'Withheld in this workbook'), of).toMatch(/^yes: the local figures of the 95 areas whose sids rests on few events are blank/);
+      const groups = table(local, /How many areas fall in each group/).rows;
+      expect(groups.find((r) => r[0] === 'withheld for privacy')![1]).toBe(95);
+      expect(groups.reduce((t, r) => t + (r[1] as number), 0)).toBe(100);
+      for (const image of local.images!) {
+        expect(image.alt, of).toMatch(/withheld for privacy \(95\)/);
+        expect(image.svg).toContain('#dcdcdc');
+      }
+    }
+    // the areas' GeoJSON (--out-geojson, "Save areas with results") leaves the same figures blank
+    const geo = resultsGeoJson(await run({ withhold: true, local: 'outcome' })).features as { properties: Record<string, unknown> }[];
+    geo.forEach((f, i) => {
+      expect(f.properties.sids === null, `area ${i}`).toBe(flagged[i]);
+      expect(f.properties.plain_regression_residual === null).toBe(flagged[i]);
+      expect(f.properties.local_moran === null).toBe(flagged[i]);
+      if (flagged[i]) expect(f.properties.local_moran_group).toBe('withheld for privacy');
+    });
+    // without withholding nothing is blank
+    const open = buildReport(await run({ local: 'outcome' })).sheets.find((s) => s.role === 'local')!;
+    expect(table(open, /each area in table order/).rows.every((r) => typeof r[2] === 'number')).toBe(true);
+    expect(keyValue(open, 'Withheld in this workbook')).toBeUndefined();
   });
 
   it('records what was withheld in the run record', () => {

@@ -4,11 +4,12 @@
 //   raw rate to within its reliability (C → 1); the neighbourhood smoother of an area without
 //   neighbours is its raw rate; Assunção & Reis (1999) with equal populations is Moran's I of the
 //   raw rate (the standardisation is then one affine map);
-// - the small-denominator rule (fewer than 20 events or RSE above 30 %) is common practice.
+// - the small-denominator rule (fewer than 20 events) is common practice; the relative standard error it
+//   quotes is the Poisson identity RSE = 1/√d.
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../src/errors.js';
 import {
-  ebGlobal, ebLocal, ebMoments, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts,
+  ebGlobal, ebLocal, ebMoments, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE,
 } from '../src/stats/index.js';
 import { csrFromNeighbours, rookNeighbours } from './helpers/grid.js';
 
@@ -31,11 +32,27 @@ describe('rates from counts', () => {
   it('names the row the caller gives', () => {
     expect(() => rateFromCounts([1, -2], [5, 5], { rows: [7, 9], eventsName: 'cases' })).toThrow(/Row 9: the events count "cases"/);
   });
+  it('names every bad row, not only the first, and counts the rest past ten', () => {
+    const msg = (() => { try { rateFromCounts([1, -2, 3, 1.5, 9], [5, 5, 0, 5, 4], { eventsName: 'cases', populationName: 'people' }); } catch (e) { return (e as Error).message; } return ''; })();
+    expect(msg).toMatch(/^4 rows cannot give a rate from "cases" and "people": row 3 \(events -2, below 0\), row 4 \(population 0\), row 5 \(events 1.5, not whole\), row 6 \(9 events above a population of 4\)\./);
+    const many = Array.from({ length: 25 }, () => -1);
+    const long = (() => { try { rateFromCounts(many, many.map(() => 10)); } catch (e) { return (e as Error).message; } return ''; })();
+    expect(long).toMatch(/^25 rows .*row 11 \(events -1, below 0\), and 15 more \(rows 12, 13, .*, 26\)\./);
+    expect(long).not.toMatch(/row 12 \(/);
+  });
 });
 
 describe('small-denominator flag (common practice)', () => {
   it('flags fewer than 20 events and zero events', () => {
     expect(rateFlags([0, 5, 19, 20, 400])).toEqual([true, true, true, false, false]);
+  });
+  it('states the rule plainly, cites it as common practice, and its RSE figures hold (Poisson: RSE = 1/√d)', () => {
+    expect(RATE_FLAG_RULE).toMatch(/^An area is flagged when its rate rests on fewer than 20 events/);
+    expect(RATE_FLAG_RULE).toMatch(/common practice/);
+    expect(1 / Math.sqrt(20)).toBeCloseTo(0.224, 3);
+    // the 30 % line often quoted is crossed only below 12 events, inside the 20-event rule
+    expect(1 / Math.sqrt(11)).toBeGreaterThan(0.3);
+    expect(1 / Math.sqrt(12)).toBeLessThan(0.3);
   });
 });
 

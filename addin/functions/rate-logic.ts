@@ -27,6 +27,15 @@ function multiplier(per: number | undefined): RateMultiplier {
 }
 
 /** The IDs and the two count columns, read by the same rules as every cell function (a text first row is a header). */
+/** The engine's refusal in the words of ranges: its rows are the cells of the ranges, counted from 1. */
+function inCells(message: string): string {
+  return message
+    .replace(/^Row (\d+):/, 'Cell $1 of the ranges:')
+    .replace(/^([\d,]+) rows cannot/, '$1 cells of the ranges cannot')
+    .replace(/\brow (\d+) \(/g, 'cell $1 (')
+    .replace(/ more \(rows /, ' more (cells ');
+}
+
 function readCounts(eventsRange: Grid, populationRange: Grid, idsRange: Grid): { ids: string[]; events: Float64Array; population: Float64Array } {
   // blank rows at the end of the three ranges (whole columns) are cut together
   const [events, population, ids] = trimTogether([eventsRange, populationRange, idsRange], ['The events range', 'The population range', 'The ID range']);
@@ -39,7 +48,7 @@ function readCounts(eventsRange: Grid, populationRange: Grid, idsRange: Grid): {
     const c = rateFromCounts(e.values, p.values, { eventsName: 'events', populationName: 'population', rows: e.ids.map((_, i) => i + first) });
     return { ids: e.ids, events: c.events, population: c.population };
   } catch (err) {
-    if (err instanceof InputError) throw new InputError(err.message.replace(/^Row (\d+):/, 'Cell $1 of the ranges:'), err.where);
+    if (err instanceof InputError) throw new InputError(inCells(err.message), err.where);
     throw err;
   }
 }

@@ -106,8 +106,9 @@ Rates from counts
                        every rate, or one after each --rate for that rate
   --smooth S           which smoothed rate is modelled: global (default), local or neighbourhood
                        empirical Bayes; all three are computed and written
-  --withhold-flagged   leave the flagged areas' counts and rates blank in the --out workbook
-                       (for privacy; the run record and --json say which areas)
+  --withhold-flagged   leave the flagged areas' counts and rates blank in the --out workbook,
+                       with the local statistics drawn from them (for privacy; the run record
+                       and --json say which areas)
 
 Output and reproducibility
   --json               print one JSON document instead of the readable summary

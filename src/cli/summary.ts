@@ -147,7 +147,10 @@ function localBlock(r: AnalysisResult): string[] {
   for (const [kind, s] of Object.entries(l.results)) {
     const significant = s.significant.filter(Boolean).length;
     const uncontrolled = s.significantUncontrolled.filter(Boolean).length;
-    let line = `  ${LOCAL_STATISTIC_LABEL[kind as keyof typeof LOCAL_STATISTIC_LABEL]}: ${formatCount(significant)} of ${formatCount(s.tests)} areas significant after control (${formatCount(uncontrolled)} without control)`;
+    // the other control at the same level, for comparison (fdr beside bonferroni and back; both when none was chosen)
+    const others = (['fdr', 'bonferroni'] as const).filter((m) => m !== l.control.method)
+      .map((m) => `${formatCount(s.significantUnder[m].filter(Boolean).length)} under ${m === 'fdr' ? 'the false discovery rate' : 'Bonferroni'}`);
+    let line = `  ${LOCAL_STATISTIC_LABEL[kind as keyof typeof LOCAL_STATISTIC_LABEL]}: ${formatCount(significant)} of ${formatCount(s.tests)} areas significant after control (${others.join(', ')}; ${formatCount(uncontrolled)} without control)`;
     if (s.categories) {
       const counts = categoryCounts(s.categories);
       const parts = (['high-high', 'low-low', 'high-low', 'low-high'] as LocalCategory[]).map((c) => `${counts[c]} ${LOCAL_CATEGORY_LABEL[c]}`);

@@ -10,6 +10,8 @@ import { formatCount } from '../core/count.js';
 
 export const MAX_SEED = 2 ** 32 - 1;
 export const MAX_PERMUTATIONS = 99_999;
+/** Above this many areas the global permutation tests (Moran's I of the outcome and of each rate) run only when asked for. */
+export const PERMUTATION_AREA_LIMIT = 10_000;
 export const MIN_IMPACT_DRAWS = 2;
 export const MAX_IMPACT_DRAWS = 100_000;
 

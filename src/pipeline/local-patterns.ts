@@ -31,6 +31,8 @@ export interface LocalOutcome extends LocalStatistic {
   categories?: LocalCategory[];
   /** areas judged significant without any multiple-testing control (for the labelled uncontrolled view) */
   significantUncontrolled: boolean[];
+  /** the decisions under each control at the run's level, the chosen one among them, so the sheet can set them side by side */
+  significantUnder: Record<MultipleTestingControl['method'], boolean[]>;
   tests: number;
 }
 
@@ -93,13 +95,16 @@ export function localPatterns(
     const decidedOn = stat.pPermutation ? 'permutation' : 'analytic';
     const p = stat.pPermutation ?? stat.p;
     const controlled = controlMultipleTests(p, request.control);
-    const uncontrolled = controlMultipleTests(p, { method: 'none', level: request.control.level });
+    const under = (method: MultipleTestingControl['method']) =>
+      method === request.control.method ? controlled.significant : controlMultipleTests(p, { method, level: request.control.level }).significant;
+    const significantUnder = { fdr: under('fdr'), bonferroni: under('bonferroni'), none: under('none') };
     results[kind] = {
       ...stat,
       decidedOn,
       adjusted: controlled.adjusted,
       significant: controlled.significant,
-      significantUncontrolled: uncontrolled.significant,
+      significantUncontrolled: significantUnder.none,
+      significantUnder,
       tests: controlled.tests,
       ...(kind === 'moran' ? { categories: localMoranCategories(values, w, controlled.significant) } : {}),
     };
@@ -133,6 +138,13 @@ export function describeControl(c: MultipleTestingControl): string {
   if (c.method === 'bonferroni') return `chance of any false finding held at ${c.level} by the Bonferroni rule`;
   return `each area tested on its own at ${c.level}, with no allowance for the number of tests`;
 }
+
+/** The controls in a few words each, for the table that sets their counts side by side. */
+export const CONTROL_LABEL: Record<MultipleTestingControl['method'], string> = {
+  fdr: 'False discovery rate (Benjamini–Hochberg)',
+  bonferroni: 'Any false finding (Bonferroni)',
+  none: 'No control: each area on its own (uncontrolled)',
+};
 
 /** Counts per category (local Moran), for the summary table and the reading. */
 export function categoryCounts(categories: readonly LocalCategory[]): Record<LocalCategory, number> {

@@ -1,4 +1,6 @@
 import { InputError } from '../errors.js';
+import { formatCount } from '../core/count.js';
+import { PERMUTATION_AREA_LIMIT } from './limits.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import {
   ebGlobal, ebLocal, ebMoran, moranColumn, neighbourhoodRate, rateFlags, rateFromCounts, RATE_FLAG_RULE, RATE_MULTIPLIERS,
@@ -32,6 +34,8 @@ export interface RateResult extends RateRecipe {
   moranRaw: RateMoran;
   /** the empirical-Bayes standardised rates zᵢ = (rᵢ − b)/√(a + b/nᵢ) that ebMoran tests; local statistics may use them */
   standardised: Float64Array;
+  /** why no permutations were drawn, when the run's size left them out by default (above 10,000 areas) */
+  permutationNote?: string;
   /** the written workbook leaves the flagged areas' counts and rates blank (privacy); figures here stay whole */
   withholdFlagged: boolean;
   areas: { id: string; events: number; population: number; rate: number; flagged: boolean; ebGlobal: number; ebLocal: number; neighbourhood: number; weightGlobal: number; weightLocal: number }[];
@@ -58,7 +62,7 @@ export function computeRate(
   population: ArrayLike<number>,
   w: CsrMatrix,
   where: { ids: string[]; rows: number[] },
-  opts: { smoothing: RateSmoothing; permutations: number; seed: number; withholdFlagged?: boolean },
+  opts: { smoothing: RateSmoothing; permutations: number; seed: number; withholdFlagged?: boolean; skippedBySize?: boolean },
 ): RateResult {
   const counts = rateFromCounts(events, population, { eventsName: recipe.events, populationName: recipe.population, rows: where.rows });
   if (counts.events.every((d) => d === 0)) {
@@ -81,6 +85,7 @@ export function computeRate(
     clippedLocal: l.clipped,
     ebMoran: { I: t.I, z: t.z, p: t.p, permutationP: t.permutationP, permutations: t.permutations, seed: t.seed },
     moranRaw: raw,
+    ...(opts.skippedBySize ? { permutationNote: permutationsSkippedNote(where.ids.length) } : {}),
     standardised: t.standardised,
     withholdFlagged: opts.withholdFlagged ?? false,
     areas: where.ids.map((id, i) => ({
@@ -99,6 +104,12 @@ export function computeRate(
   };
 }
 
+/** Why the rate's Moran's I has no permutation p: the run's size left the permutations out by default. */
+export function permutationsSkippedNote(n: number): string {
+  return `No permutations were drawn: with ${formatCount(n)} areas (above ${formatCount(PERMUTATION_AREA_LIMIT)}) the permutation tests run only when asked for, ` +
+    'and the p-values are the normal approximation under randomisation, which is reliable at this size; ask for a number of permutations to have them.';
+}
+
 /** Moran's I of the raw rates; NaN (not a refusal) when every area has the same rate. */
 function plainMoran(rate: Float64Array, w: CsrMatrix, permutations: number, seed: number): RateMoran {
   let varies = false;
@@ -113,9 +124,17 @@ export function withheldIds(r: RateResult): string[] {
   return r.withholdFlagged ? r.areas.filter((a) => a.flagged).map((a) => a.id) : [];
 }
 
-/** The JSON `rates` entry of one rate (the shape issue #14 sets out, plus the raw rate's Moran's I and what the workbook withholds). */
+/**
+ * The JSON `rates` entry of one rate (the shape issue #14 sets out, plus the raw rate's Moran's I and
+ * what the workbook withholds). Each test gives `p` from the normal z (two-sided) and `permutationP`
+ * (null when no permutations were drawn, with `note` saying why when the run's size left them out).
+ */
 export function rateToJson(r: RateResult): Record<string, unknown> {
-  const test = (m: RateMoran) => ({ I: m.I, z: m.z, p: m.permutationP ?? m.p, permutations: m.permutations, seed: m.seed });
+  const num = (x: number) => (Number.isFinite(x) ? x : null);
+  const test = (m: RateMoran) => ({
+    I: num(m.I), z: num(m.z), p: num(m.p), permutationP: m.permutationP === undefined ? null : num(m.permutationP), permutations: m.permutations, seed: m.seed,
+    ...(r.permutationNote ? { note: r.permutationNote } : {}),
+  });
   return {
     events: r.events,
     population: r.population,
@@ -157,7 +176,7 @@ export function addRates(
   values: Map<string, Float64Array>,
   w: CsrMatrix,
   where: { ids: string[]; rows: number[] },
-  opts: { permutations: number; seed: number },
+  opts: { permutations: number; seed: number; skippedBySize?: boolean },
 ): RateResult[] {
   const names = new Set<string>();
   return rates.recipes.map((recipe) => {
@@ -165,6 +184,7 @@ export function addRates(
     names.add(recipe.name);
     const r = computeRate(recipe, values.get(recipe.events)!, values.get(recipe.population)!, w, where, {
       smoothing: rates.smoothing ?? 'global', permutations: opts.permutations, seed: opts.seed, withholdFlagged: rates.withholdFlagged ?? false,
+      skippedBySize: opts.skippedBySize ?? false,
     });
     values.set(recipe.name, r.modelled);
     return r;

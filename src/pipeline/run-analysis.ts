@@ -9,7 +9,7 @@ import { InputError } from '../errors.js';
 import { ENGINE_VERSION } from '../version.js';
 import { localPatterns, normaliseLocalRequest } from './local-patterns.js';
 import { addRates, checkLocalRate, localRateName, localRateValues, ratesRecord } from './rates.js';
-import { checkRunSettings } from './limits.js';
+import { checkRunSettings, PERMUTATION_AREA_LIMIT } from './limits.js';
 import { checkSpatialModelSize, checkWeights, isPerfectFit, perfectFitError } from './check-values.js';
 import { designOf, neighboursOf, prepareAreas, type PreparedAreas } from './prepare.js';
 import { fitUnderWeights, type BaseFit, type UnderWeights } from './fit-under-weights.js';
@@ -17,7 +17,7 @@ import type { AnalysisRequest, AnalysisResult, AnalysisRuntime } from './types.j
 import { formatCount } from '../core/count.js';
 
 const DEFAULT_SEED = 20261201;
-export const PERMUTATION_AREA_LIMIT = 10_000;
+export { PERMUTATION_AREA_LIMIT };
 
 /**
  * The whole job in one call: read the boundaries and the table, join them by ID, build the
@@ -60,16 +60,19 @@ export async function runAnalysis(request: AnalysisRequest, runtime: AnalysisRun
   checkWeights(w, w.description);
   const summary = summarizeWeights(w);
   lap('weights');
+  // Above PERMUTATION_AREA_LIMIT areas the randomisation p-value is accurate and 999 shuffles of n
+  // values cost more than the whole model fit, so the permutation tests of the global Moran's I (of
+  // the outcome and of each rate) run only when asked for.
+  const permutations = request.permutations ?? (joined.ids.length <= PERMUTATION_AREA_LIMIT ? 999 : 0);
   const rates = request.rates?.recipes.length
-    ? addRates(request.rates, values, w, { ids: joined.ids, rows: joined.rows }, { permutations: request.permutations ?? 999, seed })
+    ? addRates(request.rates, values, w, { ids: joined.ids, rows: joined.rows }, {
+      permutations, seed, skippedBySize: request.permutations === undefined && permutations === 0,
+    })
     : undefined;
 
   progress(0.3, 'Fitting the plain regression');
   const base = plainRegression(request, areas);
   const { y } = base;
-  // Above PERMUTATION_AREA_LIMIT areas the randomisation p-value is accurate and 999 shuffles of n
-  // values cost more than the whole model fit, so the permutation test runs only when asked for.
-  const permutations = request.permutations ?? (y.length <= PERMUTATION_AREA_LIMIT ? 999 : 0);
   const moranY = moranColumn(y, w, { permutations, seed });
   lap('ols');
 
@@ -207,7 +210,7 @@ function runWarnings(
   for (const c of r.comparison ?? []) if (!c.asRun && c.tiesWarning) warnings.push(`Under the compared definition "${c.label}": ${c.tiesWarning}`);
   if (w.notes) warnings.push(...w.notes);
   if (request.permutations === undefined && r.permutations === 0) {
-    warnings.push(`With ${formatCount(r.n)} areas the permutation test of Moran's I was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
+    warnings.push(`With ${formatCount(r.n)} areas the permutation test of Moran's I${request.rates?.recipes.length ? " (and of each rate's Moran's I)" : ''} was not run by default (the randomisation p-value is reliable at this size); ask for it with a number of permutations.`);
   }
   if (summary.components > 1) warnings.push(`The neighbour graph falls into ${summary.components} separate groups of areas.`);
   if (dropped.length > 0) warnings.push(`${formatCount(dropped.length)} row(s) with missing values were left out (rows ${dropped.slice(0, 10).map((d) => d.row).join(', ')}${dropped.length > 10 ? ', …' : ''}); the neighbours were built on the remaining areas.`);

@@ -106,6 +106,7 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
   const l = r.local!;
   const out: Record<string, unknown> = {};
   const num = (x: number) => (Number.isFinite(x) ? x : null);
+  const count = (flags: readonly boolean[]) => flags.filter(Boolean).length;
   for (const kind of Object.keys(l.results) as LocalStatisticKind[]) {
     const s = l.results[kind]!;
     out[kind] = {
@@ -114,7 +115,11 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
       permutations: l.permutations,
       seed: l.seed,
       permutationRule: l.permutationRule,
-      control: { method: l.control.method, level: l.control.level, tests: s.tests, decidedOn: s.decidedOn },
+      control: {
+        method: l.control.method, level: l.control.level, tests: s.tests, decidedOn: s.decidedOn,
+        // how many areas pass under each control at the same level, the chosen one among them
+        significantUnder: { fdr: count(s.significantUnder.fdr), bonferroni: count(s.significantUnder.bonferroni), none: count(s.significantUnder.none) },
+      },
       ...(kind === 'gistar' ? { weights: 'binary, each area included with weight 1' } : {}),
       areas: r.ids.map((id, i) => ({
         id,
@@ -127,6 +132,7 @@ function localToJson(r: AnalysisResult): Record<string, unknown> {
         pPermutation: s.pPermutation ? num(s.pPermutation[i]) : null,
         pAdjusted: num(s.adjusted[i]),
         significant: s.significant[i],
+        significantUnder: { fdr: s.significantUnder.fdr[i], bonferroni: s.significantUnder.bonferroni[i], none: s.significantUnder.none[i] },
         ...(s.categories ? { category: s.categories[i] } : {}),
       })),
     };

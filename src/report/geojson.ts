@@ -11,6 +11,7 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import { LOCAL_CATEGORY_LABEL } from '../pipeline/local-patterns.js';
 import type { AreaGeometry } from '../geo/types.js';
 import { fittedInOrder } from '../models/index.js';
+import { withheldLocal, withheldOutcome } from './withheld.js';
 
 type Position = number[];
 type Json = string | number | boolean | null;
@@ -19,6 +20,7 @@ type Json = string | number | boolean | null;
 function modelPrefix(label: string): string {
   return label.toLowerCase().replace(/\s+model$/, '').replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '');
 }
+const WITHHELD = 'withheld for privacy';
 const LOCAL_KEY = { moran: 'local_moran', gi: 'getis_ord_gi', gistar: 'getis_ord_gi_star' } as const;
 
 /** Twice the signed area of a closed ring (positive when counter-clockwise). */
@@ -59,29 +61,34 @@ export function resultsGeoJson(result: AnalysisResult): { type: 'FeatureCollecti
   const yKey = uniqueKey(result.request.y, taken);
   const neighbourKey = uniqueKey('neighbour_count', taken);
   const columns: { key: string; value: (i: number) => Json }[] = [];
+  // areas withheld for privacy (a rate of few events) are left blank as in the workbook: the outcome and
+  // residuals when the outcome is the rate, the local figures when they were drawn from it
+  const hideY = withheldOutcome(result);
+  const hideLocal = withheldLocal(result);
   const add = (name: string, value: (i: number) => Json) => columns.push({ key: uniqueKey(name, taken), value });
   // every fitted model in registry order: the plain regression, then the spatial models asked for
   for (const { entry, fit } of fittedInOrder(result.fits)) {
     const prefix = modelPrefix(entry.label);
     add(`${prefix}_fitted`, (i) => finite(fit.fitted[i]));
-    add(`${prefix}_residual`, (i) => finite(fit.residuals[i]));
+    add(`${prefix}_residual`, (i) => (hideY?.[i] ? null : finite(fit.residuals[i])));
     add(`${prefix}_neighbours_residual`, (i) => finite(fit.residualLag[i]));
   }
   for (const [kind, outcome] of Object.entries(result.local?.results ?? {})) {
     if (!outcome) continue;
     const key = LOCAL_KEY[kind as keyof typeof LOCAL_KEY];
     const p = outcome.pPermutation ?? outcome.p;
-    add(key, (i) => finite(outcome.value[i]));
-    add(`${key}_z`, (i) => finite(outcome.z[i]));
-    add(`${key}_p`, (i) => finite(p[i]));
-    add(`${key}_p_adjusted`, (i) => finite(outcome.adjusted[i]));
-    if (outcome.categories) add(`${key}_group`, (i) => LOCAL_CATEGORY_LABEL[outcome.categories![i]]);
-    else add(`${key}_finding`, (i) => (outcome.neighbourCount[i] === 0 ? 'no neighbours' : !outcome.significant[i] ? 'not significant' : outcome.z[i] > 0 ? 'cluster of high values' : 'cluster of low values'));
+    const shown = (f: (i: number) => Json) => (i: number) => (hideLocal?.[i] ? null : f(i));
+    add(key, shown((i) => finite(outcome.value[i])));
+    add(`${key}_z`, shown((i) => finite(outcome.z[i])));
+    add(`${key}_p`, shown((i) => finite(p[i])));
+    add(`${key}_p_adjusted`, shown((i) => finite(outcome.adjusted[i])));
+    if (outcome.categories) add(`${key}_group`, (i) => (hideLocal?.[i] ? WITHHELD : LOCAL_CATEGORY_LABEL[outcome.categories![i]]));
+    else add(`${key}_finding`, (i) => (hideLocal?.[i] ? WITHHELD : outcome.neighbourCount[i] === 0 ? 'no neighbours' : !outcome.significant[i] ? 'not significant' : outcome.z[i] > 0 ? 'cluster of high values' : 'cluster of low values'));
   }
   const counts = new Int32Array(result.n);
   for (const from of result.weights.edges.from) counts[from]++;
   const features = result.ids.map((id, i) => {
-    const properties: Record<string, Json> = { [idKey]: id, [rowKey]: result.rows[i], [yKey]: finite(result.y[i]), [neighbourKey]: counts[i] };
+    const properties: Record<string, Json> = { [idKey]: id, [rowKey]: result.rows[i], [yKey]: hideY?.[i] ? null : finite(result.y[i]), [neighbourKey]: counts[i] };
     for (const c of columns) properties[c.key] = c.value(i);
     return { type: 'Feature', properties, geometry: geometryJson(result.geometries[i]) };
   });

@@ -5,6 +5,7 @@ import { layoutBlocks, ROW_HEIGHT_PX } from './layout.js';
 import { placePictures } from './pictures-for-report.js';
 import { rateMapsSvg } from './pictures/rate-maps.js';
 import { formatCount } from '../core/count.js';
+import { localRate } from './withheld.js';
 
 /** The smoothed rates in words, as the sheets name them. */
 export const SMOOTHING_LABEL: Record<RateSmoothing, string> = {
@@ -169,7 +170,8 @@ function headBlocks(result: AnalysisResult, r: RateResult): Block[] {
         test('Plain, of the raw rate', r.moranRaw),
         test('Rate-adjusted (Assunção & Reis 1999)', r.ebMoran),
       ],
-      note: `${moranContrast(r)} Both use the run’s neighbours and weights and the same seed (${r.ebMoran.seed}); p-values are two-sided.`,
+      note: `${moranContrast(r)} Both use the run’s neighbours and weights and the same seed (${r.ebMoran.seed}); p-values are two-sided.` +
+        (r.permutationNote ? ` ${r.permutationNote}` : ''),
     },
   ];
 }
@@ -216,5 +218,24 @@ export function rateCautions(result: AnalysisResult): string[] {
       out.push(`The ${SMOOTHING_LABEL[r.smoothing]} of ${r.name} borrows from neighbours and so creates spatial correlation of its own: Moran’s I and the spatial models here overstate how strongly areas cluster or spill over. The rate-adjusted Moran’s I on the "Rates" sheet tests clustering fairly.`);
     }
   }
+  const local = smoothedLocalCaution(result);
+  if (local) out.push(local);
   return out;
+}
+
+/**
+ * The caution for local statistics run on a smoothed rate (the outcome when it is a rate, its
+ * residuals, or the rate NAME; not `rate:NAME`, the standardised raw rates): local and neighbourhood
+ * smoothing borrow from neighbours and so make neighbours alike by construction, and global smoothing
+ * pulls small areas to the overall rate. Undefined when the local statistics are not of a smoothed rate.
+ */
+export function smoothedLocalCaution(result: AnalysisResult): string | undefined {
+  const r = localRate(result);
+  const of = result.local?.of ?? '';
+  if (!r || of.startsWith('rate:')) return undefined;
+  const what = of === 'outcome' || of === r.name ? `the ${SMOOTHING_LABEL[r.smoothing]} of ${r.name}` : `residuals of a model of the ${SMOOTHING_LABEL[r.smoothing]} of ${r.name}`;
+  const fair = `For a fairer local test use the rate’s empirical-Bayes standardised values (local statistics of rate:${r.name}).`;
+  return r.smoothing === 'global'
+    ? `The local statistics ("Local patterns") are of ${what}, which pulls each small area towards the overall rate: small areas seldom stand out, and where they sit together the smoothing moves them together. ${fair}`
+    : `The local statistics ("Local patterns") are of ${what}, which borrows strength from neighbours and so induces spatial correlation of its own: neighbouring areas look alike partly because their rates were pulled towards one another, so local Moran’s I and the Getis–Ord statistics of smoothed rates overstate clustering. ${fair}`;
 }

@@ -3,7 +3,8 @@ import type { MapCategory } from './category-map.js';
 /**
  * Our palette for where-the-pattern-is maps: brown for high values, green-teal for low; the two
  * clusters solid (dark brown, light teal: far apart in lightness, so they part in grey), the two kinds
- * of outlier striped in their colour (opposite slants), not significant white, no neighbours grey.
+ * of outlier striped in their colour (opposite slants), not significant white, no neighbours grey,
+ * withheld areas (privacy) a lighter grey.
  * Checked for the common colour-vision deficiencies in test/report-local.test.ts.
  */
 export const LOCAL_FILL = {
@@ -13,6 +14,8 @@ export const LOCAL_FILL = {
   lowHigh: '#1b7a6e',
   none: '#ffffff',
   noNeighbours: '#9a9a9a',
+  /** areas whose figures are withheld for privacy: a light grey, between low among low and white in lightness */
+  withheld: '#dcdcdc',
 } as const;
 
 export function localMoranMapCategories(words: { hh: string; ll: string; hl: string; lh: string; ns: string; nn: string }): MapCategory[] {
