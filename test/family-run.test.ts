@@ -120,6 +120,23 @@ describe('a run with every model on Columbus (queen)', async () => {
     expect(fit.rows.map((r) => r[0])).toContain('Instruments');
   });
 
+  it('the By area sheet says which fitted value is shown exactly for the models whose fitted plus residual is not the observed value', () => {
+    // the identity y = fitted + residual (checked on the figures themselves) holds for the models without ρ;
+    // for those with ρ the fitted value is (I − ρW)⁻¹Xβ and the residual y − ρWy − Xβ (Anselin 1988)
+    const sheet = buildReport(result).sheets.find((s) => s.role === 'areas')!;
+    const table = sheet.blocks.find((b) => b.kind === 'table') as { note: string };
+    const addsUp = (key: string) => {
+      const f = (result.fits as Record<string, { fitted: Float64Array; residuals: Float64Array }>)[key];
+      return Array.from(result.y).every((v, i) => Math.abs(v - f.fitted[i] - f.residuals[i]) < 1e-9 * Math.max(1, Math.abs(v)));
+    };
+    const named = MODELS.filter((m) => table.note.includes(`the ${m.label.charAt(0).toLowerCase()}${m.label.slice(1)}`));
+    const notAddingUp = MODELS.filter((m) => !addsUp(m.key));
+    expect(notAddingUp.map((m) => m.key)).toEqual(['lag', 'durbin', 'lagError', 'lagIV']);
+    expect(named.map((m) => m.key)).toEqual(notAddingUp.map((m) => m.key));
+    expect(table.note).toContain('(I − ρW)⁻¹Xβ');
+    expect(table.note).toContain('fitted plus residual is not the observed value');
+  });
+
   it('the comparison of neighbour definitions refits the family under rook contiguity', () => {
     for (const k of ['durbin', 'lagError', 'lagIV', 'errorGM']) expect(json.comparison[1][k], k).toBeTruthy();
     expect(json.comparison[1].lagError.rho).toBeTypeOf('number');
