@@ -13,7 +13,7 @@ import type { AreasStep } from './areas.js';
 import type { SidebarContext } from './context.js';
 import type { LocalStep } from './local.js';
 import { currentSetup } from './saved.js';
-import { boundaryId, tickedModels, weightsSpec } from './state.js';
+import { boundaryId, requestedModels, tickedModels, weightsSpec } from './state.js';
 
 /** What a run takes from the other steps. */
 export interface RunNeeds {
@@ -65,7 +65,6 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
     let choices: ModelChoice[];
     try { choices = s.modelChoices ?? (await engine.call({ op: 'models' })).models; } catch (e) { ctx.showError(run.errors, e); return; }
     s.modelChoices = choices;
-    const ticked = tickedModels(s, choices);
     setRunning(true);
     progress.value = 0;
     const onProgress = (f: number, text: string) => { progress.value = Math.round(100 * f); stage.textContent = text; };
@@ -76,7 +75,7 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
         ...(s.idsIgnoreLeadingZeros ? { idsIgnoreLeadingZeros: true } : {}),
         weights: weightsSpec(s), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
-        models: choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key as ModelKey),
+        models: requestedModels(s, choices) as ModelKey[],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(local ? { local, seed: s.local.seed } : {}),
         ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),

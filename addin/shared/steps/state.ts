@@ -78,3 +78,9 @@ export function boundaryId(s: State): string | undefined {
 export function tickedModels(s: State, choices: ModelChoice[]): Set<string> {
   return new Set(s.models ?? choices.filter((c) => !c.baseline && !c.onRequest).map((c) => c.key));
 }
+
+/** The run's models: the always-fitted ones and the ticked ones, in the engine's order (also what the comparison of neighbour definitions refits). */
+export function requestedModels(s: State, choices: ModelChoice[]): string[] {
+  const ticked = tickedModels(s, choices);
+  return choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key);
+}
