@@ -164,22 +164,19 @@ describe('a definition that links the same neighbours as another is said once', 
 
 describe('the sidebar’s comparison of neighbour definitions with every model ticked', async () => {
   // what the sidebar does: the worker sends the registry's models (modelChoices), the model step's tick
-  // boxes set s.models, and Run asks for requestedModels(s, choices) with compareWeights 'suggested'
-  const { modelChoices } = await import('../addin/shared/model-choices.js');
-  const { initialState, requestedModels } = await import('../addin/shared/steps/state.js');
+  // boxes set s.models, and Run asks for requestedModels(s.models, choices) with compareWeights 'suggested'
+  const { modelChoices, requestedModels } = await import('../addin/shared/model-choices.js');
   const { MODELS } = await import('../src/models/index.js');
   const family = JSON.parse(readFileSync(join(ROOT, 'test/golden/family.json'), 'utf8'));
   const choices = modelChoices();
-  const s = initialState();
 
   it('offers a tick box for every registry model but the always-fitted one, and by default asks for the plain, lag and error models', () => {
     expect(choices.filter((c) => !c.baseline).map((c) => c.key)).toEqual(MODELS.filter((m) => !m.baseline).map((m) => m.key));
-    expect(requestedModels(s, choices)).toEqual(['ols', 'lag', 'error']);
+    expect(requestedModels(null, choices)).toEqual(['ols', 'lag', 'error']); // the sidebar's first state: s.models null
   });
 
   it('accepts every one: each other definition refits every model, and under 4 nearest neighbours gives the numpy reference’s spatial parameters', async () => {
-    const ticked = { ...s, models: new Set(choices.filter((c) => !c.baseline).map((c) => c.key)) };
-    const models = requestedModels(ticked, choices);
+    const models = requestedModels(new Set(choices.filter((c) => !c.baseline).map((c) => c.key)), choices);
     expect(models).toEqual(MODELS.map((m) => m.key));
     const result = await runAnalysis(request({ models: models as AnalysisRequest['models'], compareWeights: 'suggested' }));
     const rows = result.comparison!.filter((r) => !r.failed && !r.sameAs);

@@ -13,7 +13,8 @@ import type { AreasStep } from './areas.js';
 import type { SidebarContext } from './context.js';
 import type { LocalStep } from './local.js';
 import { currentSetup } from './saved.js';
-import { boundaryId, requestedModels, tickedModels, weightsSpec } from './state.js';
+import { requestedModels } from '../model-choices.js';
+import { boundaryId, tickedModels, weightsSpec } from './state.js';
 
 /** What a run takes from the other steps. */
 export interface RunNeeds {
@@ -75,7 +76,7 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
         ...(s.idsIgnoreLeadingZeros ? { idsIgnoreLeadingZeros: true } : {}),
         weights: weightsSpec(s), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
-        models: requestedModels(s, choices) as ModelKey[],
+        models: requestedModels(s.models, choices) as ModelKey[],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(local ? { local, seed: s.local.seed } : {}),
         ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),
