@@ -105,20 +105,15 @@ export function fitForCells(key: string, inputs: CellInputs, robust = false): Ce
     throw new InputError(`The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${h.logLik}; ${formatCount(n)} areas): the areas are too few or the links too sparse for the spatial parameter.`);
   }
   const robustCoefficients = (fit as { robustCoefficients?: Coefficient[] }).robustCoefficients;
-  // which standard errors are shown: White's beside the classical ones (plain regression), the fit's
-  // own covariance kind (neighbours' columns, instruments), or the entry's word for them (moments)
-  const standardErrors = robust && robustCoefficients && !(fit as { covarianceKind?: string }).covarianceKind
-    ? 'robust to unequal variance (White 1980, HC0)'
-    : (fit as { covarianceKind?: string }).covarianceKind ?? stringOr((entry.json(fit) as { standardErrors?: unknown }).standardErrors, 'classical');
+  // which standard errors are shown: White's beside the classical ones (plain regression), or the
+  // fit's own covariance kind (neighbours' columns, instruments, moments)
+  const kind = (fit as { covarianceKind?: string }).covarianceKind;
+  const standardErrors = robust && robustCoefficients && !kind ? 'robust to unequal variance (White 1980, HC0)' : kind ?? 'classical';
   return {
     key: entry.key, label: entry.label, statName: entry.method === 'least squares' ? 't' : 'z',
     coefficients: robust && robustCoefficients ? robustCoefficients : fit.coefficients,
     parameters: h.parameters, n, logLik: h.logLik, aic: h.aic, convergence: h.convergence, standardErrors, warnings: fit.warnings, engineFit: fit,
   };
-}
-
-function stringOr(v: unknown, otherwise: string): string {
-  return typeof v === 'string' ? v : otherwise;
 }
 
 /** The models whose standard errors "robust" changes (those whose fit takes the option and says so), as --models spells them. */

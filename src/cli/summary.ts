@@ -107,8 +107,8 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   if (robust) out.push(...robustTable(robust, stat));
   else {
     // the estimators by instruments and moments: which standard errors the table carries
-    const shown = (f as { covarianceKind?: string }).covarianceKind ?? (entry.json(f) as { standardErrors?: unknown }).standardErrors;
-    if (typeof shown === 'string') out.push(`  Standard errors shown: ${shown === 'classical' ? 'classical (equal variance assumed; --robust gives ones robust to unequal variance)' : shown}`);
+    const shown = (f as { covarianceKind?: string }).covarianceKind;
+    if (shown) out.push(`  Standard errors shown: ${shown === 'classical' ? 'classical (equal variance assumed; --robust gives ones robust to unequal variance)' : shown}`);
   }
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
