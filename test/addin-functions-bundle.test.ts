@@ -164,6 +164,28 @@ describe('the built functions.js in a stand-in shared runtime', () => {
     expect(Math.abs(error.find((r: any[]) => String(r[0]).startsWith('λ'))[1] - golden.error.lambda)).toBeLessThan(1e-6);
   });
 
+  it('FIT by id with durbin, slx and lag-error gives the family reference’s figures (scripts/reference/family.py), from the list of links and the n × n matrix alike; "robust" gives lag-iv White’s', async () => {
+    const c = await columbus();
+    const family = JSON.parse(readFileSync(join(ROOT, 'test/golden/family.json'), 'utf8'));
+    const close = (a: number, b: number, what: string) => expect(Math.abs(a - b) / Math.max(1, Math.abs(b)), `${what}: ${a} vs ${b}`).toBeLessThan(1e-6);
+    for (const nb of [c.links, c.matrix]) {
+      for (const [key, spelling] of [['durbin', 'durbin'], ['slx', 'slx'], ['lagError', 'lag-error']]) {
+        const g = family[key];
+        const fit = call('FIT', c.crime, c.regressors, c.idRange, nb, spelling);
+        g.coefficients.forEach((k: { name: string; estimate: number; se: number }, i: number) => {
+          expect(fit[1 + i][0]).toBe(k.name);
+          close(fit[1 + i][1], k.estimate, `${key} ${k.name}`);
+          close(fit[1 + i][2], k.se, `${key} ${k.name} se`);
+        });
+        if (g.rho !== undefined) close(fit.find((r: any[]) => String(r[0]).startsWith('ρ'))[1], g.rho, `${key} ρ`);
+        if (g.lambda !== undefined) close(fit.find((r: any[]) => String(r[0]).startsWith('λ'))[1], g.lambda, `${key} λ`);
+        close(fit.find((r: any[]) => r[0] === 'log-likelihood')[1], g.logLik, `${key} log-likelihood`);
+      }
+      const iv = call('FIT', c.crime, c.regressors, c.idRange, nb, 'lag-iv', 'robust');
+      family.lagIV.coefficientsRobust.forEach((k: { se: number }, i: number) => close(iv[1 + i][2], k.se, 'robust se'));
+    }
+  });
+
   it('the help’s worked example on the demo sheet gives the figures of a run of the whole job (addin/shared/functions-guide.ts)', async () => {
     const samples = join(ROOT, 'sample-workbooks');
     const districts = { name: 'vell-basin-districts.geojson', bytes: new Uint8Array(readFileSync(join(samples, 'vell-basin-districts.geojson'))) };

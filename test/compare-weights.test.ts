@@ -213,3 +213,48 @@ describe('ties among nearest neighbours under a compared definition (#18 §2)', 
     expect(r.warnings.filter((w) => /tied at the k-th nearest distance/.test(w))).toHaveLength(1);
   });
 });
+
+describe('the sidebar’s comparison of neighbour definitions with every model ticked', async () => {
+  // what the sidebar does: the worker sends the registry's models (modelChoices), the model step's tick
+  // boxes set s.models, and Run asks for requestedModels(s.models, choices) with compareWeights 'suggested'
+  const { modelChoices, requestedModels } = await import('../addin/shared/model-choices.js');
+  const { MODELS } = await import('../src/models/index.js');
+  const family = JSON.parse(readFileSync(join(ROOT, 'test/golden/family.json'), 'utf8'));
+  const choices = modelChoices();
+
+  it('offers a tick box for every registry model but the always-fitted one, and by default asks for the plain, lag and error models', () => {
+    expect(choices.filter((c) => !c.baseline).map((c) => c.key)).toEqual(MODELS.filter((m) => !m.baseline).map((m) => m.key));
+    expect(requestedModels(null, choices)).toEqual(['ols', 'lag', 'error']); // the sidebar's first state: s.models null
+  });
+
+  it('accepts every one: each other definition refits every model, and under 4 nearest neighbours gives the numpy reference’s spatial parameters', async () => {
+    const models = requestedModels(new Set(choices.filter((c) => !c.baseline).map((c) => c.key)), choices);
+    expect(models).toEqual(MODELS.map((m) => m.key));
+    const result = await runAnalysis(request({ models: models as AnalysisRequest['models'], compareWeights: 'suggested' }));
+    const rows = result.comparison!.filter((r) => !r.failed && !r.sameAs);
+    expect(rows.length).toBeGreaterThan(2);
+    for (const r of rows) {
+      for (const m of MODELS.filter((e) => !e.baseline)) {
+        const fit = r.fits[m.key as keyof typeof r.fits];
+        expect(fit, `${r.label}: ${m.key}`).toBeTruthy();
+        expect(fit!.parameters.map((q) => q.key), `${r.label}: ${m.key}`).toEqual(m.parameters.map((q) => q.key));
+      }
+    }
+    // scripts/reference/family.py, knn4 (numpy/scipy, dense): the spatial parameters to 5e-5
+    const knn4 = rows.find((r) => r.label === '4 nearest neighbours')!;
+    expect(knn4, rows.map((r) => r.label).join('; ')).toBeTruthy();
+    const at = (key: string, q: string) => knn4.fits[key as keyof typeof knn4.fits]!.parameters.find((p) => p.key === q)!.estimate;
+    const close = (a: number, b: number, what: string) => expect(Math.abs(a - b), `${what}: ${a} vs ${b}`).toBeLessThan(5e-5);
+    close(at('durbin', 'rho'), family.knn4.durbin.rho, 'Durbin ρ');
+    close(at('durbinError', 'lambda'), family.knn4.durbinError.lambda, 'Durbin error λ');
+    close(at('lagError', 'rho'), family.knn4.lagError.rho, 'lag-and-error ρ');
+    close(at('lagError', 'lambda'), family.knn4.lagError.lambda, 'lag-and-error λ');
+    close(at('lagIV', 'rho'), family.knn4.lagIV.rho, 'instruments ρ');
+    close(at('errorGM', 'lambda'), family.knn4.errorGM.lambda, 'moments λ');
+    // the Comparison sheet has every model's columns
+    const sheet = buildReport(result).sheets.find((x) => x.role === 'comparison')!;
+    const table = sheet.blocks.find((b) => b.kind === 'table' && b.title === 'The spatial models under each definition') as { columns: { group?: string }[] };
+    const groups = new Set(table.columns.map((c) => c.group).filter(Boolean));
+    for (const m of MODELS.filter((e) => !e.baseline)) expect([...groups].some((g) => g!.includes(m.label)), m.label).toBe(true);
+  });
+});

@@ -74,6 +74,61 @@ describe('SPILL.FIT and SPILL.EFFECTS with the wider family (Columbus, queen)', 
     expect(durbin.at(-1)![1]).toBe('200 simulated draws, seed 3');
   });
 
+  it('durbin, slx and lag-error: every coefficient’s estimate, standard error, z or t and p, the spatial parameters with their SEs, log-likelihood and AIC as the reference', async () => {
+    const r = await ranges();
+    for (const [key, spelling] of [['durbin', 'durbin'], ['slx', 'slx'], ['lagError', 'lag-error']]) {
+      const rows = fitRows(r.yr, r.xr, r.ids, r.links, spelling) as (string | number)[][];
+      const g = family[key];
+      g.coefficients.forEach((c: { name: string; estimate: number; se: number; stat: number; p: number }, k: number) => {
+        const row = rows[1 + k];
+        expect(row[0], key).toBe(c.name);
+        near(row[1], c.estimate, 1e-6); near(row[2], c.se, 1e-6); near(row[3], c.stat, 1e-6);
+        near(row[4], c.p, 1e-6 * Math.max(1, Math.abs(c.stat)));
+      });
+      const rho = rows.find((x) => String(x[0]).startsWith('ρ'));
+      const lambda = rows.find((x) => String(x[0]).startsWith('λ'));
+      if (g.rho !== undefined) { near(rho![1], g.rho, 1e-6); near(rho![2], g.rhoSe, 1e-6); } else expect(rho).toBeUndefined();
+      if (g.lambda !== undefined) { near(lambda![1], g.lambda, 1e-6); near(lambda![2], g.lambdaSe, 1e-6); } else expect(lambda).toBeUndefined();
+      near(rows.find((x) => x[0] === 'log-likelihood')![1], g.logLik, 1e-6);
+      near(rows.find((x) => x[0] === 'AIC')![1], g.aic, 1e-6);
+      expect(rows.find((x) => x[0] === 'standard errors'), key).toBeUndefined(); // classical, not asked about
+    }
+  });
+
+  it('"robust" changes the lag model by instruments’ standard errors to White’s (the reference’s), and says so; the moments error model’s are robust either way', async () => {
+    const r = await ranges();
+    const plain = fitRows(r.yr, r.xr, r.ids, r.links, 'lag-iv') as (string | number)[][];
+    const robust = fitRows(r.yr, r.xr, r.ids, r.links, 'lag-iv', 'robust') as (string | number)[][];
+    family.lagIV.coefficients.forEach((c: { estimate: number; se: number }, k: number) => {
+      near(plain[1 + k][2], c.se, 1e-9);
+      near(robust[1 + k][1], c.estimate, 1e-9); // the same estimates
+      near(robust[1 + k][2], family.lagIV.coefficientsRobust[k].se, 1e-9);
+      expect(robust[1 + k][2]).not.toBe(plain[1 + k][2]);
+    });
+    near(plain.find((x) => String(x[0]).startsWith('ρ'))![2], family.lagIV.rhoSe, 1e-9);
+    near(robust.find((x) => String(x[0]).startsWith('ρ'))![2], family.lagIV.rhoSeRobust, 1e-9);
+    expect(plain.find((x) => x[0] === 'standard errors')).toBeUndefined();
+    expect(robust.find((x) => x[0] === 'standard errors')![1]).toMatch(/^robust to unequal variance \(White 1980, HC0\)$/);
+    // the moments estimator: the reference's (robust) standard errors with or without the option, and a row that says so
+    for (const options of [undefined, 'robust']) {
+      const gm = fitRows(r.yr, r.xr, r.ids, r.links, 'error-gm', options) as (string | number)[][];
+      family.errorGM.coefficients.forEach((c: { se: number }, k: number) => near(gm[1 + k][2], c.se, 1e-6));
+      near(gm.find((x) => String(x[0]).startsWith('λ'))![2], family.errorGM.lambdaSe, 1e-6);
+      expect(gm.find((x) => x[0] === 'standard errors')![1]).toMatch(/robust to unequal variance \(Kelejian & Prucha 2010\)/);
+    }
+    // a model whose standard errors the option does not change says so rather than passing it by
+    const lag = fitRows(r.yr, r.xr, r.ids, r.links, 'lag', 'robust') as (string | number)[][];
+    expect(lag.find((x) => x[0] === 'standard errors')![1]).toMatch(/^classical: "robust" changes them for "ols", "slx", "lag-iv" only/);
+    // and SPILL.EFFECTS draws the instruments model's effects from the robust covariance
+    const e1 = effectsRows(r.yr, r.xr, r.ids, r.links, 'lag-iv', 'draws=400, seed=2') as (string | number)[][];
+    const e2 = effectsRows(r.yr, r.xr, r.ids, r.links, 'lag-iv', 'draws=400, seed=2, robust') as (string | number)[][];
+    const inc1 = e1.find((x) => x[0] === 'INC')!;
+    const inc2 = e2.find((x) => x[0] === 'INC')!;
+    near(inc2[1], family.lagIV.impacts[0].direct, 1e-9);
+    expect(inc2[1]).toBe(inc1[1]);
+    expect(inc2[2]).not.toBe(inc1[2]);
+  });
+
   it('the models without a likelihood say so in the log-likelihood and AIC rows, not with a blank', async () => {
     const r = await ranges();
     for (const m of ['lag-iv', 'error-gm']) {

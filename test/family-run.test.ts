@@ -120,6 +120,23 @@ describe('a run with every model on Columbus (queen)', async () => {
     expect(fit.rows.map((r) => r[0])).toContain('Instruments');
   });
 
+  it('the By area sheet says which fitted value is shown exactly for the models whose fitted plus residual is not the observed value', () => {
+    // the identity y = fitted + residual (checked on the figures themselves) holds for the models without ρ;
+    // for those with ρ the fitted value is (I − ρW)⁻¹Xβ and the residual y − ρWy − Xβ (Anselin 1988)
+    const sheet = buildReport(result).sheets.find((s) => s.role === 'areas')!;
+    const table = sheet.blocks.find((b) => b.kind === 'table') as { note: string };
+    const addsUp = (key: string) => {
+      const f = (result.fits as Record<string, { fitted: Float64Array; residuals: Float64Array }>)[key];
+      return Array.from(result.y).every((v, i) => Math.abs(v - f.fitted[i] - f.residuals[i]) < 1e-9 * Math.max(1, Math.abs(v)));
+    };
+    const named = MODELS.filter((m) => table.note.includes(`the ${m.label.charAt(0).toLowerCase()}${m.label.slice(1)}`));
+    const notAddingUp = MODELS.filter((m) => !addsUp(m.key));
+    expect(notAddingUp.map((m) => m.key)).toEqual(['lag', 'durbin', 'lagError', 'lagIV']);
+    expect(named.map((m) => m.key)).toEqual(notAddingUp.map((m) => m.key));
+    expect(table.note).toContain('(I − ρW)⁻¹Xβ');
+    expect(table.note).toContain('fitted plus residual is not the observed value');
+  });
+
   it('the comparison of neighbour definitions refits the family under rook contiguity', () => {
     for (const k of ['durbin', 'lagError', 'lagIV', 'errorGM']) expect(json.comparison[1][k], k).toBeTruthy();
     expect(json.comparison[1].lagError.rho).toBeTypeOf('number');
@@ -141,6 +158,15 @@ describe('a run with every model on Columbus (queen)', async () => {
     // no label says the method twice ("by two-stage least squares (two-stage least squares)")
     for (const m of MODELS) if (!m.baseline) expect(m.about, m.key).not.toContain(m.method);
     // the comparison's columns say whose spatial parameter each is
+    // the family's reading (#15 §1: specific to general, then general to specific), as on the Summary sheet
+    const reading = text.slice(text.indexOf('Which model: guidance from the tests between them'));
+    const paragraph = reading.slice(0, reading.indexOf('\n\n')).replace(/\s+/g, ' ');
+    expect(paragraph).toContain('following Elhorst (2010): from specific to general');
+    expect(paragraph).toContain('guidance from the tests at the 5% level');
+    expect(reading.slice(0, reading.indexOf('\n\n')).split('\n').every((l) => l.length <= 102)).toBe(true);
+    // which standard errors each estimator by instruments or moments shows
+    expect(text).toContain('Standard errors shown: classical (equal variance assumed; --robust gives ones robust to unequal variance)');
+    expect(text).toContain('Standard errors shown: robust to unequal variance (Kelejian & Prucha 2010)');
     expect(text).toMatch(/definition +Moran's I p +suggested +ρ lag +λ error +ρ durbin +λ durbin-error +ρ lag-error +λ lag-error +ρ lag-iv +λ error-gm/);
   });
 });
@@ -249,6 +275,28 @@ describe('robust standard errors through a whole run (the lag model by instrumen
     rel(json.lagIV.rhoSe, family.lagIV.rhoSeRobust, 1e-10, 'robust ρ se');
     expect(json.lagIV.impacts).toHaveLength(2);
     for (const e of json.lagIV.impacts) for (const v of [e.directSe, e.indirectSe, e.totalSe]) expect(Number.isFinite(v) && v > 0).toBe(true);
+    // the readable summary says the table carries the robust ones, and shows the reference's robust SEs
+    const text = formatSummary(result);
+    const iv = text.slice(text.indexOf('Lag model by instruments (two-stage least squares)'));
+    expect(iv).toContain('Standard errors shown: robust to unequal variance (White 1980, HC0)');
+    expect(iv).toContain(`SE ${Number(family.lagIV.rhoSeRobust.toPrecision(4))}`);
+  });
+
+  it('the plain regression and the neighbours’ columns model print the robust table beside the classical one, with the JSON’s figures', async () => {
+    const result = await runAnalysis({
+      boundary, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
+      models: ['ols', 'slx'], robust: true, permutations: 0, impactDraws: 50,
+    });
+    const json = resultToJson(result) as Record<string, any>;
+    expect(json.ols.robustCoefficients).toHaveLength(3);
+    expect(json.slx.robustCoefficients).toHaveLength(5);
+    const text = formatSummary(result);
+    const heading = 'The same with standard errors robust to unequal variance (White 1980, HC0; --robust):';
+    expect(text.split(heading)).toHaveLength(3); // once under each model
+    const slx = text.slice(text.indexOf('Neighbours’ columns model (least squares)'));
+    const robustPart = slx.slice(slx.indexOf(heading));
+    const se = (robustPart.split('\n').find((l) => l.trim().startsWith("neighbours' average of INC")) ?? '').trim().split(/\s{2,}/)[2];
+    expect(Number(se)).toBeCloseTo(json.slx.robustCoefficients[3].se, 3);
   });
 
   it('White’s covariance is exactly symmetric (the Cholesky factor of the draws refuses anything else)', async () => {

@@ -47,6 +47,8 @@ export interface CellFit {
   logLik?: number;
   aic?: number;
   convergence?: Convergence;
+  /** which standard errors the coefficients carry: "classical", or how they are robust to unequal variance */
+  standardErrors: string;
   warnings: string[];
   /** the entry's own fit, for its effects */
   engineFit: ModelFitBase;
@@ -102,12 +104,19 @@ export function fitForCells(key: string, inputs: CellInputs, robust = false): Ce
     throw new InputError(`The ${entry.label.toLowerCase()} could not be estimated on these data (its log-likelihood is ${h.logLik}; ${formatCount(n)} areas): the areas are too few or the links too sparse for the spatial parameter.`);
   }
   const robustCoefficients = (fit as { robustCoefficients?: Coefficient[] }).robustCoefficients;
+  // which standard errors are shown: White's beside the classical ones (plain regression), or the
+  // fit's own covariance kind (neighbours' columns, instruments, moments)
+  const kind = (fit as { covarianceKind?: string }).covarianceKind;
+  const standardErrors = robust && robustCoefficients && !kind ? 'robust to unequal variance (White 1980, HC0)' : kind ?? 'classical';
   return {
     key: entry.key, label: entry.label, statName: entry.leastSquares ? 't' : 'z',
     coefficients: robust && robustCoefficients ? robustCoefficients : fit.coefficients,
-    parameters: h.parameters, n, logLik: h.logLik, aic: h.aic, convergence: h.convergence, warnings: fit.warnings, engineFit: fit,
+    parameters: h.parameters, n, logLik: h.logLik, aic: h.aic, convergence: h.convergence, standardErrors, warnings: fit.warnings, engineFit: fit,
   };
 }
+
+/** The models whose standard errors "robust" changes (those whose fit takes the option and says so), as --models spells them. */
+export const ROBUST_MODELS = ['ols', 'slx', 'lag-iv'] as const;
 
 /** Direct, indirect and total effects of a fitted model whose entry has them (simulated standard errors). */
 export function effectsForCells(fit: CellFit, inputs: CellInputs, draws: number, seed: number): ImpactsResult {

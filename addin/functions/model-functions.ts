@@ -16,7 +16,7 @@ import { effectsRows, fitRows, lmTestRows } from './model-logic.js';
  * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [model] Spelt as the command line's --models, in any letter case: "lag" (the default: the outcome spills over to neighbours), "error" (unmeasured causes shared with neighbours), "ols" (plain regression), "slx" (neighbours' averages of the explanatory columns added), "durbin" (the lag model with those averages), "durbin-error" (the error model with them), "lag-error" (both the outcome and the errors spill over), "lag-iv" (the lag model by instruments) or "error-gm" (the error model by moments).
  * @param [options] Words separated by commas: "as given" (use the weights as listed; by default each area's weights are rescaled to sum to 1), "robust" (standard errors robust to unequal spread, for "ols", "slx" and "lag-iv"; "error-gm" always has them).
- * @returns The coefficient table, spilled: header row, a row per term and the spatial parameter, then areas, log-likelihood and AIC.
+ * @returns The coefficient table, spilled: header row, a row per term and the spatial parameter, then areas, log-likelihood and AIC, and a "standard errors" row saying which ones are shown when "robust" is asked for or the model is robust always.
  */
 export function fit(y: any[][], x: any[][], ids: any[][], neighbours: any[][], model?: string, options?: string): any[][] {
   return guarded(() => fitRows(y, x, ids, neighbours, model ?? undefined, options ?? undefined));
@@ -30,7 +30,7 @@ export function fit(y: any[][], x: any[][], ids: any[][], neighbours: any[][], m
  * @param ids The area IDs, in the same rows as the outcome.
  * @param neighbours The neighbours: a list of links (origin ID, neighbour ID, weight on each row, as on the Neighbours sheet) or an n × n weights matrix (rows and columns in the order of the IDs, or headed by the IDs), told apart by shape. One call carries at most about 5 MB: some 100,000 links, or a matrix of about 1,000 areas.
  * @param [model] "lag" (the default), "slx", "durbin", "durbin-error", "lag-error" or "lag-iv", spelt as for SPILL.FIT; "ols", "error" and "error-gm" have no separate spillover effects (their coefficients are the effects) and are refused with the reason.
- * @param [options] Words separated by commas: "draws=1000" (simulation draws for the standard errors, where they are simulated), "seed=1" (fixes the draws so the result repeats), "as given" (weights as listed instead of rescaled to sum to 1 per area).
+ * @param [options] Words separated by commas: "draws=1000" (simulation draws for the standard errors, where they are simulated), "seed=1" (fixes the draws so the result repeats), "as given" (weights as listed instead of rescaled to sum to 1 per area), "robust" (for "slx" and "lag-iv": the effects' standard errors from the covariance robust to unequal spread).
  * @returns A header row, then per explanatory column: direct, its SE and p; indirect, its SE and p; total, its SE and p; and a last row saying how the standard errors were found.
  */
 export function effects(y: any[][], x: any[][], ids: any[][], neighbours: any[][], model?: string, options?: string): any[][] {

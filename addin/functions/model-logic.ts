@@ -5,7 +5,7 @@
  */
 import { InputError } from '../../src/errors.js';
 import { MAX_IMPACT_DRAWS, MAX_SEED, MIN_IMPACT_DRAWS } from '../../src/pipeline/index.js';
-import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_SPELLINGS, modelKeyOf, prepareInputs, residualTests, type CellInputs, type Design } from './model-adapter.js';
+import { areasNeeded, designWithIntercept, effectsForCells, fitForCells, MODEL_SPELLINGS, modelKeyOf, prepareInputs, ROBUST_MODELS, residualTests, type CellInputs, type Design } from './model-adapter.js';
 import { weightsFromRange } from './neighbour-range.js';
 import { parseOptions, type OptionsArgument, type ParsedOptions } from './options.js';
 import { asNumber, flatten, hasHeader, isBlank, readIds, readNumbers, trimTogether, type CellValue, type Grid } from './ranges.js';
@@ -111,6 +111,13 @@ export function fitRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model?: s
   // the models by instruments and by moments have no likelihood: say so rather than leave a blank that reads as missing
   const none = 'none (estimated without a likelihood)';
   rows.push(['areas', fit.n, '', '', ''], ['log-likelihood', fit.logLik ?? none, '', '', ''], ['AIC', fit.aic ?? none, '', '', '']);
+  // which standard errors the table carries, whenever "robust" was asked for or the estimator is robust always
+  const robust = o.flags.has('robust');
+  if (robust || fit.standardErrors !== 'classical') {
+    rows.push(['standard errors', fit.standardErrors === 'classical'
+      ? `classical: "robust" changes them for ${ROBUST_MODELS.map((m) => `"${m}"`).join(', ')} only ("error-gm" is robust always)`
+      : fit.standardErrors, '', '', '']);
+  }
   const c = fit.convergence;
   if (c && (!c.converged || c.atBound)) rows.push(['note', `${c.message}${c.atBound ? ` (ended at the ${c.atBound} end of the admissible range)` : ''}`, '', '', '']);
   return rows;
@@ -127,7 +134,8 @@ export function effectsRows(y: Grid, x: Grid, ids: Grid, neighbours: Grid, model
   if (!Number.isInteger(seed) || seed < 0 || seed > MAX_SEED) throw new InputError(`The seed must be a whole number from 0 to ${MAX_SEED}; got ${seed}.`);
   const { ranges, inputs } = prepare(y, x, ids, neighbours, o);
   checkSize(key, ranges);
-  const fit = fitForCells(key, inputs);
+  // with "robust", the effects are drawn from the robust covariance, as a whole run's are
+  const fit = fitForCells(key, inputs, o.flags.has('robust'));
   const effects = effectsForCells(fit, inputs, draws, seed);
   const rows: Spill = [['term', 'direct', 'direct SE', 'direct p', 'indirect', 'indirect SE', 'indirect p', 'total', 'total SE', 'total p']];
   for (const e of effects.impacts) {

@@ -15,6 +15,8 @@ row-standardised weights, as in columbus.py: queen contiguity (top level) and 4 
   admissible box, from a 41 x 41 grid's best point, then the root of the analytic gradient; exact
   dense log-determinants; the full information matrix from dense G and H);
 - the lag model by two-stage least squares, written directly (projection on H = [X, WX, W^2 X]);
+- the impacts of the lag-and-error model and of the lag model by instruments, from a dense inverse
+  (I - rho W)^-1 (delta-method standard errors beside them);
 - the error model by generalised moments robust to heteroskedasticity: a transcription of the
   moment conditions of Kelejian & Prucha (2010) and Arraiz, Drukker, Kelejian & Prucha (2010) with
   dense A1, A2 and Sigma.
@@ -112,6 +114,39 @@ def durbin_impacts(names, beta, theta, rho, W, cov_block):
             J[:, c] = (figures(*up) - figures(*down)) / (2 * h)
         se = np.sqrt(np.diag(J @ V @ J.T))
         out.append({"name": names[1 + r], "direct": point[0], "indirect": point[1], "total": point[2],
+                    "directSeDelta": se[0], "indirectSeDelta": se[1], "totalSeDelta": se[2]})
+    return out
+
+
+def lag_impacts(names, beta, rho, W, cov_beta_rho):
+    """Impacts of a model whose only spillover is rho W y (the lag-and-error model, the lag model by
+    instruments; LeSage & Pace 2009, §2.7 with theta = 0): S_r = (I - rho W)^-1 beta_r, by a dense
+    inverse, direct = tr(S_r)/n, total = 1'S_r 1/n, indirect = total - direct. Delta-method standard
+    errors from the covariance of (beta, rho) (last row and column rho), central differences."""
+    n = W.shape[0]
+    Ainv = np.linalg.inv(np.eye(n) - rho * W)
+
+    def figures(b, r):
+        S = b * np.linalg.inv(np.eye(n) - r * W)
+        d, tot = np.trace(S) / n, S.sum() / n
+        return np.array([d, tot - d, tot])
+
+    k = len(beta)
+    out = []
+    for r in range(1, k):
+        d, tot = beta[r] * np.trace(Ainv) / n, beta[r] * Ainv.sum() / n
+        idx = [r, k]
+        V = cov_beta_rho[np.ix_(idx, idx)]
+        x0 = np.array([beta[r], rho])
+        J = np.zeros((3, 2))
+        for c in range(2):
+            h = 1e-6 * max(1.0, abs(x0[c]))
+            up, down = x0.copy(), x0.copy()
+            up[c] += h
+            down[c] -= h
+            J[:, c] = (figures(*up) - figures(*down)) / (2 * h)
+        se = np.sqrt(np.diag(J @ V @ J.T))
+        out.append({"name": names[r], "direct": d, "indirect": tot - d, "total": tot,
                     "directSeDelta": se[0], "indirectSeDelta": se[1], "totalSeDelta": se[2]})
     return out
 
@@ -236,6 +271,7 @@ def lag_error(y, X, names, W, logdet, ols_fit, lag_fit, err_fit, method):
         "lr": lr(logl, ols_fit["logLik"], 2),
         "lrTests": {"lag": lr(logl, lag_fit["logLik"], 1), "error": lr(logl, err_fit["logLik"], 1)},
         "pseudoR2": ref.squared_correlation(y, yhat),
+        "impacts": lag_impacts(names, beta, rho, W, cov[:k + 1, :k + 1]),
     }
 
 
@@ -272,6 +308,7 @@ def lag_iv(y, X, names, W):
         "coefficients": ref.coefficient_table(names, delta[:k], se[:k]),
         "coefficientsRobust": ref.coefficient_table(names, delta[:k], rse[:k]),
         "sigma2": s2, "firstStage": {"stat": f, "df": df1, "df2": df2, "p": stats.f.sf(f, df1, df2)},
+        "impacts": lag_impacts(names, delta[:k], delta[k], W, cov),
     }
 
 

@@ -3,6 +3,7 @@ import type { LocalCategory } from '../stats/index.js';
 import type { Coefficient } from '../models/types.js';
 import { inSentence, MODELS, fittedInOrder, type Fitted, type ModelEntry } from '../models/index.js';
 import { formatCount } from '../core/count.js';
+import { familyReading } from '../report/index.js';
 
 /** The readable summary printed by `spillway fit` without --json. Plain words, aligned columns. */
 export function formatSummary(r: AnalysisResult): string {
@@ -18,6 +19,7 @@ export function formatSummary(r: AnalysisResult): string {
   const o = r.ols;
   lines.push('Plain regression (least squares)');
   lines.push(...coefficientTable(o.coefficients, 't'));
+  if (o.robustCoefficients) lines.push(...robustTable(o.robustCoefficients, 't'));
   // grouped as the workbook's sheet groups them: how well it fits, then the figures for comparing models
   lines.push(`  How well it fits: R² ${fmt(o.r2, 4)}, adjusted for the number of terms ${fmt(o.adjR2, 4)}; residual variance ${fmt(o.sigma2, 5)} (divided by n − k = ${o.n - o.k}); ` +
     `F ${fmt(o.f.stat, 4)} on ${o.f.df} and ${o.f.df2} degrees of freedom, p ${p(o.f.p)}`);
@@ -47,6 +49,10 @@ export function formatSummary(r: AnalysisResult): string {
         fit.impacts.impacts.map((i) => [i.name, fmt(i.direct, 5), fmt(i.directSe, 3), fmt(i.indirect, 5), fmt(i.indirectSe, 3), fmt(i.total, 5), fmt(i.totalSe, 3)])));
       lines.push('');
     }
+  }
+  // the wider family: the reading of the tests between the models, as on the Summary sheet
+  if (fittedInOrder(r.fits).some(({ entry }) => entry.onRequest)) {
+    lines.push('Which model: guidance from the tests between them', ...wrap(familyReading(r), 100).map((l) => `  ${l}`), '');
   }
   if (r.comparison) {
     lines.push('The same question under other neighbour definitions');
@@ -99,7 +105,15 @@ function modelBlock(entry: ModelEntry, f: Fitted): string[] {
   const h = entry.headline(f);
   const out = [`${entry.label} (${entry.method}): ${entry.about}`];
   for (const q of h.parameters) out.push(`  ${q.symbol} (${q.name}) ${fmt(q.estimate, 6)}, SE ${fmt(q.se, 4)}, z ${fmt(q.z, 4)}, p ${p(q.p)}`);
-  out.push(...coefficientTable(f.coefficients, entry.leastSquares ? 't' : 'z'));
+  const stat = entry.leastSquares ? 't' : 'z';
+  out.push(...coefficientTable(f.coefficients, stat));
+  const robust = (f as { robustCoefficients?: Coefficient[] }).robustCoefficients;
+  if (robust) out.push(...robustTable(robust, stat));
+  else {
+    // the estimators by instruments and moments: which standard errors the table carries
+    const shown = (f as { covarianceKind?: string }).covarianceKind;
+    if (shown) out.push(`  Standard errors shown: ${shown === 'classical' ? 'classical (equal variance assumed; --robust gives ones robust to unequal variance)' : shown}`);
+  }
   const figures = h.logLik === undefined ? [] : [`log-likelihood ${fmt(h.logLik, 6)}`, `AIC ${fmt(h.aic!, 6)}`, `BIC ${fmt(h.bic!, 6)}`];
   out.push(`  ${[...figures, `σ² ${fmt(h.sigma2, 5)}`, `squared correlation of observed and fitted ${fmt(h.r2, 4)}`].join('; ')}`);
   if (h.lr) out.push(`  Likelihood-ratio test against the plain regression: ${fmt(h.lr.stat, 5)} (df ${h.lr.df}), p ${p(h.lr.p)}`);
@@ -122,6 +136,22 @@ function modelLabel(key: string): string {
 
 function coefficientTable(cs: Coefficient[], stat: 't' | 'z'): string[] {
   return table(['term', 'estimate', 'SE', stat, 'p'], cs.map((c) => [c.name, fmt(c.estimate, 6), fmt(c.se, 5), fmt(c.stat, 4), p(c.p)]));
+}
+
+/** The --robust table beside the classical one (plain regression, neighbours' columns model), said to be so. */
+function robustTable(cs: Coefficient[], stat: 't' | 'z'): string[] {
+  return ['  The same with standard errors robust to unequal variance (White 1980, HC0; --robust):', ...coefficientTable(cs, stat)];
+}
+
+/** Words in lines of at most `width` characters (a longer word keeps its own line). */
+function wrap(text: string, width: number): string[] {
+  const out: string[] = [];
+  let line = '';
+  for (const word of text.split(/\s+/)) {
+    if (line && line.length + 1 + word.length > width) { out.push(line); line = word; } else line = line ? `${line} ${word}` : word;
+  }
+  if (line) out.push(line);
+  return out;
 }
 
 function table(head: string[], rows: string[][]): string[] {

@@ -8,6 +8,8 @@ import { dot, linearPredictor, residual } from './ml-lag.js';
 import { table, whiteCovariance } from './ols.js';
 import type { Coefficient } from './types.js';
 
+export const GM_COVARIANCE = 'robust to unequal variance (Kelejian & Prucha 2010)';
+
 export interface ErrorGmFit {
   lambda: number;
   lambdaSe: number;
@@ -26,6 +28,8 @@ export interface ErrorGmFit {
   fitted: Float64Array;
   /** covariance of (β, λ), row-major, robust to unknown heteroskedasticity */
   covariance: Float64Array;
+  /** which standard errors the coefficients carry: robust always */
+  covarianceKind: typeof GM_COVARIANCE;
   /** the moment conditions' value at the estimate, weighted (the criterion minimised) */
   criterion: number;
   wald: WaldTest[];
@@ -131,6 +135,7 @@ export function fitErrorGm(p: PreparedInputs): ErrorGmFit {
     fitted,
     covariance,
     criterion: lambdaHat.value,
+    covarianceKind: GM_COVARIANCE,
     wald: [{ against: 'ols', restriction: 'λ = 0', stat: wald, df: 1, p: chiSquareUpper(wald, 1) }],
     range: { lower: p.algebra.range.lower, upper: p.algebra.range.upper },
     warnings,

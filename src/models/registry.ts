@@ -207,7 +207,7 @@ const ERROR_GM = defineModel({
   json: (f) => familyJson(f, [parameterEstimate(LAMBDA, f.lambda, f.lambdaSe)], {
     lambdaInitial: f.lambdaInitial,
     pseudoR2: f.pseudoR2,
-    standardErrors: 'robust to unequal variance (Kelejian & Prucha 2010)',
+    standardErrors: f.covarianceKind,
     criterion: f.criterion,
     wald: f.wald,
     range: f.range,

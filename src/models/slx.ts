@@ -110,6 +110,6 @@ export function columnImpacts(
     impacts,
     draws: 0,
     seed: 0,
-    method: `exact: the effects are linear in the coefficients (direct β, indirect θ·1'W1/n${own !== 0 ? ' less θ·tr(W)/n' : ''}), standard errors from their ${o.covariance} covariance, p-values from ${o.df === undefined ? 'the normal distribution' : `Student's t with ${o.df} degrees of freedom`}; no simulation`,
+    method: `exact: the effects are linear in the coefficients (direct β, indirect θ·1'W1/n${own !== 0 ? ' less θ·tr(W)/n' : ''}), standard errors from their covariance (${o.covariance}), p-values from ${o.df === undefined ? 'the normal distribution' : `Student's t with ${o.df} degrees of freedom`}; no simulation`,
   };
 }

@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../pipeline/types.js';
 import type { Block, Cell, TableColumn } from './types.js';
 import { num } from './format.js';
-import { fittedInOrder } from '../models/index.js';
+import { fittedInOrder, inSentence, type ModelEntry } from '../models/index.js';
 import { withheldOutcome } from './withheld.js';
 
 /** The leading columns of every per-area table: the ID, the label column when one was chosen, the table row. */
@@ -21,7 +21,8 @@ export function areaKeyCells(result: AnalysisResult, i: number): Cell[] {
 /** One row per area, keyed by ID (and label), in the table's row order; each model's figures under its name. */
 export function areasBlocks(result: AnalysisResult): Block[] {
   const y = result.request.y;
-  const fits = fittedInOrder(result.fits).map(({ entry, fit }) => ({ label: entry.label, fitted: fit.fitted, residuals: fit.residuals, lag: fit.residualLag }));
+  const fitted = fittedInOrder(result.fits);
+  const fits = fitted.map(({ entry, fit }) => ({ label: entry.label, fitted: fit.fitted, residuals: fit.residuals, lag: fit.residualLag }));
   const columns: TableColumn[] = [...areaKeyColumns(result), { header: `Observed ${y}`, format: 'decimal4', width: 11 }];
   for (const f of fits) {
     columns.push(
@@ -41,6 +42,24 @@ export function areasBlocks(result: AnalysisResult): Block[] {
   return [{
     kind: 'table', title: `Each area: observed ${y}, fitted values and residuals`, columns, rows,
     note: "The neighbours' average residual is the spatial lag of the residual: the weighted sum of the neighbours' residuals under the weights used." +
+      fittedNote(fitted.map(({ entry }) => entry)) +
       (withheld ? ' The observed value and residuals of areas flagged for few events are withheld for privacy (blank).' : ''),
   }];
+}
+
+/**
+ * Which fitted value a model with a spillover of the outcome (ρWy) shows. Its fitted value is the
+ * reduced-form prediction ŷ = (I − ρW)⁻¹Xβ — the trend with the spillover it sets off — while its
+ * residual is y − ρWy − Xβ, what is left after the neighbours' observed outcomes (Anselin 1988's
+ * convention, as the estimators compute it); so for these models fitted + residual is not the
+ * observed value. For the others (no ρ) fitted = Xβ and residual = y − Xβ add up.
+ */
+export function fittedNote(entries: readonly ModelEntry[]): string {
+  const withRho = entries.filter((e) => e.parameters.some((q) => q.key === 'rho'));
+  if (!withRho.length) return '';
+  const names = withRho.map((e) => `the ${inSentence(e.label)}`);
+  const list = names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
+  return ` For ${list}, the fitted value is the prediction from the explanatory columns with the spillover it sets off through the neighbours, (I − ρW)⁻¹Xβ, ` +
+    "while the residual is what is left after the neighbours' observed values, y − ρWy − Xβ; so for " +
+    `${withRho.length === 1 ? 'this model' : 'these models'} fitted plus residual is not the observed value. For the other models it is.`;
 }

@@ -28,6 +28,7 @@ export { MODEL_BLOCKS, type ModelBlocks } from './model-blocks.js';
 export { SHEET_ROW_LIMIT, splitLongSheets } from './row-limit.js';
 export { MODEL_LABEL, evidenceMark, MARK_NOTE, STRONG_MARK, SOME_MARK } from './format.js';
 export { interpretation } from './interpretation.js';
+export { familyReading } from './family.js';
 export { scatterPoints } from './pictures-for-report.js';
 export { withheldOutcome } from './withheld.js';
 export { SMOOTHING_LABEL } from './rates.js';

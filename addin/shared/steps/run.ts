@@ -13,6 +13,7 @@ import type { AreasStep } from './areas.js';
 import type { SidebarContext } from './context.js';
 import type { LocalStep } from './local.js';
 import { currentSetup } from './saved.js';
+import { requestedModels } from '../model-choices.js';
 import { boundaryId, tickedModels, weightsSpec } from './state.js';
 
 /** What a run takes from the other steps. */
@@ -65,7 +66,6 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
     let choices: ModelChoice[];
     try { choices = s.modelChoices ?? (await engine.call({ op: 'models' })).models; } catch (e) { ctx.showError(run.errors, e); return; }
     s.modelChoices = choices;
-    const ticked = tickedModels(s, choices);
     setRunning(true);
     progress.value = 0;
     const onProgress = (f: number, text: string) => { progress.value = Math.round(100 * f); stage.textContent = text; };
@@ -77,7 +77,7 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
         ...(s.label && s.label !== s.id ? { label: s.label } : {}),
         weights: weightsSpec(s), transform: s.transform, linkUnneighboured: s.linkUnneighboured,
         ...(s.coordinates ? { coordinates: s.coordinates } : {}),
-        models: choices.filter((c) => c.baseline || ticked.has(c.key)).map((c) => c.key as ModelKey),
+        models: requestedModels(s.models, choices) as ModelKey[],
         robust: s.robust, dropMissing: s.dropMissing, ...(s.compare ? { compareWeights: 'suggested' as const } : {}),
         ...(local ? { local, seed: s.local.seed } : {}),
         ...(rateBuilder.request() ? { rates: rateBuilder.request() } : {}),

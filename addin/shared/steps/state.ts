@@ -1,6 +1,7 @@
 /** What the sidebar knows and has been told, shared by its steps; and the neighbour rule it makes. */
 import type { WeightsSpec, WeightsTransform } from '../../../src/weights/index.js';
 import type { CheckRequest, CheckResult, ModelChoice } from '../engine-protocol.js';
+import { tickedOf } from '../model-choices.js';
 import type { TableSource } from '../host.js';
 import type { TableProfile } from '../table-profile.js';
 import type { BoundaryFile } from '../types.js';
@@ -80,5 +81,5 @@ export function boundaryId(s: State): string | undefined {
 
 /** The ticked models beyond the always-fitted ones (by default every one not fitted only on request). */
 export function tickedModels(s: State, choices: ModelChoice[]): Set<string> {
-  return new Set(s.models ?? choices.filter((c) => !c.baseline && !c.onRequest).map((c) => c.key));
+  return tickedOf(s.models, choices);
 }
