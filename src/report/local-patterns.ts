@@ -98,7 +98,7 @@ function reading(result: AnalysisResult): string {
 
 function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
   const l = result.local!;
-  return kinds.map((k) => {
+  return kinds.map((k, order) => {
     const s = l.results[k]!;
     const columns: TableColumn[] = [
       ...areaKeyColumns(result),
@@ -120,7 +120,10 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
     });
     return {
       kind: 'table', title: `${LOCAL_STATISTIC_LABEL[k]}, each area in table order`, columns, rows,
-      note: `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.`,
+      // the p-values' note once on the sheet, under the first table
+      note: order === 0
+        ? `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.`
+        : 'The p-values are found as in the table above.',
     } satisfies Block;
   });
 }
