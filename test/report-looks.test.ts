@@ -1,7 +1,8 @@
 // A sheet says each thing once: no sentence of its prose (paragraphs, table notes, the text values of
 // key–value blocks) is printed twice on the same sheet, for the demo run (every sheet the districts
 // sample makes: local statistics, rates, other neighbour definitions) and for every model of the
-// registry on the Columbus data (Anselin 1988). Also how a duration and the run record read.
+// registry on the Columbus data (Anselin 1988). Also how a duration reads in the run record, and that
+// the command line's summary says "not given" where a figure is not a number, never NaN.
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -9,6 +10,7 @@ import { runAnalysis } from '../src/pipeline/index.js';
 import { buildReport, type Report } from '../src/report/index.js';
 import { MODEL_KEYS } from '../src/models/index.js';
 import { sayDuration } from '../src/report/record.js';
+import { formatSummary, NOT_GIVEN } from '../src/cli/summary.js';
 import { ROOT } from './helpers/cli.js';
 
 const sample = (name: string) => ({ name, bytes: new Uint8Array(readFileSync(join(ROOT, 'sample-workbooks', name))) });
@@ -58,8 +60,24 @@ describe('no sheet says the same sentence twice', () => {
       models: [...MODEL_KEYS], permutations: 99, impactDraws: 100,
     });
     expect(repeats(buildReport(r))).toEqual([]);
+    // the command line's summary of the same run, and of one where figures could not be computed, never prints NaN
+    expect(formatSummary(r)).not.toMatch(/NaN|Infinity/);
+    const broken = structuredClone(r);
+    broken.ols.moran.p = NaN;
+    broken.ols.lm.error.stat = NaN;
+    broken.ols.r2 = NaN;
+    const text = formatSummary(broken);
+    expect(text).not.toMatch(/NaN/);
+    expect(text).toContain(`Moran's I ${formatNumberLike(r.ols.moran.I)}`);
+    expect(text).toMatch(/p not given/);
+    expect(text).toContain(`R² ${NOT_GIVEN}`);
   });
 });
+
+/** The summary's own rounding of Moran's I (four significant digits). */
+function formatNumberLike(v: number): string {
+  return Number(v.toPrecision(4)).toString().replace('-', '−');
+}
 
 describe('the run record reads in words', () => {
   it('a duration is said in milliseconds, seconds or minutes, never as a raw fraction of a second', () => {

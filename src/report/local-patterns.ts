@@ -96,6 +96,11 @@ function reading(result: AnalysisResult): string {
   return parts.join(' ');
 }
 
+/** Gi*'s group of one area, in the words of its map and of the saved areas (geojson.ts): the sign of z decides high or low. */
+function getisOrdGroup(s: LocalOutcome, i: number): string {
+  return s.neighbourCount[i] === 0 ? 'no neighbours' : !s.significant[i] ? 'not significant' : s.z[i] > 0 ? 'cluster of high values' : 'cluster of low values';
+}
+
 function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
   const l = result.local!;
   return kinds.map((k, order) => {
@@ -111,11 +116,11 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
       { header: 'Adjusted', format: 'pvalue', width: 9, group: 'p-value' },
       { header: 'Significant after control', format: 'text', width: 12 },
     ];
-    if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
+    columns.push({ header: 'Group', format: 'text', width: 18 });
     const rows: Cell[][] = result.ids.map((_, i) => {
       const row: Cell[] = [...areaKeyCells(result, i), num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
         s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no'];
-      if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
+      row.push(k === 'moran' ? LOCAL_CATEGORY_LABEL[s.categories![i]] : getisOrdGroup(s, i));
       return row;
     });
     return {
