@@ -155,7 +155,7 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     await page.click('#local-map-full-1');
     const large = page.locator('dialog.map-full[open] img');
     await large.waitFor();
-    const drawn = await large.evaluate((img: HTMLImageElement) => [img.getBoundingClientRect().width, document.querySelector('.local-maps img')!.getBoundingClientRect().width]);
+    const drawn = await large.evaluate((img: any) => [img.getBoundingClientRect().width, document.querySelector('.local-maps img')!.getBoundingClientRect().width]);
     expect(drawn[0]).toBeGreaterThan(drawn[1] * 1.5);
     await expectAccessible('a map at full size');
     await page.locator('dialog.map-full').screenshot({ path: join(shots, 'browser-page-map-full.png') });

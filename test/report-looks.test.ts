@@ -1,13 +1,14 @@
 // A sheet says each thing once: no sentence of its prose (paragraphs, table notes, the text values of
 // key–value blocks) is printed twice on the same sheet, for the demo run (every sheet the districts
 // sample makes: local statistics, rates, other neighbour definitions) and for every model of the
-// registry on the Columbus data (Anselin 1988). Also how a duration reads in the run record, and that
+// registry on the Columbus data (Anselin 1988), whose sheets all print at a readable size. Also how a duration reads in the run record, and that
 // the command line's summary says "not given" where a figure is not a number, never NaN.
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runAnalysis } from '../src/pipeline/index.js';
-import { buildReport, type Report } from '../src/report/index.js';
+import { buildReport, planSheet, type Report } from '../src/report/index.js';
+import { MIN_PRINT_SCALE } from '../src/report/layout.js';
 import { MODEL_KEYS } from '../src/models/index.js';
 import { sayDuration } from '../src/report/record.js';
 import { formatSummary, NOT_GIVEN } from '../src/cli/summary.js';
@@ -59,7 +60,14 @@ describe('no sheet says the same sentence twice', () => {
       boundary: columbus, coordinates: 'projected', id: 'POLYID', y: 'CRIME', x: ['INC', 'HOVAL'], weights: { method: 'queen' }, transform: 'row',
       models: [...MODEL_KEYS], permutations: 99, impactDraws: 100,
     });
-    expect(repeats(buildReport(r))).toEqual([]);
+    const report = buildReport(r);
+    expect(repeats(report)).toEqual([]);
+    // no sheet prints below about 7 pt type (11 pt at the scale MIN_PRINT_SCALE): the By area table of
+    // every model goes on across two pages wide, its ID, row and observed columns repeated on each
+    for (const sheet of report.sheets) expect(planSheet(sheet).page.scale, sheet.name).toBeGreaterThanOrEqual(MIN_PRINT_SCALE);
+    const byArea = planSheet(report.sheets.find((x) => x.role === 'areas')!).page;
+    expect(byArea.fitToPagesWide).toBeGreaterThanOrEqual(2);
+    expect(byArea.titleColumns).toEqual({ first: 1, last: 3 });
     // the command line's summary of the same run, and of one where figures could not be computed, never prints NaN
     expect(formatSummary(r)).not.toMatch(/NaN|Infinity/);
     const broken = structuredClone(r);

@@ -60,6 +60,11 @@ const VALUE_MAX = 90;
 export const LONG_TABLE_ROWS = 40;
 
 /** Printed margins in inches: half an inch at the sides (the printable width below assumes it). */
+/** Below this print scale (about 7 pt from 11 pt type) a wide long table is printed across pages instead. */
+export const MIN_PRINT_SCALE = 0.6;
+/** The scale such a table is spread to: about 8 pt type. */
+const COMFORTABLE_PRINT_SCALE = 0.75;
+
 export const PAGE_MARGINS = { left: 0.5, right: 0.5, top: 0.6, bottom: 0.6, header: 0.3, footer: 0.3 } as const;
 
 /** Printable area of an A4 or Letter page (whichever is smaller) with half-inch side margins, in points. */
@@ -100,15 +105,21 @@ export type BlockPlan = TablePlan | KeyValuesPlan | { kind: 'title' | 'paragraph
 
 export interface PagePlan {
   orientation: 'portrait' | 'landscape';
-  /** printed one page wide and as many pages tall as the rows need */
-  fitToPagesWide: 1;
+  /**
+   * printed this many pages wide (one, unless one page wide would shrink the print below MIN_PRINT_SCALE:
+   * then a wide long table, the per-area table of many models, goes on across pages with its key columns
+   * repeated) and as many pages tall as the rows need
+   */
+  fitToPagesWide: number;
+  /** columns repeated at the left of every printed page when the sheet is printed more than one page wide (1-based) */
+  titleColumns?: { first: number; last: number };
   /** in inches */
   margins: typeof PAGE_MARGINS;
   /** rows repeated at the top of every printed page: the first long table's headings */
   titleRows?: { first: number; last: number };
   /** rows that begin a new printed page, so that no picture or short block is split by a page break */
   breaksBefore: number[];
-  /** estimated print scale when the sheet is fitted to one page wide */
+  /** estimated print scale when the sheet is fitted to its pages wide */
   scale: number;
 }
 
@@ -286,7 +297,24 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   const used = Math.max(1, ...sheet.blocks.map((b) => (b.kind === 'table' ? b.columns.length : b.kind === 'keyValues' ? 2 : 1)));
   const widthPoints = sum(widths, 0, Math.max(used, 1)) * POINTS_PER_CHAR;
   const orientation = widthPoints <= PAGE.portrait.width * 1.05 ? 'portrait' : 'landscape';
-  const scale = Math.min(1, PAGE[orientation].width / widthPoints);
+  let scale = Math.min(1, PAGE[orientation].width / widthPoints);
+  // below MIN_PRINT_SCALE (about 7 pt type) a wide long table goes on across pages, its leading
+  // columns before the first column group (the area's ID, name and row) repeated on each
+  let fitToPagesWide = 1;
+  let titleColumns: PagePlan['titleColumns'];
+  const wide = sheet.blocks.find((b): b is TableBlock => b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && b.columns.length === used);
+  if (scale < MIN_PRINT_SCALE && wide) {
+    const keys = wide.columns.findIndex((c) => c.group !== undefined);
+    if (keys > 0 && keys <= 3) {
+      const keyPoints = sum(widths, 0, keys) * POINTS_PER_CHAR;
+      const room = PAGE[orientation].width / COMFORTABLE_PRINT_SCALE - keyPoints;
+      if (room > 0) {
+        fitToPagesWide = Math.max(2, Math.ceil((widthPoints - keyPoints) / room));
+        titleColumns = { first: 1, last: keys };
+        scale = Math.min(1, PAGE[orientation].width / ((widthPoints - keyPoints) / fitToPagesWide + keyPoints));
+      }
+    }
+  }
   const pageHeight = (PAGE[orientation].height / scale) * 0.95;
 
   let titleRows: PagePlan['titleRows'];
@@ -344,9 +372,9 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     const top = topOf(u.first);
     const bottom = topOf(u.last + 1) + u.below;
     if (u.picture) {
-      // a picture starts a page unless it fits, with all since the last page start, on one page: where
-      // the host breaks inside the estimated rows before it is not known exactly, so it is not relied on
-      if (bottom - pageTop > pageHeight && top > pageTop) {
+      // a picture starts a page of its own: where the host breaks inside the estimated rows before it
+      // is not known exactly, so an estimate that it still fits is not relied on
+      if (top > pageTop) {
         breaksBefore.push(u.first);
         pageTop = top;
       }
@@ -360,5 +388,5 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     }
     while (bottom - pageTop > pageHeight) pageTop += pageHeight;
   }
-  return { orientation, fitToPagesWide: 1, margins: PAGE_MARGINS, ...(titleRows ? { titleRows } : {}), breaksBefore, scale };
+  return { orientation, fitToPagesWide, margins: PAGE_MARGINS, ...(titleRows ? { titleRows } : {}), ...(titleColumns ? { titleColumns } : {}), breaksBefore, scale };
 }
