@@ -368,6 +368,7 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   })();
   const breaksBefore: number[] = [];
   let pageTop = 0;
+  let full = false;
   for (const u of units) {
     const top = topOf(u.first);
     const bottom = topOf(u.last + 1) + u.below;
@@ -379,11 +380,23 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
         pageTop = top;
       }
     } else {
-      while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
-      // row heights are estimated on the generous side: a block overrunning by two lines or less most likely fits
-      if (bottom - pageTop - pageHeight > 2 * LINE_POINTS && top > pageTop && bottom - top <= pageHeight) {
+      // the block before overran the page by a little and most likely fits on it: the page is full, and
+      // this block starts the next, so that its title is not left at the foot of that page
+      if (full && top > pageTop && bottom - top <= pageHeight) {
         breaksBefore.push(u.first);
         pageTop = top;
+      }
+      full = false;
+      while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
+      // row heights are estimated on the generous side: a block overrunning by two lines or less most likely fits
+      const over = bottom - pageTop - pageHeight;
+      if (over > 2 * LINE_POINTS && top > pageTop && bottom - top <= pageHeight) {
+        breaksBefore.push(u.first);
+        pageTop = top;
+      } else if (over > 0 && top > pageTop && bottom - top <= pageHeight) {
+        full = true;
+        pageTop = bottom;
+        continue;
       }
     }
     while (bottom - pageTop > pageHeight) pageTop += pageHeight;
