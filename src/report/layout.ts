@@ -335,7 +335,12 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     if (b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && p.kind === 'table') {
       units.push({ first, last: p.firstRow + 2, below: 0 });
       units.push({ first: p.firstRow + b.rows.length - 3, last, below: 0 });
-    } else units.push({ first, last, below: 0 });
+    } else {
+      // a heading (a title block) is kept with the block after it, never left at the foot of a page
+      const before = units[units.length - 1];
+      if (before && i > 0 && sheet.blocks[i - 1].kind === 'title' && before.last >= first - BLOCK_GAP - 1) units[units.length - 1] = { first: before.first, last, below: 0 };
+      else units.push({ first, last, below: 0 });
+    }
   });
   for (const im of sheet.images ?? []) {
     const first = Math.max(1, im.anchor.row - 1);
