@@ -326,6 +326,7 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   // units that must not be split: [first row, last row, extra points below the last row]
   // picture: its caption and the picture itself, which must never be cut
   const units: { first: number; last: number; below: number; picture?: boolean }[] = [];
+  let underHeading = false;
   sheet.blocks.forEach((b, i) => {
     const first = starts[i];
     if (b.kind === 'space') return;
@@ -333,12 +334,17 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     const p = blocks[i];
     // a long table may break anywhere past its headings and first rows, and before its last rows
     if (b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && p.kind === 'table') {
+      underHeading = false;
       units.push({ first, last: p.firstRow + 2, below: 0 });
       units.push({ first: p.firstRow + b.rows.length - 3, last, below: 0 });
     } else {
-      // a heading (a title block) is kept with the block after it, never left at the foot of a page
+      // a heading (a title block) is kept with the block after it, and with all the paragraphs under it
+      // (the Summary's cautions), never left at the foot of a page nor losing its last line to the next
       const before = units[units.length - 1];
-      if (before && i > 0 && sheet.blocks[i - 1].kind === 'title' && before.last >= first - BLOCK_GAP - 1) units[units.length - 1] = { first: before.first, last, below: 0 };
+      const glued = i > 0 && (sheet.blocks[i - 1].kind === 'title' || (underHeading && b.kind === 'paragraph'));
+      // a title, or a paragraph still under one, keeps the following paragraphs with it
+      underHeading = b.kind === 'title' || (glued && b.kind === 'paragraph');
+      if (before && glued && before.last >= first - BLOCK_GAP - 1) units[units.length - 1] = { first: before.first, last, below: 0 };
       else units.push({ first, last, below: 0 });
     }
   });
