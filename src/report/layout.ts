@@ -60,6 +60,9 @@ const VALUE_MAX = 90;
 export const LONG_TABLE_ROWS = 40;
 
 /** Printed margins in inches: half an inch at the sides (the printable width below assumes it). */
+/** Text that is a figure or two: "3 and 146", "−1.85 to 1.00". */
+const FIGURE_TEXT = /^[-−]?[\d.,]+(?: (?:and|to) [-−]?[\d.,]+)?$/;
+
 /** Below this print scale (about 7 pt from 11 pt type) a wide long table is printed across pages instead. */
 export const MIN_PRINT_SCALE = 0.6;
 /** The scale such a table is spread to: about 8 pt type. */
@@ -282,7 +285,9 @@ function planKeyValues(b: Extract<Block, { kind: 'keyValues' }>, top: number, wi
       const wrapLabel = overflows(label, widths[0]);
       const lines = Math.max(wrapValue ? wrappedLines(text, sum(widths, 1, valueCols)) : 1, wrapLabel ? wrappedLines(label, widths[0]) : 1);
       tall(row, lines);
-      return { row, valueCols, wrapValue, wrapLabel, align: figures && typeof value === 'number' && isNumberFormat(format) ? 'right' : 'left' };
+      // a figure written as text ("3 and 146" degrees of freedom) lines up with the numbers above it
+      const figureText = typeof value === 'string' && FIGURE_TEXT.test(value);
+      return { row, valueCols, wrapValue, wrapLabel, align: figures && ((typeof value === 'number' && isNumberFormat(format)) || figureText) ? 'right' : 'left' };
     }),
   };
 }
