@@ -150,6 +150,19 @@ describe.skipIf(!ready)('the browser page, end to end', () => {
     expect(done).toMatch(/Suggested by the Lagrange-multiplier tests: the spatial (lag|error) model|Suggested model: the plain regression|both spatial models/);
     await expectAccessible('the run done');
 
+    // each small map opens at its drawn size: a modal dialog with the same picture, closed by Escape, focus back on its button
+    await page.setViewportSize({ width: 1100, height: 900 });
+    await page.click('#local-map-full-1');
+    const large = page.locator('dialog.map-full[open] img');
+    await large.waitFor();
+    const drawn = await large.evaluate((img: any) => [img.getBoundingClientRect().width, document.querySelector('.local-maps img')!.getBoundingClientRect().width]);
+    expect(drawn[0]).toBeGreaterThan(drawn[1] * 1.5);
+    await expectAccessible('a map at full size');
+    await page.locator('dialog.map-full').screenshot({ path: join(shots, 'browser-page-map-full.png') });
+    await page.keyboard.press('Escape');
+    await page.locator('dialog.map-full').waitFor({ state: 'detached' });
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('local-map-full-1');
+
     await page.setViewportSize({ width: 360, height: 900 });
     await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
     await picture('browser-page-sidebar');

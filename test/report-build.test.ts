@@ -107,8 +107,11 @@ describe('buildReport', () => {
   it('writes impacts with one careful sentence per regressor, total = direct + indirect', () => {
     const t = table(report, 'Spillover effects', 'Direct, indirect and total effects');
     for (const r of t.rows) expect((r[1] as number) + (r[4] as number)).toBeCloseTo(r[7] as number, 12);
-    const sentences = report.sheets.find((s) => s.role === 'impacts')!.blocks.filter((b) => b.kind === 'paragraph' && b.style === 'interpretation');
-    expect(sentences).toHaveLength(2);
+    const paragraphs = report.sheets.find((s) => s.role === 'impacts')!.blocks.filter((b) => b.kind === 'paragraph' && b.style === 'interpretation');
+    // one per regressor, then once for all of them: association, not cause
+    expect(paragraphs).toHaveLength(3);
+    expect(paragraphs[2]).toMatchObject({ text: expect.stringMatching(/not what a change would cause/) });
+    const sentences = paragraphs.slice(0, 2);
     for (const s of sentences) {
       if (s.kind !== 'paragraph') continue;
       expect(s.text).toMatch(/^A one-unit rise in \w+ in one area goes with a change of .+ in that area's vacancy_rate .+ spread over the other areas .+ total of /);

@@ -68,7 +68,9 @@ describe('the Rates sheet (North Carolina counties, SID74 per 1,000 BIR74)', asy
     const plain = (rate.length / s0) * cross / z.reduce((a, b) => a + b * b, 0);
     expect(Math.abs((tests.rows[0][1] as number) - plain)).toBeLessThan(1e-12);
     expect(tests.rows[0][5]).toBe(99);
-    expect(tests.note).toMatch(/The two differ because a raw rate resting on few events swings widely by chance/);
+    // why the two differ is said once, in the sheet's reading, and the note points to it
+    expect(sheet.blocks.some((b) => b.kind === 'paragraph' && /The two differ because a raw rate resting on few events swings widely by chance/.test(b.text))).toBe(true);
+    expect(tests.note).toMatch(/^Why the two differ: see the reading at the top of this sheet\./);
   });
 
   it('draws the raw and the smoothed rate side by side in shared classes, with the flagged areas hatched', () => {

@@ -180,7 +180,9 @@ function checkRun(r: AnalysisResult): void {
   const reading = interpretation(r);
   expect(reading).toContain(rec.text);
   const suggestion = buildReport(r).sheets[0].blocks.find((b) => b.kind === 'keyValues' && b.title === 'Suggested model');
-  expect(suggestion?.kind === 'keyValues' && suggestion.rows.find((row) => row[0] === 'Why')?.[1]).toBe(rec.text);
+  // the Summary says the suggestion's reasons once, in its reading; the block's "Why" row points there
+  expect(suggestion?.kind === 'keyValues' && suggestion.rows.find((row) => row[0] === 'Why')?.[1]).toMatch(/^the Lagrange-multiplier tests in the table above, read by the rule below/);
+  expect(buildReport(r).sheets[0].blocks.some((b) => b.kind === 'paragraph' && b.text.includes(rec.text))).toBe(true);
   const json = resultToJson(r) as { ols: { recommendation: { choice: string; fitted: boolean; notFitted: string[] } } };
   expect(json.ols.recommendation).toMatchObject({ choice: rec.choice, fitted: rec.fitted, notFitted: rec.notFitted });
   const fittedNow = r.request.models;

@@ -67,11 +67,11 @@ async function baseWorkbook(): Promise<Uint8Array> {
 }
 
 describe('number formats', () => {
-  it('a four-decimal number below 0.001 in size keeps its digits and sign (0.0000 would read as no effect); others keep their format', () => {
+  it('a four-decimal number below 0.001 in size keeps its digits and sign in one scientific format (0.0000 would read as no effect); others keep their format', () => {
     // a coefficient per birth or per dollar is routinely this small (the North Carolina counties' nonwhite births per 1,000: 0.0017, its neighbours' average −0.0004)
-    for (const v of [-0.000404794, 0.0000123, 1e-9, -2.5e-7]) expect(cellFormat('decimal4', v), String(v)).toBe('General');
+    for (const v of [-0.000404794, 0.0000123, 1e-9, -2.5e-7]) expect(cellFormat('decimal4', v), String(v)).toBe('0.000E+00');
     for (const v of [0, 0.001, -0.0012, 1.5835, -73.1056]) expect(cellFormat('decimal4', v), String(v)).toBe(EXCEL_FORMAT.decimal4);
-    expect(cellFormat(undefined, 0.0003)).toBe('General');
+    expect(cellFormat(undefined, 0.0003)).toBe('0.000E+00');
     expect(cellFormat(undefined, 0.3)).toBe(EXCEL_FORMAT.decimal4);
     // p-values keep "<0.0001"; other formats are untouched
     expect(cellFormat('pvalue', 1e-7)).toBe(EXCEL_FORMAT.pvalue);

@@ -13,7 +13,7 @@ import { RequestBudget, readRows, writeRows } from './blocks.js';
 import { BOUNDARY_NAMESPACE, BoundaryNotKept, StoredBoundaryDamaged, boundaryParts, readBoundaryParts } from './boundary-part.js';
 import { describe, isCellEditError, jsonBytes } from './limits.js';
 import { hasExcelApi, type IsSetSupported } from './run.js';
-import { address, columnLeft, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
+import { address, columnLeft, columnName, rowTop, sheetGrid, POINTS_PER_CHAR, type CellStyle, type SheetGrid } from './report-grid.js';
 
 export const SETUP_KEY = 'spillway.setup';
 const PX_TO_POINTS = 0.75;
@@ -288,7 +288,7 @@ export async function writeGrid(budget: RequestBudget, ws: WorksheetLike, grid: 
 
 /**
  * The sheet plan's page set-up, as the .xlsx writer writes it (src/workbook/write-sheet.ts):
- * orientation, one page wide and as many tall as the rows need, the margins, the first long table's
+ * orientation, one page wide (or the plan's pages, with its key columns repeated) and as many tall as the rows need, the margins, the first long table's
  * headings repeated on every page, and the page breaks that keep each picture and short block whole.
  */
 export async function writePageSetup(budget: RequestBudget, ws: WorksheetLike, page: PagePlan): Promise<void> {
@@ -299,6 +299,7 @@ export async function writePageSetup(budget: RequestBudget, ws: WorksheetLike, p
   layout.zoom = { horizontalFitToPages: page.fitToPagesWide, verticalFitToPages: 0 };
   layout.setPrintMargins('Inches', { ...page.margins });
   if (page.titleRows) layout.setPrintTitleRows(`$${page.titleRows.first}:$${page.titleRows.last}`);
+  if (page.titleColumns) layout.setPrintTitleColumns(`$${columnName(page.titleColumns.first - 1)}:$${columnName(page.titleColumns.last - 1)}`);
   for (const row of page.breaksBefore) {
     if (row <= 1) continue;
     await budget.room(0);
@@ -368,3 +369,4 @@ async function writeScatterChart(budget: RequestBudget, ws: WorksheetLike, grid:
 
 export { address };
 export type { Report };
+

@@ -56,6 +56,8 @@ export interface PageLayoutLike {
   setPrintMargins(unit: 'Points' | 'Inches' | 'Centimeters', marginOptions: { left?: number; right?: number; top?: number; bottom?: number; header?: number; footer?: number }): void;
   /** whole rows, e.g. "$3:$4" */
   setPrintTitleRows(printTitleRows: RangeLike | string): void;
+  /** whole columns, e.g. "$A:$C" */
+  setPrintTitleColumns(printTitleColumns: RangeLike | string): void;
 }
 
 /** A sheet's manual page breaks (ExcelApi 1.9): add() breaks before the range's top-left cell. */

@@ -160,14 +160,17 @@ function table(head: string[], rows: string[][]): string[] {
   return [line(head), ...rows.map(line)];
 }
 
+/** What the summary prints for a figure that is not a number (NaN, a test that could not be computed): never "NaN". */
+export const NOT_GIVEN = 'not given';
+
 function fmt(v: number, digits: number): string {
-  if (!Number.isFinite(v)) return String(v);
+  if (!Number.isFinite(v)) return NOT_GIVEN;
   if (v !== 0 && (Math.abs(v) >= 1e7 || Math.abs(v) < 1e-4)) return v.toExponential(digits - 1).replace('-', '−');
   return Number(v.toPrecision(digits)).toString().replace('-', '−');
 }
 
 function p(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
+  if (!Number.isFinite(v)) return NOT_GIVEN;
   return v < 0.0001 ? '< 0.0001' : v.toFixed(4);
 }
 

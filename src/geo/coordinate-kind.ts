@@ -99,8 +99,10 @@ export function claimFromOwnMember(root: unknown, file: string): CoordinateClaim
 
 const SLACK = 1e-9;
 
+/** A coordinate for a sentence: whole units once they run past 10,000 (metres, feet), else six digits without trailing zeros. */
 function fmt(v: number): string {
-  return Number.isInteger(v) ? String(v) : v.toPrecision(6);
+  if (Number.isInteger(v) || Math.abs(v) >= 1e4) return String(Math.round(v));
+  return String(Number(v.toPrecision(6)));
 }
 
 /**

@@ -40,7 +40,8 @@ export function collectWarnings(result: AnalysisResult): string[] {
     }
   }
   // A condition number above 30 signals troublesome collinearity: common practice.
-  if (result.ols.conditionNumber > 30) {
+  // (said once: the plain regression's own warning says it when it was given)
+  if (result.ols.conditionNumber > 30 && !out.some((w) => /condition number/i.test(w))) {
     out.push(`The explanatory columns are strongly related to each other (condition number ${say(result.ols.conditionNumber)}, above the usual threshold of 30): individual coefficients may be unstable.`);
   }
   if (result.weights.withoutNeighbours.length) {

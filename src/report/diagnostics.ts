@@ -42,17 +42,15 @@ export function diagnosticsBlocks(result: AnalysisResult): Block[] {
       ],
     },
     {
-      kind: 'table', title: "Moran's I of the residuals",
-      columns: [
-        { header: 'Residuals of', format: 'text', width: 36 },
-        { header: "Moran's I", format: 'decimal4', width: 12 },
-        { header: 'Expected if no pattern', format: 'decimal4', width: 12 },
-        { header: 'Variance', format: 'scientific', width: 11 },
-        { header: 'z-value', format: 'decimal4', width: 10 },
-        { header: 'p-value', format: 'pvalue', width: 11 },
+      // in the columns of the tests above, so that every number sits under its own heading
+      kind: 'table', title: "Moran's I of the residuals", columns: TEST_COLUMNS,
+      rows: [
+        [`Moran's I of the ${baselineModel().label.toLowerCase()}'s residuals`, num(m.I), null, num(m.p),
+          'Are residuals of neighbouring areas more alike (positive I) or less alike (negative I) than chance would give? The p-value is two-sided, from the normal approximation.'],
+        ['Expected if there is no pattern', num(m.expected), null, null, 'What Moran\'s I averages when neighbours\' residuals are unrelated; slightly below zero.'],
+        ['Variance if there is no pattern', num(m.variance), null, null, 'How widely Moran\'s I varies when there is no pattern.'],
+        ['z-value', num(m.z), null, null, 'Moran\'s I less its expected value, in standard deviations.'],
       ],
-      rows: [[baselineModel().label.toLowerCase(), num(m.I), num(m.expected), num(m.variance), num(m.z), num(m.p)]],
-      note: 'Are residuals of neighbouring areas more alike (positive I) or less alike (negative I) than chance would give? The p-value is two-sided, from the normal approximation.',
     },
     lmTable(result, 'Lagrange-multiplier tests for spatial dependence'),
   ];

@@ -7,7 +7,7 @@ import type { AnalysisResult } from '../pipeline/types.js';
 import type { Coefficient, TestResult } from '../models/types.js';
 import { inSentence, fittedInOrder, modelEntry, type Fitted, type ModelEntry } from '../models/index.js';
 import type { Block, Cell, NumberFormat } from './types.js';
-import { effectColumns } from './impacts.js';
+import { CAUSE_NOTE, effectColumns } from './impacts.js';
 import { MARK_NOTE, SOME_LEVEL, num, say, sayList, sayP, yesNo } from './format.js';
 import { testRow } from './test-rows.js';
 import { coefficientTable, parameterRow } from './model-tables.js';
@@ -170,8 +170,9 @@ export function familyImpacts(result: AnalysisResult, fit: Fitted, entry: ModelE
     },
     ...im.impacts.map((m): Block => ({
       kind: 'paragraph', style: 'interpretation',
-      text: `In the ${inSentence(entry.label)}, a one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}). This describes how the figures move together in the model, not what a change would cause.`,
+      text: `In the ${inSentence(entry.label)}, a one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}).`,
     })),
+    ...(im.impacts.length ? [{ kind: 'paragraph', style: 'interpretation', text: CAUSE_NOTE } as Block] : []),
   ];
 }
 

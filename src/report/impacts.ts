@@ -4,6 +4,9 @@ import type { Block, Cell, TableColumn } from './types.js';
 import { num, say, sayP } from './format.js';
 
 /** One effect's columns under its group heading: the effect, its standard error, its p-value. */
+/** Said once under the per-column readings: what the spillover figures are, and are not. */
+export const CAUSE_NOTE = 'These figures describe how the columns move together in the model, not what a change would cause.';
+
 export function effectColumns(group: string): TableColumn[] {
   return [
     { header: 'Effect', format: 'decimal4', width: 10, group },
@@ -38,8 +41,9 @@ export function impactsBlocks(result: AnalysisResult, fit: Fitted<SpatialFit>): 
   for (const m of im.impacts) {
     blocks.push({
       kind: 'paragraph', style: 'interpretation',
-      text: `A one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}). This describes how the figures move together in the model, not what a change would cause.`,
+      text: `A one-unit rise in ${m.name} in one area goes with a change of ${say(m.direct)} in that area's ${y} (${sayP(m.directP)}) and ${say(m.indirect)} spread over the other areas (${sayP(m.indirectP)}), a total of ${say(m.total)} (${sayP(m.totalP)}).`,
     });
   }
+  if (im.impacts.length) blocks.push({ kind: 'paragraph', style: 'interpretation', text: CAUSE_NOTE });
   return blocks;
 }

@@ -15,6 +15,7 @@ import { layoutBlocks } from './layout.js';
 import { drawingNoteBlock, drawingRecordBlocks, overviewPictureList, placePictures } from './pictures-for-report.js';
 import { shortCaution } from './cautions.js';
 import { splitLongSheets } from './row-limit.js';
+import { sayOnce } from './say-once.js';
 
 export type {
   Report, ReportSheet, Block, Cell, NumberFormat, ReportImage, TableColumn, SheetRole, PngRenderer, BuildReportOptions,
@@ -48,7 +49,7 @@ export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {
   for (const { entry, fit } of fitted) sheets.push({ name: entry.label, role: 'model', blocks: blocksOf(entry.key).sheet(result, fit, entry) });
   sheets.push({ name: 'Checks on residuals', role: 'diagnostics', blocks: diagnosticsBlocks(result) });
   const impacts = fitted.flatMap(({ entry, fit }) => blocksOf(entry.key).impacts?.(result, fit, entry) ?? []);
-  if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: impacts });
+  if (impacts.length) sheets.push({ name: 'Spillover effects', role: 'impacts', blocks: sayOnce(impacts) });
   const local = localPatternsSheet(result, opts.renderPng);
   if (local) sheets.push({ name: 'Local patterns', role: 'local', blocks: local.blocks, images: local.images, freezeHeader: false });
   const rates = ratesSheet(result, opts.renderPng);

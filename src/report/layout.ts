@@ -60,6 +60,14 @@ const VALUE_MAX = 90;
 export const LONG_TABLE_ROWS = 40;
 
 /** Printed margins in inches: half an inch at the sides (the printable width below assumes it). */
+/** Text that is a figure or two: "3 and 146", "−1.85 to 1.00". */
+const FIGURE_TEXT = /^[-−]?[\d.,]+(?: (?:and|to) [-−]?[\d.,]+)?$/;
+
+/** Below this print scale (about 7 pt from 11 pt type) a wide long table is printed across pages instead. */
+export const MIN_PRINT_SCALE = 0.6;
+/** The scale such a table is spread to: about 8 pt type. */
+const COMFORTABLE_PRINT_SCALE = 0.75;
+
 export const PAGE_MARGINS = { left: 0.5, right: 0.5, top: 0.6, bottom: 0.6, header: 0.3, footer: 0.3 } as const;
 
 /** Printable area of an A4 or Letter page (whichever is smaller) with half-inch side margins, in points. */
@@ -100,15 +108,21 @@ export type BlockPlan = TablePlan | KeyValuesPlan | { kind: 'title' | 'paragraph
 
 export interface PagePlan {
   orientation: 'portrait' | 'landscape';
-  /** printed one page wide and as many pages tall as the rows need */
-  fitToPagesWide: 1;
+  /**
+   * printed this many pages wide (one, unless one page wide would shrink the print below MIN_PRINT_SCALE:
+   * then a wide long table, the per-area table of many models, goes on across pages with its key columns
+   * repeated) and as many pages tall as the rows need
+   */
+  fitToPagesWide: number;
+  /** columns repeated at the left of every printed page when the sheet is printed more than one page wide (1-based) */
+  titleColumns?: { first: number; last: number };
   /** in inches */
   margins: typeof PAGE_MARGINS;
   /** rows repeated at the top of every printed page: the first long table's headings */
   titleRows?: { first: number; last: number };
   /** rows that begin a new printed page, so that no picture or short block is split by a page break */
   breaksBefore: number[];
-  /** estimated print scale when the sheet is fitted to one page wide */
+  /** estimated print scale when the sheet is fitted to its pages wide */
   scale: number;
 }
 
@@ -271,7 +285,9 @@ function planKeyValues(b: Extract<Block, { kind: 'keyValues' }>, top: number, wi
       const wrapLabel = overflows(label, widths[0]);
       const lines = Math.max(wrapValue ? wrappedLines(text, sum(widths, 1, valueCols)) : 1, wrapLabel ? wrappedLines(label, widths[0]) : 1);
       tall(row, lines);
-      return { row, valueCols, wrapValue, wrapLabel, align: figures && typeof value === 'number' && isNumberFormat(format) ? 'right' : 'left' };
+      // a figure written as text ("3 and 146" degrees of freedom) lines up with the numbers above it
+      const figureText = typeof value === 'string' && FIGURE_TEXT.test(value);
+      return { row, valueCols, wrapValue, wrapLabel, align: figures && ((typeof value === 'number' && isNumberFormat(format)) || figureText) ? 'right' : 'left' };
     }),
   };
 }
@@ -286,7 +302,24 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   const used = Math.max(1, ...sheet.blocks.map((b) => (b.kind === 'table' ? b.columns.length : b.kind === 'keyValues' ? 2 : 1)));
   const widthPoints = sum(widths, 0, Math.max(used, 1)) * POINTS_PER_CHAR;
   const orientation = widthPoints <= PAGE.portrait.width * 1.05 ? 'portrait' : 'landscape';
-  const scale = Math.min(1, PAGE[orientation].width / widthPoints);
+  let scale = Math.min(1, PAGE[orientation].width / widthPoints);
+  // below MIN_PRINT_SCALE (about 7 pt type) a wide long table goes on across pages, its leading
+  // columns before the first column group (the area's ID, name and row) repeated on each
+  let fitToPagesWide = 1;
+  let titleColumns: PagePlan['titleColumns'];
+  const wide = sheet.blocks.find((b): b is TableBlock => b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && b.columns.length === used);
+  if (scale < MIN_PRINT_SCALE && wide) {
+    const keys = wide.columns.findIndex((c) => c.group !== undefined);
+    if (keys > 0 && keys <= 3) {
+      const keyPoints = sum(widths, 0, keys) * POINTS_PER_CHAR;
+      const room = PAGE[orientation].width / COMFORTABLE_PRINT_SCALE - keyPoints;
+      if (room > 0) {
+        fitToPagesWide = Math.max(2, Math.ceil((widthPoints - keyPoints) / room));
+        titleColumns = { first: 1, last: keys };
+        scale = Math.min(1, PAGE[orientation].width / ((widthPoints - keyPoints) / fitToPagesWide + keyPoints));
+      }
+    }
+  }
   const pageHeight = (PAGE[orientation].height / scale) * 0.95;
 
   let titleRows: PagePlan['titleRows'];
@@ -298,6 +331,7 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   // units that must not be split: [first row, last row, extra points below the last row]
   // picture: its caption and the picture itself, which must never be cut
   const units: { first: number; last: number; below: number; picture?: boolean }[] = [];
+  let underHeading = false;
   sheet.blocks.forEach((b, i) => {
     const first = starts[i];
     if (b.kind === 'space') return;
@@ -305,9 +339,19 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
     const p = blocks[i];
     // a long table may break anywhere past its headings and first rows, and before its last rows
     if (b.kind === 'table' && b.rows.length > LONG_TABLE_ROWS && p.kind === 'table') {
+      underHeading = false;
       units.push({ first, last: p.firstRow + 2, below: 0 });
       units.push({ first: p.firstRow + b.rows.length - 3, last, below: 0 });
-    } else units.push({ first, last, below: 0 });
+    } else {
+      // a heading (a title block) is kept with the block after it, and with all the paragraphs under it
+      // (the Summary's cautions), never left at the foot of a page nor losing its last line to the next
+      const before = units[units.length - 1];
+      const glued = i > 0 && (sheet.blocks[i - 1].kind === 'title' || (underHeading && b.kind === 'paragraph'));
+      // a title, or a paragraph still under one, keeps the following paragraphs with it
+      underHeading = b.kind === 'title' || (glued && b.kind === 'paragraph');
+      if (before && glued && before.last >= first - BLOCK_GAP - 1) units[units.length - 1] = { first: before.first, last, below: 0 };
+      else units.push({ first, last, below: 0 });
+    }
   });
   for (const im of sheet.images ?? []) {
     const first = Math.max(1, im.anchor.row - 1);
@@ -340,25 +384,38 @@ function planPage(sheet: ReportSheet, widths: number[], starts: number[], height
   })();
   const breaksBefore: number[] = [];
   let pageTop = 0;
+  let full = false;
   for (const u of units) {
     const top = topOf(u.first);
     const bottom = topOf(u.last + 1) + u.below;
     if (u.picture) {
-      // a picture starts a page unless it fits, with all since the last page start, on one page: where
-      // the host breaks inside the estimated rows before it is not known exactly, so it is not relied on
-      if (bottom - pageTop > pageHeight && top > pageTop) {
+      // a picture starts a page of its own: where the host breaks inside the estimated rows before it
+      // is not known exactly, so an estimate that it still fits is not relied on
+      if (top > pageTop) {
         breaksBefore.push(u.first);
         pageTop = top;
       }
     } else {
-      while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
-      // row heights are estimated on the generous side: a block overrunning by two lines or less most likely fits
-      if (bottom - pageTop - pageHeight > 2 * LINE_POINTS && top > pageTop && bottom - top <= pageHeight) {
+      // the block before overran the page by a little and most likely fits on it: the page is full, and
+      // this block starts the next, so that its title is not left at the foot of that page
+      if (full && top > pageTop && bottom - top <= pageHeight) {
         breaksBefore.push(u.first);
         pageTop = top;
+      }
+      full = false;
+      while (top - pageTop >= pageHeight) pageTop += pageHeight; // the host's own breaks in between
+      // row heights are estimated on the generous side: a block overrunning by two lines or less most likely fits
+      const over = bottom - pageTop - pageHeight;
+      if (over > 2 * LINE_POINTS && top > pageTop && bottom - top <= pageHeight) {
+        breaksBefore.push(u.first);
+        pageTop = top;
+      } else if (over > 0 && top > pageTop && bottom - top <= pageHeight) {
+        full = true;
+        pageTop = bottom;
+        continue;
       }
     }
     while (bottom - pageTop > pageHeight) pageTop += pageHeight;
   }
-  return { orientation, fitToPagesWide: 1, margins: PAGE_MARGINS, ...(titleRows ? { titleRows } : {}), breaksBefore, scale };
+  return { orientation, fitToPagesWide, margins: PAGE_MARGINS, ...(titleRows ? { titleRows } : {}), ...(titleColumns ? { titleColumns } : {}), breaksBefore, scale };
 }

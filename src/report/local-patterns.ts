@@ -162,13 +162,18 @@ function reading(result: AnalysisResult): string {
   return parts.join(' ');
 }
 
+/** Gi*'s group of one area, in the words of its map and of the saved areas (geojson.ts): the sign of z decides high or low. */
+function getisOrdGroup(s: LocalOutcome, i: number): string {
+  return s.neighbourCount[i] === 0 ? 'no neighbours' : !s.significant[i] ? 'not significant' : s.z[i] > 0 ? 'cluster of high values' : 'cluster of low values';
+}
+
 function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[] {
   const l = result.local!;
   const hidden = withheldLocal(result);
   // the other control beside the chosen one, per area, so the reader sees which areas the choice decides
   const other = l.control.method === 'fdr' ? 'bonferroni' : 'fdr';
   const otherWords = other === 'fdr' ? 'Under the false discovery rate (for comparison)' : 'Under Bonferroni (for comparison)';
-  return kinds.map((k) => {
+  return kinds.map((k, order) => {
     const s = l.results[k]!;
     const columns: TableColumn[] = [
       ...areaKeyColumns(result),
@@ -182,18 +187,21 @@ function areaTables(result: AnalysisResult, kinds: LocalStatisticKind[]): Block[
       { header: 'Significant after control', format: 'text', width: 12 },
       { header: otherWords, format: 'text', width: 14 },
     ];
-    if (k === 'moran') columns.push({ header: 'Group', format: 'text', width: 18 });
+    columns.push({ header: 'Group', format: 'text', width: 18 });
     const rows: Cell[][] = result.ids.map((_, i) => {
-      if (hidden?.[i]) return [...areaKeyCells(result, i), null, null, null, null, null, null, null, WITHHELD_WORDS, WITHHELD_WORDS, ...(k === 'moran' ? [WITHHELD_WORDS] : [])];
+      if (hidden?.[i]) return [...areaKeyCells(result, i), null, null, null, null, null, null, null, WITHHELD_WORDS, WITHHELD_WORDS, WITHHELD_WORDS];
       const row: Cell[] = [...areaKeyCells(result, i), num(s.value[i]), num(s.expected[i]), num(s.variance[i]), num(s.z[i]), num(s.p[i]),
         s.pPermutation ? num(s.pPermutation[i]) : null, num(s.adjusted[i]), s.neighbourCount[i] === 0 ? 'no neighbours' : s.significant[i] ? 'yes' : 'no',
         s.neighbourCount[i] === 0 ? 'no neighbours' : s.significantUnder[other][i] ? 'yes' : 'no'];
-      if (k === 'moran') row.push(LOCAL_CATEGORY_LABEL[s.categories![i]]);
+      row.push(k === 'moran' ? LOCAL_CATEGORY_LABEL[s.categories![i]] : getisOrdGroup(s, i));
       return row;
     });
     return {
       kind: 'table', title: `${LOCAL_STATISTIC_LABEL[k]}, each area in table order`, columns, rows,
-      note: `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.` +
+      // the p-values' note once on the sheet, under the first table
+      note: (order === 0
+        ? `The normal p-value is two-sided from z under total randomisation; the permutation p-value follows the permutation rule above; the adjusted p-value is for ${describeControl(l.control)}.`
+        : 'The p-values are found as in the table above.') +
         (hidden ? ' Blank rows are withheld for privacy: each is computed from the area’s own rate, which rests on few events.' : ''),
     } satisfies Block;
   });

@@ -82,7 +82,7 @@ export function overviewBlocks(result: AnalysisResult, title?: string): Block[] 
       kind: 'keyValues', title: 'Suggested model',
       rows: [
         ['Suggestion', suggestionLabel(rec), 'text'],
-        ['Why', rec.text, 'text'],
+        ['Why', 'the Lagrange-multiplier tests in the table above, read by the rule below (the reading at the top of this sheet gives their p-values)', 'text'],
         ['Borderline call', rec.borderline ? 'yes: a p-value it turns on is close to the level, so report every model named' : 'no', 'text'],
         ['Fitted in this run', rec.fitted ? 'yes' : `no: ${rec.notFitted.map((m) => MODEL_LABEL[m].toLowerCase()).join(' and ')} still to fit`, 'text'],
         ['Significance level used', rec.alpha, 'decimal2'],

@@ -170,7 +170,7 @@ function headBlocks(result: AnalysisResult, r: RateResult): Block[] {
         test('Plain, of the raw rate', r.moranRaw),
         test('Rate-adjusted (Assunção & Reis 1999)', r.ebMoran),
       ],
-      note: `${moranContrast(r)} Both use the run’s neighbours and weights and the same seed (${r.ebMoran.seed}); p-values are two-sided.` +
+      note: `Why the two differ: see the reading at the top of this sheet. Both use the run’s neighbours and weights and the same seed (${r.ebMoran.seed}); p-values are two-sided.` +
         (r.permutationNote ? ` ${r.permutationNote}` : ''),
     },
   ];

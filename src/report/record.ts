@@ -90,9 +90,47 @@ export function recordBlocks(result: AnalysisResult): Block[] {
   if (timings.length) {
     blocks.push({
       kind: 'table', title: 'Time taken',
-      columns: [{ header: 'Stage', format: 'text', width: 20 }, { header: 'Seconds', format: 'decimal4', width: 14 }],
-      rows: timings.map(([k, v]): Cell[] => [k, v]),
+      columns: [{ header: 'Stage', format: 'text', width: 34 }, { header: 'Time', format: 'text', width: 22 }],
+      rows: timings.map(([k, v]): Cell[] => [stageLabel(k), sayDuration(v)]),
     });
   }
   return blocks;
+}
+
+/** The pipeline's stage keys (run-analysis.ts, fit-under-weights.ts) in words; a model's key takes its label. */
+const STAGE_WORDS: Record<string, string> = {
+  read: 'Reading the files',
+  join: 'Joining the table to the boundaries',
+  weights: 'Finding the neighbours',
+  ols: 'Plain regression and Moran\'s I of the outcome',
+  algebra: 'Algebra of the neighbour weights',
+  tests: 'Tests on the residuals',
+  comparison: 'Other neighbour definitions',
+  local: 'Local statistics',
+};
+
+function stageLabel(key: string): string {
+  if (STAGE_WORDS[key]) return STAGE_WORDS[key];
+  const [model, rest] = key.split(' ');
+  const label = (MODEL_LABEL as Record<string, string>)[model];
+  if (!label) return key;
+  return rest === 'impacts' ? `${label}: spillover effects` : label;
+}
+
+/** A duration in words: "under a millisecond", "38 milliseconds", "1.2 seconds", "2 minutes 5 seconds". */
+export function sayDuration(seconds: number): string {
+  if (!Number.isFinite(seconds) || seconds < 0) return 'not measured';
+  if (seconds < 0.001) return 'under a millisecond';
+  if (seconds < 1) {
+    const ms = Math.round(seconds * 1000);
+    return ms === 1 ? '1 millisecond' : `${ms} milliseconds`;
+  }
+  if (seconds < 60) {
+    const s = seconds < 10 ? +seconds.toFixed(1) : Math.round(seconds);
+    return s === 1 ? '1 second' : `${s} seconds`;
+  }
+  const whole = Math.round(seconds);
+  const m = Math.floor(whole / 60);
+  const rest = whole % 60;
+  return `${m} minute${m === 1 ? '' : 's'}${rest ? ` ${rest} second${rest === 1 ? '' : 's'}` : ''}`;
 }

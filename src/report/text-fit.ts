@@ -59,7 +59,8 @@ export function numberWidth(x: number, format: NumberFormat | undefined): number
     case 'percent': chars = whole(x * 100) + 3; break;
     case 'scientific': chars = 9; break;
     case 'text': chars = String(x).length; break;
-    default: chars = whole(x) + 5;
+    // a four-decimal number below 0.001 in size shows as -7.924E-04 (src/workbook/number-formats.ts)
+    default: chars = x !== 0 && Math.abs(x) < 0.001 ? 9 + (x < 0 ? 1 : 0) : whole(x) + 5;
   }
   return chars + 2;
 }

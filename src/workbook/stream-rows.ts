@@ -14,6 +14,7 @@
  * writes rows into an existing sheet part.
  */
 import { ooxmlText } from './ooxml-text.js';
+import { isSmall } from './number-formats.js';
 import { Zip, ZipDeflate, unzipSync } from 'fflate';
 import type { Cell } from '../report/index.js';
 import type { DeferredRows } from './write-sheet.js';
@@ -21,14 +22,14 @@ import type { DeferredRows } from './write-sheet.js';
 /** Tables longer than this stream their rows; shorter ones go through exceljs cell by cell. */
 export const STREAM_ROWS_ABOVE = 5000;
 
-// 't': a number below 0.001 in size, which a four-decimal column shows in the general format
+// 't': a number below 0.001 in size, which a four-decimal column shows as 7.924E-04
 // (src/report/number-formats.ts, cellFormat), so it needs a template cell, and a style, of its own
 type Kind = 'n' | 't' | 's' | 'b';
 
 /** The kind of XML cell a value becomes (null: no cell), as writeSheet's put() decides it. */
 function kindOf(v: Cell): Kind | null {
   if (v === null) return null;
-  if (typeof v === 'number') return !Number.isFinite(v) ? null : v !== 0 && Math.abs(v) < 0.001 ? 't' : 'n';
+  if (typeof v === 'number') return !Number.isFinite(v) ? null : isSmall(v) ? 't' : 'n';
   return typeof v === 'string' ? 's' : 'b';
 }
 

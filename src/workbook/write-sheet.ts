@@ -128,6 +128,7 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
     orientation: page.orientation, fitToPage: true, fitToWidth: page.fitToPagesWide, fitToHeight: 0,
     margins: { ...page.margins },
     ...(page.titleRows ? { printTitlesRow: `${page.titleRows.first}:${page.titleRows.last}` } : {}),
+    ...(page.titleColumns ? { printTitlesColumn: `${columnLetters(page.titleColumns.first)}:${columnLetters(page.titleColumns.last)}` } : {}),
   };
   for (const row of page.breaksBefore) if (row > 1) ws.getRow(row - 1).addPageBreak();
 
@@ -145,4 +146,11 @@ export function writeSheet(wb: ExcelJS.Workbook, ws: ExcelJS.Worksheet, sheet: R
 /** Text columns after the first keep a little space from the numbers to their left. */
 function indented(p: TablePlan, i: number): boolean {
   return i > 0 && p.align[i] === 'left' && p.align[i - 1] === 'right';
+}
+
+/** 1-based column number to its letters (1 → A, 27 → AA). */
+function columnLetters(n: number): string {
+  let out = '';
+  for (let k = n; k > 0; k = Math.floor((k - 1) / 26)) out = String.fromCharCode(65 + ((k - 1) % 26)) + out;
+  return out;
 }

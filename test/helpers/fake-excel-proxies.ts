@@ -172,6 +172,14 @@ export class SheetProxy extends ClientObject {
           page().printTitleRows = text;
         }, sheet, jsonBytes(rows));
       },
+      setPrintTitleColumns: (cols: string | RangeProxy) => {
+        ctx.enqueue('pageLayout', () => {
+          // whole columns ("$A:$C"), as Office requires
+          const text = typeof cols === 'string' ? cols : '';
+          if (!/^\$?[A-Z]+:\$?[A-Z]+$/.test(text)) throw new FakeOfficeError('InvalidArgument', `The print title columns ${text || '(a range)'} do not span entire columns.`);
+          page().printTitleColumns = text;
+        }, sheet, jsonBytes(cols));
+      },
     };
     return Object.defineProperties(o, {
       orientation: {

@@ -56,7 +56,7 @@ export interface FakeSheet {
   columnWidths: Map<number, number>;
   rowHeights: Map<number, number>;
   /** the printed page set-up (ExcelApi 1.9 pageLayout and horizontalPageBreaks); breaksBefore holds 1-based rows */
-  page: { orientation?: string; zoom?: Record<string, number>; margins?: { unit: string } & Record<string, number | string>; printTitleRows?: string; breaksBefore: number[] };
+  page: { orientation?: string; zoom?: Record<string, number>; margins?: { unit: string } & Record<string, number | string>; printTitleRows?: string; printTitleColumns?: string; breaksBefore: number[] };
 }
 
 const blank = (v: any) => v === null || v === '' || v === undefined;

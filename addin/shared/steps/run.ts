@@ -9,6 +9,7 @@ import { Cancelled } from '../engine-client.js';
 import type { ModelChoice } from '../engine-protocol.js';
 import { modelWords, summaryLines, type RunSummary } from '../run-summary.js';
 import { saveAreasButton } from '../save-areas.js';
+import { mapGallery } from '../map-viewer.js';
 import type { AreasStep } from './areas.js';
 import type { SidebarContext } from './context.js';
 import type { LocalStep } from './local.js';
@@ -99,13 +100,11 @@ export function mountRunStep(ctx: SidebarContext, needs: RunNeeds): void {
       for (const w of output.warnings) run.found.append(message('warning', w));
       const rateMaps = output.report.sheets.find((sheet) => sheet.role === 'rates')?.images ?? [];
       if (rateMaps.length) {
-        run.found.append(h('div', { class: 'rate-maps' }, ...rateMaps.map((m) =>
-          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+        run.found.append(mapGallery(rateMaps, 'rate-maps', 'rate-map'));
       }
       const maps = output.report.sheets.find((sheet) => sheet.role === 'local')?.images ?? [];
       if (maps.length) {
-        run.found.append(h('div', { class: 'local-maps' }, ...maps.map((m) =>
-          h('img', { src: `data:image/svg+xml;charset=utf-8,${encodeURIComponent(m.svg)}`, alt: m.alt, width: String(Math.min(m.widthPx, 360)) }))));
+        run.found.append(mapGallery(maps, 'local-maps', 'local-map'));
       }
     } catch (e) {
       progress.value = 0;
