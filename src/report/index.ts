@@ -34,7 +34,7 @@ export { scatterPoints } from './pictures-for-report.js';
 export { withheldOutcome } from './withheld.js';
 export { SMOOTHING_LABEL } from './rates.js';
 export { cleanSheetName, uniqueSheetName, MAX_SHEET_NAME } from './sheet-names.js';
-export { EXCEL_FORMAT, cellFormat } from './number-formats.js';
+export { EXCEL_FORMAT, cellFormat, isSmall } from './number-formats.js';
 export * from './pictures/index.js';
 
 export function buildReport(result: AnalysisResult, opts: BuildReportOptions = {}): Report {

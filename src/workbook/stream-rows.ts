@@ -14,9 +14,8 @@
  * writes rows into an existing sheet part.
  */
 import { ooxmlText } from './ooxml-text.js';
-import { isSmall } from './number-formats.js';
 import { Zip, ZipDeflate, unzipSync } from 'fflate';
-import type { Cell } from '../report/index.js';
+import { isSmall, type Cell } from '../report/index.js';
 import type { DeferredRows } from './write-sheet.js';
 
 /** Tables longer than this stream their rows; shorter ones go through exceljs cell by cell. */
