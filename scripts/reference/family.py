@@ -105,17 +105,23 @@ def durbin_impacts(names, beta, theta, rho, W, cov_block):
         idx = [1 + r, len(beta) + r, len(beta) + m]  # beta_r, theta_r, rho in (beta, theta, rho)
         V = cov_block[np.ix_(idx, idx)]
         x0 = np.array([beta[1 + r], theta[r], rho])
-        J = np.zeros((3, 3))
-        for c in range(3):
-            h = 1e-6 * max(1.0, abs(x0[c]))
-            up, down = x0.copy(), x0.copy()
-            up[c] += h
-            down[c] -= h
-            J[:, c] = (figures(*up) - figures(*down)) / (2 * h)
+        J = central_jacobian(figures, x0)
         se = np.sqrt(np.diag(J @ V @ J.T))
         out.append({"name": names[1 + r], "direct": point[0], "indirect": point[1], "total": point[2],
                     "directSeDelta": se[0], "indirectSeDelta": se[1], "totalSeDelta": se[2]})
     return out
+
+
+def central_jacobian(f, x0):
+    """Jacobian of f (returning a vector) at x0 by central differences, step 1e-6 relative."""
+    cols = []
+    for c in range(len(x0)):
+        h = 1e-6 * max(1.0, abs(x0[c]))
+        up, down = x0.copy(), x0.copy()
+        up[c] += h
+        down[c] -= h
+        cols.append((f(*up) - f(*down)) / (2 * h))
+    return np.column_stack(cols)
 
 
 def lag_impacts(names, beta, rho, W, cov_beta_rho):
@@ -138,13 +144,7 @@ def lag_impacts(names, beta, rho, W, cov_beta_rho):
         idx = [r, k]
         V = cov_beta_rho[np.ix_(idx, idx)]
         x0 = np.array([beta[r], rho])
-        J = np.zeros((3, 2))
-        for c in range(2):
-            h = 1e-6 * max(1.0, abs(x0[c]))
-            up, down = x0.copy(), x0.copy()
-            up[c] += h
-            down[c] -= h
-            J[:, c] = (figures(*up) - figures(*down)) / (2 * h)
+        J = central_jacobian(figures, x0)
         se = np.sqrt(np.diag(J @ V @ J.T))
         out.append({"name": names[r], "direct": d, "indirect": tot - d, "total": tot,
                     "directSeDelta": se[0], "indirectSeDelta": se[1], "totalSeDelta": se[2]})
